@@ -1,0 +1,11 @@
+// Package kinematics models nested, pre-curved tubes (or bellows) under the
+// torsionally rigid assumption: each tube keeps its base angle along its
+// whole length, so wherever the set of present tubes and their
+// pre-curvatures is constant the shared backbone is a circular arc (a link).
+//
+// All quantities are SI: metres, radians, newtons, N·m², kg/m. Tube 1 (index
+// 0) is innermost. Conventions follow the project's physics reference: the
+// base frame has z along insertion; body-frame curvature u_y > 0 bends the
+// backbone toward local +x; a planar tube "pre-curved by κ" has
+// u* = (0, κ, 0) in its own frame.
+package kinematics
