@@ -56,5 +56,15 @@ type Pose struct {
 // Link is one constant-curvature piece of the backbone.
 type Link struct {
 	Start, End float64    // arc length along the backbone, m
-	U          [3]float64 // body-frame curvature, 1/m
+	U          [3]float64 // equilibrium body-frame curvature (3.1), 1/m
+	// K is the composite stiffness Σ R_z(θ_i) K_i R_z(θ_i)ᵀ of the tubes
+	// present in the link (3×3, z entry Σ GJ_i), N·m². Its inverse maps a
+	// body-frame moment to a curvature change (loaded statics).
+	K [3][3]float64
+	// MassPerLength is Σ of the present tubes' linear densities, kg/m.
+	MassPerLength float64
+	// Present is a bit set of the tubes present in the link (bit i: tube i).
+	Present uint64
+	// Curved is a bit set of the present tubes that are curved in the link.
+	Curved uint64
 }
