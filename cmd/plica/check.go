@@ -1,0 +1,285 @@
+package main
+
+import (
+	"context"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+	"text/tabwriter"
+
+	"plica/objective"
+	"plica/problems"
+)
+
+func init() {
+	register(&command{
+		name:  "check",
+		usage: "DESIGN.toml [-json]",
+		short: "score one design and check it against its requirements before printing",
+		long: `Prints every score with its unit, every requirement with its limit and
+PASS or FAIL, the models used, and the cautions. Exit status 0 when every
+check passes, 1 when any fails, 2 on bad input.`,
+		run: runCheck,
+	})
+}
+
+const caution = "Model estimates only: verify on a printed prototype before relying on this design; where it carries payloads, works near people or is for medical use, follow the applicable standards and have it reviewed by a qualified engineer."
+
+func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
+	asJSON := fs.Bool("json", false, "print JSON instead of tables")
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 1 {
+		return usagef("check: expected one design file, got %d arguments", len(pos))
+	}
+	d, sc, err := problems.LoadDesign(pos[0])
+	if err != nil {
+		return err
+	}
+	res, err := objective.Evaluate(d, sc)
+	if err != nil {
+		return err
+	}
+	if *asJSON {
+		enc := json.NewEncoder(stdout)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(newCheckOutput(res)); err != nil {
+			return err
+		}
+	} else {
+		name := d.Name
+		if name == "" {
+			name = pos[0]
+		}
+		writeCheck(stdout, name, res)
+	}
+	if !res.Pass {
+		return &failure{}
+	}
+	return nil
+}
+
+// num is a float that encodes NaN (a value the model cannot give, such as
+// the wall strain of a bellows with measured stiffness) as JSON null.
+type num float64
+
+func (x num) MarshalJSON() ([]byte, error) {
+	f := float64(x)
+	if math.IsNaN(f) || math.IsInf(f, 0) {
+		return []byte("null"), nil
+	}
+	return json.Marshal(round6(f))
+}
+
+// round6 keeps six significant digits.
+func round6(f float64) float64 {
+	if f == 0 {
+		return 0
+	}
+	p := math.Pow(10, 5-math.Floor(math.Log10(math.Abs(f))))
+	return math.Round(f*p) / p
+}
+
+type checkOutput struct {
+	Pass   bool `json:"pass"`
+	Scores struct {
+		TipSag            num `json:"tip_sag_mm"`
+		TipSagLinear      num `json:"tip_sag_linear_mm"`
+		Reach             num `json:"reach_mm"`
+		BendAngleRange    num `json:"bend_angle_range_deg"`
+		BendAngleMin      num `json:"bend_angle_min_deg"`
+		BendAngleMax      num `json:"bend_angle_max_deg"`
+		ResidualCurvature num `json:"residual_curvature_per_m"`
+		StraightTipOffset num `json:"straight_tip_offset_mm"`
+		CurvatureMin      num `json:"curvature_min_per_m"`
+		CurvatureMax      num `json:"curvature_max_per_m"`
+		PeakStrain        num `json:"peak_strain"`
+		AllowableStrain   num `json:"allowable_strain"`
+		StabilityMargin   num `json:"stability_margin"`
+		Mass              num `json:"mass_g"`
+		PayloadToWeight   num `json:"payload_to_weight"`
+		TaskCoverage      num `json:"task_coverage"`
+		SurfaceArea       num `json:"surface_area_mm2"`
+		Volume            num `json:"volume_mm3"`
+		MinClearance      num `json:"min_clearance_mm"`
+		SagAngles         []num `json:"sag_angles_deg"`
+	} `json:"scores"`
+	Bellows  []bellowsOutput `json:"bellows"`
+	Checks   []checkLine     `json:"checks"`
+	Models   []string        `json:"models"`
+	Warnings []string        `json:"warnings"`
+	Caution  string          `json:"caution"`
+}
+
+type bellowsOutput struct {
+	EI                 [2]num `json:"ei_n_mm2"`
+	EIxy               num    `json:"ei_xy_n_mm2"`
+	GJ                 num    `json:"gj_n_mm2"`
+	EA                 num    `json:"ea_n"`
+	AxialRate          num    `json:"axial_rate_per_convolution_n_per_mm"`
+	LinearDensity      num    `json:"linear_density_kg_per_m"`
+	StrainPerCurvature num    `json:"strain_per_curvature_m"`
+	Source             string `json:"stiffness_source"`
+}
+
+type checkLine struct {
+	Name  string `json:"name"`
+	Value num    `json:"value"`
+	Limit num    `json:"limit"`
+	Unit  string `json:"unit"`
+	Pass  bool   `json:"pass"`
+	Kind  string `json:"kind"`
+	Note  string `json:"note,omitempty"`
+}
+
+func bellowsRows(st []objective.Stiffness) []bellowsOutput {
+	out := make([]bellowsOutput, len(st))
+	for i, s := range st {
+		b := bellowsOutput{
+			EI:            [2]num{num(s.EI[0][0] * 1e6), num(s.EI[1][1] * 1e6)},
+			EIxy:          num(s.EI[0][1] * 1e6),
+			GJ:            num(s.GJ * 1e6),
+			EA:            num(math.NaN()),
+			AxialRate:     num(math.NaN()),
+			LinearDensity: num(s.LinearDensity),
+			Source:        s.Source,
+		}
+		b.StrainPerCurvature = num(math.NaN())
+		if s.Section != nil {
+			b.EA = num(s.EA)
+			b.AxialRate = num(s.AxialRate * 1e-3)
+			b.StrainPerCurvature = num(s.Section.StrainPerCurvature)
+		}
+		out[i] = b
+	}
+	return out
+}
+
+func newCheckOutput(res *objective.Result) *checkOutput {
+	o := &checkOutput{Pass: res.Pass, Models: res.Models, Warnings: res.Warnings, Caution: caution}
+	sc := res.Scores
+	s := &o.Scores
+	s.TipSag = num(sc.TipSag * 1e3)
+	s.TipSagLinear = num(sc.TipSagLinear * 1e3)
+	s.Reach = num(sc.Reach * 1e3)
+	s.BendAngleRange = num(sc.BendAngleRange * 180 / math.Pi)
+	s.BendAngleMin = num(sc.BendAngleMin * 180 / math.Pi)
+	s.BendAngleMax = num(sc.BendAngleMax * 180 / math.Pi)
+	s.ResidualCurvature = num(sc.ResidualCurvature)
+	s.StraightTipOffset = num(sc.StraightTipOffset * 1e3)
+	s.CurvatureMin = num(sc.CurvatureMin)
+	s.CurvatureMax = num(sc.CurvatureMax)
+	s.PeakStrain = num(sc.PeakStrain)
+	s.AllowableStrain = num(sc.AllowableStrain)
+	s.StabilityMargin = num(sc.StabilityMargin)
+	s.Mass = num(sc.Mass * 1e3)
+	s.PayloadToWeight = num(sc.PayloadToWeight)
+	s.TaskCoverage = num(sc.TaskCoverage)
+	s.SurfaceArea = num(sc.SurfaceArea * 1e6)
+	s.Volume = num(sc.Volume * 1e9)
+	s.MinClearance = num(sc.MinClearance * 1e3)
+	for _, th := range sc.SagActuation.Theta {
+		s.SagAngles = append(s.SagAngles, num(math.Mod(th*180/math.Pi+360, 360)))
+	}
+	o.Bellows = bellowsRows(res.Bellows)
+	o.Checks = make([]checkLine, len(res.Checks))
+	for i, c := range res.Checks {
+		kind := "min"
+		if c.Max {
+			kind = "max"
+		}
+		o.Checks[i] = checkLine{Name: c.Name, Value: num(c.Value), Limit: num(c.Limit), Unit: c.Unit, Pass: c.Pass, Kind: kind, Note: c.Note}
+	}
+	if o.Warnings == nil {
+		o.Warnings = []string{}
+	}
+	return o
+}
+
+func fmtNum(x float64) string {
+	if math.IsNaN(x) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.4g", x)
+}
+
+func writeCheck(w io.Writer, name string, res *objective.Result) {
+	o := newCheckOutput(res)
+	fmt.Fprintf(w, "design %s\n\n", name)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "bellows\tsource\tEI_x N·mm²\tEI_y N·mm²\tGJ N·mm²\tEA N\tk_conv N/mm\tm' kg/m\tstrain per 1/m")
+	for i, b := range o.Bellows {
+		fmt.Fprintf(tw, "%d\t%s\t%s\t%s\t%s\t%s\t%s\t%s\t%s\n", i+1, b.Source, fmtNum(float64(b.EI[0])), fmtNum(float64(b.EI[1])),
+			fmtNum(float64(b.GJ)), fmtNum(float64(b.EA)), fmtNum(float64(b.AxialRate)), fmtNum(float64(b.LinearDensity)), fmtNum(float64(b.StrainPerCurvature)))
+	}
+	tw.Flush()
+	sc := res.Scores
+	fmt.Fprintln(w)
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "score\tvalue\tunit\tmodel")
+	row := func(n string, v float64, unit, model string) {
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\n", n, fmtNum(v), unit, model)
+	}
+	row("tip_sag", sc.TipSag*1e3, "mm", "exact rod statics, worst case at angles "+degs(sc.SagActuation.Theta))
+	row("tip_sag_linear", sc.TipSagLinear*1e3, "mm", "small-load linear estimate, same configuration")
+	row("reach", sc.Reach*1e3, "mm", "largest lateral tip distance")
+	row("bend_angle_range", sc.BendAngleRange*180/math.Pi, "deg", fmt.Sprintf("tip angle from the base axis, %.4g to %.4g deg", sc.BendAngleMin*180/math.Pi, sc.BendAngleMax*180/math.Pi))
+	if sc.SurfaceArea > 0 {
+		row("surface_area", sc.SurfaceArea*1e6, "mm²", "tip surface over relative and common rotation")
+	}
+	if sc.Volume > 0 {
+		row("volume", sc.Volume*1e9, "mm³", fmt.Sprintf("%.3g mm voxels", sc.VoxelSize*1e3))
+	}
+	row("task_coverage", sc.TaskCoverage, "", "fraction of task points reached")
+	row("residual_curvature", sc.ResidualCurvature, "1/m", "straightest configuration")
+	row("straight_tip_offset", sc.StraightTipOffset*1e3, "mm", "straightest configuration")
+	row("curvature_range", sc.CurvatureMin, "1/m", fmt.Sprintf("to %.4g 1/m over relative rotation", sc.CurvatureMax))
+	row("peak_strain", sc.PeakStrain, "", "meridional wall strain over the workspace")
+	row("stability_margin", sc.StabilityMargin, "", "1 − L/L_crit (snap-free when > 0)")
+	row("mass", sc.Mass*1e3, "g", "bellows only")
+	row("payload_to_weight", sc.PayloadToWeight, "", "")
+	tw.Flush()
+	fmt.Fprintln(w)
+	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "check\tvalue\tlimit\tunit\tresult\tnote")
+	failed := []string{}
+	for _, c := range res.Checks {
+		op := ">="
+		if c.Max {
+			op = "<="
+		}
+		verdict := "PASS"
+		if !c.Pass {
+			verdict = "FAIL"
+			failed = append(failed, c.Name)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s %s\t%s\t%s\t%s\n", c.Name, fmtNum(c.Value), op, fmtNum(c.Limit), c.Unit, verdict, c.Note)
+	}
+	tw.Flush()
+	fmt.Fprintln(w)
+	for _, m := range res.Models {
+		fmt.Fprintf(w, "model: %s\n", m)
+	}
+	for _, m := range res.Warnings {
+		fmt.Fprintf(w, "warning: %s\n", m)
+	}
+	fmt.Fprintf(w, "caution: %s\n\n", caution)
+	if len(failed) == 0 {
+		fmt.Fprintf(w, "result: PASS (%d checks)\n", len(res.Checks))
+	} else {
+		fmt.Fprintf(w, "result: FAIL (%d of %d checks failed: %s)\n", len(failed), len(res.Checks), strings.Join(failed, ", "))
+	}
+}
+
+func degs(th []float64) string {
+	parts := make([]string, len(th))
+	for i, t := range th {
+		parts[i] = fmt.Sprintf("%.1f", math.Mod(t*180/math.Pi+360, 360))
+	}
+	return strings.Join(parts, ",") + " deg"
+}

@@ -1,0 +1,39 @@
+package main
+
+import (
+	"os/exec"
+	"strings"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestLayering enforces the import table of DEVELOPERS.md: imports point
+// down only, and search knows nothing of bellows.
+func TestLayering(t *testing.T) {
+	allowed := map[string][]string{
+		"plica/surrogate":            {},
+		"plica/objective/kinematics": {},
+		"plica/objective":            {"plica/surrogate", "plica/objective/kinematics"},
+		"plica/search":               {},
+		"plica/problems":             {"plica/objective", "plica/surrogate", "plica/objective/kinematics", "plica/search"},
+		"plica/results":              {"plica/search", "plica/problems", "plica/objective", "plica/surrogate", "plica/objective/kinematics"},
+	}
+	for pkg, ok := range allowed {
+		out, err := exec.Command("go", "list", "-deps", pkg).Output()
+		if err != nil {
+			// a package that does not exist yet has no imports to check
+			continue
+		}
+		for _, dep := range strings.Fields(string(out)) {
+			if !strings.HasPrefix(dep, "plica/") || dep == pkg {
+				continue
+			}
+			assert.Contains(t, ok, dep, "%s must not import %s (see DEVELOPERS.md, layout)", pkg, dep)
+		}
+	}
+	out, err := exec.Command("go", "list", "-deps", "plica/search").Output()
+	require.NoError(t, err)
+	assert.NotContains(t, string(out), "github.com/BurntSushi/toml", "search knows nothing of files")
+}

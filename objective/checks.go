@@ -1,0 +1,176 @@
+package objective
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+const (
+	mmPerM  = 1e3
+	degPerR = 180 / math.Pi
+)
+
+// checks compares the scores with the requirements and the printer.
+func (e *evaluator) checks(res *Result) {
+	sc := &res.Scores
+	q := e.sc.Requirements
+	add := func(name string, value, limit float64, unit string, max bool, note string) {
+		pass := value <= limit
+		if !max {
+			pass = value >= limit
+		}
+		if math.IsNaN(value) {
+			pass = false
+		}
+		res.Checks = append(res.Checks, Check{Name: name, Value: value, Limit: limit, Unit: unit, Max: max, Pass: pass, Note: note})
+	}
+	if q.MaxTipSag > 0 {
+		add("tip_sag", sc.TipSag*mmPerM, q.MaxTipSag*mmPerM, "mm", true, "worst case over the workspace, exact rod model")
+	}
+	if q.MinReach > 0 {
+		add("reach", sc.Reach*mmPerM, q.MinReach*mmPerM, "mm", false, "largest lateral tip distance")
+	}
+	if q.MinBendAngleRange > 0 {
+		add("bend_angle_range", sc.BendAngleRange*degPerR, q.MinBendAngleRange*degPerR, "deg", false, "")
+	}
+	if q.MaxResidualCurvature > 0 {
+		add("residual_curvature", sc.ResidualCurvature, q.MaxResidualCurvature, "1/m", true, "at the straightest configuration")
+	}
+	if q.MaxStraightTipOffset > 0 {
+		add("straight_tip_offset", sc.StraightTipOffset*mmPerM, q.MaxStraightTipOffset*mmPerM, "mm", true, "at the straightest configuration")
+	}
+	if len(e.sc.Tasks) > 0 {
+		min := q.MinTaskCoverage
+		if min == 0 {
+			min = 1
+		}
+		add("task_coverage", sc.TaskCoverage, min, "", false, fmt.Sprintf("%d task points", len(e.sc.Tasks)))
+	}
+	sf := q.StrainSafetyFactor
+	if sf == 0 {
+		sf = 1.5
+	}
+	sc.AllowableStrain = math.NaN()
+	for i, b := range e.d.Bellows {
+		if b.Model == nil {
+			continue
+		}
+		allow := b.Model.Material.AllowableStrain / sf
+		if math.IsNaN(sc.AllowableStrain) || allow < sc.AllowableStrain {
+			sc.AllowableStrain = allow
+		}
+		add(fmt.Sprintf("peak_strain[%d]", i+1), sc.StrainPerBellows[i], allow, "", true,
+			fmt.Sprintf("allowable %.3g / safety factor %.3g", b.Model.Material.AllowableStrain, sf))
+	}
+	add("stability_margin", sc.StabilityMargin, q.MinStabilityMargin, "", false, "1 − L/L_crit, two-tube snap test")
+	minGap := q.MinClearance
+	if minGap == 0 {
+		minGap = 0.2e-3
+	}
+	if len(e.d.Bellows) > 1 {
+		for i := 0; i+1 < len(e.d.Bellows); i++ {
+			c := e.clearance(i)
+			if math.IsNaN(c) {
+				res.Warnings = append(res.Warnings, fmt.Sprintf("clearance between bellows %d and %d not checked: a diameter is unknown (measured stiffness; give outer_diameter_mm and the outer bellows' geometry)", i+1, i+2))
+				continue
+			}
+			kind := "nesting"
+			if e.d.Bellows[i].ThreadLead > 0 {
+				kind = "thread"
+			}
+			add(fmt.Sprintf("clearance[%d-%d]", i+1, i+2), c*mmPerM, minGap*mmPerM, "mm", false, kind+" clearance, radial")
+		}
+	}
+	if q.MaxMass > 0 {
+		add("mass", sc.Mass*1e3, q.MaxMass*1e3, "g", true, "")
+	}
+	if q.MinPayloadToWeight > 0 {
+		add("payload_to_weight", sc.PayloadToWeight, q.MinPayloadToWeight, "", false, "")
+	}
+	e.printability(res, add)
+	res.Pass = true
+	for _, c := range res.Checks {
+		res.Pass = res.Pass && c.Pass
+	}
+}
+
+// printability checks each bellows with geometry against the printer
+// (PHYSICS §8, common practice).
+func (e *evaluator) printability(res *Result, add func(string, float64, float64, string, bool, string)) {
+	p := e.sc.Printer
+	process := p.Process
+	if process == "" {
+		process = "fff"
+	}
+	nozzle := p.Nozzle
+	if nozzle == 0 {
+		nozzle = 0.4e-3
+	}
+	line := p.LineWidth
+	if line == 0 {
+		line = 1.2 * nozzle
+	}
+	layer := p.LayerHeight
+	if layer == 0 {
+		layer = 0.2e-3
+	}
+	minWall := p.MinWall
+	if minWall == 0 {
+		switch process {
+		case "fff":
+			minWall = line
+		case "powder":
+			minWall = 0.8e-3
+		default:
+			minWall = 0.5e-3
+		}
+	}
+	if process == "fff" {
+		add("layer_height", layer*mmPerM, 0.8*nozzle*mmPerM, "mm", true, "at most 80 % of the nozzle diameter")
+	}
+	for i, b := range e.d.Bellows {
+		if b.Model == nil {
+			continue
+		}
+		g := b.Model.Geometry
+		add(fmt.Sprintf("wall[%d]", i+1), g.Wall*mmPerM, minWall*mmPerM, "mm", false, process+" minimum wall")
+		if process == "fff" {
+			limit := p.OverhangLimit
+			if limit == 0 {
+				limit = math.Pi / 4
+			}
+			// single-wall layers must overlap: h tan θ ≤ b/2
+			note := "wall angle from vertical"
+			if vase := math.Atan(0.5 * line / layer); vase < limit {
+				limit = vase
+				note += ", limited by layer overlap h·tan θ ≤ line width/2"
+			}
+			add(fmt.Sprintf("overhang[%d]", i+1), overhang(g)*degPerR, limit*degPerR, "deg", true, note)
+		}
+	}
+}
+
+// models records the models and fidelity behind the numbers.
+func (e *evaluator) models(res *Result) {
+	var src []string
+	for _, s := range e.st {
+		src = append(src, s.Source)
+	}
+	res.Models = []string{
+		"stiffness per bellows: " + strings.Join(src, ", ") + " (surrogate fidelity " + fidelityName(e.d.Fidelity) + ")",
+		"shape: torsionally rigid nested tubes, constant-curvature links",
+		fmt.Sprintf("tip sag: geometrically exact rod statics (RK4, Newton shooting, %d iterations), worst case found with the linear compliance over %d x %d samples",
+			res.Scores.SagIterations, len(e.shapes), defaults(e.sc.Workspace).BaseSteps),
+		"stability: two-tube snap test with the bellows' torsional stiffness",
+		"wall strain: strip or shell wall model per unit curvature change",
+	}
+	if len(e.d.Bellows) > 0 {
+		for _, s := range e.st {
+			if s.Source == "calibrated" {
+				res.Models = append(res.Models, "EI multiplied by the bench calibration factor")
+				break
+			}
+		}
+	}
+}

@@ -1,0 +1,358 @@
+package objective
+
+import (
+	"fmt"
+	"math"
+
+	"plica/objective/kinematics"
+	"plica/surrogate"
+)
+
+// Scores are the numbers a designer decides on, SI.
+type Scores struct {
+	// TipSag is the worst tip displacement along gravity over the sampled
+	// workspace, between the shape loaded by self-weight and payload and
+	// the shape without gravity, from the geometrically exact rod model, m.
+	TipSag float64
+	// TipSagLinear is the small-load linear estimate at the same
+	// configuration, m.
+	TipSagLinear float64
+	// SagActuation is where the worst sag occurs.
+	SagActuation kinematics.Actuation
+	// SagIterations is the number of Newton iterations of the sag solve.
+	SagIterations int
+
+	Reach          float64 // largest lateral tip distance from the base axis, m
+	BendAngleMin   float64 // smallest angle of the tip tangent from the base axis, rad
+	BendAngleMax   float64 // largest, rad
+	BendAngleRange float64 // BendAngleMax − BendAngleMin, rad
+	// DOF is the number of actuation parameters (relative rotations, common
+	// rotation, insertions).
+	DOF int
+	// SurfaceArea is the area of the surface the tip sweeps (DOF = 2), m².
+	SurfaceArea float64
+	// Volume is the voxel volume of the tip point cloud (DOF ≥ 3), m³.
+	Volume float64
+	// VoxelSize is the voxel edge used for Volume, m.
+	VoxelSize float64
+	// TaskCoverage is the fraction of task points reached (1 without tasks).
+	TaskCoverage float64
+	// TaskReached lists, per task point, whether it is reached.
+	TaskReached []bool
+
+	ResidualCurvature float64 // largest link curvature at the straightest configuration, 1/m
+	StraightTipOffset float64 // tip lateral offset at the straightest configuration, m
+	CurvatureMin      float64 // smallest (over rotation) of the largest link curvature, 1/m
+	CurvatureMax      float64 // largest link curvature over the workspace, 1/m
+
+	// PeakStrain is the largest meridional wall strain over the workspace
+	// and all bellows with a wall model (NaN when no bellows has one).
+	PeakStrain float64
+	// StrainPerBellows is the peak strain of each bellows (NaN: measured).
+	StrainPerBellows []float64
+	// AllowableStrain is the smallest allowable strain divided by the
+	// safety factor, over the bellows with a wall model.
+	AllowableStrain float64
+
+	// StabilityMargin is the smallest 1 − L/L_crit over neighbouring pairs
+	// (1 when no pair overlaps in its curved parts).
+	StabilityMargin float64
+	// Stability lists each neighbouring pair's stability.
+	Stability []PairMargin
+
+	Mass            float64 // bellows mass, kg
+	PayloadToWeight float64 // payload mass / bellows mass
+	MinClearance    float64 // smallest radial clearance between neighbours, m (NaN: unknown)
+}
+
+// PairMargin is the snap-stability of bellows Inner and Inner+1.
+type PairMargin struct {
+	Inner   int     // 0-based
+	Overlap float64 // overlapping curved length, m
+	Lambda  float64 // L·sqrt(c_eff)
+	LCrit   float64 // critical overlap length, m
+	Margin  float64 // 1 − L/L_crit
+}
+
+// Check is one requirement with its value and limit.
+type Check struct {
+	Name  string  // e.g. "tip_sag"
+	Value float64 // in Unit
+	Limit float64 // in Unit
+	Unit  string  // e.g. "mm"
+	// Max is true when Value must not exceed Limit, false when it must
+	// reach it.
+	Max  bool
+	Pass bool
+	Note string
+}
+
+// Result is the evaluation of one design.
+type Result struct {
+	Pass    bool
+	Scores  Scores
+	Bellows []Stiffness
+	Checks  []Check
+	// Models says which models and fidelity produced the numbers.
+	Models []string
+	// Warnings are findings that do not fail a check but need attention.
+	Warnings []string
+}
+
+type evaluator struct {
+	d                  *Design
+	sc                 *Scenario
+	robot              *kinematics.Robot
+	st                 []Stiffness
+	payload            float64 // kg
+	strainPerCurvature []float64
+	nodes              []complianceNode
+	shapes             []*shape
+}
+
+// Evaluate scores one design in a scenario: workspace, straightening,
+// tip sag under payload and margins, each against the scenario's
+// requirements.
+func Evaluate(d *Design, sc *Scenario) (*Result, error) {
+	if sc == nil {
+		sc = &Scenario{}
+	}
+	robot, st, err := d.Robot()
+	if err != nil {
+		return nil, err
+	}
+	e := &evaluator{d: d, sc: sc, robot: robot, st: st, payload: sc.Load.PayloadMass}
+	e.strainPerCurvature = make([]float64, len(st))
+	for i, s := range st {
+		if s.Section != nil {
+			e.strainPerCurvature[i] = s.Section.StrainPerCurvature
+		}
+	}
+	res := &Result{Bellows: st}
+	w := defaults(sc.Workspace)
+	if err := e.workspace(w, res); err != nil {
+		return nil, err
+	}
+	if err := e.sag(res); err != nil {
+		return nil, err
+	}
+	e.margins(res)
+	e.checks(res)
+	e.models(res)
+	return res, nil
+}
+
+// workspace samples the actuation space and fills the workspace,
+// straightening and strain scores.
+func (e *evaluator) workspace(w Workspace, res *Result) error {
+	n := len(e.robot.Tubes)
+	p := plan(n, w)
+	sc := &res.Scores
+	sc.DOF = p.dof
+	var shapes []*shape
+	for _, a := range p.acts {
+		sh, err := e.evalShape(a)
+		if err != nil {
+			return err
+		}
+		if sh != nil {
+			shapes = append(shapes, sh)
+		}
+	}
+	if len(shapes) == 0 {
+		return fmt.Errorf("no sampled actuation satisfies the nesting rules")
+	}
+	e.shapes = shapes
+	sc.BendAngleMin = math.Inf(1)
+	sc.CurvatureMin = math.Inf(1)
+	sc.StraightTipOffset = math.Inf(1)
+	sc.StrainPerBellows = make([]float64, n)
+	var straightest *shape
+	for _, sh := range shapes {
+		rho := math.Hypot(sh.tip.P[0], sh.tip.P[1])
+		sc.Reach = math.Max(sc.Reach, rho)
+		bend := math.Acos(clamp(sh.tip.R[2][2], -1, 1))
+		sc.BendAngleMin = math.Min(sc.BendAngleMin, bend)
+		sc.BendAngleMax = math.Max(sc.BendAngleMax, bend)
+		sc.CurvatureMin = math.Min(sc.CurvatureMin, sh.kmax)
+		sc.CurvatureMax = math.Max(sc.CurvatureMax, sh.kmax)
+		if rho < sc.StraightTipOffset {
+			sc.StraightTipOffset = rho
+			straightest = sh
+		}
+		for i, s := range sh.strain {
+			sc.StrainPerBellows[i] = math.Max(sc.StrainPerBellows[i], s)
+		}
+	}
+	sc.BendAngleRange = sc.BendAngleMax - sc.BendAngleMin
+	sc.ResidualCurvature = straightest.kmax
+	sc.PeakStrain = math.NaN()
+	for i, s := range e.st {
+		if s.Section == nil {
+			sc.StrainPerBellows[i] = math.NaN()
+			continue
+		}
+		if math.IsNaN(sc.PeakStrain) || sc.StrainPerBellows[i] > sc.PeakStrain {
+			sc.PeakStrain = sc.StrainPerBellows[i]
+		}
+	}
+	if p.grid2 {
+		sc.SurfaceArea = revolvedArea(shapes)
+	} else if p.dof >= 3 {
+		sc.VoxelSize = w.VoxelSize
+		sc.Volume = voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
+	}
+	e.tasks(shapes, res)
+	return nil
+}
+
+// revolvedArea is the area of the surface swept by the tip of a pair: the
+// tip curve over a full turn of relative rotation, revolved about the base
+// axis by the common rotation. A full turn traces the curve out and back
+// (mirror images for bellows whose stiffness axes are the bending axes), so
+// the area is half the revolved area of the whole closed sweep: A =
+// ½ Σ 2π ρ̄ |Δ(ρ, z)| (Pappus' centroid theorem, applied per segment).
+func revolvedArea(shapes []*shape) float64 {
+	area := 0.0
+	for k := range shapes {
+		a := shapes[k].tip.P
+		b := shapes[(k+1)%len(shapes)].tip.P
+		ra, rb := math.Hypot(a[0], a[1]), math.Hypot(b[0], b[1])
+		ds := math.Hypot(rb-ra, b[2]-a[2])
+		area += 2 * math.Pi * (ra + rb) / 2 * ds
+	}
+	return area / 2
+}
+
+// voxelVolume counts the voxels of edge h that hold at least one tip
+// sample, over the shapes and baseSteps common rotations.
+func voxelVolume(shapes []*shape, baseSteps int, h float64) float64 {
+	occupied := make(map[[3]int32]struct{})
+	for _, sh := range shapes {
+		for j := 0; j < baseSteps; j++ {
+			s, c := math.Sincos(2 * math.Pi * float64(j) / float64(baseSteps))
+			p := sh.tip.P
+			x, y := c*p[0]-s*p[1], s*p[0]+c*p[1]
+			key := [3]int32{int32(math.Floor(x / h)), int32(math.Floor(y / h)), int32(math.Floor(p[2] / h))}
+			occupied[key] = struct{}{}
+		}
+	}
+	return float64(len(occupied)) * h * h * h
+}
+
+// tasks decides for every task point whether some actuation reaches it.
+// The common rotation is solved exactly: turning a tip at cylindrical
+// coordinates (ρ, ψ, z) by ψ_t − ψ brings it to the task point's azimuth,
+// leaving the distance sqrt((ρ − ρ_t)² + (z − z_t)²). The relative rotation
+// is sampled, then refined by golden-section search around the best
+// sample for pairs.
+func (e *evaluator) tasks(shapes []*shape, res *Result) {
+	sc := &res.Scores
+	if len(e.sc.Tasks) == 0 {
+		sc.TaskCoverage = 1
+		return
+	}
+	reached := 0
+	sc.TaskReached = make([]bool, len(e.sc.Tasks))
+	for ti, t := range e.sc.Tasks {
+		tol := t.Tolerance
+		if tol == 0 {
+			tol = 1e-3
+		}
+		dirTol := t.DirectionTolerance
+		if dirTol == 0 {
+			dirTol = 5 * math.Pi / 180
+		}
+		ok := false
+		for _, sh := range shapes {
+			if taskDistance(sh.tip, t, dirTol) <= tol {
+				ok = true
+				break
+			}
+		}
+		if !ok && len(e.robot.Tubes) == 2 && len(shapes) > 2 {
+			ok = e.refineTask(shapes, t, tol, dirTol)
+		}
+		sc.TaskReached[ti] = ok
+		if ok {
+			reached++
+		}
+	}
+	sc.TaskCoverage = float64(reached) / float64(len(e.sc.Tasks))
+}
+
+// taskDistance is the distance from a tip (after the best common rotation)
+// to a task point; +Inf when the direction requirement cannot be met.
+func taskDistance(tip kinematics.Pose, t TaskPoint, dirTol float64) float64 {
+	p := tip.P
+	rho := math.Hypot(p[0], p[1])
+	rt := math.Hypot(t.Position[0], t.Position[1])
+	d := math.Hypot(rho-rt, p[2]-t.Position[2])
+	if t.Direction != ([3]float64{}) {
+		// rotate the tip tangent by the same common rotation
+		phi := math.Atan2(t.Position[1], t.Position[0]) - math.Atan2(p[1], p[0])
+		if rho == 0 || rt == 0 {
+			phi = 0
+		}
+		s, c := math.Sincos(phi)
+		tx, ty, tz := tip.R[0][2], tip.R[1][2], tip.R[2][2]
+		dx, dy := c*tx-s*ty, s*tx+c*ty
+		cosang := dx*t.Direction[0] + dy*t.Direction[1] + tz*t.Direction[2]
+		if math.Acos(clamp(cosang, -1, 1)) > dirTol {
+			return math.Inf(1)
+		}
+	}
+	return d
+}
+
+// refineTask runs a golden-section search on the relative rotation of a
+// pair around the best sample.
+func (e *evaluator) refineTask(shapes []*shape, t TaskPoint, tol, dirTol float64) bool {
+	best, bestD := 0, math.Inf(1)
+	for k, sh := range shapes {
+		// position only, to find the bracket
+		if d := taskDistance(sh.tip, TaskPoint{Position: t.Position}, dirTol); d < bestD {
+			best, bestD = k, d
+		}
+	}
+	step := 2 * math.Pi / float64(len(shapes))
+	base := shapes[best].act
+	f := func(delta float64) float64 {
+		a := kinematics.Actuation{Theta: append([]float64(nil), base.Theta...), Beta: base.Beta}
+		a.Theta[0] = delta
+		tip, err := e.robot.Tip(a)
+		if err != nil {
+			return math.Inf(1)
+		}
+		return taskDistance(tip, t, dirTol)
+	}
+	lo, hi := base.Theta[0]-step, base.Theta[0]+step
+	g := (math.Sqrt(5) - 1) / 2
+	x1, x2 := hi-g*(hi-lo), lo+g*(hi-lo)
+	f1, f2 := f(x1), f(x2)
+	for range 40 {
+		if f1 <= tol || f2 <= tol {
+			return true
+		}
+		if f1 < f2 {
+			hi, x2, f2 = x2, x1, f1
+			x1 = hi - g*(hi-lo)
+			f1 = f(x1)
+		} else {
+			lo, x1, f1 = x1, x2, f2
+			x2 = lo + g*(hi-lo)
+			f2 = f(x2)
+		}
+	}
+	return math.Min(f1, f2) <= tol
+}
+
+func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }
+
+// fidelityName names a surrogate fidelity for outputs.
+func fidelityName(f surrogate.Fidelity) string {
+	if f == surrogate.Shell {
+		return "shell"
+	}
+	return "strip"
+}

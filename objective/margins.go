@@ -1,0 +1,220 @@
+package objective
+
+import (
+	"fmt"
+	"math"
+
+	"plica/objective/kinematics"
+	"plica/surrogate"
+)
+
+// sag finds the worst tip sag over the sampled workspace. The linear
+// compliance of every sampled shape gives the sag at every common rotation
+// φ in closed form, ĝᵀ R_z(φ) C R_z(φ)ᵀ g; the worst configuration is then
+// solved with the geometrically exact rod model (PHYSICS §4), which is the
+// reported value; the linear estimate at the same configuration is
+// reported beside it.
+func (e *evaluator) sag(res *Result) error {
+	sc := &res.Scores
+	g := e.sc.Load.GravityVector()
+	gn := math.Sqrt(g[0]*g[0] + g[1]*g[1] + g[2]*g[2])
+	if gn == 0 {
+		sc.SagActuation = e.shapes[0].act
+		return nil
+	}
+	gh := [3]float64{g[0] / gn, g[1] / gn, g[2] / gn}
+	w := defaults(e.sc.Workspace)
+	var worst *shape
+	worstPhi, worstSag := 0.0, math.Inf(-1)
+	for _, sh := range e.shapes {
+		for j := 0; j < w.BaseSteps; j++ {
+			phi := 2 * math.Pi * float64(j) / float64(w.BaseSteps)
+			s, c := math.Sincos(phi)
+			// g in the frame of the unrotated shape: R_z(−φ) g
+			gl := [3]float64{c*g[0] + s*g[1], -s*g[0] + c*g[1], g[2]}
+			gh0 := [3]float64{c*gh[0] + s*gh[1], -s*gh[0] + c*gh[1], gh[2]}
+			v := 0.0
+			for a := range 3 {
+				for b := range 3 {
+					v += gh0[a] * sh.comp[a][b] * gl[b]
+				}
+			}
+			if v > worstSag {
+				worst, worstPhi, worstSag = sh, phi, v
+			}
+		}
+	}
+	act := kinematics.Actuation{Theta: make([]float64, len(worst.act.Theta)), Beta: worst.act.Beta}
+	for i, th := range worst.act.Theta {
+		act.Theta[i] = th + worstPhi
+	}
+	sc.SagActuation = act
+	links, err := e.robot.Links(act, nil)
+	if err != nil {
+		return err
+	}
+	ld := e.sc.Load
+	load := kinematics.Load{Gravity: g, TipMoment: ld.TipMoment}
+	for i := range 3 {
+		load.TipForce[i] = ld.PayloadMass*g[i] + ld.TipForce[i]
+	}
+	// The reference shape keeps only the loads that are not weight.
+	ref := kinematics.Load{TipForce: ld.TipForce, TipMoment: ld.TipMoment}
+	loaded, err := kinematics.SolveStatics(links, load, nil)
+	if err != nil {
+		return fmt.Errorf("tip sag at angles %s: %w", degList(act.Theta), err)
+	}
+	free, err := kinematics.SolveStatics(links, ref, nil)
+	if err != nil {
+		return fmt.Errorf("tip sag at angles %s (no gravity): %w", degList(act.Theta), err)
+	}
+	sag := 0.0
+	for i := range 3 {
+		sag += gh[i] * (loaded.Tip.P[i] - free.Tip.P[i])
+	}
+	shape := loaded
+	shape.Iterations += free.Iterations
+	sc.TipSag = sag
+	sc.SagIterations = shape.Iterations
+	linLoad := kinematics.Load{Gravity: g}
+	for i := range 3 {
+		linLoad.TipForce[i] = ld.PayloadMass * g[i]
+	}
+	dp, _, err := kinematics.LinearTipDeflection(links, linLoad)
+	if err != nil {
+		return err
+	}
+	sc.TipSagLinear = dp[0]*gh[0] + dp[1]*gh[1] + dp[2]*gh[2]
+	L := links[len(links)-1].End
+	if math.Sqrt(dp[0]*dp[0]+dp[1]*dp[1]+dp[2]*dp[2])/L > kinematics.LinearDeflectionLimit {
+		res.Warnings = append(res.Warnings, fmt.Sprintf("tip deflection under load exceeds %.0f %% of the length: the linear sag estimate is unreliable; the reported sag is from the geometrically exact model",
+			100*kinematics.LinearDeflectionLimit))
+	}
+	return nil
+}
+
+func degList(th []float64) string {
+	s := ""
+	for i, t := range th {
+		if i > 0 {
+			s += ","
+		}
+		s += fmt.Sprintf("%.1f", t*180/math.Pi)
+	}
+	return s + " deg"
+}
+
+// margins fills mass, clearance and stability.
+func (e *evaluator) margins(res *Result) {
+	sc := &res.Scores
+	for i, b := range e.d.Bellows {
+		sc.Mass += e.st[i].LinearDensity * (b.StraightLength + b.CurvedLength)
+	}
+	if sc.Mass > 0 {
+		sc.PayloadToWeight = e.sc.Load.PayloadMass / sc.Mass
+	}
+	sc.MinClearance = math.Inf(1)
+	for i := 0; i+1 < len(e.d.Bellows); i++ {
+		c := e.clearance(i)
+		if math.IsNaN(c) {
+			sc.MinClearance = math.NaN()
+			break
+		}
+		sc.MinClearance = math.Min(sc.MinClearance, c)
+	}
+	if len(e.d.Bellows) < 2 {
+		sc.MinClearance = math.NaN()
+	}
+	e.stability(res)
+}
+
+// clearance is the radial gap between bellows i and i+1, m; NaN when a
+// diameter is unknown (measured stiffness without outer_diameter_mm, or
+// the outer bellows has no geometry).
+func (e *evaluator) clearance(i int) float64 {
+	in, out := e.d.Bellows[i], e.d.Bellows[i+1]
+	if out.Model == nil {
+		return math.NaN()
+	}
+	og := out.Model.Geometry
+	outerRootInner := og.OuterDiameter/2 - og.Depth - og.Wall
+	var innerOD float64
+	switch {
+	case in.Model != nil:
+		innerOD = in.Model.OuterDiameter
+	case in.Measured != nil && in.Measured.OuterDiameter > 0:
+		innerOD = in.Measured.OuterDiameter
+	default:
+		return math.NaN()
+	}
+	if in.ThreadLead > 0 && in.Model != nil {
+		// Threaded: the inner crowns run in the outer bellows' crowns.
+		ig := in.Model.Geometry
+		crest := (og.OuterDiameter/2 - og.Wall) - ig.OuterDiameter/2
+		root := outerRootInner - (ig.OuterDiameter/2 - ig.Depth)
+		return math.Min(crest, root)
+	}
+	return outerRootInner - innerOD/2
+}
+
+// stability applies the two-tube snap test to every neighbouring pair
+// whose curved parts overlap, at the insertions of the sampled workspace
+// (the longest overlap is the worst).
+func (e *evaluator) stability(res *Result) {
+	sc := &res.Scores
+	sc.StabilityMargin = 1
+	for i := 0; i+1 < len(e.robot.Tubes); i++ {
+		var worst *PairMargin
+		for _, sh := range e.shapes {
+			pm, ok := e.pairMargin(i, sh.act)
+			if ok && (worst == nil || pm.Margin < worst.Margin) {
+				worst = &pm
+			}
+		}
+		if worst != nil {
+			sc.Stability = append(sc.Stability, *worst)
+			sc.StabilityMargin = math.Min(sc.StabilityMargin, worst.Margin)
+		}
+	}
+}
+
+// pairMargin computes the snap margin of bellows i and i+1 at one
+// actuation: the overlap of their curved parts and the torsionally
+// compliant lengths behind it (PHYSICS §5.1–5.3).
+func (e *evaluator) pairMargin(i int, a kinematics.Actuation) (PairMargin, bool) {
+	beta := e.robot.EffectiveInsertion(a)
+	t1, t2 := e.robot.Tubes[i], e.robot.Tubes[i+1]
+	c1 := math.Max(beta[i]+t1.StraightLength, 0)
+	c2 := math.Max(beta[i+1]+t2.StraightLength, 0)
+	e1 := beta[i] + t1.Length()
+	e2 := beta[i+1] + t2.Length()
+	start := math.Max(c1, c2)
+	end := math.Min(e1, e2)
+	overlap := end - start
+	if overlap <= 0 {
+		return PairMargin{}, false
+	}
+	// Transmission lengths: from each actuator (at β) to the start of the
+	// overlap.
+	l1 := start - beta[i]
+	l2 := start - beta[i+1]
+	ps, err := kinematics.TwoTubeStability(t1, t2, overlap, [2]float64{l1, l2})
+	if err != nil {
+		return PairMargin{}, false
+	}
+	return PairMargin{Inner: i, Overlap: overlap, Lambda: ps.Lambda, LCrit: ps.LCrit, Margin: ps.Margin}, true
+}
+
+// overhang returns the steepest wall angle from the print (vertical) axis
+// of a bellows profile, rad (PHYSICS §8: sinusoid atan(πw/q); trapezoid and
+// U flanks from their geometry).
+func overhang(g surrogate.Geometry) float64 {
+	switch g.Profile {
+	case surrogate.UShape:
+		return math.Pi / 2
+	case surrogate.Trapezoid:
+		flank := g.Pitch * (1 - g.FlatFraction) / 2
+		return math.Atan2(g.Depth, flank)
+	}
+	return math.Atan(math.Pi * g.Depth / g.Pitch)
+}

@@ -1,0 +1,112 @@
+package objective
+
+// Scenario is everything besides the bellows themselves that the scores
+// need: the load, the printer, the workspace sampling, task points and the
+// requirements a design must meet. The zero value of every field means its
+// documented default.
+type Scenario struct {
+	Load         Load
+	Printer      Printer
+	Workspace    Workspace
+	Tasks        []TaskPoint
+	Requirements Requirements
+}
+
+// Load is the payload and gravity.
+type Load struct {
+	// PayloadMass hangs at the tip, kg.
+	PayloadMass float64
+	// TipForce is an extra dead force at the tip (base frame), N.
+	TipForce [3]float64
+	// TipMoment is a dead moment at the tip (base frame), N·m.
+	TipMoment [3]float64
+	// Gravity is the gravity vector in the base frame, m/s². Zero means
+	// (0, −9.80665, 0): the arm points horizontally and gravity pulls
+	// toward the base frame's −y.
+	Gravity [3]float64
+	// NoGravity switches gravity (self-weight and payload weight) off.
+	NoGravity bool
+}
+
+// StandardGravity is the standard acceleration of gravity, m/s² (CGPM 1901,
+// the conventional value).
+const StandardGravity = 9.80665
+
+// GravityVector returns the gravity vector the scores use.
+func (l Load) GravityVector() [3]float64 {
+	if l.NoGravity {
+		return [3]float64{}
+	}
+	if l.Gravity == ([3]float64{}) {
+		return [3]float64{0, -StandardGravity, 0}
+	}
+	return l.Gravity
+}
+
+// Printer describes the printing process for the printability checks.
+type Printer struct {
+	// Process is "fff" (fused filament), "resin" or "powder". Empty means "fff".
+	Process string
+	// LineWidth is the extrusion line width, m (FFF). Zero: 1.2 × Nozzle.
+	LineWidth float64
+	// Nozzle is the nozzle diameter, m (FFF). Zero: 0.4 mm.
+	Nozzle float64
+	// LayerHeight is the layer height, m. Zero: 0.2 mm.
+	LayerHeight float64
+	// OverhangLimit is the largest printable wall angle from vertical, rad.
+	// Zero: 45° for FFF, no limit for resin and powder.
+	OverhangLimit float64
+	// MinWall is the smallest printable wall, m. Zero: one line width (FFF),
+	// 0.8 mm (powder), 0.5 mm (resin).
+	MinWall float64
+}
+
+// Workspace sets how the actuation space is sampled.
+type Workspace struct {
+	// RelativeSteps samples the relative rotation of neighbouring bellows
+	// over a full turn. Zero: 64.
+	RelativeSteps int
+	// BaseSteps samples the common rotation of the whole set over a full
+	// turn. Zero: 64.
+	BaseSteps int
+	// InsertionSteps samples each insertion range. Zero: 8.
+	InsertionSteps int
+	// Samples is the number of low-discrepancy samples used when the
+	// actuation space has more than three dimensions. Zero: 4096.
+	Samples int
+	// VoxelSize is the edge of the voxels used for the reachable volume, m.
+	// Zero: 2 mm.
+	VoxelSize float64
+	// Insertion is the insertion range [lo, hi] of each bellows, m,
+	// innermost first; a missing or zero-width range means fixed at lo.
+	Insertion [][2]float64
+}
+
+// TaskPoint is a point the tip should reach.
+type TaskPoint struct {
+	Position  [3]float64 // base frame, m
+	Tolerance float64    // position tolerance, m (zero: 1 mm)
+	// Direction, when non-zero, is the wanted tip tangent (base frame).
+	Direction [3]float64
+	// DirectionTolerance is the allowed angle to Direction, rad (zero: 5°).
+	DirectionTolerance float64
+}
+
+// Requirements are the limits a design must meet. A zero limit is not
+// checked, except where a default is stated.
+type Requirements struct {
+	MaxTipSag            float64 // m
+	MinReach             float64 // m
+	MinBendAngleRange    float64 // rad
+	MaxResidualCurvature float64 // 1/m
+	MaxStraightTipOffset float64 // m
+	// StrainSafetyFactor divides the material's allowable strain. Zero: 1.5.
+	StrainSafetyFactor float64
+	// MinStabilityMargin on 1 − L/L_crit. Zero: 0 (snap-free required).
+	MinStabilityMargin float64
+	// MinClearance between neighbouring bellows (radial), m. Zero: 0.2 mm.
+	MinClearance       float64
+	MinTaskCoverage    float64 // fraction 0..1
+	MaxMass            float64 // kg
+	MinPayloadToWeight float64 // payload mass / bellows mass
+}

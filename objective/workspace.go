@@ -1,0 +1,327 @@
+package objective
+
+import (
+	"errors"
+	"math"
+
+	"plica/objective/kinematics"
+)
+
+// shape is one sampled actuation with everything the scores need from it.
+// The common rotation of the whole set is not part of a shape: it turns
+// the shape rigidly about the base z axis and is applied analytically.
+type shape struct {
+	act   kinematics.Actuation
+	links []kinematics.Link
+	tip   kinematics.Pose
+	// comp is the linear tip compliance to a unit gravity vector: the tip
+	// displacement under self-weight plus payload is comp·g (PHYSICS §4.3).
+	comp [3][3]float64
+	// kmax is the largest link curvature magnitude, 1/m.
+	kmax float64
+	// strain is the peak wall strain of this shape, per bellows.
+	strain []float64
+}
+
+// samplePlan lists the actuations to sample: relative rotations of the
+// bellows (the outermost one is held at 0) and insertions.
+type samplePlan struct {
+	acts []kinematics.Actuation
+	// grid2 is true when the samples are the one-parameter sweep of the
+	// relative rotation of a pair over a full turn (surface area applies).
+	grid2 bool
+	dof   int
+}
+
+func defaults(w Workspace) Workspace {
+	if w.RelativeSteps == 0 {
+		w.RelativeSteps = 64
+	}
+	if w.BaseSteps == 0 {
+		w.BaseSteps = 64
+	}
+	if w.InsertionSteps == 0 {
+		w.InsertionSteps = 8
+	}
+	if w.Samples == 0 {
+		w.Samples = 4096
+	}
+	if w.VoxelSize == 0 {
+		w.VoxelSize = 2e-3
+	}
+	return w
+}
+
+// plan builds the actuation samples: a grid over the relative rotations
+// (one or two of them) and the insertion ranges when the grid stays below
+// w.Samples points, otherwise a Halton low-discrepancy set of w.Samples
+// points (Halton, Numer. Math. 2, 1960: radical inverses in the first
+// primes).
+func plan(n int, w Workspace) samplePlan {
+	var dims []int // grid sizes per dimension
+	var kinds []int
+	const rel, ins = 0, 1
+	var insIdx []int
+	for i := 0; i < n-1; i++ {
+		dims = append(dims, w.RelativeSteps)
+		kinds = append(kinds, rel)
+		insIdx = append(insIdx, i)
+	}
+	for i := 0; i < n && i < len(w.Insertion); i++ {
+		if w.Insertion[i][1] > w.Insertion[i][0] {
+			dims = append(dims, w.InsertionSteps)
+			kinds = append(kinds, ins)
+			insIdx = append(insIdx, i)
+		}
+	}
+	p := samplePlan{dof: len(dims) + 1}
+	p.grid2 = n == 2 && len(dims) == 1
+	fixedBeta := make([]float64, n)
+	for i := 0; i < n && i < len(w.Insertion); i++ {
+		fixedBeta[i] = w.Insertion[i][0]
+	}
+	total := 1
+	for _, d := range dims {
+		total *= d
+		if total > w.Samples {
+			break
+		}
+	}
+	build := func(coords []float64) kinematics.Actuation {
+		a := kinematics.Actuation{Theta: make([]float64, n), Beta: append([]float64(nil), fixedBeta...)}
+		for k, c := range coords {
+			i := insIdx[k]
+			if kinds[k] == rel {
+				a.Theta[i] = 2 * math.Pi * c
+			} else {
+				lo, hi := w.Insertion[i][0], w.Insertion[i][1]
+				a.Beta[i] = lo + (hi-lo)*c
+			}
+		}
+		return a
+	}
+	if len(dims) == 0 {
+		p.acts = []kinematics.Actuation{build(nil)}
+		return p
+	}
+	coords := make([]float64, len(dims))
+	if total <= w.Samples {
+		idx := make([]int, len(dims))
+		for {
+			for k, d := range dims {
+				if kinds[k] == rel {
+					coords[k] = float64(idx[k]) / float64(d) // full turn, 2π excluded
+				} else {
+					coords[k] = float64(idx[k]) / float64(d-1) // both ends included
+				}
+			}
+			p.acts = append(p.acts, build(coords))
+			k := 0
+			for ; k < len(dims); k++ {
+				idx[k]++
+				if idx[k] < dims[k] {
+					break
+				}
+				idx[k] = 0
+			}
+			if k == len(dims) {
+				return p
+			}
+		}
+	}
+	for j := 0; j < w.Samples; j++ {
+		for k := range dims {
+			coords[k] = radicalInverse(j+1, primes[k%len(primes)])
+		}
+		p.acts = append(p.acts, build(coords))
+	}
+	return p
+}
+
+var primes = []int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53}
+
+// radicalInverse is the van der Corput radical inverse of i in base b.
+func radicalInverse(i, b int) float64 {
+	inv := 1 / float64(b)
+	f, r := inv, 0.0
+	for i > 0 {
+		r += float64(i%b) * f
+		i /= b
+		f *= inv
+	}
+	return r
+}
+
+// evalShape computes the tip, curvature, strain and compliance of one
+// actuation. It returns (nil, nil) when the actuation breaks the nesting
+// rules (a threaded pair screwed too far, say): that sample is outside the
+// workspace, not a failure.
+func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
+	links, err := e.robot.Links(a, nil)
+	if err != nil {
+		var ae *kinematics.ActuationError
+		if errors.As(err, &ae) {
+			return nil, nil
+		}
+		return nil, err
+	}
+	sh := &shape{act: a, links: links, strain: make([]float64, len(e.robot.Tubes))}
+	tip := kinematics.Identity()
+	for _, l := range links {
+		tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
+		k := math.Hypot(l.U[0], l.U[1])
+		sh.kmax = math.Max(sh.kmax, k)
+		// Wall strain: each present bellows is bent from its own
+		// pre-curvature to the link curvature (PHYSICS §3.6, §6.9).
+		for i, t := range e.robot.Tubes {
+			if l.Present&(1<<uint(i)) == 0 {
+				continue
+			}
+			var ux, uy float64
+			if l.Curved&(1<<uint(i)) != 0 {
+				s, c := math.Sincos(a.Theta[i])
+				ux = c*t.Precurvature[0] - s*t.Precurvature[1]
+				uy = s*t.Precurvature[0] + c*t.Precurvature[1]
+			}
+			dk := math.Hypot(l.U[0]-ux, l.U[1]-uy)
+			sh.strain[i] = math.Max(sh.strain[i], e.strainPerCurvature[i]*dk)
+		}
+	}
+	sh.tip = tip
+	sh.comp = e.compliance(links)
+	return sh, nil
+}
+
+// compliance returns the linear tip compliance matrix C of a shape to a
+// unit gravity vector g: δp_tip = C g for self-weight plus the payload
+// (PHYSICS §4.3, derived). With a(s) = m_p (p_L − p(s)) + ∫_s^L m'(σ)(p(σ) −
+// p(s)) dσ the bending moment is M(s) = a(s) × g, the curvature change is
+// Δu = K⁻¹ Rᵀ M, and δp_tip = ∫ (R Δu) × (p_L − p(s)) ds, so
+// C = −∫ [c]× R K⁻¹ Rᵀ [a]× ds with c = p_L − p(s). Trapezoid rule on
+// nodes at most L/compliancePoints apart, with every link boundary a node.
+func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
+	if len(links) == 0 {
+		return [3][3]float64{}
+	}
+	L := links[len(links)-1].End
+	nodes := e.nodes[:0]
+	pose := kinematics.Identity()
+	sPos := 0.0
+	for _, l := range links {
+		ll := l.End - l.Start
+		m := int(math.Ceil(ll / L * compliancePoints))
+		if m < 2 {
+			m = 2
+		}
+		h := ll / float64(m)
+		step := kinematics.LinkTransform(l.U, h)
+		kinv := inv3(l.K)
+		for j := 0; j < m; j++ {
+			nd := complianceNode{s: sPos, p: pose.P, w: h, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)}
+			if j == 0 {
+				nd.w = h / 2
+			}
+			nodes = append(nodes, nd)
+			pose = pose.Mul(step)
+			sPos += h
+		}
+		// The link's end node carries the other half weight. The next
+		// link starts with a node at the same point but with that link's
+		// stiffness: the integrand jumps there.
+		sPos = l.End
+		nodes = append(nodes, complianceNode{s: sPos, p: pose.P, w: h / 2, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)})
+	}
+	e.nodes = nodes
+	pL := pose.P
+	// a(s) by backward accumulation: W = ∫_s^L m', Q = ∫_s^L m' p.
+	var C [3][3]float64
+	W := 0.0
+	var Q [3]float64
+	mp := e.payload
+	for k := len(nodes) - 1; k >= 0; k-- {
+		nd := &nodes[k]
+		if k < len(nodes)-1 {
+			nx := &nodes[k+1]
+			if h := nx.s - nd.s; h > 0 {
+				m := nd.mpl
+				W += m * h
+				for i := range 3 {
+					Q[i] += m * h * (nx.p[i] + nd.p[i]) / 2
+				}
+			}
+		}
+		var a, c [3]float64
+		for i := range 3 {
+			c[i] = pL[i] - nd.p[i]
+			a[i] = mp*c[i] + Q[i] - W*nd.p[i]
+		}
+		// C += −w [c]× KIN [a]×
+		A := skew(a)
+		Cx := skew(c)
+		var t1 [3][3]float64
+		for i := range 3 {
+			for j := range 3 {
+				t1[i][j] = nd.kin[i][0]*A[0][j] + nd.kin[i][1]*A[1][j] + nd.kin[i][2]*A[2][j]
+			}
+		}
+		for i := range 3 {
+			for j := range 3 {
+				C[i][j] -= nd.w * (Cx[i][0]*t1[0][j] + Cx[i][1]*t1[1][j] + Cx[i][2]*t1[2][j])
+			}
+		}
+	}
+	return C
+}
+
+// complianceNode is one trapezoid node of the compliance integral.
+type complianceNode struct {
+	s   float64
+	p   [3]float64
+	kin [3][3]float64 // R K⁻¹ Rᵀ
+	w   float64       // trapezoid weight
+	mpl float64       // mass per length on the segment after the node
+}
+
+// compliancePoints is the number of trapezoid intervals over the whole
+// length for the linear compliance (second order; 1e-4 relative at 200,
+// derived from the Roark cantilever checks in the tests).
+const compliancePoints = 200
+
+func skew(a [3]float64) [3][3]float64 {
+	return [3][3]float64{{0, -a[2], a[1]}, {a[2], 0, -a[0]}, {-a[1], a[0], 0}}
+}
+
+// rkr returns R K⁻¹ Rᵀ.
+func rkr(R, kinv [3][3]float64) [3][3]float64 {
+	var t, out [3][3]float64
+	for i := range 3 {
+		for j := range 3 {
+			t[i][j] = R[i][0]*kinv[0][j] + R[i][1]*kinv[1][j] + R[i][2]*kinv[2][j]
+		}
+	}
+	for i := range 3 {
+		for j := range 3 {
+			out[i][j] = t[i][0]*R[j][0] + t[i][1]*R[j][1] + t[i][2]*R[j][2]
+		}
+	}
+	return out
+}
+
+// inv3 inverts a symmetric positive definite 3×3 matrix by cofactors.
+func inv3(m [3][3]float64) [3][3]float64 {
+	c00 := m[1][1]*m[2][2] - m[1][2]*m[2][1]
+	c01 := m[1][2]*m[2][0] - m[1][0]*m[2][2]
+	c02 := m[1][0]*m[2][1] - m[1][1]*m[2][0]
+	det := m[0][0]*c00 + m[0][1]*c01 + m[0][2]*c02
+	var out [3][3]float64
+	out[0][0] = c00 / det
+	out[1][0] = c01 / det
+	out[2][0] = c02 / det
+	out[0][1] = (m[0][2]*m[2][1] - m[0][1]*m[2][2]) / det
+	out[1][1] = (m[0][0]*m[2][2] - m[0][2]*m[2][0]) / det
+	out[2][1] = (m[0][1]*m[2][0] - m[0][0]*m[2][1]) / det
+	out[0][2] = (m[0][1]*m[1][2] - m[0][2]*m[1][1]) / det
+	out[1][2] = (m[0][2]*m[1][0] - m[0][0]*m[1][2]) / det
+	out[2][2] = (m[0][0]*m[1][1] - m[0][1]*m[1][0]) / det
+	return out
+}
