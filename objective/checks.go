@@ -49,7 +49,7 @@ func (e *evaluator) checks(res *Result) {
 	}
 	sf := q.StrainSafetyFactor
 	if sf == 0 {
-		sf = 1.5
+		sf = 1
 	}
 	sc.AllowableStrain = math.NaN()
 	for i, b := range e.d.Bellows {

@@ -40,10 +40,13 @@ type Scores struct {
 	// TaskReached lists, per task point, whether it is reached.
 	TaskReached []bool
 
-	ResidualCurvature float64 // largest link curvature at the straightest configuration, 1/m
+	// The curvature scores look at the nested section: links where two or
+	// more bellows are present (all links for a single bellows). A curved
+	// tip that sticks out of the nest shows in StraightTipOffset.
+	ResidualCurvature float64 // largest nested-section curvature at the straightest configuration, 1/m
 	StraightTipOffset float64 // tip lateral offset at the straightest configuration, m
-	CurvatureMin      float64 // smallest (over rotation) of the largest link curvature, 1/m
-	CurvatureMax      float64 // largest link curvature over the workspace, 1/m
+	CurvatureMin      float64 // smallest (over the workspace) of the largest nested-section curvature, 1/m
+	CurvatureMax      float64 // largest nested-section curvature over the workspace, 1/m
 
 	// PeakStrain is the largest meridional wall strain over the workspace
 	// and all bellows with a wall model (NaN when no bellows has one).
@@ -107,6 +110,7 @@ type evaluator struct {
 	payload            float64 // kg
 	strainPerCurvature []float64
 	nodes              []complianceNode
+	compliancePoints   int // 0: defaultCompliancePoints
 	shapes             []*shape
 }
 

@@ -123,7 +123,7 @@ func TestComplianceCantilever(t *testing.T) {
 	d := &Design{Bellows: []Bellows{measuredBellows(L, 0, 0, EI, 20, mpl)}}
 	robot, st, err := d.Robot()
 	require.NoError(t, err)
-	e := &evaluator{d: d, robot: robot, st: st, payload: mp, strainPerCurvature: make([]float64, 1)}
+	e := &evaluator{d: d, robot: robot, st: st, payload: mp, strainPerCurvature: make([]float64, 1), compliancePoints: 200}
 	sh, err := e.evalShape(kinematics.Actuation{Theta: []float64{0}, Beta: []float64{0}})
 	require.NoError(t, err)
 	want := mp*L*L*L/(3*EI) + mpl*L*L*L*L/(8*EI)
@@ -142,7 +142,7 @@ func TestComplianceMatchesLinearEstimate(t *testing.T) {
 	}}
 	robot, st, err := d.Robot()
 	require.NoError(t, err)
-	e := &evaluator{d: d, robot: robot, st: st, payload: 0.05, strainPerCurvature: make([]float64, 2)}
+	e := &evaluator{d: d, robot: robot, st: st, payload: 0.05, strainPerCurvature: make([]float64, 2), compliancePoints: 200}
 	a := kinematics.Actuation{Theta: []float64{0.7, -0.4}, Beta: []float64{0, 0}}
 	sh, err := e.evalShape(a)
 	require.NoError(t, err)

@@ -163,10 +163,21 @@ func (e *evaluator) clearance(i int) float64 {
 func (e *evaluator) stability(res *Result) {
 	sc := &res.Scores
 	sc.StabilityMargin = 1
+	// The test depends on the insertions only (threads included), so each
+	// distinct set of effective insertions is tested once.
+	seen := map[string]bool{}
+	var acts []kinematics.Actuation
+	for _, sh := range e.shapes {
+		key := fmt.Sprint(e.robot.EffectiveInsertion(sh.act))
+		if !seen[key] {
+			seen[key] = true
+			acts = append(acts, sh.act)
+		}
+	}
 	for i := 0; i+1 < len(e.robot.Tubes); i++ {
 		var worst *PairMargin
-		for _, sh := range e.shapes {
-			pm, ok := e.pairMargin(i, sh.act)
+		for _, a := range acts {
+			pm, ok := e.pairMargin(i, a)
 			if ok && (worst == nil || pm.Margin < worst.Margin) {
 				worst = &pm
 			}

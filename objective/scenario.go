@@ -100,7 +100,8 @@ type Requirements struct {
 	MinBendAngleRange    float64 // rad
 	MaxResidualCurvature float64 // 1/m
 	MaxStraightTipOffset float64 // m
-	// StrainSafetyFactor divides the material's allowable strain. Zero: 1.5.
+	// StrainSafetyFactor divides the material's allowable strain (which is
+	// already a design value). Zero: 1.
 	StrainSafetyFactor float64
 	// MinStabilityMargin on 1 − L/L_crit. Zero: 0 (snap-free required).
 	MinStabilityMargin float64
