@@ -189,31 +189,14 @@ func (e *evaluator) stability(res *Result) {
 	}
 }
 
-// pairMargin computes the snap margin of bellows i and i+1 at one
-// actuation: the overlap of their curved parts and the torsionally
-// compliant lengths behind it (PHYSICS §5.1–5.3).
+// pairMargin runs the two-tube snap test for bellows i and i+1 at one
+// actuation (PHYSICS §5); false when their curved parts do not overlap.
 func (e *evaluator) pairMargin(i int, a kinematics.Actuation) (PairMargin, bool) {
-	beta := e.robot.EffectiveInsertion(a)
-	t1, t2 := e.robot.Tubes[i], e.robot.Tubes[i+1]
-	c1 := math.Max(beta[i]+t1.StraightLength, 0)
-	c2 := math.Max(beta[i+1]+t2.StraightLength, 0)
-	e1 := beta[i] + t1.Length()
-	e2 := beta[i+1] + t2.Length()
-	start := math.Max(c1, c2)
-	end := math.Min(e1, e2)
-	overlap := end - start
-	if overlap <= 0 {
+	ps, err := e.robot.SnapStability(a, i)
+	if err != nil || ps.Overlap <= 0 {
 		return PairMargin{}, false
 	}
-	// Transmission lengths: from each actuator (at β) to the start of the
-	// overlap.
-	l1 := start - beta[i]
-	l2 := start - beta[i+1]
-	ps, err := kinematics.TwoTubeStability(t1, t2, overlap, [2]float64{l1, l2})
-	if err != nil {
-		return PairMargin{}, false
-	}
-	return PairMargin{Inner: i, Overlap: overlap, Lambda: ps.Lambda, LCrit: ps.LCrit, Margin: ps.Margin}, true
+	return PairMargin{Inner: i, Overlap: ps.Overlap, Lambda: ps.Lambda, LCrit: ps.LCrit, Margin: ps.Margin}, true
 }
 
 // overhang returns the steepest wall angle from the print (vertical) axis

@@ -92,27 +92,27 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	fmt.Fprintf(stdout, "design %s: %d bellows, stiffness from %s\n", name, len(robot.Tubes), strings.Join(sources, ", "))
 	fmt.Fprintf(stdout, "angles_deg %s, insert_mm %s\n\n", joinFloats(a.Theta, 180/math.Pi), joinFloats(a.Beta, 1e3))
-	fmt.Fprintf(stdout, "tip position_mm  [%.4f, %.4f, %.4f]\n", out.Tip.Position[0], out.Tip.Position[1], out.Tip.Position[2])
+	fmt.Fprintf(stdout, "tip position_mm  [%.4f, %.4f, %.4f]\n", z4(out.Tip.Position[0]), z4(out.Tip.Position[1]), z4(out.Tip.Position[2]))
 	for i, row := range out.Tip.Rotation {
 		label := "               "
 		if i == 0 {
 			label = "tip rotation   "
 		}
-		fmt.Fprintf(stdout, "%s  [%9.6f, %9.6f, %9.6f]\n", label, row[0], row[1], row[2])
+		fmt.Fprintf(stdout, "%s  [%9.6f, %9.6f, %9.6f]\n", label, z6(row[0]), z6(row[1]), z6(row[2]))
 	}
 	fmt.Fprintln(stdout)
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "link\tstart_mm\tend_mm\tux_per_m\tuy_per_m\tuz_per_m\tcurvature_per_m\t")
 	for i, l := range out.Links {
 		k := math.Hypot(l.Curvature[0], l.Curvature[1])
-		fmt.Fprintf(tw, "%d\t%.3f\t%.3f\t%.4f\t%.4f\t%.4f\t%.4f\t\n", i+1, l.Start, l.End, l.Curvature[0], l.Curvature[1], l.Curvature[2], k)
+		fmt.Fprintf(tw, "%d\t%.3f\t%.3f\t%.4f\t%.4f\t%.4f\t%.4f\t\n", i+1, l.Start, l.End, z4(l.Curvature[0]), z4(l.Curvature[1]), z4(l.Curvature[2]), k)
 	}
 	tw.Flush()
 	fmt.Fprintln(stdout)
 	tw = tabwriter.NewWriter(stdout, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "s_mm\tx_mm\ty_mm\tz_mm\t")
 	for i, p := range out.Backbone {
-		fmt.Fprintf(tw, "%.3f\t%.4f\t%.4f\t%.4f\t\n", ss[i]*1e3, p[0], p[1], p[2])
+		fmt.Fprintf(tw, "%.3f\t%.4f\t%.4f\t%.4f\t\n", ss[i]*1e3, z4(p[0]), z4(p[1]), z4(p[2]))
 	}
 	return tw.Flush()
 }
@@ -201,4 +201,19 @@ func joinFloats(v []float64, scale float64) string {
 		parts[i] = fmt.Sprintf("%g", clean(math.Round(x*scale*1e9)/1e9))
 	}
 	return strings.Join(parts, ",")
+}
+
+// z4 and z6 turn values that print as -0 at 4 or 6 decimals into 0.
+func z4(x float64) float64 {
+	if math.Abs(x) < 5e-5 {
+		return 0
+	}
+	return x
+}
+
+func z6(x float64) float64 {
+	if math.Abs(x) < 5e-7 {
+		return 0
+	}
+	return x
 }

@@ -27,6 +27,16 @@ func (t Tube) Length() float64 { return t.StraightLength + t.CurvedLength }
 // Thread couples tube Inner (0-based) to tube Inner+1 by a single-start
 // helical thread of the given lead: rotating the inner tube by Δθ relative
 // to the outer one advances the inner tube axially by Lead·Δθ/(2π).
+//
+// Sign convention: Δθ = θ_Inner − θ_Inner+1, and a positive Δθ (the inner
+// tube turned by the right-hand rule about +z relative to the outer one)
+// advances the inner tube distally, toward +z (a right-handed thread; a
+// negative Lead models a left-handed one). The effective insertion of the
+// inner tube is β_Inner + Lead·(θ_Inner − θ_Inner+1)/(2π), where β_Inner is
+// its insertion at zero relative rotation. A threaded tube rides along with
+// the tube it is threaded into, so along a chain of threads the advances add
+// up from the outside in. Every evaluation (CheckActuation, Links, Tip,
+// Backbone, Solver) applies threads automatically.
 type Thread struct {
 	Inner int
 	Lead  float64 // m per turn

@@ -1,0 +1,394 @@
+package kinematics
+
+import (
+	"fmt"
+	"math"
+)
+
+// solverTube holds what does not depend on the actuation.
+type solverTube struct {
+	L, Ls   float64 // total and straight length, m
+	m, d, q float64 // bending parts (see bendingParts), N·m²
+	bx, by  float64 // own-frame moment K_i u*_i of the curved part, N·m
+	gj      float64 // N·m²
+	rho     float64 // kg/m
+}
+
+// Solver evaluates the kinematics of one Robot many times without
+// allocating: the per-tube constants (lengths, stiffness parts, the
+// own-frame moments K_i u*_i, thread rates) are computed once by NewSolver.
+// Its results equal those of the Robot methods (Links, Tip, Backbone) to
+// rounding.
+//
+// A Solver keeps scratch space, so it is not safe for concurrent use; give
+// each goroutine its own (Clone). Later changes to the Robot are not seen.
+type Solver struct {
+	n       int
+	tol     float64 // merge and nesting slack 1e-12·max L_i
+	iso     bool    // every tube has an isotropic bending tensor
+	tubes   []solverTube
+	rate    []float64 // thread advance per radian of each tube; nil if none
+	L       []float64
+	Ls      []float64
+	sumM    float64 // Σ m_i over all tubes
+	invSumM float64 // 1/sumM (isotropic single-link fast path)
+	sumGJ   float64
+	sumRh   float64
+
+	// scratch
+	beta []float64 // effective insertions
+	c, s []float64 // cos θ_i, sin θ_i
+	bp   []float64 // breakpoints
+}
+
+// NewSolver validates r (see Validate) and precomputes its constants.
+func NewSolver(r *Robot) (*Solver, error) {
+	if err := r.Validate(); err != nil {
+		return nil, err
+	}
+	n := len(r.Tubes)
+	s := &Solver{
+		n:     n,
+		iso:   true,
+		tubes: make([]solverTube, n),
+		rate:  threadRates(r),
+		L:     make([]float64, n),
+		Ls:    make([]float64, n),
+	}
+	for i, t := range r.Tubes {
+		m, d, q := bendingParts(t.Bending)
+		ux, uy := t.Precurvature[0], t.Precurvature[1]
+		s.tubes[i] = solverTube{
+			L: t.Length(), Ls: t.StraightLength,
+			m: m, d: d, q: q,
+			bx: t.Bending[0][0]*ux + q*uy,
+			by: q*ux + t.Bending[1][1]*uy,
+			gj: t.Torsion, rho: t.LinearDensity,
+		}
+		if d != 0 || q != 0 {
+			s.iso = false
+		}
+		s.L[i], s.Ls[i] = t.Length(), t.StraightLength
+		s.sumM += m
+		s.sumGJ += t.Torsion
+		s.sumRh += t.LinearDensity
+	}
+	s.tol = lengthTol(s.L)
+	s.invSumM = 1 / s.sumM
+	s.allocScratch()
+	return s, nil
+}
+
+func (s *Solver) allocScratch() {
+	s.beta = make([]float64, s.n)
+	s.c = make([]float64, s.n)
+	s.s = make([]float64, s.n)
+	s.bp = make([]float64, 0, 2*s.n+1)
+}
+
+// Clone returns a Solver for the same robot with its own scratch space, for
+// use in another goroutine.
+func (s *Solver) Clone() *Solver {
+	c := *s
+	c.allocScratch()
+	return &c
+}
+
+// N returns the number of tubes.
+func (s *Solver) N() int { return s.n }
+
+// prepare checks the actuation and returns the effective insertions
+// (threads applied) and the tip arc length. The slow path builds the error
+// message only when a check fails.
+func (s *Solver) prepare(theta, beta []float64) ([]float64, float64, error) {
+	n := s.n
+	if len(theta) != n || len(beta) != n {
+		return nil, 0, checkActuationValues(n, theta, beta)
+	}
+	b := beta
+	if s.rate != nil {
+		b = s.beta[:n]
+		applyThreads(s.rate, theta, beta, b)
+	}
+	tol := s.tol
+	ok := true
+	prevB, prevEnd := math.Inf(-1), math.Inf(1)
+	for i := range n {
+		bi := b[i]
+		end := bi + s.L[i]
+		// All comparisons are false for NaN, so a NaN fails them.
+		ok = ok && theta[i]-theta[i] == 0 && prevB <= bi+tol && end <= prevEnd+tol
+		prevB, prevEnd = bi, end
+	}
+	ok = ok && prevB <= tol && prevEnd >= -tol && !math.IsInf(prevEnd, 0)
+	if !ok {
+		if err := checkActuationValues(n, theta, beta); err != nil {
+			return nil, 0, err
+		}
+		return nil, 0, nestingError(b, s.L, s.rate, tol)
+	}
+	return b, b[0] + s.L[0], nil
+}
+
+// Tip returns the tip pose for angles theta (rad) and insertions beta (m),
+// innermost first, as Robot.Tip does, without allocating. The common case of
+// a single link (every tube ending at the tip and either straight or curved
+// along the whole robot) is evaluated in one pass over the tubes that also
+// checks the nesting inequalities; otherwise the links are chained.
+func (s *Solver) Tip(theta, beta []float64) (Pose, error) {
+	n := s.n
+	if len(theta) != n || len(beta) != n {
+		return Pose{}, checkActuationValues(n, theta, beta)
+	}
+	b := beta
+	if s.rate != nil {
+		b = s.beta[:n]
+		applyThreads(s.rate, theta, beta, b)
+	}
+	tubes := s.tubes[:n]
+	theta, b = theta[:n], b[:n]
+	tol := s.tol
+	tip := b[0] + tubes[0].L
+	lo, hi := tol, tip-tol
+	// Nesting (PHYSICS §3.2) as in prepare; comparisons fail for NaN.
+	ok := theta[0]-theta[0] == 0
+	single := true
+	cs, sn := s.c[:n], s.s[:n]
+	var curved uint64
+	for i := range tubes {
+		t := &tubes[i]
+		bi := b[i]
+		end := bi + t.L
+		if i > 0 {
+			ok = ok && theta[i]-theta[i] == 0 && b[i-1] <= bi+tol && end <= b[i-1]+tubes[i-1].L+tol
+		}
+		start := bi + t.Ls
+		isCurved := start <= lo
+		single = single && end >= hi && (isCurved || start >= hi)
+		if !single {
+			break
+		}
+		if isCurved {
+			curved |= 1 << i
+		}
+		// The calls come first and the sums after, so that no partial sum
+		// is live (spilled) across a call.
+		if isCurved || !s.iso {
+			sn[i], cs[i] = sincos(theta[i])
+		}
+	}
+	var mx, my, kxx, kxy, kyy float64
+	if single {
+		for i := range tubes {
+			t := &tubes[i]
+			if !s.iso {
+				xx, xy, yy := rotatedBending(t.m, t.d, t.q, cs[i], sn[i])
+				kxx += xx
+				kxy += xy
+				kyy += yy
+			}
+			if curved&(1<<i) != 0 {
+				mx += cs[i]*t.bx - sn[i]*t.by
+				my += sn[i]*t.bx + cs[i]*t.by
+			}
+		}
+	}
+	if !single || !ok || !(b[n-1] <= tol && b[n-1]+tubes[n-1].L >= -tol) || tip <= tol {
+		// Not a single link, an infeasible actuation, or no link at all.
+		b, tip, err := s.prepare(theta, beta)
+		if err != nil {
+			return Pose{}, err
+		}
+		if tip <= tol {
+			return Identity(), nil
+		}
+		return s.chain(theta, b)
+	}
+	var ux, uy float64
+	if s.iso {
+		ux, uy = mx*s.invSumM, my*s.invSumM
+	} else {
+		idet := 1 / (kxx*kyy - kxy*kxy)
+		ux, uy = (mx*kyy-kxy*my)*idet, (kxx*my-kxy*mx)*idet
+	}
+	// linkPose for planar u = (ux, uy, 0), assembled here so that the
+	// result is written once, in place.
+	k2 := ux*ux + uy*uy
+	a, bb, c, cx := linkCoeffs(k2, tip)
+	bx, by := bb*ux, bb*uy
+	return Pose{
+		R: [3][3]float64{
+			{cx + bx*ux, bx * uy, a * uy},
+			{bx * uy, cx + by*uy, 0 - a*ux},
+			{0 - a*uy, a * ux, cx},
+		},
+		// 0 − x rather than −x: no negative zeros when straight (as in
+		// linkPose).
+		P: [3]float64{by, 0 - bx, tip - c*k2},
+	}, nil
+}
+
+// segment computes the breakpoints and each tube's cos θ, sin θ.
+func (s *Solver) segment(theta, b []float64) []float64 {
+	for i := range s.n {
+		s.s[i], s.c[i] = sincos(theta[i])
+	}
+	s.bp = segmentBreakpoints(b, s.L, s.Ls, s.tol, s.bp)
+	return s.bp
+}
+
+// linkSums accumulates, over the tubes present on [lo, hi] (PHYSICS §3.2,
+// step 2), the composite stiffness, the moments Σ R_z(θ_i) K_i u*_i of the
+// curved ones, the mass per length and the tube sets. It needs segment's
+// cos θ_i, sin θ_i.
+func (s *Solver) linkSums(b []float64, lo, hi float64) (kxx, kxy, kyy, gj, mx, my, mass float64, present, curved uint64) {
+	tol := s.tol
+	b = b[:len(s.tubes)]
+	for i := range s.tubes {
+		t := &s.tubes[i]
+		if b[i]+t.L < hi-tol {
+			continue
+		}
+		present |= 1 << i
+		cn, sn := s.c[i], s.s[i]
+		if s.iso {
+			kxx += t.m
+			kyy += t.m
+		} else {
+			xx, xy, yy := rotatedBending(t.m, t.d, t.q, cn, sn)
+			kxx += xx
+			kxy += xy
+			kyy += yy
+		}
+		gj += t.gj
+		mass += t.rho
+		if lo >= b[i]+t.Ls-tol {
+			curved |= 1 << i
+			mx += cn*t.bx - sn*t.by
+			my += sn*t.bx + cn*t.by
+		}
+	}
+	return kxx, kxy, kyy, gj, mx, my, mass, present, curved
+}
+
+// linkCurvature solves the 2×2 system (3.1) by Cramer's rule.
+func linkCurvature(j int, lo, hi, kxx, kxy, kyy, mx, my float64) (ux, uy float64, err error) {
+	det := kxx*kyy - kxy*kxy
+	if !(kxx > 0 && det > 0) {
+		return 0, 0, fmt.Errorf("kinematics: link %d (%s to %s): summed link stiffness is not positive definite "+
+			"(EI_xx %g N·m², EI_xy %g N·m², EI_yy %g N·m²)", j+1, mm(lo), mm(hi), kxx, kxy, kyy)
+	}
+	idet := 1 / det
+	return (mx*kyy - kxy*my) * idet, (kxx*my - kxy*mx) * idet, nil
+}
+
+// mulPlanarLink sets *dst = base·exp(ξ̂ s) for the planar curvature
+// u = (ux, uy, 0) (the link pose of (3.2) with u_z = 0, as in Tip). dst may
+// be base. Row i of the product depends only on row i of base, so the update
+// is done row by row from scalars, without Pose temporaries.
+func mulPlanarLink(dst, base *Pose, ux, uy, s float64) {
+	k2 := ux*ux + uy*uy
+	a, bb, c, cx := linkCoeffs(k2, s)
+	bx, by := bb*ux, bb*uy
+	l00, l01, l02 := cx+bx*ux, bx*uy, a*uy
+	l10, l11, l12 := bx*uy, cx+by*uy, 0-a*ux
+	l20, l21, l22 := 0-a*uy, a*ux, cx
+	p0, p1, p2 := by, 0-bx, s-c*k2
+	for i := range 3 {
+		r0, r1, r2 := base.R[i][0], base.R[i][1], base.R[i][2]
+		pi := base.P[i]
+		dst.R[i][0] = r0*l00 + r1*l10 + r2*l20
+		dst.R[i][1] = r0*l01 + r1*l11 + r2*l21
+		dst.R[i][2] = r0*l02 + r1*l12 + r2*l22
+		dst.P[i] = r0*p0 + r1*p1 + r2*p2 + pi
+	}
+}
+
+// chain multiplies the link transforms of the general case.
+func (s *Solver) chain(theta, b []float64) (Pose, error) {
+	bp := s.segment(theta, b)
+	t := Identity()
+	for j := 0; j+1 < len(bp); j++ {
+		lo, hi := bp[j], bp[j+1]
+		kxx, kxy, kyy, _, mx, my, _, _, _ := s.linkSums(b, lo, hi)
+		ux, uy, err := linkCurvature(j, lo, hi, kxx, kxy, kyy, mx, my)
+		if err != nil {
+			return Pose{}, err
+		}
+		mulPlanarLink(&t, &t, ux, uy, hi-lo)
+	}
+	return t, nil
+}
+
+// Links appends the links of the backbone to dst[:0], as Robot.Links does.
+// It does not allocate when cap(dst) suffices (at most 2n links).
+func (s *Solver) Links(theta, beta []float64, dst []Link) ([]Link, error) {
+	dst = dst[:0]
+	b, tip, err := s.prepare(theta, beta)
+	if err != nil || tip <= s.tol {
+		return dst, err
+	}
+	bp := s.segment(theta, b)
+	for j := 0; j+1 < len(bp); j++ {
+		lo, hi := bp[j], bp[j+1]
+		kxx, kxy, kyy, gj, mx, my, mass, present, curved := s.linkSums(b, lo, hi)
+		ux, uy, err := linkCurvature(j, lo, hi, kxx, kxy, kyy, mx, my)
+		if err != nil {
+			return dst, err
+		}
+		dst = append(dst, Link{
+			Start: lo, End: hi,
+			U:             [3]float64{ux, uy, 0},
+			K:             [3][3]float64{{kxx, kxy, 0}, {kxy, kyy, 0}, {0, 0, gj}},
+			MassPerLength: mass,
+			Present:       present,
+			Curved:        curved,
+		})
+	}
+	return dst, nil
+}
+
+// Backbone appends backbone samples to ss[:0] and poses[:0], as
+// Robot.Backbone does (s = 0 first, equal steps no longer than maxStep
+// within each link, every link boundary and the tip included). It does not
+// allocate when the capacities suffice.
+func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, poses []Pose) ([]float64, []Pose, error) {
+	ss, poses = ss[:0], poses[:0]
+	if !(maxStep > 0) {
+		return ss, poses, fmt.Errorf("kinematics: backbone step %s (expected > 0)", mm(maxStep))
+	}
+	b, tip, err := s.prepare(theta, beta)
+	if err != nil {
+		return ss, poses, err
+	}
+	ss = append(ss, 0)
+	poses = append(poses, Identity())
+	if tip <= s.tol {
+		return ss, poses, nil
+	}
+	bp := s.segment(theta, b)
+	for j := 0; j+1 < len(bp); j++ {
+		lo, hi := bp[j], bp[j+1]
+		kxx, kxy, kyy, _, mx, my, _, _, _ := s.linkSums(b, lo, hi)
+		ux, uy, err := linkCurvature(j, lo, hi, kxx, kxy, kyy, mx, my)
+		if err != nil {
+			return ss, poses, err
+		}
+		length := hi - lo
+		k := linkSteps(length, maxStep)
+		// Each sample is base·exp(ξ̂ ds) from the pose at the link start,
+		// evaluated directly rather than accumulated.
+		base := len(poses) - 1
+		for i := 1; i <= k; i++ {
+			ds := length * float64(i) / float64(k)
+			sv := lo + ds
+			if i == k {
+				ds, sv = length, hi
+			}
+			ss = append(ss, sv)
+			poses = append(poses, Pose{})
+			mulPlanarLink(&poses[len(poses)-1], &poses[base], ux, uy, ds)
+		}
+	}
+	return ss, poses, nil
+}
