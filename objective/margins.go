@@ -76,13 +76,13 @@ func (e *evaluator) sag(res *Result) error {
 	shape.Iterations += free.Iterations
 	sc.TipSag = sag
 	sc.SagIterations = shape.Iterations
-	linLoad := kinematics.Load{Gravity: g}
+	// Linear estimate at the same configuration: the compliance on a fine
+	// grid (PHYSICS §4.3).
+	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 400}
+	C := fine.compliance(links)
+	var dp [3]float64
 	for i := range 3 {
-		linLoad.TipForce[i] = ld.PayloadMass * g[i]
-	}
-	dp, _, err := kinematics.LinearTipDeflection(links, linLoad)
-	if err != nil {
-		return err
+		dp[i] = C[i][0]*g[0] + C[i][1]*g[1] + C[i][2]*g[2]
 	}
 	sc.TipSagLinear = dp[0]*gh[0] + dp[1]*gh[1] + dp[2]*gh[2]
 	L := links[len(links)-1].End

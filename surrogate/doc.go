@@ -4,4 +4,35 @@
 // opening and peak wall strain per unit curvature change.
 //
 // All quantities are SI: metres, pascals, newtons, N·m², kg/m, radians.
+//
+// Geometry conventions: OuterDiameter is the outside diameter at the crown
+// outer surface, Depth w runs from the root centreline to the crown
+// centreline, so the mean radius is Rm = OD/2 − t/2 − w/2 (PHYSICS §1.2).
+// Printed walls are orthotropic: meridional bending (axial and bending
+// stiffness, strain) uses ModulusAcross (across layers in an upright
+// print), hoop action uses ModulusInLayer, and torsion the lower shear
+// modulus G = ModulusAcross/(2(1+ν)).
+//
+// Two fidelities (Bellows.Section):
+//
+//   - Strip: the r-weighted curved-strip model of one pitch (microseconds),
+//     corrected for hoop stiffening by factors interpolated from tables
+//     that the shell model generates (hoop_table_gen.go, made by
+//     `go generate` from gen_hoop.go). Outside the tables the shell model
+//     runs instead.
+//   - Shell: a linear axisymmetric Kirchhoff–Love shell finite-element
+//     model of half a convolution with conical-frustum elements
+//     (milliseconds).
+//
+// The beam analogy (EA, EI tensor with an optional axial spine, GJ by the
+// membrane formula, helical correction) follows the project's physics
+// reference §6; EJMA-style formulas for metal U-bellows are provided for
+// comparison with the literature (EJMAAxialRate and friends), and a small
+// table of generic printable materials (LookupMaterial).
+//
+// Limits (PHYSICS §6.10): linear elastic, small movement per convolution
+// (e ≲ 0.1·w), no convolution contact, unpressurised; the beam analogy
+// assumes N ≳ 5 convolutions, L ≳ Dm and Dm ≫ w; the orthotropic shell
+// (geometric-mean Poisson coupling) and the helical torsion correction
+// are not validated against tests.
 package surrogate

@@ -1,0 +1,273 @@
+package surrogate
+
+import (
+	"errors"
+	"math"
+
+	"gonum.org/v1/gonum/blas/blas64"
+	"gonum.org/v1/gonum/lapack/lapack64"
+	"gonum.org/v1/gonum/mat"
+)
+
+// DefaultShellElements is the default number of shell elements per arc,
+// flank or flat of half a convolution (five times as many on a half
+// sinusoid): 80 + 80 + 80 for a half U-convolution, 400 for a half
+// sinusoid (PHYSICS §6.3 reference resolution).
+const DefaultShellElements = 80
+
+// shellMat is the wall of the shell model: meridional modulus Es (across
+// layers), hoop modulus Et (in layer), one Poisson ratio and thickness.
+// The orthotropic constitutive matrices use the geometric-mean coupling
+// ν·sqrt(Es·Et) (Huber's approximation for orthotropic plates, Huber 1923,
+// from memory), which is symmetric, positive definite for ν < 1 and
+// isotropic when Es = Et:
+//
+//	[N_s, N_θ] = t/(1−ν²)·[[Es, ν√(Es Et)], [ν√(Es Et), Et]]·[ε_s, ε_θ]
+//	[M_s, M_θ] = t³/(12(1−ν²))·(same matrix)·[κ_s, κ_θ]
+type shellMat struct{ Es, Et, nu, t float64 }
+
+// gauss5 are the 5-point Gauss–Legendre nodes and weights on [0, 1]
+// (Abramowitz & Stegun 1964, Table 25.4, mapped from [−1, 1]).
+var gauss5x, gauss5w = func() ([5]float64, [5]float64) {
+	x := [5]float64{-0.9061798459386640, -0.5384693101056831, 0, 0.5384693101056831, 0.9061798459386640}
+	w := [5]float64{0.2369268850561891, 0.4786286704993665, 0.5688888888888889, 0.4786286704993665, 0.2369268850561891}
+	for i := range x {
+		x[i] = (x[i] + 1) / 2
+		w[i] /= 2
+	}
+	return x, w
+}()
+
+// elementStiffness returns the global 6×6 stiffness of the conical-frustum
+// element from (r1, z1) to (r2, z2) (PHYSICS §6.3): local DOFs per node
+// u (tangential, linear), w (normal, cubic Hermite with slopes ×ℓ),
+// χ = dw/ds; strains ε_s = du/ds, ε_θ = (u cφ − w sφ)/r, κ_s = −d²w/ds²,
+// κ_θ = −(cφ/r) dw/ds; K_e = 2π ∫ Bᵀ C B r ds by 5-point Gauss; global DOFs
+// (U radial, W axial, χ) with u = U cφ + W sφ, w = −U sφ + W cφ.
+// This is the frustum element of Grafton & Strome, Analysis of
+// axisymmetrical shells by the direct stiffness method, AIAA J. 1, 1963
+// (from memory).
+func elementStiffness(r1, z1, r2, z2 float64, m shellMat, ke *[6][6]float64) {
+	l := math.Hypot(r2-r1, z2-z1)
+	c, s := (r2-r1)/l, (z2-z1)/l
+	f := m.t / (1 - m.nu*m.nu)
+	a11, a22, a12 := f*m.Es, f*m.Et, f*m.nu*math.Sqrt(m.Es*m.Et)
+	g := m.t * m.t / 12
+	d11, d22, d12 := g*a11, g*a22, g*a12
+
+	var kl [6][6]float64
+	for q, xi := range gauss5x {
+		r := r1 + xi*(r2-r1)
+		x2, x3 := xi*xi, xi*xi*xi
+		h := [4]float64{1 - 3*x2 + 2*x3, (xi - 2*x2 + x3) * l, 3*x2 - 2*x3, (-x2 + x3) * l}
+		hp := [4]float64{(-6*xi + 6*x2) / l, 1 - 4*xi + 3*x2, (6*xi - 6*x2) / l, -2*xi + 3*x2}             // dw/ds
+		hpp := [4]float64{(-6 + 12*xi) / (l * l), (-4 + 6*xi) / l, (6 - 12*xi) / (l * l), (-2 + 6*xi) / l} // d²w/ds²
+		var b [4][6]float64
+		b[0][0], b[0][3] = -1/l, 1/l
+		b[1][0], b[1][3] = c*(1-xi)/r, c*xi/r
+		for k, j := range [4]int{1, 2, 4, 5} {
+			b[1][j] = -s * h[k] / r
+			b[2][j] = -hpp[k]
+			b[3][j] = -c * hp[k] / r
+		}
+		wq := 2 * math.Pi * gauss5w[q] * r * l
+		for i := 0; i < 6; i++ {
+			// (C B)_{·,i}
+			cb0 := a11*b[0][i] + a12*b[1][i]
+			cb1 := a12*b[0][i] + a22*b[1][i]
+			cb2 := d11*b[2][i] + d12*b[3][i]
+			cb3 := d12*b[2][i] + d22*b[3][i]
+			for j := 0; j <= i; j++ {
+				v := wq * (b[0][j]*cb0 + b[1][j]*cb1 + b[2][j]*cb2 + b[3][j]*cb3)
+				kl[j][i] += v
+			}
+		}
+	}
+	for i := 0; i < 6; i++ {
+		for j := 0; j < i; j++ {
+			kl[i][j] = kl[j][i]
+		}
+	}
+	// K = Tᵀ K_l T, T = blockdiag(R, R), R = [[c, s, 0], [−s, c, 0], [0, 0, 1]].
+	var t [6][6]float64
+	for n := 0; n < 2; n++ {
+		o := 3 * n
+		t[o][o], t[o][o+1] = c, s
+		t[o+1][o], t[o+1][o+1] = -s, c
+		t[o+2][o+2] = 1
+	}
+	var kt [6][6]float64 // K_l T
+	for i := 0; i < 6; i++ {
+		for j := 0; j < 6; j++ {
+			var v float64
+			for k := 0; k < 6; k++ {
+				v += kl[i][k] * t[k][j]
+			}
+			kt[i][j] = v
+		}
+	}
+	for i := 0; i < 6; i++ {
+		for j := 0; j < 6; j++ {
+			var v float64
+			for k := 0; k < 6; k++ {
+				v += t[k][i] * kt[k][j]
+			}
+			ke[i][j] = v
+		}
+	}
+}
+
+// shellProblem is a linear axisymmetric shell problem on a meridian
+// polyline: three global DOFs per node (U radial, W axial, χ rotation),
+// index 3i+0..2. Loads are total (around the circumference) nodal forces.
+type shellProblem struct {
+	r, z  []float64
+	mat   shellMat
+	fixed []bool    // per DOF
+	value []float64 // prescribed values of fixed DOFs
+	load  []float64 // nodal loads of free DOFs
+}
+
+const shellBand = 5 // half bandwidth: an element couples 6 consecutive DOFs
+
+// solve returns the displacements and the reactions K·d − load.
+func (p *shellProblem) solve() (d, react []float64, err error) {
+	nn := len(p.r)
+	if nn < 2 {
+		return nil, nil, errors.New("surrogate: shell mesh needs at least two nodes")
+	}
+	n := 3 * nn
+	bw := shellBand + 1
+	kb := make([]float64, n*bw) // upper band, row-major: K[i][j] at i*bw + j − i
+	var ke [6][6]float64
+	for e := 0; e+1 < nn; e++ {
+		elementStiffness(p.r[e], p.z[e], p.r[e+1], p.z[e+1], p.mat, &ke)
+		o := 3 * e
+		for i := 0; i < 6; i++ {
+			for j := i; j < 6; j++ {
+				kb[(o+i)*bw+j-i] += ke[i][j]
+			}
+		}
+	}
+	orig := append([]float64(nil), kb...)
+	at := func(i, j int) float64 { // symmetric access into orig
+		if j < i {
+			i, j = j, i
+		}
+		if j-i > shellBand {
+			return 0
+		}
+		return orig[i*bw+j-i]
+	}
+	rhs := make([]float64, n)
+	for i := range rhs {
+		if p.load != nil && !p.fixed[i] {
+			rhs[i] = p.load[i]
+		}
+	}
+	for j := 0; j < n; j++ {
+		if !p.fixed[j] {
+			continue
+		}
+		v := p.value[j]
+		for i := max(0, j-shellBand); i <= min(n-1, j+shellBand); i++ {
+			if i != j && !p.fixed[i] {
+				rhs[i] -= at(i, j) * v
+			}
+		}
+		for i := max(0, j-shellBand); i <= j; i++ {
+			kb[i*bw+j-i] = 0
+		}
+		for k := j; k <= min(n-1, j+shellBand); k++ {
+			kb[j*bw+k-j] = 0
+		}
+		kb[j*bw] = 1
+		rhs[j] = v
+	}
+	// Banded Cholesky (LAPACK dpbtrf/dpbtrs through gonum). mat.BandCholesky
+	// would add an O(n²) condition estimate that costs more than the solve.
+	a := mat.NewSymBandDense(n, shellBand, kb).RawSymBand()
+	u, ok := lapack64.Pbtrf(a)
+	if !ok {
+		return nil, nil, errors.New("surrogate: shell stiffness matrix is not positive definite")
+	}
+	d = rhs
+	lapack64.Pbtrs(u, blas64.General{Rows: n, Cols: 1, Stride: 1, Data: d})
+	for _, v := range d {
+		if !finite(v) {
+			return nil, nil, errors.New("surrogate: shell solve produced a non-finite displacement")
+		}
+	}
+	react = make([]float64, n)
+	for i := 0; i < n; i++ {
+		var v float64
+		for j := max(0, i-shellBand); j <= min(n-1, i+shellBand); j++ {
+			v += at(i, j) * d[j]
+		}
+		if p.load != nil {
+			v -= p.load[i]
+		}
+		react[i] = v
+	}
+	return d, react, nil
+}
+
+// peakMeridionalStrain returns max |ε_s ± κ_s t/2| over the element ends
+// (κ_s is linear and ε_s constant in an element, so the ends bound it).
+func (p *shellProblem) peakMeridionalStrain(d []float64) float64 {
+	var peak float64
+	for e := 0; e+1 < len(p.r); e++ {
+		dr, dz := p.r[e+1]-p.r[e], p.z[e+1]-p.z[e]
+		l := math.Hypot(dr, dz)
+		c, s := dr/l, dz/l
+		o := 3 * e
+		u1 := c*d[o] + s*d[o+1]
+		w1 := -s*d[o] + c*d[o+1]
+		u2 := c*d[o+3] + s*d[o+4]
+		w2 := -s*d[o+3] + c*d[o+4]
+		x1, x2 := d[o+2], d[o+5]
+		es := (u2 - u1) / l
+		// κ_s = −d²w/ds² at ξ = 0 and ξ = 1.
+		k0 := -((-6*w1+6*w2)/(l*l) + (-4*x1-2*x2)/l)
+		k1 := -((6*w1-6*w2)/(l*l) + (2*x1+4*x2)/l)
+		for _, k := range [2]float64{k0, k1} {
+			peak = math.Max(peak, math.Abs(es+k*p.mat.t/2))
+			peak = math.Max(peak, math.Abs(es-k*p.mat.t/2))
+		}
+	}
+	return peak
+}
+
+// shellResult is the shell model of one convolution.
+type shellResult struct {
+	k       float64 // k_conv = F_a/(2δ), N/m
+	epsPerE float64 // peak meridional surface strain per unit movement e, 1/m
+}
+
+// shellModel runs the axisymmetric shell model on half a convolution
+// (PHYSICS §6.3): root apex W = 0, χ = 0; crown apex W = δ, χ = 0; U free;
+// k_conv = F_a/(2δ) (two half convolutions in series, movement e = 2δ).
+func shellModel(g *Geometry, mtl *Material, perSeg int) (shellResult, error) {
+	m := g.halfMeridian()
+	r, z := m.nodes(perSeg)
+	nn := len(r)
+	p := shellProblem{
+		r: r, z: z,
+		mat:   shellMat{Es: mtl.ModulusAcross, Et: mtl.ModulusInLayer, nu: mtl.Poisson, t: g.Wall},
+		fixed: make([]bool, 3*nn),
+		value: make([]float64, 3*nn),
+	}
+	const delta = 1.0 // linear model: any δ
+	last := 3 * (nn - 1)
+	p.fixed[1], p.fixed[2] = true, true
+	p.fixed[last+1], p.fixed[last+2] = true, true
+	p.value[last+1] = delta
+	d, react, err := p.solve()
+	if err != nil {
+		return shellResult{}, err
+	}
+	return shellResult{
+		k:       react[last+1] / (2 * delta),
+		epsPerE: p.peakMeridionalStrain(d) / (2 * delta),
+	}, nil
+}
