@@ -171,14 +171,18 @@ func (s *Solver) Tip(theta, beta []float64) (Pose, error) {
 		if isCurved {
 			curved |= 1 << i
 		}
-		// The calls come first and the sums after, so that no partial sum
-		// is live (spilled) across a call.
-		if isCurved || !s.iso {
-			sn[i], cs[i] = sincos(theta[i])
-		}
 	}
 	var mx, my, kxx, kxy, kyy float64
 	if single {
+		// The calls come first and the sums after, so that no partial sum
+		// is live (spilled) across a call; angles go in pairs.
+		i := 0
+		for ; i+1 < n; i += 2 {
+			sn[i], cs[i], sn[i+1], cs[i+1] = sincos2(theta[i], theta[i+1])
+		}
+		if i < n {
+			sn[i], cs[i] = sincos(theta[i])
+		}
 		for i := range tubes {
 			t := &tubes[i]
 			if !s.iso {

@@ -1,0 +1,83 @@
+package objective
+
+import (
+	"math"
+	"sort"
+)
+
+// Score names a score in file units, for objectives, constraints and
+// outputs.
+type Score struct {
+	Name  string // with its unit, e.g. "tip_sag_mm"
+	Doc   string
+	Value func(*Scores) float64 // in the unit of the name
+}
+
+var scoreList = []Score{
+	{"tip_sag_mm", "worst tip sag under self-weight and payload over the workspace (exact rod model)", func(s *Scores) float64 { return s.TipSag * mmPerM }},
+	{"tip_sag_linear_mm", "small-load linear estimate of the tip sag at the same configuration", func(s *Scores) float64 { return s.TipSagLinear * mmPerM }},
+	{"reach_mm", "largest lateral distance of the tip from the base axis", func(s *Scores) float64 { return s.Reach * mmPerM }},
+	{"bend_angle_range_deg", "range of the tip angle from the base axis over the workspace", func(s *Scores) float64 { return s.BendAngleRange * degPerR }},
+	{"surface_area_mm2", "area of the tip surface (two actuation parameters)", func(s *Scores) float64 { return s.SurfaceArea * 1e6 }},
+	{"volume_mm3", "voxel volume of the tip point cloud (three or more actuation parameters)", func(s *Scores) float64 { return s.Volume * 1e9 }},
+	{"task_coverage", "fraction of task points reached", func(s *Scores) float64 { return s.TaskCoverage }},
+	{"residual_curvature_per_m", "largest nested-section curvature at the straightest configuration", func(s *Scores) float64 { return s.ResidualCurvature }},
+	{"straight_tip_offset_mm", "tip lateral offset at the straightest configuration", func(s *Scores) float64 { return s.StraightTipOffset * mmPerM }},
+	{"curvature_min_per_m", "smallest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMin }},
+	{"curvature_max_per_m", "largest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMax }},
+	{"peak_strain", "largest meridional wall strain over the workspace", func(s *Scores) float64 { return s.PeakStrain }},
+	{"strain_ratio", "peak strain divided by the allowable strain (worst bellows)", strainRatio},
+	{"stability_margin", "smallest snap margin 1 − L/L_crit over neighbouring pairs", func(s *Scores) float64 { return s.StabilityMargin }},
+	{"mass_g", "mass of the bellows", func(s *Scores) float64 { return s.Mass * 1e3 }},
+	{"payload_to_weight", "payload mass divided by the bellows mass", func(s *Scores) float64 { return s.PayloadToWeight }},
+	{"min_clearance_mm", "smallest radial clearance between neighbouring bellows", func(s *Scores) float64 { return s.MinClearance * mmPerM }},
+}
+
+func strainRatio(s *Scores) float64 {
+	if math.IsNaN(s.PeakStrain) || math.IsNaN(s.AllowableStrain) || s.AllowableStrain == 0 {
+		return math.NaN()
+	}
+	return s.PeakStrain / s.AllowableStrain
+}
+
+// LookupScore finds a score by its name.
+func LookupScore(name string) (Score, bool) {
+	for _, s := range scoreList {
+		if s.Name == name {
+			return s, true
+		}
+	}
+	return Score{}, false
+}
+
+// ScoreNames lists every score name, sorted.
+func ScoreNames() []string {
+	out := make([]string, len(scoreList))
+	for i, s := range scoreList {
+		out[i] = s.Name
+	}
+	sort.Strings(out)
+	return out
+}
+
+// AllScores lists the scores in their documented order.
+func AllScores() []Score { return append([]Score(nil), scoreList...) }
+
+// CheckNames lists the names of the checks Evaluate produces for designs of
+// this shape in this scenario, in order. The list depends on the scenario
+// and on which bellows have geometry, not on the values, so a search can
+// give every check a fixed constraint slot.
+func CheckNames(d *Design, sc *Scenario) []string {
+	if sc == nil {
+		sc = &Scenario{}
+	}
+	e := &evaluator{d: d, sc: sc}
+	res := &Result{}
+	res.Scores.StrainPerBellows = make([]float64, len(d.Bellows))
+	e.checks(res)
+	names := make([]string, len(res.Checks))
+	for i, c := range res.Checks {
+		names[i] = c.Name
+	}
+	return names
+}

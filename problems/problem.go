@@ -1,0 +1,483 @@
+package problems
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"math"
+	"os"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/BurntSushi/toml"
+
+	"plica/objective"
+	"plica/surrogate"
+)
+
+// A problem file is a design file in which any design variable may be a
+// range [lo, hi] (numbers) or a list of options (strings), plus the
+// objectives, extra constraints and search settings. The file's own units
+// apply to ranges.
+
+// numericVariables are the [[bellows]] keys that may be a range.
+var numericVariables = map[string]string{
+	"outer_diameter_mm":  "mm",
+	"depth_mm":           "mm",
+	"pitch_mm":           "mm",
+	"wall_mm":            "mm",
+	"crest_radius_mm":    "mm",
+	"flat_fraction":      "",
+	"spine_width_mm":     "mm",
+	"spine_angle_deg":    "deg",
+	"straight_length_mm": "mm",
+	"curved_length_mm":   "mm",
+	"precurvature_per_m": "1/m",
+}
+
+// categoricalVariables are the [[bellows]] keys that may be a list of options.
+var categoricalVariables = map[string]bool{"material": true, "profile": true, "winding": true}
+
+var (
+	problemOnlyKeys = []string{"objective", "constraint", "search"}
+	objectiveKeys   = []string{"score", "goal"}
+	constraintKeys  = []string{"score", "min", "max"}
+	searchKeys      = []string{"method", "population", "evaluations", "time", "seed", "workers",
+		"stall_generations", "stall_tolerance", "checkpoint_every", "weights"}
+	methodNames = []string{"nsga2", "ga"}
+	goalNames   = []string{"minimize", "maximize"}
+)
+
+// Variable is one design variable of a problem.
+type Variable struct {
+	Table int    // bellows index, 0-based (innermost first)
+	Key   string // key in the [[bellows]] table, e.g. "wall_mm"
+	Unit  string // unit of Lower and Upper, as in the key name
+	// Lower and Upper bound a numeric variable, in the file's units.
+	Lower, Upper float64
+	// Options lists the choices of a categorical variable (nil: numeric).
+	Options []string
+}
+
+// Path is the variable's key path, e.g. "bellows[2].wall_mm".
+func (v Variable) Path() string { return fmt.Sprintf("bellows[%d].%s", v.Table+1, v.Key) }
+
+// Objective is one score to minimise or maximise.
+type Objective struct {
+	Score    string
+	Maximize bool
+}
+
+// Constraint is an extra limit on a score, beyond [requirements].
+type Constraint struct {
+	Score    string
+	Min, Max float64 // NaN when not given
+}
+
+// SearchSettings are the [search] table, file units.
+type SearchSettings struct {
+	Method           string // "nsga2" or "ga"
+	Population       int    // 0: default
+	Evaluations      int64  // 0: default
+	Time             time.Duration
+	Seed             uint64
+	Workers          int // 0: all cores
+	StallGenerations int
+	StallTolerance   float64
+	CheckpointEvery  int       // generations; 0: default 5
+	Weights          []float64 // GA: one per objective
+}
+
+// Spec is a decoded problem file.
+type Spec struct {
+	File        string
+	Text        []byte
+	Variables   []Variable
+	Objectives  []Objective
+	Constraints []Constraint
+	Search      SearchSettings
+	// Checks are the requirement checks of every candidate (constraint
+	// slots), from objective.CheckNames.
+	Checks []string
+
+	base map[string]any // the decoded file, search-only tables removed
+	loc  *locator
+	// ties copies the outer bellows' pitch into a threaded inner bellows
+	// that gives none (a threaded pair shares one pitch).
+	ties [][2]int
+}
+
+// LoadProblem reads and checks a problem file.
+func LoadProblem(path string) (*Spec, error) {
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+	}
+	return ParseProblem(data, path)
+}
+
+// ParseProblem decodes a problem file. Every problem found is reported at
+// once, each with file:line:col, key and what was expected.
+func ParseProblem(data []byte, file string) (*Spec, error) {
+	r, root, err := decode(data, file)
+	if err != nil {
+		return nil, err
+	}
+	s := &Spec{File: file, Text: data, loc: r.loc}
+	s.readObjectives(root)
+	s.readConstraints(root)
+	s.readSearch(root.sub("search"))
+	base := map[string]any{}
+	for k, v := range root.m {
+		if !contains(problemOnlyKeys, k) {
+			base[k] = v
+		}
+	}
+	s.base = base
+	s.findVariables(r, root)
+	if len(r.errs) > 0 {
+		return nil, r.errs.sorted()
+	}
+	// Check the rest of the file with every variable at its lower and at
+	// its upper bound (field-level checks; the physics of each candidate is
+	// checked when it is evaluated).
+	seen := map[string]bool{}
+	var lo, hi []float64
+	for _, v := range s.Variables {
+		if v.Options != nil {
+			lo, hi = append(lo, 0), append(hi, float64(len(v.Options)-1))
+		} else {
+			lo, hi = append(lo, v.Lower), append(hi, v.Upper)
+		}
+	}
+	var tmpl *objective.Design
+	var sc *objective.Scenario
+	for pass, x := range [][]float64{lo, hi} {
+		rr := &reader{file: file, loc: r.loc}
+		t := rr.root(s.resolve(x))
+		d, ins := readDesign(rr, t)
+		scn := readScenario(t)
+		scn.Workspace.Insertion = ins
+		t.finish(append(append([]string{}, topKeys...), problemOnlyKeys...))
+		for _, e := range rr.errs {
+			if !seen[e.Error()] {
+				seen[e.Error()] = true
+				r.errs = append(r.errs, e)
+			}
+		}
+		if pass == 0 {
+			tmpl, sc = d, &scn
+		}
+	}
+	if len(r.errs) > 0 {
+		return nil, r.errs.sorted()
+	}
+	s.Checks = objective.CheckNames(tmpl, sc)
+	return s, nil
+}
+
+func contains(list []string, s string) bool {
+	for _, x := range list {
+		if x == s {
+			return true
+		}
+	}
+	return false
+}
+
+func (s *Spec) readObjectives(root *table) {
+	for _, t := range root.tables("objective") {
+		var o Objective
+		name, ok := t.text("score")
+		if !ok {
+			if !t.has("score") {
+				t.r.errorf(t.key("score"), "missing (expected one of: %s)", strings.Join(objective.ScoreNames(), "|"))
+			}
+		} else if _, known := objective.LookupScore(name); !known {
+			t.r.errorf(t.key("score"), "%q is not a score (expected one of: %s)", name, strings.Join(objective.ScoreNames(), "|"))
+		}
+		o.Score = name
+		o.Maximize = t.choice("goal", goalNames, "minimize") == "maximize"
+		t.finish(objectiveKeys)
+		s.Objectives = append(s.Objectives, o)
+	}
+	if len(s.Objectives) == 0 && !root.has("objective") {
+		root.r.errorf("objective", "no objectives (expected at least one [[objective]] table with score = one of: %s)", strings.Join(objective.ScoreNames(), "|"))
+	}
+}
+
+func (s *Spec) readConstraints(root *table) {
+	for _, t := range root.tables("constraint") {
+		c := Constraint{Min: math.NaN(), Max: math.NaN()}
+		name, ok := t.text("score")
+		if !ok && !t.has("score") {
+			t.r.errorf(t.key("score"), "missing (expected one of: %s)", strings.Join(objective.ScoreNames(), "|"))
+		} else if _, known := objective.LookupScore(name); ok && !known {
+			t.r.errorf(t.key("score"), "%q is not a score (expected one of: %s)", name, strings.Join(objective.ScoreNames(), "|"))
+		}
+		c.Score = name
+		if v, ok := t.number("min", "a lower limit in the score's unit", false); ok {
+			c.Min = v
+		}
+		if v, ok := t.number("max", "an upper limit in the score's unit", false); ok {
+			c.Max = v
+		}
+		switch {
+		case math.IsNaN(c.Min) && math.IsNaN(c.Max) && !t.has("min") && !t.has("max"):
+			t.r.errorf(t.key("score"), "constraint without a limit (expected min = ... or max = ...)")
+		case c.Min > c.Max:
+			t.r.errorf(t.key("min"), "%s is above max %s (expected min <= max)", fmtNum(c.Min), fmtNum(c.Max))
+		}
+		t.finish(constraintKeys)
+		s.Constraints = append(s.Constraints, c)
+	}
+}
+
+func (s *Spec) readSearch(t *table) {
+	st := &s.Search
+	st.Method = t.choice("method", methodNames, "nsga2")
+	st.Population = t.count("population", 4, 100000)
+	if v, ok := t.number("evaluations", "a whole number of evaluations >= 1", false); ok {
+		if v < 1 || v != math.Trunc(v) {
+			t.r.errorf(t.key("evaluations"), "%s is out of range (expected a whole number of evaluations >= 1)", fmtNum(v))
+		}
+		st.Evaluations = int64(v)
+	}
+	if v, ok := t.text("time"); ok {
+		d, err := time.ParseDuration(v)
+		if err != nil || d <= 0 {
+			t.r.errorf(t.key("time"), "%q is not a duration (expected e.g. \"90s\", \"20m\" or \"8h\")", v)
+		}
+		st.Time = d
+	}
+	if v, ok := t.number("seed", "a whole number >= 0", false); ok {
+		if v < 0 || v != math.Trunc(v) {
+			t.r.errorf(t.key("seed"), "%s is out of range (expected a whole number >= 0)", fmtNum(v))
+		}
+		st.Seed = uint64(v)
+	}
+	st.Workers = t.count("workers", 1, 4096)
+	st.StallGenerations = t.count("stall_generations", 1, 1000000)
+	if v, ok := t.positive("stall_tolerance", "a relative hypervolume improvement, e.g. 1e-4", false, false); ok {
+		st.StallTolerance = v
+	}
+	st.CheckpointEvery = t.count("checkpoint_every", 1, 1000000)
+	if t.has("weights") {
+		v, ok := t.get("weights")
+		arr, isArr := v.([]any)
+		if !ok || !isArr || len(arr) != len(s.Objectives) {
+			t.r.errorf(t.key("weights"), "found %s (expected one weight per objective, %d numbers >= 0)", describe(v), len(s.Objectives))
+		} else {
+			for i, e := range arr {
+				x, ok := asFloat(e)
+				if !ok || x < 0 || math.IsNaN(x) || math.IsInf(x, 0) {
+					t.r.errorf(t.key("weights"), "element %d is %s (expected a weight >= 0)", i+1, describe(e))
+				}
+				st.Weights = append(st.Weights, x)
+			}
+		}
+	}
+	t.finish(searchKeys)
+}
+
+// findVariables finds the ranges and option lists in the [[bellows]]
+// tables.
+func (s *Spec) findVariables(r *reader, root *table) {
+	raw, _ := root.m["bellows"].([]map[string]any)
+	for i, b := range raw {
+		keys := make([]string, 0, len(b))
+		for k := range b {
+			keys = append(keys, k)
+		}
+		sort.Strings(keys)
+		path := fmt.Sprintf("bellows[%d]", i+1)
+		for _, k := range keys {
+			arr, isArr := b[k].([]any)
+			if !isArr {
+				continue
+			}
+			if unit, ok := numericVariables[k]; ok {
+				v := Variable{Table: i, Key: k, Unit: unit}
+				lo, ok1 := finiteNumber(arr, 0)
+				hi, ok2 := finiteNumber(arr, 1)
+				switch {
+				case len(arr) != 2 || !ok1 || !ok2:
+					r.errorf(path+"."+k, "found %s (expected a number or a range [lo, hi] in %s)", describe(arr), unitOr(unit))
+					continue
+				case lo > hi:
+					r.errorf(path+"."+k, "range [%s, %s] has lo > hi (expected lo <= hi)", fmtNum(lo), fmtNum(hi))
+					continue
+				}
+				v.Lower, v.Upper = lo, hi
+				s.Variables = append(s.Variables, v)
+				continue
+			}
+			if categoricalVariables[k] {
+				v := Variable{Table: i, Key: k}
+				allowed := map[string][]string{"profile": profileNames, "winding": windingNames, "material": s.materialNames(root)}[k]
+				for _, e := range arr {
+					str, ok := e.(string)
+					if !ok {
+						r.errorf(path+"."+k, "found %s in the options (expected a list of names)", describe(e))
+						v.Options = nil
+						break
+					}
+					if !contains(allowed, str) {
+						r.errorf(path+"."+k, "option %q is not allowed (expected: %s)", str, strings.Join(allowed, "|"))
+					}
+					v.Options = append(v.Options, str)
+				}
+				if len(arr) == 0 {
+					r.errorf(path+"."+k, "empty list of options (expected at least one name)")
+				}
+				if len(v.Options) > 0 {
+					s.Variables = append(s.Variables, v)
+				}
+			}
+		}
+		if th, _ := b["threaded"].(bool); th {
+			if _, has := b["pitch_mm"]; !has && i+1 < len(raw) {
+				s.ties = append(s.ties, [2]int{i, i + 1})
+			}
+		}
+	}
+	if len(s.Variables) == 0 && len(raw) > 0 {
+		r.errorf("bellows", "no design variables (expected at least one range such as wall_mm = [0.4, 0.8] or a list of options such as material = [\"pla\", \"petg\"])")
+	}
+}
+
+// materialNames lists the built-in materials and those the file defines.
+func (s *Spec) materialNames(root *table) []string {
+	names := surrogate.MaterialNames()
+	ms, _ := root.m["material"].([]map[string]any)
+	for _, m := range ms {
+		if n, ok := m["name"].(string); ok {
+			names = append(names, n)
+		}
+	}
+	return names
+}
+
+func finiteNumber(arr []any, i int) (float64, bool) {
+	if i >= len(arr) {
+		return 0, false
+	}
+	x, ok := asFloat(arr[i])
+	return x, ok && !math.IsNaN(x) && !math.IsInf(x, 0)
+}
+
+func unitOr(u string) string {
+	if u == "" {
+		return "the key's unit"
+	}
+	return u
+}
+
+// resolve returns a deep copy of the file's design tables with the
+// variables set to x (numeric values in file units; categorical values as
+// option indices).
+func (s *Spec) resolve(x []float64) map[string]any {
+	m := deepCopy(s.base).(map[string]any)
+	bs, _ := m["bellows"].([]map[string]any)
+	for j, v := range s.Variables {
+		if v.Table >= len(bs) {
+			continue
+		}
+		if v.Options != nil {
+			k := int(x[j])
+			k = max(0, min(k, len(v.Options)-1))
+			bs[v.Table][v.Key] = v.Options[k]
+		} else {
+			bs[v.Table][v.Key] = x[j]
+		}
+	}
+	for _, t := range s.ties {
+		if p, ok := bs[t[1]]["pitch_mm"]; ok {
+			bs[t[0]]["pitch_mm"] = p
+		}
+	}
+	return m
+}
+
+func deepCopy(v any) any {
+	switch x := v.(type) {
+	case map[string]any:
+		out := make(map[string]any, len(x))
+		for k, e := range x {
+			out[k] = deepCopy(e)
+		}
+		return out
+	case []map[string]any:
+		out := make([]map[string]any, len(x))
+		for i, e := range x {
+			out[i] = deepCopy(e).(map[string]any)
+		}
+		return out
+	case []any:
+		out := make([]any, len(x))
+		for i, e := range x {
+			out[i] = deepCopy(e)
+		}
+		return out
+	}
+	return v
+}
+
+// Design builds the candidate design at x (file units; category indices)
+// and its scenario. An error names the offending key; a search treats it
+// as an infeasible candidate.
+func (s *Spec) Design(x []float64) (*objective.Design, *objective.Scenario, error) {
+	r := &reader{file: s.File, loc: s.loc}
+	t := r.root(s.resolve(x))
+	d, ins := readDesign(r, t)
+	sc := readScenario(t)
+	sc.Workspace.Insertion = ins
+	if len(r.errs) > 0 {
+		return nil, nil, r.errs.sorted()
+	}
+	return d, &sc, nil
+}
+
+// DesignTOML writes the candidate at x as a design file that check and
+// pose accept: the problem file's design tables with every variable fixed.
+func (s *Spec) DesignTOML(x []float64, comment string) ([]byte, error) {
+	var buf bytes.Buffer
+	for _, line := range strings.Split(strings.TrimSpace(comment), "\n") {
+		fmt.Fprintf(&buf, "# %s\n", line)
+	}
+	m := s.resolve(x)
+	for _, v := range s.Variables {
+		if v.Options == nil {
+			bs := m["bellows"].([]map[string]any)
+			if f, ok := bs[v.Table][v.Key].(float64); ok {
+				bs[v.Table][v.Key] = roundSig(f, 9)
+			}
+		}
+	}
+	enc := toml.NewEncoder(&buf)
+	enc.Indent = ""
+	if err := enc.Encode(m); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// roundSig rounds to n significant digits, so that written designs read
+// cleanly; 9 digits keep every score within 1e-8 relative.
+func roundSig(f float64, n int) float64 {
+	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
+		return f
+	}
+	p := math.Pow(10, float64(n-1)-math.Floor(math.Log10(math.Abs(f))))
+	return math.Round(f*p) / p
+}
+
+// Hash identifies the problem (file text) for checkpoints: a resumed run
+// must use the same problem.
+func (s *Spec) Hash() string {
+	h := sha256.Sum256(s.Text)
+	return hex.EncodeToString(h[:8])
+}

@@ -1,0 +1,164 @@
+package problems
+
+import (
+	"context"
+	"fmt"
+	"math"
+
+	"plica/objective"
+	"plica/search"
+)
+
+// NumConstraints is the number of constraint slots: one per requirement
+// check, then one per limit of every [[constraint]].
+func (s *Spec) NumConstraints() int {
+	n := len(s.Checks)
+	for _, c := range s.Constraints {
+		if !math.IsNaN(c.Min) {
+			n++
+		}
+		if !math.IsNaN(c.Max) {
+			n++
+		}
+	}
+	return n
+}
+
+// ConstraintNames names the constraint slots, e.g. "tip_sag" or
+// "reach_mm>=8".
+func (s *Spec) ConstraintNames() []string {
+	names := append([]string(nil), s.Checks...)
+	for _, c := range s.Constraints {
+		if !math.IsNaN(c.Min) {
+			names = append(names, fmt.Sprintf("%s>=%s", c.Score, fmtNum(c.Min)))
+		}
+		if !math.IsNaN(c.Max) {
+			names = append(names, fmt.Sprintf("%s<=%s", c.Score, fmtNum(c.Max)))
+		}
+	}
+	return names
+}
+
+// SearchProblem turns the problem into a search problem over the file's
+// variables (file units; categories as indices). Objectives to maximise
+// are negated. Constraint values are relative margins, g ≤ 0 feasible:
+// (value − limit)/max(|value|, |limit|) for an upper limit and
+// (limit − value)/max(|value|, |limit|) for a lower one, so every
+// violation lies in [0, 2] whatever the score's unit.
+func (s *Spec) SearchProblem() search.Problem {
+	p := search.Problem{
+		Dim:            len(s.Variables),
+		Lower:          make([]float64, len(s.Variables)),
+		Upper:          make([]float64, len(s.Variables)),
+		Categorical:    make([]int, len(s.Variables)),
+		NumObjectives:  len(s.Objectives),
+		NumConstraints: s.NumConstraints(),
+	}
+	for j, v := range s.Variables {
+		if v.Options != nil {
+			p.Categorical[j] = len(v.Options)
+			p.Upper[j] = float64(len(v.Options) - 1)
+			continue
+		}
+		p.Lower[j], p.Upper[j] = v.Lower, v.Upper
+	}
+	p.Evaluate = func(ctx context.Context, index int64, x, f, g []float64) error {
+		res, err := s.Evaluate(x)
+		if err != nil {
+			return err
+		}
+		return s.Fill(res, f, g)
+	}
+	return p
+}
+
+// Evaluate scores the candidate at x.
+func (s *Spec) Evaluate(x []float64) (*objective.Result, error) {
+	d, sc, err := s.Design(x)
+	if err != nil {
+		return nil, err
+	}
+	return objective.Evaluate(d, sc)
+}
+
+// Fill writes the objectives and constraint values of an evaluated
+// candidate.
+func (s *Spec) Fill(res *objective.Result, f, g []float64) error {
+	for i, o := range s.Objectives {
+		sc, _ := objective.LookupScore(o.Score)
+		v := sc.Value(&res.Scores)
+		if math.IsNaN(v) {
+			return fmt.Errorf("score %s is not available for this design", o.Score)
+		}
+		if o.Maximize {
+			v = -v
+		}
+		f[i] = v
+	}
+	if len(res.Checks) != len(s.Checks) {
+		return fmt.Errorf("the design has %d checks, the problem %d", len(res.Checks), len(s.Checks))
+	}
+	k := 0
+	for i, c := range res.Checks {
+		if c.Name != s.Checks[i] {
+			return fmt.Errorf("check %d is %s, expected %s", i+1, c.Name, s.Checks[i])
+		}
+		if c.Max {
+			g[k] = margin(c.Value, c.Limit)
+		} else {
+			g[k] = margin(c.Limit, c.Value)
+		}
+		k++
+	}
+	for _, c := range s.Constraints {
+		sc, _ := objective.LookupScore(c.Score)
+		v := sc.Value(&res.Scores)
+		if !math.IsNaN(c.Min) {
+			g[k] = margin(c.Min, v)
+			k++
+		}
+		if !math.IsNaN(c.Max) {
+			g[k] = margin(v, c.Max)
+			k++
+		}
+	}
+	return nil
+}
+
+// margin is (a − b)/max(|a|, |b|): positive when a exceeds b.
+func margin(a, b float64) float64 {
+	scale := math.Max(math.Abs(a), math.Abs(b))
+	if scale == 0 {
+		return 0
+	}
+	return (a - b) / scale
+}
+
+// Settings turns the [search] table into search settings; zero fields
+// keep the search package's defaults.
+func (s *Spec) Settings() search.Settings {
+	st := s.Search
+	out := search.Settings{
+		Seed:            st.Seed,
+		Population:      st.Population,
+		MaxEvaluations:  st.Evaluations,
+		Runtime:         st.Time,
+		Workers:         st.Workers,
+		Stall:           search.Stall{Generations: st.StallGenerations, Tolerance: st.StallTolerance},
+		CheckpointEvery: st.CheckpointEvery,
+		ConfigHash:      s.Hash(),
+	}
+	if out.CheckpointEvery == 0 {
+		out.CheckpointEvery = 5
+	}
+	return out
+}
+
+// Method returns the search method of the [search] table.
+func (s *Spec) Method() search.Method {
+	if s.Search.Method == "ga" {
+		sc := search.Scalarization{Weights: s.Search.Weights}
+		return &search.GA{Scalarization: sc}
+	}
+	return &search.NSGA2{}
+}
