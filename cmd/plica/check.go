@@ -88,25 +88,25 @@ func round6(f float64) float64 {
 type checkOutput struct {
 	Pass   bool `json:"pass"`
 	Scores struct {
-		TipSag            num `json:"tip_sag_mm"`
-		TipSagLinear      num `json:"tip_sag_linear_mm"`
-		Reach             num `json:"reach_mm"`
-		BendAngleRange    num `json:"bend_angle_range_deg"`
-		BendAngleMin      num `json:"bend_angle_min_deg"`
-		BendAngleMax      num `json:"bend_angle_max_deg"`
-		ResidualCurvature num `json:"residual_curvature_per_m"`
-		StraightTipOffset num `json:"straight_tip_offset_mm"`
-		CurvatureMin      num `json:"curvature_min_per_m"`
-		CurvatureMax      num `json:"curvature_max_per_m"`
-		PeakStrain        num `json:"peak_strain"`
-		AllowableStrain   num `json:"allowable_strain"`
-		StabilityMargin   num `json:"stability_margin"`
-		Mass              num `json:"mass_g"`
-		PayloadToWeight   num `json:"payload_to_weight"`
-		TaskCoverage      num `json:"task_coverage"`
-		SurfaceArea       num `json:"surface_area_mm2"`
-		Volume            num `json:"volume_mm3"`
-		MinClearance      num `json:"min_clearance_mm"`
+		TipSag            num   `json:"tip_sag_mm"`
+		TipSagLinear      num   `json:"tip_sag_linear_mm"`
+		Reach             num   `json:"reach_mm"`
+		BendAngleRange    num   `json:"bend_angle_range_deg"`
+		BendAngleMin      num   `json:"bend_angle_min_deg"`
+		BendAngleMax      num   `json:"bend_angle_max_deg"`
+		ResidualCurvature num   `json:"residual_curvature_per_m"`
+		StraightTipOffset num   `json:"straight_tip_offset_mm"`
+		CurvatureMin      num   `json:"curvature_min_per_m"`
+		CurvatureMax      num   `json:"curvature_max_per_m"`
+		PeakStrain        num   `json:"peak_strain"`
+		AllowableStrain   num   `json:"allowable_strain"`
+		StabilityMargin   num   `json:"stability_margin"`
+		Mass              num   `json:"mass_g"`
+		PayloadToWeight   num   `json:"payload_to_weight"`
+		TaskCoverage      num   `json:"task_coverage"`
+		SurfaceArea       num   `json:"surface_area_mm2"`
+		Volume            num   `json:"volume_mm3"`
+		MinClearance      num   `json:"min_clearance_mm"`
 		SagAngles         []num `json:"sag_angles_deg"`
 	} `json:"scores"`
 	Bellows  []bellowsOutput `json:"bellows"`

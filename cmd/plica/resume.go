@@ -1,0 +1,58 @@
+package main
+
+import (
+	"context"
+	"flag"
+	"io"
+
+	"plica/problems"
+	"plica/results"
+)
+
+func init() {
+	register(&command{
+		name:  "resume",
+		usage: "RUN [-workers N] [-evals N] [-time D] [-quiet]",
+		short: "continue an interrupted (or extend a finished) search from its checkpoint",
+		long: `Reads the problem, seed and budgets saved in the run folder. The resumed run
+reaches the same front as an uninterrupted run with the same seed; a larger
+-evals or -time extends a finished run.`,
+		run: runResume,
+	})
+}
+
+func runResume(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
+	var b budgetFlags
+	b.bind(fs, false)
+	b.seed = -1
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 1 {
+		return usagef("resume: expected one run folder, got %d arguments", len(pos))
+	}
+	folder, err := results.Open(pos[0])
+	if err != nil {
+		return usagef("%v", err)
+	}
+	info, err := folder.ReadInfo()
+	if err != nil {
+		return err
+	}
+	spec, err := problems.LoadProblem(folder.Path(results.ProblemFile))
+	if err != nil {
+		return err
+	}
+	set := spec.Settings()
+	set.Seed = info.Seed
+	set.Workers = info.Workers
+	set.MaxEvaluations = info.MaxEvaluations
+	if err := setTimeBudget(&set, info.TimeBudget); err != nil {
+		return err
+	}
+	if err := b.apply(&set); err != nil {
+		return err
+	}
+	return finishRun(ctx, spec, folder, set, b.quiet, true, stdout, stderr)
+}

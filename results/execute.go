@@ -1,0 +1,262 @@
+package results
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"sort"
+	"strings"
+	"time"
+
+	"github.com/schollz/progressbar/v3"
+
+	"plica/problems"
+	"plica/search"
+)
+
+// Caution is printed in run folders, reports and check outputs.
+const Caution = "Model estimates only: verify on a printed prototype before relying on a design; where it carries payloads, works near people or is for medical use, follow the applicable standards and have it reviewed by a qualified engineer."
+
+// Options controls Execute.
+type Options struct {
+	// Version is the program version recorded in run.json.
+	Version string
+	// Progress receives a progress bar; nil means none.
+	Progress io.Writer
+	// Resume continues the run saved in the folder's checkpoint.
+	Resume bool
+}
+
+// Execute runs a search into a run folder: it records the problem and the
+// settings, appends every evaluation to evaluations.csv, writes a
+// checkpoint every few generations and when the run stops (Ctrl-C
+// included), and finally writes the front as CSV and design files. An
+// interrupted run returns its result and context.Canceled.
+func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Settings, opt Options) (*search.Result, error) {
+	method := spec.Method()
+	info := &RunInfo{}
+	keep := int64(-1)
+	if opt.Resume {
+		old, err := f.ReadInfo()
+		if err != nil {
+			return nil, err
+		}
+		info = old
+		cp, err := f.ReadCheckpoint()
+		if err != nil {
+			return nil, err
+		}
+		set.Resume = cp
+		keep = cp.Evaluations
+	} else {
+		if err := f.WriteFile(ProblemFile, spec.Text); err != nil {
+			return nil, err
+		}
+		info = &RunInfo{Program: "plica", Version: opt.Version, ProblemName: problemName(spec), ProblemFile: spec.File,
+			ProblemHash: spec.Hash(), Seed: set.Seed, Started: time.Now().UTC(), Caution: Caution}
+		c := NewColumns(spec)
+		info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
+	}
+	info.Method = methodName(method)
+	info.Status = "running"
+	info.Workers = set.Workers
+	info.MaxEvaluations = set.MaxEvaluations
+	info.TimeBudget = set.Runtime.String()
+	info.Updated = time.Now().UTC()
+	if err := f.WriteInfo(info); err != nil {
+		return nil, err
+	}
+	log, err := f.OpenEvaluationLog(spec, keep)
+	if err != nil {
+		return nil, err
+	}
+	defer log.Close()
+
+	var logErr error
+	set.Evaluated = func(d *search.Design) {
+		if err := log.Add(d); err != nil && logErr == nil {
+			logErr = err
+		}
+	}
+	bar := newBar(opt.Progress, set)
+	userProgress := set.Progress
+	set.Progress = func(p search.Progress) {
+		if err := log.Flush(); err != nil && logErr == nil {
+			logErr = err
+		}
+		bar.update(p)
+		if userProgress != nil {
+			userProgress(p)
+		}
+	}
+	set.Checkpoint = func(c *search.Checkpoint) error {
+		if err := log.Flush(); err != nil {
+			return err
+		}
+		if logErr != nil {
+			return logErr
+		}
+		if err := f.WriteCheckpoint(c); err != nil {
+			return err
+		}
+		if err := f.WriteHistory(c.History); err != nil {
+			return err
+		}
+		info.Generations, info.Evaluations, info.Failures = c.Generation, c.Evaluations, c.Failures
+		info.FrontSize, info.Hypervolume, info.Reference = c.ArchiveSize, c.Hypervolume, c.Reference
+		info.RuntimeSec = c.Elapsed.Seconds()
+		info.Updated = time.Now().UTC()
+		return f.WriteInfo(info)
+	}
+	res, runErr := search.Run(ctx, spec.SearchProblem(), &set, method)
+	bar.finish()
+	if res == nil {
+		if runErr == nil {
+			runErr = errors.New("search returned no result")
+		}
+		return nil, runErr
+	}
+	if err := log.Flush(); err != nil {
+		return res, err
+	}
+	if err := f.WriteHistory(res.History); err != nil {
+		return res, err
+	}
+	if err := f.WriteFront(spec, FrontRows(spec, res.Front), frontComment(spec, info)); err != nil {
+		return res, err
+	}
+	info.Status = res.Status.String()
+	info.Generations, info.Evaluations, info.Failures = res.Generation, res.Evaluations, res.Failures
+	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
+	info.RuntimeSec = res.Runtime.Seconds()
+	info.Updated = time.Now().UTC()
+	if err := f.WriteInfo(info); err != nil {
+		return res, err
+	}
+	if runErr != nil {
+		return res, runErr
+	}
+	if res.Status == search.Interrupted {
+		return res, context.Canceled
+	}
+	return res, nil
+}
+
+// FrontRows re-evaluates the front designs for their full scores, sorted
+// by the first objective.
+func FrontRows(spec *problems.Spec, front []search.Design) []FrontRow {
+	ds := append([]search.Design(nil), front...)
+	sort.SliceStable(ds, func(i, j int) bool { return ds[i].F[0] < ds[j].F[0] })
+	rows := make([]FrontRow, len(ds))
+	for i, d := range ds {
+		rows[i] = FrontRow{ID: i + 1, Design: d}
+		res, err := spec.Evaluate(d.X)
+		if err != nil {
+			rows[i].Err = err.Error()
+			continue
+		}
+		rows[i].Result = res
+	}
+	return rows
+}
+
+func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
+	return func(r FrontRow) string {
+		var b strings.Builder
+		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, spec.File, info.Seed, r.Design.Index)
+		for i, o := range spec.Objectives {
+			v := r.Design.F[i]
+			if o.Maximize {
+				v = -v
+			}
+			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, v)
+		}
+		b.WriteString("Check it with: plica check THIS_FILE\n")
+		b.WriteString(Caution)
+		return b.String()
+	}
+}
+
+func problemName(s *problems.Spec) string {
+	d, _, err := s.Design(make([]float64, len(s.Variables)))
+	if err != nil || d == nil {
+		return ""
+	}
+	return d.Name
+}
+
+func methodName(m search.Method) string {
+	switch m.(type) {
+	case *search.GA:
+		return "GA"
+	case *search.NelderMead:
+		return "NelderMead"
+	}
+	return "NSGA2"
+}
+
+// bar shows evaluations, rate, ETA, feasible count and hypervolume.
+type bar struct {
+	pb    *progressbar.ProgressBar
+	start time.Time
+	first int64
+}
+
+func newBar(w io.Writer, set search.Settings) *bar {
+	if w == nil {
+		return &bar{}
+	}
+	max := set.MaxEvaluations
+	if max <= 0 {
+		max = -1
+	}
+	pb := progressbar.NewOptions64(max,
+		progressbar.OptionSetWriter(w),
+		progressbar.OptionSetWidth(24),
+		progressbar.OptionShowCount(),
+		progressbar.OptionSetPredictTime(true),
+		progressbar.OptionShowElapsedTimeOnFinish(),
+		progressbar.OptionThrottle(200*time.Millisecond),
+		progressbar.OptionSetDescription("evaluating"),
+		progressbar.OptionOnCompletion(func() { fmt.Fprintln(w) }),
+	)
+	return &bar{pb: pb, start: time.Now(), first: -1}
+}
+
+func (b *bar) update(p search.Progress) {
+	if b.pb == nil {
+		return
+	}
+	if b.first < 0 {
+		b.first = p.Evaluations
+		b.start = time.Now()
+	}
+	rate := 0.0
+	if dt := time.Since(b.start).Seconds(); dt > 0 {
+		rate = float64(p.Evaluations-b.first) / dt
+	}
+	b.pb.Describe(fmt.Sprintf("gen %d, %.0f evals/s, feasible %d, front %d, HV %.4g", p.Generation, rate, p.Feasible, p.ArchiveSize, finiteOr0(p.Hypervolume)))
+	b.pb.Set64(p.Evaluations)
+}
+
+func (b *bar) finish() {
+	if b.pb != nil {
+		b.pb.Finish()
+	}
+}
+
+func finiteOr0(x float64) float64 {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return 0
+	}
+	return x
+}
+
+// Exists reports whether a path exists.
+func Exists(path string) bool {
+	_, err := os.Stat(path)
+	return err == nil
+}

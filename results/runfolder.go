@@ -1,0 +1,215 @@
+// Package results reads and writes run folders: the resolved problem, the
+// evaluation archive, the front as CSV and as design files, checkpoints,
+// and (later) indicators, plots and the report.
+//
+// A run folder holds:
+//
+//	run.json           seed, plica version, problem hash, method, status, counts, variables, objectives, constraints
+//	problem.toml       the problem file as given
+//	evaluations.csv    every evaluation, appended and flushed generation by generation
+//	history.csv        counters and archive hypervolume after every generation
+//	front.csv          the final front: variables, objectives, every score and check
+//	designs/front-NNN.toml  each front design as a design file (check and pose accept it)
+//	checkpoint.json    the latest checkpoint (atomic); checkpoint.prev.json the one before
+package results
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"time"
+
+	"plica/search"
+)
+
+// File names inside a run folder.
+const (
+	RunFile         = "run.json"
+	ProblemFile     = "problem.toml"
+	EvaluationsFile = "evaluations.csv"
+	HistoryFile     = "history.csv"
+	FrontFile       = "front.csv"
+	DesignsDir      = "designs"
+	CheckpointFile  = "checkpoint.json"
+	PrevCheckpoint  = "checkpoint.prev.json"
+)
+
+// RunInfo is run.json.
+type RunInfo struct {
+	Program     string    `json:"program"`
+	Version     string    `json:"version"`
+	ProblemName string    `json:"problem_name,omitempty"`
+	ProblemFile string    `json:"problem_file"`
+	ProblemHash string    `json:"problem_hash"`
+	Method      string    `json:"method"`
+	Seed        uint64    `json:"seed"`
+	Started     time.Time `json:"started"`
+	Updated     time.Time `json:"updated"`
+	Status      string    `json:"status"`
+	Generations int       `json:"generations"`
+	Evaluations int64     `json:"evaluations"`
+	Failures    int64     `json:"failures"`
+	FrontSize   int       `json:"front_size"`
+	// Hypervolume of the front at Reference, in the search's minimised
+	// objectives (maximised objectives negated).
+	Hypervolume float64   `json:"hypervolume"`
+	Reference   []float64 `json:"reference,omitempty"`
+	RuntimeSec  float64   `json:"runtime_s"`
+	Variables   []string  `json:"variables"`
+	Objectives  []string  `json:"objectives"`
+	Constraints []string  `json:"constraints"`
+	Workers     int       `json:"workers"`
+	// MaxEvaluations and TimeBudget are the budgets of the latest
+	// (possibly resumed) run.
+	MaxEvaluations int64  `json:"max_evaluations"`
+	TimeBudget     string `json:"time_budget"`
+	Caution        string `json:"caution"`
+}
+
+// Folder is one run folder.
+type Folder struct {
+	Dir string
+}
+
+// Create makes a new run folder. It refuses a folder that already holds a
+// run, and checks that the folder is writable before any work starts.
+func Create(dir string) (*Folder, error) {
+	if _, err := os.Stat(filepath.Join(dir, RunFile)); err == nil {
+		return nil, fmt.Errorf("%s already holds a run (resume it with plica resume %s, or choose another -o)", dir, dir)
+	}
+	if err := os.MkdirAll(filepath.Join(dir, DesignsDir), 0o755); err != nil {
+		return nil, fmt.Errorf("cannot create run folder: %w", err)
+	}
+	f := &Folder{Dir: dir}
+	if err := f.probe(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// Open opens an existing run folder.
+func Open(dir string) (*Folder, error) {
+	if _, err := os.Stat(filepath.Join(dir, RunFile)); err != nil {
+		return nil, fmt.Errorf("%s is not a run folder (no %s)", dir, RunFile)
+	}
+	f := &Folder{Dir: dir}
+	if err := f.probe(); err != nil {
+		return nil, err
+	}
+	return f, nil
+}
+
+// probe checks that the folder accepts files.
+func (f *Folder) probe() error {
+	tmp, err := os.CreateTemp(f.Dir, ".probe-*")
+	if err != nil {
+		return fmt.Errorf("run folder %s is not writable: %w", f.Dir, errors.Unwrap(err))
+	}
+	name := tmp.Name()
+	tmp.Close()
+	return os.Remove(name)
+}
+
+// Path returns the path of a file in the folder.
+func (f *Folder) Path(name string) string { return filepath.Join(f.Dir, name) }
+
+// WriteFile writes a file atomically: a temporary file in the same
+// folder, synced, then renamed over the target.
+func (f *Folder) WriteFile(name string, data []byte) error {
+	return WriteAtomic(f.Path(name), data)
+}
+
+// WriteAtomic writes path atomically (temporary file + rename), so a
+// reader never sees a half-written file and a crash leaves the old one.
+func WriteAtomic(path string, data []byte) error {
+	dir := filepath.Dir(path)
+	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
+	if err != nil {
+		return err
+	}
+	name := tmp.Name()
+	ok := false
+	defer func() {
+		if !ok {
+			tmp.Close()
+			os.Remove(name)
+		}
+	}()
+	if _, err := tmp.Write(data); err != nil {
+		return err
+	}
+	if err := tmp.Sync(); err != nil {
+		return err
+	}
+	if err := tmp.Close(); err != nil {
+		return err
+	}
+	if err := os.Rename(name, path); err != nil {
+		return err
+	}
+	ok = true
+	return nil
+}
+
+// WriteInfo writes run.json.
+func (f *Folder) WriteInfo(info *RunInfo) error {
+	b, err := json.MarshalIndent(info, "", "  ")
+	if err != nil {
+		return err
+	}
+	return f.WriteFile(RunFile, append(b, '\n'))
+}
+
+// ReadInfo reads run.json.
+func (f *Folder) ReadInfo() (*RunInfo, error) {
+	b, err := os.ReadFile(f.Path(RunFile))
+	if err != nil {
+		return nil, err
+	}
+	var info RunInfo
+	if err := json.Unmarshal(b, &info); err != nil {
+		return nil, fmt.Errorf("%s: %w", f.Path(RunFile), err)
+	}
+	return &info, nil
+}
+
+// WriteCheckpoint keeps the previous checkpoint and writes the new one
+// atomically.
+func (f *Folder) WriteCheckpoint(c *search.Checkpoint) error {
+	b, err := json.Marshal(c)
+	if err != nil {
+		return err
+	}
+	if _, err := os.Stat(f.Path(CheckpointFile)); err == nil {
+		if err := os.Rename(f.Path(CheckpointFile), f.Path(PrevCheckpoint)); err != nil {
+			return err
+		}
+	}
+	return f.WriteFile(CheckpointFile, b)
+}
+
+// ReadCheckpoint reads the latest checkpoint, falling back to the previous
+// one when the latest is missing or unreadable.
+func (f *Folder) ReadCheckpoint() (*search.Checkpoint, error) {
+	var firstErr error
+	for _, name := range []string{CheckpointFile, PrevCheckpoint} {
+		b, err := os.ReadFile(f.Path(name))
+		if err != nil {
+			if firstErr == nil {
+				firstErr = err
+			}
+			continue
+		}
+		var c search.Checkpoint
+		if err := json.Unmarshal(b, &c); err != nil {
+			if firstErr == nil {
+				firstErr = fmt.Errorf("%s: %w", f.Path(name), err)
+			}
+			continue
+		}
+		return &c, nil
+	}
+	return nil, fmt.Errorf("no usable checkpoint in %s: %w", f.Dir, firstErr)
+}

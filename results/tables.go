@@ -1,0 +1,338 @@
+package results
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/csv"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+
+	"plica/objective"
+	"plica/problems"
+	"plica/search"
+)
+
+// Columns names the CSV columns of a problem's designs, units included.
+type Columns struct {
+	Variables   []string // e.g. "bellows1_wall_mm", "bellows1_material"
+	Objectives  []string // score names, e.g. "reach_mm"
+	Constraints []string // constraint slots, "g_" + name
+}
+
+// NewColumns derives the column names of a problem.
+func NewColumns(s *problems.Spec) Columns {
+	var c Columns
+	for _, v := range s.Variables {
+		c.Variables = append(c.Variables, fmt.Sprintf("bellows%d_%s", v.Table+1, v.Key))
+	}
+	for _, o := range s.Objectives {
+		c.Objectives = append(c.Objectives, o.Score)
+	}
+	for _, n := range s.ConstraintNames() {
+		c.Constraints = append(c.Constraints, "g_"+n)
+	}
+	return c
+}
+
+// formatFloat writes a float so that it reads back exactly.
+func formatFloat(x float64) string {
+	if math.IsNaN(x) {
+		return "NaN"
+	}
+	return strconv.FormatFloat(x, 'g', -1, 64)
+}
+
+// variableCells writes the variables in file units; categories by name.
+func variableCells(s *problems.Spec, x []float64) []string {
+	out := make([]string, len(x))
+	for j, v := range s.Variables {
+		if v.Options != nil {
+			out[j] = v.Options[int(x[j])]
+		} else {
+			out[j] = formatFloat(x[j])
+		}
+	}
+	return out
+}
+
+// objectiveCells writes objectives in the score's own sign (maximised
+// objectives are negated back).
+func objectiveCells(s *problems.Spec, f []float64) []string {
+	out := make([]string, len(f))
+	for i, o := range s.Objectives {
+		v := f[i]
+		if o.Maximize {
+			v = -v
+		}
+		out[i] = formatFloat(v)
+	}
+	return out
+}
+
+// EvaluationLog appends every evaluation to evaluations.csv. Rows are
+// written in evaluation-index order and flushed after every generation.
+type EvaluationLog struct {
+	f    *os.File
+	w    *csv.Writer
+	spec *problems.Spec
+}
+
+// EvaluationHeader is the header of evaluations.csv.
+func EvaluationHeader(s *problems.Spec) []string {
+	c := NewColumns(s)
+	h := []string{"index"}
+	h = append(h, c.Variables...)
+	h = append(h, c.Objectives...)
+	h = append(h, c.Constraints...)
+	return append(h, "violation", "feasible", "failure")
+}
+
+// OpenEvaluationLog opens evaluations.csv for appending. When keep ≥ 0 the
+// file is first cut to the rows with index < keep (a resumed run repeats
+// the generations after its checkpoint); the header is written when the
+// file is new.
+func (f *Folder) OpenEvaluationLog(s *problems.Spec, keep int64) (*EvaluationLog, error) {
+	path := f.Path(EvaluationsFile)
+	if keep >= 0 {
+		if err := truncateLog(path, keep); err != nil {
+			return nil, err
+		}
+	}
+	fh, err := os.OpenFile(path, os.O_CREATE|os.O_WRONLY|os.O_APPEND, 0o644)
+	if err != nil {
+		return nil, err
+	}
+	l := &EvaluationLog{f: fh, w: csv.NewWriter(fh), spec: s}
+	if st, err := fh.Stat(); err == nil && st.Size() == 0 {
+		if err := l.w.Write(EvaluationHeader(s)); err != nil {
+			fh.Close()
+			return nil, err
+		}
+	}
+	return l, nil
+}
+
+// truncateLog keeps the header and the rows with index < keep, rewriting
+// the file atomically.
+func truncateLog(path string, keep int64) error {
+	data, err := os.ReadFile(path)
+	if os.IsNotExist(err) {
+		return nil
+	}
+	if err != nil {
+		return err
+	}
+	var out bytes.Buffer
+	sc := bufio.NewScanner(bytes.NewReader(data))
+	sc.Buffer(make([]byte, 1<<20), 1<<26)
+	first := true
+	for sc.Scan() {
+		line := sc.Text()
+		if first {
+			out.WriteString(line + "\n")
+			first = false
+			continue
+		}
+		comma := strings.IndexByte(line, ',')
+		if comma < 0 {
+			continue // a torn last line
+		}
+		idx, err := strconv.ParseInt(line[:comma], 10, 64)
+		if err != nil || idx >= keep {
+			continue
+		}
+		out.WriteString(line + "\n")
+	}
+	return WriteAtomic(path, out.Bytes())
+}
+
+// Add writes one evaluated design.
+func (l *EvaluationLog) Add(d *search.Design) error {
+	row := []string{strconv.FormatInt(d.Index, 10)}
+	row = append(row, variableCells(l.spec, d.X)...)
+	row = append(row, objectiveCells(l.spec, d.F)...)
+	for _, g := range d.G {
+		row = append(row, formatFloat(g))
+	}
+	row = append(row, formatFloat(d.CV), strconv.FormatBool(d.Feasible()), d.Failed)
+	return l.w.Write(row)
+}
+
+// Flush writes buffered rows to the file.
+func (l *EvaluationLog) Flush() error {
+	l.w.Flush()
+	if err := l.w.Error(); err != nil {
+		return err
+	}
+	return l.f.Sync()
+}
+
+// Close flushes and closes the log.
+func (l *EvaluationLog) Close() error {
+	err := l.Flush()
+	if cerr := l.f.Close(); err == nil {
+		err = cerr
+	}
+	return err
+}
+
+// HistoryHeader is the header of history.csv.
+var HistoryHeader = []string{"generation", "evaluations", "failures", "feasible", "front_size", "hypervolume"}
+
+// WriteHistory writes history.csv.
+func (f *Folder) WriteHistory(h []search.Stats) error {
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	w.Write(HistoryHeader)
+	for _, s := range h {
+		w.Write([]string{strconv.Itoa(s.Generation), strconv.FormatInt(s.Evaluations, 10), strconv.FormatInt(s.Failures, 10),
+			strconv.Itoa(s.Feasible), strconv.Itoa(s.ArchiveSize), formatFloat(s.Hypervolume)})
+	}
+	w.Flush()
+	return f.WriteFile(HistoryFile, b.Bytes())
+}
+
+// FrontRow is one design of a front with its full evaluation.
+type FrontRow struct {
+	ID     int // 1-based, as in designs/front-NNN.toml
+	Design search.Design
+	Result *objective.Result // nil when re-evaluation failed
+	Err    string
+}
+
+// FrontHeader is the header of front.csv.
+func FrontHeader(s *problems.Spec) []string {
+	c := NewColumns(s)
+	h := []string{"id", "index"}
+	h = append(h, c.Variables...)
+	for _, sc := range objective.AllScores() {
+		h = append(h, sc.Name)
+	}
+	for _, n := range s.Checks {
+		h = append(h, "check_"+n, "limit_"+n, "pass_"+n)
+	}
+	h = append(h, c.Constraints...)
+	return append(h, "pass", "design_file")
+}
+
+// WriteFront writes front.csv and designs/front-NNN.toml for each row.
+func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(FrontRow) string) error {
+	var b bytes.Buffer
+	w := csv.NewWriter(&b)
+	w.Write(FrontHeader(s))
+	for _, r := range rows {
+		name := DesignFileName(r.ID)
+		text, err := s.DesignTOML(r.Design.X, comment(r))
+		if err != nil {
+			return err
+		}
+		if err := f.WriteFile(name, text); err != nil {
+			return err
+		}
+		row := []string{strconv.Itoa(r.ID), strconv.FormatInt(r.Design.Index, 10)}
+		row = append(row, variableCells(s, r.Design.X)...)
+		for _, sc := range objective.AllScores() {
+			v := math.NaN()
+			if r.Result != nil {
+				v = sc.Value(&r.Result.Scores)
+			}
+			row = append(row, formatFloat(v))
+		}
+		for i := range s.Checks {
+			if r.Result != nil && i < len(r.Result.Checks) {
+				c := r.Result.Checks[i]
+				row = append(row, formatFloat(c.Value), formatFloat(c.Limit), strconv.FormatBool(c.Pass))
+			} else {
+				row = append(row, "NaN", "NaN", "false")
+			}
+		}
+		for _, g := range r.Design.G {
+			row = append(row, formatFloat(g))
+		}
+		pass := r.Result != nil && r.Result.Pass
+		row = append(row, strconv.FormatBool(pass), name)
+		w.Write(row)
+	}
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return err
+	}
+	return f.WriteFile(FrontFile, b.Bytes())
+}
+
+// DesignFileName is the path of front design id inside a run folder.
+func DesignFileName(id int) string { return fmt.Sprintf("%s/front-%03d.toml", DesignsDir, id) }
+
+// ReadCSV reads a CSV file of the run folder into a header and records.
+func (f *Folder) ReadCSV(name string) ([]string, [][]string, error) {
+	fh, err := os.Open(f.Path(name))
+	if err != nil {
+		return nil, nil, err
+	}
+	defer fh.Close()
+	r := csv.NewReader(fh)
+	r.FieldsPerRecord = -1
+	recs, err := r.ReadAll()
+	if err != nil && err != io.EOF {
+		return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
+	}
+	if len(recs) == 0 {
+		return nil, nil, fmt.Errorf("%s is empty", f.Path(name))
+	}
+	return recs[0], recs[1:], nil
+}
+
+// FrontX reads the variables of front design id (1-based) from front.csv,
+// in the problem's variable order (file units; categories as indices).
+func (f *Folder) FrontX(s *problems.Spec, id int) ([]float64, error) {
+	header, rows, err := f.ReadCSV(FrontFile)
+	if err != nil {
+		return nil, err
+	}
+	cols := NewColumns(s).Variables
+	idx := make([]int, len(cols))
+	for j, c := range cols {
+		idx[j] = -1
+		for k, h := range header {
+			if h == c {
+				idx[j] = k
+			}
+		}
+		if idx[j] < 0 {
+			return nil, fmt.Errorf("%s has no column %s (was the problem changed?)", f.Path(FrontFile), c)
+		}
+	}
+	for _, row := range rows {
+		if row[0] != strconv.Itoa(id) {
+			continue
+		}
+		x := make([]float64, len(cols))
+		for j, v := range s.Variables {
+			cell := row[idx[j]]
+			if v.Options != nil {
+				k := -1
+				for i, o := range v.Options {
+					if o == cell {
+						k = i
+					}
+				}
+				if k < 0 {
+					return nil, fmt.Errorf("%s: design %d: %q is not an option of %s", f.Path(FrontFile), id, cell, v.Path())
+				}
+				x[j] = float64(k)
+				continue
+			}
+			val, err := strconv.ParseFloat(cell, 64)
+			if err != nil {
+				return nil, fmt.Errorf("%s: design %d: %s = %q is not a number", f.Path(FrontFile), id, cols[j], cell)
+			}
+			x[j] = val
+		}
+		return x, nil
+	}
+	return nil, fmt.Errorf("%s has no design %d (expected an id from 1 to %d)", f.Path(FrontFile), id, len(rows))
+}
