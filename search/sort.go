@@ -1,0 +1,282 @@
+package search
+
+import (
+	"cmp"
+	"math"
+	"slices"
+	"sort"
+)
+
+// dominates reports whether a Pareto-dominates b (minimisation): a_k ≤ b_k for all k and
+// a_k < b_k for some k.
+func dominates(a, b []float64) bool {
+	strict := false
+	for k := range a {
+		if a[k] > b[k] {
+			return false
+		}
+		if a[k] < b[k] {
+			strict = true
+		}
+	}
+	return strict
+}
+
+// weaklyDominates reports whether a_k ≤ b_k for all k.
+func weaklyDominates(a, b []float64) bool {
+	for k := range a {
+		if a[k] > b[k] {
+			return false
+		}
+	}
+	return true
+}
+
+// constrainedDominates reports whether a constrained-dominates b (Deb et al. 2002, Sec. VI): a is
+// feasible and b is not; both are infeasible and CV_a < CV_b; or both are feasible and a ≺ b.
+func constrainedDominates(a, b *Design) bool {
+	af, bf := a.CV == 0, b.CV == 0
+	switch {
+	case af && bf:
+		return dominates(a.F, b.F)
+	case af:
+		return true
+	case bf:
+		return false
+	}
+	return a.CV < b.CV
+}
+
+// nondominatedSortNaive returns the constrained non-domination rank (from 0) of each design: the
+// fast non-dominated sort of Deb et al. (2002, Sec. III-A), O(M N²). It is the oracle for the
+// faster sorts.
+func nondominatedSortNaive(ds []*Design) []int {
+	n := len(ds)
+	rank := make([]int, n)
+	count := make([]int, n)
+	dominated := make([][]int32, n)
+	var front []int
+	for p := range n {
+		for q := range n {
+			if q == p {
+				continue
+			}
+			if constrainedDominates(ds[p], ds[q]) {
+				dominated[p] = append(dominated[p], int32(q))
+			} else if constrainedDominates(ds[q], ds[p]) {
+				count[p]++
+			}
+		}
+		if count[p] == 0 {
+			front = append(front, p)
+		}
+	}
+	for r := 0; len(front) > 0; r++ {
+		var next []int
+		for _, p := range front {
+			rank[p] = r
+			for _, q := range dominated[p] {
+				count[q]--
+				if count[q] == 0 {
+					next = append(next, int(q))
+				}
+			}
+		}
+		front = next
+	}
+	return rank
+}
+
+// scratch holds the buffers of the sorts, reused from one generation to the next.
+type scratch struct {
+	rank         []int
+	feas, infeas []sortKey2
+	last         []float64
+	keys         []crowdKey
+	start        []int
+	flat         []int32
+	fronts       [][]int32
+	dist         []float64
+}
+
+type sortKey2 struct {
+	f1, f2 float64
+	i      int32
+}
+
+// nondominatedSort returns the constrained non-domination rank of each design, using the
+// O(N log N) sweep for two objectives and the O(M N²) sort otherwise. The result is valid until
+// the next call.
+func (s *scratch) nondominatedSort(ds []*Design, m int) []int {
+	if m == 2 {
+		return s.nondominatedSort2(ds)
+	}
+	return nondominatedSortNaive(ds)
+}
+
+// nondominatedSort2 is the O(N log N) non-dominated sort for two objectives (after Jensen, IEEE
+// Trans. Evol. Comput. 7(5), 2003; sweep of SEARCH.md §2.3, derived). Feasible designs are sorted
+// by (f1, f2); last[k] is the f2 of the latest design put in front k, non-decreasing in k, and a
+// design joins the first front whose last f2 exceeds its own. Exact duplicates share a front.
+// Infeasible designs follow all feasible fronts in groups of equal CV, ascending. Feasible
+// designs must have finite objectives.
+func (s *scratch) nondominatedSort2(ds []*Design) []int {
+	rank := resize(s.rank, len(ds))
+	s.rank = rank
+	feas, infeas := s.feas[:0], s.infeas[:0] // infeasible: f1 holds CV
+	for i, d := range ds {
+		if d.CV == 0 {
+			feas = append(feas, sortKey2{d.F[0], d.F[1], int32(i)})
+		} else {
+			infeas = append(infeas, sortKey2{d.CV, 0, int32(i)})
+		}
+	}
+	s.feas, s.infeas = feas, infeas
+	slices.SortFunc(feas, func(a, b sortKey2) int { // finite values: plain comparisons
+		switch {
+		case a.f1 < b.f1:
+			return -1
+		case a.f1 > b.f1:
+			return 1
+		case a.f2 < b.f2:
+			return -1
+		case a.f2 > b.f2:
+			return 1
+		}
+		return int(a.i - b.i)
+	})
+	last := s.last[:0]
+	for j, p := range feas {
+		if j > 0 && feas[j-1].f1 == p.f1 && feas[j-1].f2 == p.f2 {
+			rank[p.i] = rank[feas[j-1].i]
+			continue
+		}
+		k := sort.Search(len(last), func(k int) bool { return last[k] > p.f2 })
+		if k == len(last) {
+			last = append(last, p.f2)
+		} else {
+			last[k] = p.f2
+		}
+		rank[p.i] = k
+	}
+	s.last = last
+	slices.SortFunc(infeas, func(a, b sortKey2) int {
+		if c := cmp.Compare(a.f1, b.f1); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.i, b.i)
+	})
+	r := len(last) - 1
+	for j, p := range infeas {
+		if j == 0 || p.f1 != infeas[j-1].f1 {
+			r++
+		}
+		rank[p.i] = r
+	}
+	return rank
+}
+
+// crowdingDistance writes into dist the crowding distance of each design of one front (Deb et
+// al. 2002, Sec. III-B): per objective, the front is sorted by f_m (stable, ties by position in
+// front); the two ends get +Inf and each interior design adds (f_m[next] − f_m[prev]) /
+// (f_m^max − f_m^min), extremes taken over the front. Edge cases (SEARCH.md §2.4): a front of at
+// most two designs is all +Inf; an objective with zero range is skipped; a front holding a
+// non-finite objective (failed evaluations) gets all zeros.
+func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []float64) {
+	l := len(front)
+	for i := range dist[:l] {
+		dist[i] = 0
+	}
+	for _, i := range front {
+		for _, v := range ds[i].F {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return
+			}
+		}
+	}
+	if l <= 2 {
+		for i := range dist[:l] {
+			dist[i] = math.Inf(1)
+		}
+		return
+	}
+	order := resize(s.keys, l)
+	s.keys = order
+	for k := range m {
+		for j, i := range front {
+			order[j] = crowdKey{ds[i].F[k], int32(j)}
+		}
+		slices.SortFunc(order, func(a, b crowdKey) int { // finite values: plain comparisons
+			switch {
+			case a.v < b.v:
+				return -1
+			case a.v > b.v:
+				return 1
+			}
+			return int(a.i - b.i)
+		})
+		span := order[l-1].v - order[0].v
+		if !(span > 0) {
+			continue
+		}
+		dist[order[0].i] = math.Inf(1)
+		dist[order[l-1].i] = math.Inf(1)
+		for j := 1; j < l-1; j++ {
+			dist[order[j].i] += (order[j+1].v - order[j-1].v) / span
+		}
+	}
+}
+
+// frontsOf groups design positions by rank, in position order within each front. The result is
+// valid until the next call.
+func (s *scratch) frontsOf(rank []int) [][]int32 {
+	nf := 0
+	for _, r := range rank {
+		nf = max(nf, r+1)
+	}
+	start := resize(s.start, nf+1)
+	clear(start)
+	for _, r := range rank {
+		start[r+1]++
+	}
+	for r := range nf {
+		start[r+1] += start[r]
+	}
+	flat := resize(s.flat, len(rank))
+	fronts := resize(s.fronts, nf)
+	for r := range fronts {
+		fronts[r] = flat[start[r]:start[r]:start[r+1]]
+	}
+	for i, r := range rank {
+		fronts[r] = append(fronts[r], int32(i))
+	}
+	s.start, s.flat, s.fronts = start, flat, fronts
+	return fronts
+}
+
+// nondominatedSort2 with fresh buffers.
+func nondominatedSort2(ds []*Design) []int { return new(scratch).nondominatedSort2(ds) }
+
+// crowdingDistance with fresh buffers.
+func crowdingDistance(ds []*Design, front []int32, m int, dist []float64) {
+	new(scratch).crowdingDistance(ds, front, m, dist)
+}
+
+// compareCanonical orders designs by (rank, −crowding, F, X, index): the crowded-comparison order
+// of Deb et al. (2002, Sec. III-C) completed to a total order, so that nothing depends on the
+// order in which a host hands the population over.
+func compareCanonical(a, b *Design) int {
+	if c := cmp.Compare(a.Rank, b.Rank); c != 0 {
+		return c
+	}
+	if c := cmp.Compare(b.Crowding, a.Crowding); c != 0 {
+		return c
+	}
+	if c := slices.Compare(a.F, b.F); c != 0 {
+		return c
+	}
+	if c := slices.Compare(a.X, b.X); c != 0 {
+		return c
+	}
+	return cmp.Compare(a.Index, b.Index)
+}

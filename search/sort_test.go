@@ -1,0 +1,343 @@
+package search
+
+import (
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"slices"
+	"sort"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// randomDesigns draws n designs with m objectives on a coarse integer grid (many ties and exact
+// duplicates), a fraction of them infeasible (CV from a small set, so CV ties occur) and some
+// failed (CV = +Inf, NaN objectives).
+func randomDesigns(rng *rand.Rand, n, m int, infeasible, failed float64) []*Design {
+	ds := make([]*Design, n)
+	for i := range ds {
+		d := &Design{Index: int64(i), F: make([]float64, m), X: []float64{float64(i)}}
+		for k := range d.F {
+			d.F[k] = float64(rng.IntN(8))
+		}
+		switch u := rng.Float64(); {
+		case u < failed:
+			d.CV, d.Failed = math.Inf(1), "failed"
+			d.F[0] = math.NaN()
+		case u < failed+infeasible:
+			d.CV = float64(1 + rng.IntN(4))
+		}
+		if i > 0 && rng.Float64() < 0.1 {
+			copy(d.F, ds[i-1].F)
+			d.CV, d.Failed = ds[i-1].CV, ds[i-1].Failed
+		}
+		ds[i] = d
+	}
+	return ds
+}
+
+// TestFastSortMatchesOracle checks the O(N log N) two-objective sort against the O(M N²) fast
+// non-dominated sort of Deb et al. (2002, Sec. III-A) with constraint-domination (Sec. VI), on
+// random sets with ties, duplicates, infeasible and failed designs.
+func TestFastSortMatchesOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for trial := range 300 {
+		n := 1 + rng.IntN(60)
+		ds := randomDesigns(rng, n, 2, 0.3*rng.Float64(), 0.1*rng.Float64())
+		want := nondominatedSortNaive(ds)
+		got := nondominatedSort2(ds)
+		require.Equal(t, want, got, "trial %d: ranks of %d designs", trial, n)
+	}
+}
+
+// TestNaiveSortProperties checks the oracle itself on three objectives: no design dominates one
+// of a lower or equal rank, and each design of rank r > 0 is dominated by one of rank r − 1
+// (definition of the fronts, Deb et al. 2002, Sec. III-A).
+func TestNaiveSortProperties(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	for trial := range 100 {
+		ds := randomDesigns(rng, 1+rng.IntN(40), 3, 0.2, 0.05)
+		rank := nondominatedSortNaive(ds)
+		for i, a := range ds {
+			hasParent := rank[i] == 0
+			for j, b := range ds {
+				if constrainedDominates(a, b) {
+					assert.Less(t, rank[i], rank[j], "trial %d: design %d dominates %d", trial, i, j)
+				}
+				if constrainedDominates(b, a) && rank[j] == rank[i]-1 {
+					hasParent = true
+				}
+			}
+			assert.True(t, hasParent, "trial %d: design %d of rank %d has no dominator one rank up", trial, i, rank[i])
+		}
+	}
+}
+
+func TestFastSortHandCase(t *testing.T) {
+	// Fronts by hand: {(1,4),(2,2),(4,1)}, then {(2,4),(3,3)} and the duplicate (3,3), then
+	// (5,5); infeasible CV 0.5 before CV 2.
+	f := [][]float64{{3, 3}, {1, 4}, {5, 5}, {2, 2}, {3, 3}, {4, 1}, {2, 4}, {0, 0}, {0, 0}}
+	cv := []float64{0, 0, 0, 0, 0, 0, 0, 2, 0.5}
+	ds := make([]*Design, len(f))
+	for i := range f {
+		ds[i] = &Design{F: f[i], CV: cv[i]}
+	}
+	assert.Equal(t, []int{1, 0, 2, 0, 1, 0, 1, 4, 3}, nondominatedSort2(ds), "two-objective sort")
+	assert.Equal(t, []int{1, 0, 2, 0, 1, 0, 1, 4, 3}, nondominatedSortNaive(ds), "oracle")
+}
+
+// crowdingOracle is the crowding distance of Deb et al. (2002, Sec. III-B) written directly from
+// the definition, with the edge cases of SEARCH.md §2.4.
+func crowdingOracle(fs [][]float64) []float64 {
+	l := len(fs)
+	d := make([]float64, l)
+	for _, f := range fs {
+		for _, v := range f {
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return d
+			}
+		}
+	}
+	if l <= 2 {
+		for i := range d {
+			d[i] = math.Inf(1)
+		}
+		return d
+	}
+	for k := range fs[0] {
+		idx := make([]int, l)
+		for i := range idx {
+			idx[i] = i
+		}
+		sort.SliceStable(idx, func(a, b int) bool { return fs[idx[a]][k] < fs[idx[b]][k] })
+		lo, hi := fs[idx[0]][k], fs[idx[l-1]][k]
+		if hi == lo {
+			continue
+		}
+		d[idx[0]], d[idx[l-1]] = math.Inf(1), math.Inf(1)
+		for j := 1; j < l-1; j++ {
+			d[idx[j]] += (fs[idx[j+1]][k] - fs[idx[j-1]][k]) / (hi - lo)
+		}
+	}
+	return d
+}
+
+func TestCrowdingMatchesOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	for trial := range 300 {
+		m := 2 + rng.IntN(3)
+		ds := randomDesigns(rng, 1+rng.IntN(30), m, 0, 0.02)
+		front := make([]int32, 0, len(ds))
+		var fs [][]float64
+		for i, d := range ds {
+			if rng.Float64() < 0.7 {
+				front = append(front, int32(i))
+				fs = append(fs, d.F)
+			}
+		}
+		got := make([]float64, len(front))
+		crowdingDistance(ds, front, m, got)
+		assert.Equal(t, crowdingOracle(fs), got, "trial %d: crowding of %v", trial, fs)
+	}
+}
+
+func TestCrowdingHandCases(t *testing.T) {
+	inf := math.Inf(1)
+	cases := []struct {
+		name string
+		f    [][]float64
+		want []float64
+	}{
+		{"single", [][]float64{{1, 2}}, []float64{inf}},
+		{"two", [][]float64{{1, 2}, {2, 1}}, []float64{inf, inf}},
+		// Interior (2,2): (3−1)/(3−1) + (3−1)/(3−1) = 2.
+		{"three", [][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{inf, 2, inf}},
+		// Zero range in f2: objective skipped, ends come from f1 only.
+		{"flat objective", [][]float64{{1, 5}, {2, 5}, {4, 5}}, []float64{inf, 1, inf}},
+		// Duplicates: the interior copy gets (2−2)/2 + (2−2)/2 = 0 (stable order).
+		{"duplicates", [][]float64{{1, 3}, {2, 2}, {2, 2}, {3, 1}}, []float64{inf, 1, 1, inf}},
+		{"all equal", [][]float64{{1, 1}, {1, 1}, {1, 1}}, []float64{0, 0, 0}},
+	}
+	for _, c := range cases {
+		ds := make([]*Design, len(c.f))
+		front := make([]int32, len(c.f))
+		for i := range c.f {
+			ds[i] = &Design{F: c.f[i]}
+			front[i] = int32(i)
+		}
+		got := make([]float64, len(c.f))
+		crowdingDistance(ds, front, 2, got)
+		assert.Equal(t, c.want, got, "%s: crowding of %v", c.name, c.f)
+		assert.Equal(t, crowdingOracle(c.f), got, "%s: oracle", c.name)
+	}
+}
+
+// TestSurvivalMatchesDefinition checks the NSGA-II survival of Deb et al. (2002, Sec. III-C)
+// against a direct implementation on the oracle sort: whole fronts while they fit, then the
+// split front by decreasing crowding (stable).
+func TestSurvivalMatchesDefinition(t *testing.T) {
+	rng := rand.New(rand.NewPCG(8, 9))
+	for trial := range 200 {
+		m := 2 + rng.IntN(2)
+		ds := randomDesigns(rng, 4+rng.IntN(40), m, 0.2, 0.05)
+		n := 1 + rng.IntN(len(ds))
+		rank := nondominatedSortNaive(ds)
+		var want []int64
+		for r := 0; len(want) < n; r++ {
+			var front []int32
+			var fs [][]float64
+			for i := range ds {
+				if rank[i] == r {
+					front = append(front, int32(i))
+					fs = append(fs, ds[i].F)
+				}
+			}
+			d := crowdingOracle(fs)
+			pos := make([]int, len(front))
+			for i := range pos {
+				pos[i] = i
+			}
+			sort.SliceStable(pos, func(a, b int) bool { return d[pos[a]] > d[pos[b]] })
+			if len(want)+len(front) <= n {
+				pos = pos[:len(front)]
+				slices.Sort(pos)
+			}
+			for _, j := range pos {
+				if len(want) == n {
+					break
+				}
+				want = append(want, ds[front[j]].Index)
+			}
+		}
+		out := (&crowdingSurvival{m: m}).survive(ds, n)
+		got := make([]int64, len(out))
+		for i, d := range out {
+			got[i] = d.Index
+		}
+		require.Equal(t, want, got, "trial %d: survivors of %d designs, n = %d", trial, len(ds), n)
+	}
+}
+
+// truncateOracle removes designs one at a time, each time recomputing the crowding distance over
+// the remaining ones (definition of the archive truncation).
+func truncateOracle(ds []*Design, m, excess int) []bool {
+	keep := make([]bool, len(ds))
+	for i := range keep {
+		keep[i] = true
+	}
+	for range excess {
+		var front []int32
+		for i, k := range keep {
+			if k {
+				front = append(front, int32(i))
+			}
+		}
+		d := make([]float64, len(front))
+		crowdingDistance(ds, front, m, d)
+		worst := 0
+		for j := range front {
+			if d[j] <= d[worst] {
+				worst = j
+			}
+		}
+		keep[front[worst]] = false
+	}
+	return keep
+}
+
+func TestArchiveTruncationMatchesOracle(t *testing.T) {
+	rng := rand.New(rand.NewPCG(10, 11))
+	for trial := range 200 {
+		m := 2 + rng.IntN(2)
+		// Mutually non-dominated points: on the simplex Σ f = 1 (three objectives) or the line
+		// f1 + f2 = 1, with coarse values so that distances tie.
+		n := 3 + rng.IntN(40)
+		a := archive{m: m, capacity: -1}
+		for i := range n {
+			f := make([]float64, m)
+			rest := 1.0
+			for k := range m - 1 {
+				f[k] = math.Round(rest*rng.Float64()*16) / 16
+				rest -= f[k]
+			}
+			f[m-1] = rest
+			a.add(&Design{Index: int64(i), F: f, X: []float64{0}})
+		}
+		excess := rng.IntN(len(a.items))
+		want := truncateOracle(a.items, m, excess)
+		var tr truncator
+		got := tr.run(a.items, m, excess, m == 2)
+		require.Equal(t, want, got, "trial %d: %d objectives, remove %d of %d", trial, m, excess, len(a.items))
+	}
+}
+
+// TestArchiveAdd checks the archive invariants: feasible, mutually non-dominated, first of equal
+// objective vectors kept, and the batch merge equal to one-at-a-time insertion.
+func TestArchiveAdd(t *testing.T) {
+	rng := rand.New(rand.NewPCG(12, 13))
+	for trial := range 200 {
+		m := 2 + rng.IntN(2)
+		ds := randomDesigns(rng, 1+rng.IntN(80), m, 0.2, 0.05)
+		one := archive{m: m, capacity: -1}
+		batch := archive{m: m, capacity: -1}
+		cut := rng.IntN(len(ds) + 1)
+		for _, d := range ds[:cut] {
+			one.add(d)
+		}
+		batch.addAll(ds[:cut])
+		for _, d := range ds[cut:] {
+			one.add(d)
+		}
+		batch.addAll(ds[cut:])
+		require.Equal(t, indices(one.items), indices(batch.items), "trial %d: add vs addAll", trial)
+		for _, d := range ds {
+			if !d.Feasible() {
+				continue
+			}
+			covered := false
+			for _, q := range one.items {
+				if weaklyDominates(q.F, d.F) {
+					covered = true
+					assert.False(t, slices.Equal(q.F, d.F) && q.Index > d.Index, "trial %d: later duplicate %d kept over %d", trial, q.Index, d.Index)
+				}
+			}
+			assert.True(t, covered, "trial %d: design %d %v not covered by the archive", trial, d.Index, d.F)
+		}
+		for _, p := range one.items {
+			assert.True(t, p.Feasible(), "trial %d: infeasible member %d", trial, p.Index)
+			for _, q := range one.items {
+				assert.False(t, dominates(q.F, p.F), "trial %d: member %d dominated by %d", trial, p.Index, q.Index)
+			}
+		}
+	}
+}
+
+func indices(ds []*Design) []int64 {
+	out := make([]int64, len(ds))
+	for i, d := range ds {
+		out[i] = d.Index
+	}
+	return out
+}
+
+func TestCompareCanonicalIsTotal(t *testing.T) {
+	a := &Design{Rank: 0, Crowding: math.Inf(1), F: []float64{1, 2}, X: []float64{0.5}, Index: 3}
+	b := &Design{Rank: 0, Crowding: math.Inf(1), F: []float64{1, 2}, X: []float64{0.5}, Index: 4}
+	c := &Design{Rank: 0, Crowding: 2, F: []float64{0, 2}, X: []float64{0.5}, Index: 1}
+	d := &Design{Rank: 1, Crowding: math.Inf(1), F: []float64{math.NaN(), 2}, X: []float64{0.5}, Index: 0}
+	for _, tc := range []struct {
+		name string
+		x, y *Design
+		want int
+	}{
+		{"index breaks full ties", a, b, -1},
+		{"larger crowding first", a, c, -1},
+		{"lower rank first", c, d, -1},
+		{"NaN objectives compare", d, d, 0},
+	} {
+		assert.Equal(t, tc.want, compareCanonical(tc.x, tc.y), fmt.Sprintf("%s: compare(%v, %v)", tc.name, *tc.x, *tc.y))
+		assert.Equal(t, -tc.want, compareCanonical(tc.y, tc.x), "%s: reversed", tc.name)
+	}
+}
