@@ -275,3 +275,37 @@ func TestBackbone(t *testing.T) {
 }
 
 func sq(x float64) float64 { return x * x }
+
+func TestLinks64Tubes(t *testing.T) {
+	// MaxTubes = 64 tubes fill the 64-bit Present and Curved sets. Lengths
+	// shrink outward by 1 mm; every tube ends 50 mm beyond the base plane
+	// and is curved from 10 mm on, so there are two links [0, 10] and
+	// [10, 50] mm [derived from PHYSICS §3.2].
+	r := &Robot{Tubes: make([]Tube, MaxTubes)}
+	a := Actuation{Theta: make([]float64, MaxTubes), Beta: make([]float64, MaxTubes)}
+	for i := range r.Tubes {
+		L := 0.1 + 0.001*float64(MaxTubes-i)
+		r.Tubes[i] = Tube{StraightLength: L - 0.04, CurvedLength: 0.04, Precurvature: [2]float64{0, 5},
+			Bending: isoEI(1), Torsion: 0.8, LinearDensity: 0.001}
+		a.Theta[i] = 0.1 * float64(i)
+		a.Beta[i] = 0.05 - L
+	}
+	links, err := r.Links(a, nil)
+	require.NoError(t, err)
+	require.Len(t, links, 2, "links of 64 tubes")
+	all := ^uint64(0)
+	assert.InDelta(t, 0.01, links[0].End, 1e-15, "first link end")
+	assert.Equal(t, all, links[0].Present, "first link: all 64 tubes present")
+	assert.Equal(t, uint64(0), links[0].Curved, "first link: none curved")
+	assert.Equal(t, all, links[1].Present, "second link: all 64 tubes present")
+	assert.Equal(t, all, links[1].Curved, "second link: all 64 tubes curved")
+	assert.InDelta(t, 0.064, links[1].MassPerLength, 1e-15, "second link mass per length")
+	assert.InDelta(t, 64, links[1].K[0][0], 1e-12, "second link EI_xx")
+	tip, err := r.Tip(a)
+	require.NoError(t, err)
+	s, err := NewSolver(r)
+	require.NoError(t, err)
+	stip, err := s.Tip(a.Theta, a.Beta)
+	require.NoError(t, err)
+	assertPose(t, tip, stip, withinAbs(1e-13), "Solver.Tip vs Robot.Tip, 64 tubes")
+}

@@ -18,7 +18,9 @@ type solverTube struct {
 // allocating: the per-tube constants (lengths, stiffness parts, the
 // own-frame moments K_i u*_i, thread rates) are computed once by NewSolver.
 // Its results equal those of the Robot methods (Links, Tip, Backbone) to
-// rounding.
+// rounding. Tubes carry no pre-twist (Tube.Precurvature is (u*_x, u*_y)), so
+// every link curvature has u_z = 0 and the link poses are assembled in that
+// planar-curvature form.
 //
 // A Solver keeps scratch space, so it is not safe for concurrent use; give
 // each goroutine its own (Clone). Later changes to the Robot are not seen.
@@ -30,10 +32,7 @@ type Solver struct {
 	rate    []float64 // thread advance per radian of each tube; nil if none
 	L       []float64
 	Ls      []float64
-	sumM    float64 // Σ m_i over all tubes
-	invSumM float64 // 1/sumM (isotropic single-link fast path)
-	sumGJ   float64
-	sumRh   float64
+	invSumM float64 // 1/Σ m_i over all tubes (isotropic single-link fast path)
 
 	// scratch
 	beta []float64 // effective insertions
@@ -69,12 +68,10 @@ func NewSolver(r *Robot) (*Solver, error) {
 			s.iso = false
 		}
 		s.L[i], s.Ls[i] = t.Length(), t.StraightLength
-		s.sumM += m
-		s.sumGJ += t.Torsion
-		s.sumRh += t.LinearDensity
+		s.invSumM += m
 	}
 	s.tol = lengthTol(s.L)
-	s.invSumM = 1 / s.sumM
+	s.invSumM = 1 / s.invSumM
 	s.allocScratch()
 	return s, nil
 }
@@ -125,7 +122,9 @@ func (s *Solver) prepare(theta, beta []float64) ([]float64, float64, error) {
 		if err := checkActuationValues(n, theta, beta); err != nil {
 			return nil, 0, err
 		}
-		return nil, 0, nestingError(b, s.L, s.rate, tol)
+		if err := nestingError(b, s.L, s.rate, tol); err != nil {
+			return nil, 0, err
+		}
 	}
 	return b, b[0] + s.L[0], nil
 }
@@ -218,7 +217,17 @@ func (s *Solver) Tip(theta, beta []float64) (Pose, error) {
 	// linkPose for planar u = (ux, uy, 0), assembled here so that the
 	// result is written once, in place.
 	k2 := ux*ux + uy*uy
-	a, bb, c, cx := linkCoeffs(k2, tip)
+	var a, bb, c, cx float64
+	if k := math.Sqrt(k2); k*tip >= seriesXC {
+		// linkCoeffs' trigonometric branch, inline.
+		x := k * tip
+		sh, ch := sincos(0.5 * x)
+		sx := 2 * sh * ch
+		ik := 1 / k
+		a, bb, c, cx = sx*ik, 2*sh*sh*ik*ik, (x-sx)*ik*ik*ik, 1-2*sh*sh
+	} else {
+		a, bb, c, cx = linkCoeffs(k2, tip)
+	}
 	bx, by := bb*ux, bb*uy
 	return Pose{
 		R: [3][3]float64{

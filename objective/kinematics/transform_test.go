@@ -283,17 +283,23 @@ func TestPoseAlgebra(t *testing.T) {
 }
 
 func TestSincosMatchesMath(t *testing.T) {
-	// The branch-free sincos against Go's math.Sincos (Cephes polynomials,
+	// The branch-free sincos (and its two-argument form) against Go's math.Sincos (Cephes polynomials,
 	// the same coefficients; a general-purpose reference library). Both are
 	// within about 1 ulp of the exact values, so they may differ by 2 ulp:
 	// tolerance 2.3e-16 absolute on values in [−1, 1]. Special values and the
 	// fallback beyond 1e6 rad are compared exactly.
 	rng := rand.New(rand.NewPCG(9, 10))
+	prev := 0.3
 	check := func(x float64) {
 		ws, wc := math.Sincos(x)
 		gs, gc := sincos(x)
 		require.InDelta(t, ws, gs, 2.3e-16, "sin(%v)", x)
 		require.InDelta(t, wc, gc, 2.3e-16, "cos(%v)", x)
+		// The two-argument form gives the same bits as two single calls.
+		ps, pc := sincos(prev)
+		s1, c1, s2, c2 := sincos2(x, prev)
+		require.Equal(t, [4]float64{gs, gc, ps, pc}, [4]float64{s1, c1, s2, c2}, "sincos2(%v, %v)", x, prev)
+		prev = x
 	}
 	for range 200000 {
 		check((rng.Float64()*2 - 1) * 40)
@@ -313,6 +319,11 @@ func TestSincosMatchesMath(t *testing.T) {
 		gs, gc := sincos(x)
 		assert.Equal(t, ws, gs, "sin(%v)", x)
 		assert.Equal(t, wc, gc, "cos(%v)", x)
+		s1, c1, s2, c2 := sincos2(0.5, x)
+		assert.Equal(t, ws, s2, "sincos2(0.5, %v)", x)
+		assert.Equal(t, wc, c2, "sincos2(0.5, %v)", x)
+		s0, c0 := sincos(0.5)
+		assert.Equal(t, [2]float64{s0, c0}, [2]float64{s1, c1}, "sincos2(0.5, %v)", x)
 	}
 	for _, x := range []float64{math.NaN(), math.Inf(1), math.Inf(-1)} {
 		gs, gc := sincos(x)
