@@ -23,7 +23,7 @@ func smallProblem(t *testing.T) *problems.Spec {
 	require.NoError(t, err)
 	s := strings.Replace(string(text), "relative_steps = 32", "relative_steps = 12", 1)
 	s = strings.Replace(s, "base_steps = 32", "base_steps = 8", 1)
-	s = strings.Replace(s, "population = 40", "population = 12", 1)
+	s = strings.Replace(s, "population = 60", "population = 12", 1)
 	spec, err := problems.ParseProblem([]byte(s), "small.toml")
 	require.NoError(t, err)
 	return spec
