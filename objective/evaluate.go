@@ -112,6 +112,8 @@ type evaluator struct {
 	nodes              []complianceNode
 	compliancePoints   int // 0: defaultCompliancePoints
 	shapes             []*shape
+	solver             *kinematics.Solver
+	linkBuf            []kinematics.Link
 }
 
 // Evaluate scores one design in a scenario: workspace, straightening,

@@ -26,10 +26,15 @@ func (e *evaluator) sag(res *Result) error {
 	w := defaults(e.sc.Workspace)
 	var worst *shape
 	worstPhi, worstSag := 0.0, math.Inf(-1)
+	sins := make([]float64, w.BaseSteps)
+	coss := make([]float64, w.BaseSteps)
+	for j := range sins {
+		sins[j], coss[j] = math.Sincos(2 * math.Pi * float64(j) / float64(w.BaseSteps))
+	}
 	for _, sh := range e.shapes {
 		for j := 0; j < w.BaseSteps; j++ {
 			phi := 2 * math.Pi * float64(j) / float64(w.BaseSteps)
-			s, c := math.Sincos(phi)
+			s, c := sins[j], coss[j]
 			// g in the frame of the unrotated shape: R_z(−φ) g
 			gl := [3]float64{c*g[0] + s*g[1], -s*g[0] + c*g[1], g[2]}
 			gh0 := [3]float64{c*gh[0] + s*gh[1], -s*gh[0] + c*gh[1], gh[2]}
@@ -78,7 +83,7 @@ func (e *evaluator) sag(res *Result) error {
 	sc.SagIterations = shape.Iterations
 	// Linear estimate at the same configuration: the compliance on a fine
 	// grid (PHYSICS §4.3).
-	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 400}
+	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 200}
 	C := fine.compliance(links)
 	var dp [3]float64
 	for i := range 3 {

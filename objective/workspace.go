@@ -159,7 +159,16 @@ func radicalInverse(i, b int) float64 {
 // rules (a threaded pair screwed too far, say): that sample is outside the
 // workspace, not a failure.
 func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
-	links, err := e.robot.Links(a, nil)
+	if e.solver == nil {
+		solver, err := kinematics.NewSolver(e.robot)
+		if err != nil {
+			return nil, err
+		}
+		e.solver = solver
+	}
+	buf, err := e.solver.Links(a.Theta, a.Beta, e.linkBuf[:0])
+	e.linkBuf = buf
+	links := append([]kinematics.Link(nil), buf...)
 	if err != nil {
 		var ae *kinematics.ActuationError
 		if errors.As(err, &ae) {
