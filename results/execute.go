@@ -45,12 +45,19 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			return nil, err
 		}
 		info = old
-		cp, err := f.ReadCheckpoint()
-		if err != nil {
-			return nil, err
+		if f.HasCheckpoint() {
+			cp, err := f.ReadCheckpoint()
+			if err != nil {
+				return nil, err
+			}
+			set.Resume = cp
+			keep = cp.Evaluations
+		} else {
+			// Stopped before the first checkpoint: start again from the
+			// beginning with the same seed, which repeats the same
+			// evaluations.
+			keep = 0
 		}
-		set.Resume = cp
-		keep = cp.Evaluations
 	} else {
 		if err := f.WriteFile(ProblemFile, spec.Text); err != nil {
 			return nil, err
@@ -166,7 +173,7 @@ func FrontRows(spec *problems.Spec, front []search.Design) []FrontRow {
 func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 	return func(r FrontRow) string {
 		var b strings.Builder
-		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, spec.File, info.Seed, r.Design.Index)
+		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, info.ProblemFile, info.Seed, r.Design.Index)
 		for i, o := range spec.Objectives {
 			v := r.Design.F[i]
 			if o.Maximize {

@@ -190,6 +190,11 @@ func (f *Folder) WriteCheckpoint(c *search.Checkpoint) error {
 	return f.WriteFile(CheckpointFile, b)
 }
 
+// HasCheckpoint reports whether the folder holds a checkpoint file.
+func (f *Folder) HasCheckpoint() bool {
+	return Exists(f.Path(CheckpointFile)) || Exists(f.Path(PrevCheckpoint))
+}
+
 // ReadCheckpoint reads the latest checkpoint, falling back to the previous
 // one when the latest is missing or unreadable.
 func (f *Folder) ReadCheckpoint() (*search.Checkpoint, error) {
