@@ -30,7 +30,7 @@ const (
 
 var benchColumns = []string{colLoadN, colLoadG, colDeflection, colLength, colDirection, colSpecimen}
 
-const benchExpected = "expected columns load_n or load_g, deflection_mm, free_length_mm, direction; optional specimen"
+const benchExpected = "columns load_n or load_g, deflection_mm, free_length_mm, direction; optional specimen"
 
 // BenchRow is one measurement of a cantilever bench test, in SI.
 type BenchRow struct {
@@ -129,7 +129,7 @@ func ParseBench(data []byte, file string) (*Bench, error) {
 	}
 	switch {
 	case !haveHeader && len(errs) == 0:
-		add(1, 1, "", "empty file (expected a header row: %s)", benchExpected)
+		add(1, 1, "", "empty file (expected a header row with %s)", benchExpected)
 	case haveHeader && b.cols != nil && len(b.Rows) == 0 && len(errs) == 0:
 		add(b.header, 1, "", "no measurements (expected one row per load below the header)")
 	}
@@ -200,12 +200,12 @@ func (b *Bench) readHeader(rec []string, line int, add addFunc) {
 	case hasG:
 		b.LoadColumn = colLoadG
 	default:
-		add(line, 1, colLoadN, "missing column%s (%s)", suggest(unknown, colLoadN, colLoadG), benchExpected)
+		add(line, 1, colLoadN, "missing column%s (expected %s)", suggest(unknown, colLoadN, colLoadG), benchExpected)
 		ok = false
 	}
 	for _, c := range []string{colDeflection, colLength, colDirection} {
 		if _, found := cols[c]; !found {
-			add(line, 1, c, "missing column%s (%s)", suggest(unknown, c), benchExpected)
+			add(line, 1, c, "missing column%s (expected %s)", suggest(unknown, c), benchExpected)
 			ok = false
 		}
 	}
@@ -230,14 +230,22 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 		add(l, n+1, "", "row has %d fields, the header %d (expected one cell per column)", len(rec), n)
 		return
 	}
+	short := -1 // first required column beyond the row's end
+	for _, name := range []string{b.LoadColumn, colDeflection, colLength, colDirection} {
+		if i := b.cols[name]; i >= len(rec) && (short < 0 || i < short) {
+			short = i
+		}
+	}
+	if short >= 0 {
+		add(line, short+1, headerName(b.cols, short), "missing cell: the row has %d fields, the header %d (expected one cell per column)", len(rec), b.width)
+		return
+	}
 	row := BenchRow{Line: line}
 	ok := true
 	cell := func(name string) (string, int, int, bool) {
 		i := b.cols[name]
 		if i >= len(rec) {
-			add(line, i+1, name, "missing cell: the row has %d fields, the header %d (expected one cell per column)", len(rec), b.width)
-			ok = false
-			return "", 0, 0, false
+			return "", 0, 0, false // an optional column the row leaves out
 		}
 		l, _ := cr.FieldPos(i)
 		s := strings.TrimSpace(rec[i])
@@ -303,6 +311,15 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 	if ok {
 		b.Rows = append(b.Rows, row)
 	}
+}
+
+func headerName(cols map[string]int, i int) string {
+	for k, j := range cols {
+		if j == i {
+			return k
+		}
+	}
+	return ""
 }
 
 // AxisName is "x" or "y".

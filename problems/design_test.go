@@ -20,12 +20,21 @@ var update = flag.Bool("update", false, "rewrite the .golden files")
 // in testdata/design-errors: each names file, line, column, key and what
 // was expected. Rewrite the goldens with -update after a deliberate change.
 func TestDesignErrorsGolden(t *testing.T) {
-	files, err := filepath.Glob("testdata/design-errors/*.toml")
+	goldenErrors(t, "design-errors", func(f string) error { _, _, err := LoadDesign(f); return err })
+}
+
+// TestProblemErrorsGolden does the same for malformed problem files.
+func TestProblemErrorsGolden(t *testing.T) {
+	goldenErrors(t, "problem-errors", func(f string) error { _, err := LoadProblem(f); return err })
+}
+
+func goldenErrors(t *testing.T, dir string, load func(string) error) {
+	files, err := filepath.Glob("testdata/" + dir + "/*.toml")
 	require.NoError(t, err)
 	require.NotEmpty(t, files)
 	for _, f := range files {
 		t.Run(filepath.Base(f), func(t *testing.T) {
-			_, _, err := LoadDesign(f)
+			err := load(f)
 			require.Error(t, err, "design %s must be rejected", f)
 			assert.True(t, IsInputError(err), "design %s: error must be an input error, got %T", f, err)
 			got := err.Error() + "\n"
@@ -37,7 +46,7 @@ func TestDesignErrorsGolden(t *testing.T) {
 			require.NoError(t, err, "missing golden for %s (run go test ./problems -update)", f)
 			assert.Equal(t, string(want), got, "error message for %s", f)
 			for _, line := range strings.Split(strings.TrimSpace(got), "\n") {
-				assert.Regexp(t, `^testdata/design-errors/[a-z-]+\.toml:\d+:\d+: `, line, "every line names file:line:col (%s)", f)
+				assert.Regexp(t, `^testdata/`+dir+`/[a-z-]+\.toml:\d+:\d+: `, line, "every line names file:line:col (%s)", f)
 			}
 		})
 	}

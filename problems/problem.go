@@ -197,7 +197,7 @@ func (s *Spec) readObjectives(root *table) {
 				t.r.errorf(t.key("score"), "missing (expected one of: %s)", strings.Join(objective.ScoreNames(), "|"))
 			}
 		} else if _, known := objective.LookupScore(name); !known {
-			t.r.errorf(t.key("score"), "%q is not a score (expected one of: %s)", name, strings.Join(objective.ScoreNames(), "|"))
+			t.r.errorf(t.key("score"), "%s", unknownScore(name))
 		}
 		o.Score = name
 		o.Maximize = t.choice("goal", goalNames, "minimize") == "maximize"
@@ -209,6 +209,14 @@ func (s *Spec) readObjectives(root *table) {
 	}
 }
 
+func unknownScore(name string) string {
+	msg := fmt.Sprintf("%q is not a score", name)
+	if n := nearest(name, objective.ScoreNames()); n != "" {
+		msg += fmt.Sprintf(" (did you mean %q?)", n)
+	}
+	return msg + " (expected one of: " + strings.Join(objective.ScoreNames(), "|") + ")"
+}
+
 func (s *Spec) readConstraints(root *table) {
 	for _, t := range root.tables("constraint") {
 		c := Constraint{Min: math.NaN(), Max: math.NaN()}
@@ -216,7 +224,7 @@ func (s *Spec) readConstraints(root *table) {
 		if !ok && !t.has("score") {
 			t.r.errorf(t.key("score"), "missing (expected one of: %s)", strings.Join(objective.ScoreNames(), "|"))
 		} else if _, known := objective.LookupScore(name); ok && !known {
-			t.r.errorf(t.key("score"), "%q is not a score (expected one of: %s)", name, strings.Join(objective.ScoreNames(), "|"))
+			t.r.errorf(t.key("score"), "%s", unknownScore(name))
 		}
 		c.Score = name
 		if v, ok := t.number("min", "a lower limit in the score's unit", false); ok {
