@@ -1,0 +1,135 @@
+package problems
+
+import (
+	"errors"
+	"os"
+	"path/filepath"
+	"testing"
+
+	"github.com/BurntSushi/toml"
+)
+
+// seedCorpus adds every TOML file of the shipped examples and the bad-input
+// corpus.
+func seedCorpus(f *testing.F) {
+	for _, pattern := range []string{"examples/*.toml", "testdata/design-errors/*.toml", "testdata/problem-errors/*.toml"} {
+		files, _ := filepath.Glob(pattern)
+		for _, name := range files {
+			b, err := os.ReadFile(name)
+			if err == nil {
+				f.Add(b)
+			}
+		}
+	}
+}
+
+// checkParseError: a failure is an input error (ours or the TOML
+// library's), with a position inside the input when it has one; never a
+// panic.
+func checkParseError(t *testing.T, data []byte, err error) {
+	if err == nil {
+		return
+	}
+	if !IsInputError(err) {
+		var pe toml.ParseError
+		if !errors.As(err, &pe) {
+			t.Fatalf("error is neither *problems.Error nor toml.ParseError: %T %v", err, err)
+		}
+	}
+	var e *Error
+	if errors.As(err, &e) && e.Line > 0 {
+		lines := 1
+		for _, c := range data {
+			if c == '\n' {
+				lines++
+			}
+		}
+		if e.Line > lines {
+			t.Fatalf("error line %d beyond the input's %d lines: %v", e.Line, lines, err)
+		}
+	}
+}
+
+// FuzzParseDesign: the design parser never panics, and a design it accepts
+// builds a robot and can be written back.
+func FuzzParseDesign(f *testing.F) {
+	seedCorpus(f)
+	f.Fuzz(func(t *testing.T, data []byte) {
+		d, sc, err := ParseDesign(data, "fuzz.toml")
+		checkParseError(t, data, err)
+		if err != nil {
+			return
+		}
+		if sc == nil {
+			t.Fatal("a parsed design has a scenario")
+		}
+		if _, _, err := d.Robot(); err != nil {
+			t.Fatalf("an accepted design must build: %v", err)
+		}
+	})
+}
+
+// FuzzParseProblem: the problem parser never panics; an accepted problem
+// gives a search problem whose bounds are ordered, and the design at its
+// lower bounds is either built or refused with an input error.
+func FuzzParseProblem(f *testing.F) {
+	seedCorpus(f)
+	f.Fuzz(func(t *testing.T, data []byte) {
+		s, err := ParseProblem(data, "fuzz.toml")
+		checkParseError(t, data, err)
+		if err != nil {
+			return
+		}
+		p := s.SearchProblem()
+		for i := range p.Lower {
+			if !(p.Lower[i] <= p.Upper[i]) {
+				t.Fatalf("variable %d: bounds [%g, %g]", i, p.Lower[i], p.Upper[i])
+			}
+		}
+		if _, _, err := s.Design(p.Lower); err != nil && !IsInputError(err) {
+			t.Fatalf("design at the lower bounds: %T %v", err, err)
+		}
+	})
+}
+
+// FuzzEvaluate evaluates random in-bound designs of the demo problem: the
+// evaluator never panics, and every objective and constraint is finite
+// unless the evaluation reports why it failed (the search then records the
+// design as infeasible with that reason).
+func FuzzEvaluate(f *testing.F) {
+	s, err := LoadProblem("examples/boom-search.toml")
+	if err != nil {
+		f.Fatal(err)
+	}
+	// A coarse workspace keeps each evaluation short.
+	s.base["workspace"] = map[string]any{"relative_steps": int64(8), "base_steps": int64(4)}
+	p := s.SearchProblem()
+	f.Add(0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5)
+	f.Add(0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0)
+	f.Add(1.0, 1.0, 1.0, 1.0, 1.0, 1.0, 1.0, 1.0, 1.0)
+	f.Add(1.0, 0.0, 1.0, 0.0, 1.0, 0.0, 1.0, 0.0, 1.0)
+	f.Fuzz(func(t *testing.T, u0, u1, u2, u3, u4, u5, u6, u7, u8 float64) {
+		u := []float64{u0, u1, u2, u3, u4, u5, u6, u7, u8}
+		x := make([]float64, p.Dim)
+		for i := range x {
+			v := u[i%len(u)]
+			if v != v || v < 0 || v > 1 {
+				return // outside the unit box: not an in-bound design
+			}
+			x[i] = p.Lower[i] + v*(p.Upper[i]-p.Lower[i])
+		}
+		fv := make([]float64, p.NumObjectives)
+		gv := make([]float64, p.NumConstraints)
+		if err := p.Evaluate(t.Context(), 0, x, fv, gv); err != nil {
+			if err.Error() == "" {
+				t.Fatal("a failed evaluation must say why")
+			}
+			return
+		}
+		for i, v := range append(fv, gv...) {
+			if v != v || v > 1e300 || v < -1e300 {
+				t.Fatalf("output %d is %g at x = %v without a failure reason", i, v, x)
+			}
+		}
+	})
+}
