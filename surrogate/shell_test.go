@@ -9,14 +9,6 @@ import (
 )
 
 // cylinderMesh returns n elements of a cylinder of radius r from z = 0 to z = l.
-func cylinderMesh(r, l float64, n int) (rs, zs []float64) {
-	for i := 0; i <= n; i++ {
-		rs = append(rs, r)
-		zs = append(zs, l*float64(i)/float64(n))
-	}
-	return rs, zs
-}
-
 // TestShellStraightCylinderAxial checks the element against the membrane
 // axial stiffness of a cylinder with radially free ends, k = 2π R E t / L
 // (PHYSICS §9.7: R = 10, t = 0.1, L = 5, E = 1000, ν = 0.3 → 1256.64; the
