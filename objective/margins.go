@@ -69,9 +69,20 @@ func (e *evaluator) sag(res *Result) error {
 	if err != nil {
 		return fmt.Errorf("tip sag at angles %s: %w", degList(act.Theta), err)
 	}
-	free, err := kinematics.SolveStatics(links, ref, nil)
-	if err != nil {
-		return fmt.Errorf("tip sag at angles %s (no gravity): %w", degList(act.Theta), err)
+	// Without extra tip loads the reference is the unloaded shape, whose
+	// tip the closed-form link transforms give exactly.
+	var free *kinematics.Shape
+	if ref.TipForce == ([3]float64{}) && ref.TipMoment == ([3]float64{}) {
+		tip := kinematics.Identity()
+		for _, l := range links {
+			tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
+		}
+		free = &kinematics.Shape{Tip: tip}
+	} else {
+		free, err = kinematics.SolveStatics(links, ref, nil)
+		if err != nil {
+			return fmt.Errorf("tip sag at angles %s (no gravity): %w", degList(act.Theta), err)
+		}
 	}
 	sag := 0.0
 	for i := range 3 {
