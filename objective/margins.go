@@ -44,7 +44,7 @@ func (e *evaluator) sag(res *Result) error {
 					v += gh0[a] * sh.comp[a][b] * gl[b]
 				}
 			}
-			if v > worstSag {
+			if worst == nil || v > worstSag+1e-9*math.Abs(worstSag) { // ties (symmetric shapes): keep the first
 				worst, worstPhi, worstSag = sh, phi, v
 			}
 		}

@@ -12,6 +12,7 @@ import (
 
 	"plica/objective"
 	"plica/problems"
+	"plica/results"
 )
 
 func init() {
@@ -25,8 +26,6 @@ check passes, 1 when any fails, 2 on bad input.`,
 		run: runCheck,
 	})
 }
-
-const caution = "Model estimates only: verify on a printed prototype before relying on this design; where it carries payloads, works near people or is for medical use, follow the applicable standards and have it reviewed by a qualified engineer."
 
 func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
 	asJSON := fs.Bool("json", false, "print JSON instead of tables")
@@ -86,29 +85,10 @@ func round6(f float64) float64 {
 }
 
 type checkOutput struct {
-	Pass   bool `json:"pass"`
-	Scores struct {
-		TipSag            num   `json:"tip_sag_mm"`
-		TipSagLinear      num   `json:"tip_sag_linear_mm"`
-		Reach             num   `json:"reach_mm"`
-		BendAngleRange    num   `json:"bend_angle_range_deg"`
-		BendAngleMin      num   `json:"bend_angle_min_deg"`
-		BendAngleMax      num   `json:"bend_angle_max_deg"`
-		ResidualCurvature num   `json:"residual_curvature_per_m"`
-		StraightTipOffset num   `json:"straight_tip_offset_mm"`
-		CurvatureMin      num   `json:"curvature_min_per_m"`
-		CurvatureMax      num   `json:"curvature_max_per_m"`
-		PeakStrain        num   `json:"peak_strain"`
-		AllowableStrain   num   `json:"allowable_strain"`
-		StabilityMargin   num   `json:"stability_margin"`
-		Mass              num   `json:"mass_g"`
-		PayloadToWeight   num   `json:"payload_to_weight"`
-		TaskCoverage      num   `json:"task_coverage"`
-		SurfaceArea       num   `json:"surface_area_mm2"`
-		Volume            num   `json:"volume_mm3"`
-		MinClearance      num   `json:"min_clearance_mm"`
-		SagAngles         []num `json:"sag_angles_deg"`
-	} `json:"scores"`
+	Pass bool `json:"pass"`
+	// Scores holds every score of objective.AllScores by name (units in
+	// the names), plus the common rotation angles of the worst sag.
+	Scores   map[string]any  `json:"scores"`
 	Bellows  []bellowsOutput `json:"bellows"`
 	Checks   []checkLine     `json:"checks"`
 	Models   []string        `json:"models"`
@@ -161,31 +141,16 @@ func bellowsRows(st []objective.Stiffness) []bellowsOutput {
 }
 
 func newCheckOutput(res *objective.Result) *checkOutput {
-	o := &checkOutput{Pass: res.Pass, Models: res.Models, Warnings: res.Warnings, Caution: caution}
-	sc := res.Scores
-	s := &o.Scores
-	s.TipSag = num(sc.TipSag * 1e3)
-	s.TipSagLinear = num(sc.TipSagLinear * 1e3)
-	s.Reach = num(sc.Reach * 1e3)
-	s.BendAngleRange = num(sc.BendAngleRange * 180 / math.Pi)
-	s.BendAngleMin = num(sc.BendAngleMin * 180 / math.Pi)
-	s.BendAngleMax = num(sc.BendAngleMax * 180 / math.Pi)
-	s.ResidualCurvature = num(sc.ResidualCurvature)
-	s.StraightTipOffset = num(sc.StraightTipOffset * 1e3)
-	s.CurvatureMin = num(sc.CurvatureMin)
-	s.CurvatureMax = num(sc.CurvatureMax)
-	s.PeakStrain = num(sc.PeakStrain)
-	s.AllowableStrain = num(sc.AllowableStrain)
-	s.StabilityMargin = num(sc.StabilityMargin)
-	s.Mass = num(sc.Mass * 1e3)
-	s.PayloadToWeight = num(sc.PayloadToWeight)
-	s.TaskCoverage = num(sc.TaskCoverage)
-	s.SurfaceArea = num(sc.SurfaceArea * 1e6)
-	s.Volume = num(sc.Volume * 1e9)
-	s.MinClearance = num(sc.MinClearance * 1e3)
-	for _, th := range sc.SagActuation.Theta {
-		s.SagAngles = append(s.SagAngles, num(math.Mod(th*180/math.Pi+360, 360)))
+	o := &checkOutput{Pass: res.Pass, Models: res.Models, Warnings: res.Warnings, Caution: results.Caution}
+	o.Scores = map[string]any{}
+	for _, sc := range objective.AllScores() {
+		o.Scores[sc.Name] = num(sc.Value(&res.Scores))
 	}
+	var angles []num
+	for _, th := range res.Scores.SagActuation.Theta {
+		angles = append(angles, num(math.Mod(th*180/math.Pi+360, 360)))
+	}
+	o.Scores["sag_angles_deg"] = angles
 	o.Bellows = bellowsRows(res.Bellows)
 	o.Checks = make([]checkLine, len(res.Checks))
 	for i, c := range res.Checks {
@@ -268,7 +233,7 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	for _, m := range res.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
 	}
-	fmt.Fprintf(w, "caution: %s\n\n", caution)
+	fmt.Fprintf(w, "caution: %s\n\n", results.Caution)
 	if len(failed) == 0 {
 		fmt.Fprintf(w, "result: PASS (%d checks)\n", len(res.Checks))
 	} else {
