@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"time"
 
 	"plica/objective"
@@ -158,12 +159,12 @@ func tomlQuote(s string) string {
 // in the same directory, synced, then renamed over path, so a reader never
 // sees half a file.
 func WriteCalibration(path string, c *Calibration) error {
-	return WriteFileAtomic(path, c.Format())
+	return writeAtomic(path, c.Format())
 }
 
-// WriteFileAtomic writes data to path through a temporary file in the same
+// writeAtomic writes data to path through a temporary file in the same
 // directory and a rename; on failure path is untouched.
-func WriteFileAtomic(path string, data []byte) (err error) {
+func writeAtomic(path string, data []byte) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
 		dir = "."
@@ -349,13 +350,13 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 	if !filepath.IsAbs(path) {
 		path = filepath.Join(filepath.Dir(t.r.file), rel)
 	}
-	data, err := os.ReadFile(path)
+	c, err := cachedCalibration(path)
 	if err != nil {
-		t.r.errorf(t.key(k), "cannot read %s: %v (expected a calibration file written by plica calibrate, path relative to this design file)", strconv.Quote(path), errors.Unwrap(err))
-		return
-	}
-	c, err := ParseCalibration(data, path)
-	if err != nil {
+		var re *readError
+		if errors.As(err, &re) {
+			t.r.errorf(t.key(k), "cannot read %s: %v (expected a calibration file written by plica calibrate, path relative to this design file)", strconv.Quote(path), re.err)
+			return
+		}
 		var es Errors
 		var e *Error
 		switch {
@@ -373,4 +374,113 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 		return
 	}
 	mb.Calibration = [2]float64{c.Factor[0].Value, c.Factor[1].Value}
+}
+
+// readError is a calibration file that cannot be read at all.
+type readError struct{ err error }
+
+func (e *readError) Error() string { return e.err.Error() }
+
+// calibrationCache keeps parsed calibration files by path, size and
+// modification time: a search reads each candidate's design tables again,
+// and parsing a calibration file costs about 0.1 ms.
+var calibrationCache = struct {
+	sync.Mutex
+	m map[string]cachedCal
+}{m: map[string]cachedCal{}}
+
+type cachedCal struct {
+	size    int64
+	modTime time.Time
+	cal     Calibration
+}
+
+// cachedCalibration reads and parses path, or returns the parse of the same
+// unchanged file. Only valid files are kept.
+func cachedCalibration(path string) (*Calibration, error) {
+	key, err := filepath.Abs(path)
+	if err != nil {
+		key = path
+	}
+	fi, err := os.Stat(path)
+	if err == nil && fi.Mode().IsRegular() {
+		calibrationCache.Lock()
+		e, ok := calibrationCache.m[key]
+		calibrationCache.Unlock()
+		if ok && e.size == fi.Size() && e.modTime.Equal(fi.ModTime()) {
+			c := e.cal
+			return &c, nil
+		}
+	}
+	data, err := readSmallFile(path)
+	if err != nil {
+		return nil, &readError{err}
+	}
+	c, err := ParseCalibration(data, path)
+	if err != nil {
+		return nil, err
+	}
+	if fi != nil && int64(len(data)) == fi.Size() {
+		calibrationCache.Lock()
+		calibrationCache.m[key] = cachedCal{size: fi.Size(), modTime: fi.ModTime(), cal: *c}
+		calibrationCache.Unlock()
+	}
+	return c, nil
+}
+
+// maxCalibrationSize bounds a calibration file; the files plica writes are
+// about 1.5 kB.
+const maxCalibrationSize = 1 << 20
+
+// readSmallFile reads a regular file of at most maxCalibrationSize bytes,
+// so that a design naming a device or a huge file fails cleanly.
+func readSmallFile(path string) ([]byte, error) {
+	fi, err := os.Stat(path)
+	if err != nil {
+		return nil, errors.Unwrap(err)
+	}
+	if !fi.Mode().IsRegular() {
+		return nil, fmt.Errorf("not a regular file")
+	}
+	if fi.Size() > maxCalibrationSize {
+		return nil, fmt.Errorf("%d bytes is too large for a calibration file", fi.Size())
+	}
+	data, err := os.ReadFile(path)
+	if err != nil {
+		return nil, errors.Unwrap(err)
+	}
+	return data, nil
+}
+
+// CalibrationFiles lists the calibration files a design or problem file
+// names with calibration_file, as written (relative to the file) and in
+// file order without repeats; a syntax error is returned as *Error. A run
+// folder that keeps a copy of the file must keep these beside it, at the
+// same relative paths, for the copy to load.
+func CalibrationFiles(data []byte, file string) ([]string, error) {
+	_, root, err := decode(data, file)
+	if err != nil {
+		return nil, err
+	}
+	var out []string
+	seen := map[string]bool{}
+	v := root.m["bellows"]
+	var tables []map[string]any
+	switch x := v.(type) {
+	case []map[string]any:
+		tables = x
+	case []any:
+		for _, e := range x {
+			if m, ok := e.(map[string]any); ok {
+				tables = append(tables, m)
+			}
+		}
+	}
+	for _, m := range tables {
+		if s, ok := m["calibration_file"].(string); ok && s != "" && !seen[s] {
+			seen[s] = true
+			out = append(out, s)
+		}
+	}
+	return out, nil
 }
