@@ -2,8 +2,6 @@ package problems
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"math"
@@ -453,10 +451,13 @@ func (s *Spec) Design(x []float64) (*objective.Design, *objective.Scenario, erro
 // pose accept: the problem file's design tables with every variable fixed.
 func (s *Spec) DesignTOML(x []float64, comment string) ([]byte, error) {
 	var buf bytes.Buffer
+	m := s.resolve(x)
+	if names := s.inlineCalibration(m); len(names) > 0 {
+		comment += "\ncalibration_factor values from " + joinNames(names)
+	}
 	for _, line := range strings.Split(strings.TrimSpace(comment), "\n") {
 		fmt.Fprintf(&buf, "# %s\n", line)
 	}
-	m := s.resolve(x)
 	for _, v := range s.Variables {
 		if v.Options == nil {
 			bs := m["bellows"].([]map[string]any)
@@ -481,11 +482,4 @@ func roundSig(f float64, n int) float64 {
 	}
 	p := math.Pow(10, float64(n-1)-math.Floor(math.Log10(math.Abs(f))))
 	return math.Round(f*p) / p
-}
-
-// Hash identifies the problem (file text) for checkpoints: a resumed run
-// must use the same problem.
-func (s *Spec) Hash() string {
-	h := sha256.Sum256(s.Text)
-	return hex.EncodeToString(h[:8])
 }

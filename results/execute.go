@@ -7,6 +7,7 @@ import (
 	"io"
 	"math"
 	"os"
+	"path/filepath"
 	"sort"
 	"strings"
 	"time"
@@ -59,7 +60,21 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			keep = 0
 		}
 	} else {
-		if err := f.WriteFile(ProblemFile, spec.Text); err != nil {
+		// The run folder keeps the problem and the calibration files it
+		// names, so it loads wherever it is moved.
+		text, files, err := spec.Portable()
+		if err != nil {
+			return nil, err
+		}
+		for name, data := range files {
+			if err := os.MkdirAll(filepath.Dir(f.Path(name)), 0o755); err != nil {
+				return nil, err
+			}
+			if err := f.WriteFile(name, data); err != nil {
+				return nil, err
+			}
+		}
+		if err := f.WriteFile(ProblemFile, text); err != nil {
 			return nil, err
 		}
 		info = &RunInfo{Program: "plica", Version: opt.Version, ProblemName: problemName(spec), ProblemFile: spec.File,

@@ -124,3 +124,47 @@ func TestWriteAtomicLeavesNoTemp(t *testing.T) {
 	require.NoError(t, err)
 	assert.Len(t, entries, 1, "no temporary files left behind")
 }
+
+// TestRunFolderKeepsCalibration: a problem that names a calibration file
+// gives a run folder that carries a copy of it; the folder resumes after
+// being moved, and its front designs carry the factors themselves.
+func TestRunFolderKeepsCalibration(t *testing.T) {
+	src := t.TempDir()
+	cal, err := os.ReadFile("../problems/examples/boom-calibration.toml")
+	require.NoError(t, err)
+	require.NoError(t, os.WriteFile(filepath.Join(src, "cal.toml"), cal, 0o644))
+	text, err := os.ReadFile("../problems/examples/boom-search.toml")
+	require.NoError(t, err)
+	s := string(text)
+	for _, r := range [][2]string{{"relative_steps = 32", "relative_steps = 12"}, {"base_steps = 32", "base_steps = 8"}, {"population = 60", "population = 12"},
+		{"outer_diameter_mm = 30.0\n", "outer_diameter_mm = 30.0\ncalibration_file = \"cal.toml\"\n"}} {
+		require.Contains(t, s, r[0])
+		s = strings.Replace(s, r[0], r[1], 1)
+	}
+	pf := filepath.Join(src, "p.toml")
+	require.NoError(t, os.WriteFile(pf, []byte(s), 0o644))
+	spec, err := problems.LoadProblem(pf)
+	require.NoError(t, err)
+
+	run := filepath.Join(t.TempDir(), "run")
+	_, err = runTo(t, spec, run, 36, 1, context.Background(), false)
+	require.NoError(t, err)
+	assert.FileExists(t, filepath.Join(run, "calibration", "cal.toml"))
+	assert.Contains(t, readFile(t, filepath.Join(run, ProblemFile)), `calibration_file = "calibration/cal.toml"`)
+	front := readFile(t, filepath.Join(run, DesignFileName(1)))
+	assert.Contains(t, front, "calibration_factor = [", "front designs carry the factors")
+	assert.NotContains(t, front, "calibration_file")
+	d, _, err := problems.ParseDesign([]byte(front), "front.toml")
+	require.NoError(t, err)
+	st, err := d.Stiffness()
+	require.NoError(t, err)
+	assert.Equal(t, "calibrated", st[1].Source)
+
+	moved := filepath.Join(t.TempDir(), "moved")
+	require.NoError(t, os.Rename(run, moved))
+	rspec, err := problems.LoadProblem(filepath.Join(moved, ProblemFile))
+	require.NoError(t, err, "the moved run's problem loads")
+	assert.Equal(t, spec.Hash(), rspec.Hash(), "the portable copy hashes like the original")
+	_, err = runTo(t, rspec, moved, 60, 1, context.Background(), true)
+	require.NoError(t, err, "the moved run resumes")
+}
