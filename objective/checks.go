@@ -80,6 +80,13 @@ func (e *evaluator) checks(res *Result) {
 				kind = "thread"
 			}
 			add(fmt.Sprintf("clearance[%d-%d]", i+1, i+2), c*mmPerM, minGap*mmPerM, "mm", false, kind+" clearance, radial")
+			in, out := e.d.Bellows[i], e.d.Bellows[i+1]
+			if in.ThreadLead > 0 && in.Model != nil && out.Model != nil {
+				// The inner bellows screws along the outer one's helix:
+				// its lead must be the outer pitch.
+				add(fmt.Sprintf("thread_lead[%d-%d]", i+1, i+2), math.Abs(in.ThreadLead-out.Model.Pitch)*mmPerM, 0.01*out.Model.Pitch*mmPerM, "mm", true,
+					"thread lead against the outer bellows' pitch (within 1 %)")
+			}
 		}
 	}
 	if q.MaxMass > 0 {

@@ -230,3 +230,40 @@ func BenchmarkEvaluateTwoBellows(b *testing.B) {
 	}
 	b.ReportMetric(b.Elapsed().Seconds()*1e3/float64(n), "ms/eval")
 }
+
+// TestThreadedPair: a helical inner bellows threaded into the outer one,
+// with an insertion range, has three actuation parameters (so a voxel
+// volume), a thread clearance check at crown and root, and a lead check;
+// the clearances follow from the diameters (derived: crest gap
+// (30/2 − 0.6) − 28/2 = 0.4 mm, root gap (30/2 − 3 − 0.6) − (28/2 − 3) =
+// 0.4 mm).
+func TestThreadedPair(t *testing.T) {
+	petg, ok := surrogate.LookupMaterial("petg")
+	require.True(t, ok)
+	geo := func(od, wall float64) *surrogate.Bellows {
+		return &surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: od, Depth: 3e-3, Pitch: 10e-3, Wall: wall, Helical: true}, Material: petg}
+	}
+	d := &Design{Bellows: []Bellows{
+		{Model: geo(28e-3, 0.5e-3), StraightLength: 0.15, CurvedLength: 0.1, Precurvature: [2]float64{0, 3}, ThreadLead: 10e-3},
+		{Model: geo(30e-3, 0.6e-3), StraightLength: 0.14, CurvedLength: 0.1, Precurvature: [2]float64{0, 2}},
+	}}
+	sc := &Scenario{Load: Load{NoGravity: true}, Workspace: Workspace{RelativeSteps: 16, BaseSteps: 8, InsertionSteps: 4,
+		Insertion: [][2]float64{{-0.02, 0}, {0, 0}}}}
+	res, err := Evaluate(d, sc)
+	require.NoError(t, err)
+	assert.Equal(t, 3, res.Scores.DOF, "relative rotation, common rotation, insertion")
+	assert.Greater(t, res.Scores.Volume, 0.0, "voxel volume for three parameters")
+	assert.InDelta(t, 0.4e-3, res.Scores.MinClearance, 1e-12, "thread clearance")
+	c := findCheck(res, "thread_lead[1-2]")
+	require.NotNil(t, c)
+	assert.True(t, c.Pass, "lead equals the outer pitch")
+	assert.Equal(t, CheckNames(d, sc), checkNames(res), "CheckNames lists the checks Evaluate makes")
+}
+
+func checkNames(r *Result) []string {
+	var out []string
+	for _, c := range r.Checks {
+		out = append(out, c.Name)
+	}
+	return out
+}

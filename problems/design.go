@@ -98,8 +98,8 @@ func readDesign(r *reader, root *table) (*objective.Design, [][2]float64) {
 		r.errorf("bellows", "missing (expected one [[bellows]] table per bellows, innermost first)")
 	}
 	for _, bt := range bs {
+		ins = append(ins, readInsertion(bt)) // before readBellows reports unread keys
 		d.Bellows = append(d.Bellows, readBellows(bt, materials))
-		ins = append(ins, readInsertion(bt))
 	}
 	if n := len(bs); n > 0 && d.Bellows[n-1].ThreadLead > 0 {
 		k := "thread_lead_mm"
