@@ -66,6 +66,9 @@ type RunInfo struct {
 	MaxEvaluations int64  `json:"max_evaluations"`
 	TimeBudget     string `json:"time_budget"`
 	Caution        string `json:"caution"`
+	// MergedFrom lists the runs of a merged run (method "merge"); see
+	// Merge.
+	MergedFrom []MergedRun `json:"merged_from,omitempty"`
 }
 
 // Folder is one run folder.

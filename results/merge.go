@@ -1,0 +1,399 @@
+package results
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"time"
+
+	"plica/problems"
+	"plica/search"
+)
+
+// Columns that merge adds to evaluations.csv: the run folder each row
+// comes from and its index there. The index column of a merged archive
+// numbers the rows 0, 1, 2, … in the order of the runs given, then of
+// their rows.
+const (
+	SourceRunColumn   = "source_run"
+	SourceIndexColumn = "source_index"
+)
+
+// MergedRun describes one run of a merge in run.json.
+type MergedRun struct {
+	Run         string `json:"run"`
+	Seed        uint64 `json:"seed"`
+	ProblemHash string `json:"problem_hash"`
+	Method      string `json:"method"`
+	Status      string `json:"status"`
+	// Evaluations counts the rows of its evaluations.csv merged.
+	Evaluations int64 `json:"evaluations"`
+	// FrontSize is the size of the front of its own evaluations.
+	FrontSize int `json:"front_size"`
+	// Hypervolume is the hypervolume of that front at the merged run's
+	// reference point.
+	Hypervolume float64 `json:"hypervolume"`
+	// UnionFront counts the designs of the merged front it found.
+	UnionFront int `json:"union_front_points"`
+}
+
+// MergeResult is what Merge wrote.
+type MergeResult struct {
+	Folder *Folder
+	Info   *RunInfo
+	Front  []FrontRow
+	// Skipped counts incomplete rows left out (the torn last line of a run
+	// that was killed while writing).
+	Skipped int
+	// ReferenceReason says how the reference point of the hypervolumes
+	// in run.json was chosen.
+	ReferenceReason string
+	Notes           []string
+}
+
+// mergeInput is one run being merged.
+type mergeInput struct {
+	dir  string
+	info *RunInfo
+	spec *problems.Spec
+}
+
+// origin locates a merged design in its source run.
+type origin struct {
+	run    int    // position among the runs given
+	srcRun string // the run folder that evaluated it (deeper when merging a merge)
+	index  string // its index there
+}
+
+// Merge joins the evaluation archives of runs of one problem (islands with
+// different seeds, say) into a new run folder out: problem.toml of the
+// first run; evaluations.csv with every row renumbered and two more
+// columns, source_run and source_index; front.csv and designs/front-NNN.toml
+// of the feasible non-dominated set of all the evaluations (re-evaluated,
+// as a search writes them); and run.json with method "merge" and the runs,
+// seeds and problem hashes in merged_from. Runs whose problems differ in
+// anything but their [search] tables are refused (SameProblem), as is an
+// out folder that already holds a run.
+func Merge(dirs []string, out, version string) (*MergeResult, error) {
+	if len(dirs) == 0 {
+		return nil, inputErrorf("no runs to merge")
+	}
+	var ins []mergeInput
+	res := &MergeResult{}
+	for _, d := range dirs {
+		d = filepath.Clean(d)
+		for _, in := range ins {
+			if in.dir == d {
+				return nil, inputErrorf("%s is given twice", d)
+			}
+		}
+		if filepath.Clean(out) == d {
+			return nil, inputErrorf("-o %s is one of the runs to merge (expected a new folder)", out)
+		}
+		f := &Folder{Dir: d}
+		info, err := f.ReadInfo()
+		if err != nil {
+			if errors.Is(err, os.ErrNotExist) {
+				return nil, inputErrorf("%s is not a run folder (no %s)", d, RunFile)
+			}
+			return nil, &InputError{err}
+		}
+		spec, err := problems.LoadProblem(f.Path(ProblemFile))
+		if err != nil {
+			return nil, err
+		}
+		if len(ins) > 0 {
+			if err := SameProblem(ins[0].spec, spec); err != nil {
+				return nil, err
+			}
+		}
+		if info.Status == "running" {
+			res.Notes = append(res.Notes, fmt.Sprintf("%s says it is still running (or was killed): merging the evaluations it has written", d))
+		}
+		ins = append(ins, mergeInput{dir: d, info: info, spec: spec})
+	}
+	folder, err := Create(out)
+	if err != nil {
+		return nil, &InputError{err}
+	}
+	res.Folder = folder
+	spec, err := problems.ParseProblem(ins[0].spec.Text, folder.Path(ProblemFile))
+	if err != nil {
+		return nil, err
+	}
+	if err := folder.WriteFile(ProblemFile, spec.Text); err != nil {
+		return nil, err
+	}
+
+	// evaluations.csv, streamed to a temporary file and renamed at the end
+	tmp, err := os.CreateTemp(folder.Dir, "."+EvaluationsFile+".tmp-*")
+	if err != nil {
+		return nil, err
+	}
+	defer func() {
+		tmp.Close()
+		os.Remove(tmp.Name())
+	}()
+	w := csv.NewWriter(tmp)
+	header := EvaluationHeader(spec)
+	w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
+	var designs []search.Design
+	origins := map[int64]origin{}
+	perRun := make([][]search.Design, len(ins))
+	counts := make([]int64, len(ins))
+	var next, failures int64
+	for r, in := range ins {
+		err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
+			row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
+			row = append(row, srcRun, srcIndex)
+			if err := w.Write(row); err != nil {
+				return err
+			}
+			d.Index = next
+			origins[next] = origin{run: r, srcRun: srcRun, index: srcIndex}
+			if d.Failed != "" {
+				failures++
+			}
+			if d.Feasible() {
+				designs = append(designs, d)
+				perRun[r] = append(perRun[r], d)
+			}
+			next++
+			counts[r]++
+			return nil
+		}, &res.Skipped)
+		if err != nil {
+			return nil, err
+		}
+	}
+	w.Flush()
+	if err := w.Error(); err != nil {
+		return nil, err
+	}
+	if err := tmp.Sync(); err != nil {
+		return nil, err
+	}
+	if err := tmp.Close(); err != nil {
+		return nil, err
+	}
+	if err := os.Rename(tmp.Name(), folder.Path(EvaluationsFile)); err != nil {
+		return nil, err
+	}
+
+	front := ParetoFront(designs)
+	res.Front = FrontRows(spec, front)
+	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
+		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: "merged", Evaluations: next,
+		Failures: failures, FrontSize: len(front), Caution: Caution}
+	c := NewColumns(spec)
+	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
+	info.Reference, res.ReferenceReason = mergeReference(ins, front, len(spec.Objectives))
+	info.Hypervolume = finiteOr0(hypervolumeOf(front, info.Reference))
+	for r, in := range ins {
+		own := ParetoFront(perRun[r])
+		src := MergedRun{Run: in.dir, Seed: in.info.Seed, ProblemHash: in.info.ProblemHash, Method: in.info.Method, Status: in.info.Status,
+			Evaluations: counts[r], FrontSize: len(own), Hypervolume: finiteOr0(hypervolumeOf(own, info.Reference))}
+		for _, d := range front {
+			if origins[d.Index].run == r {
+				src.UnionFront++
+			}
+		}
+		info.MergedFrom = append(info.MergedFrom, src)
+		info.RuntimeSec += in.info.RuntimeSec
+		info.Generations = max(info.Generations, in.info.Generations)
+	}
+	info.Updated = time.Now().UTC()
+	comment := func(fr FrontRow) string {
+		o := origins[fr.Design.Index]
+		src := ins[o.run]
+		seed := ""
+		if o.srcRun == src.dir {
+			seed = fmt.Sprintf(" (seed %d)", src.info.Seed)
+		}
+		var b strings.Builder
+		fmt.Fprintf(&b, "plica design %d of the front merged from %d runs of %s: run %s%s, evaluation %s.\n",
+			fr.ID, len(ins), src.info.ProblemFile, o.srcRun, seed, o.index)
+		for i, ob := range spec.Objectives {
+			fmt.Fprintf(&b, "%s = %.6g\n", ob.Score, scoreSign(ob.Maximize, fr.Design.F[i]))
+		}
+		b.WriteString("Check it with: plica check THIS_FILE\n")
+		b.WriteString(Caution)
+		return b.String()
+	}
+	if err := folder.WriteFront(spec, res.Front, comment); err != nil {
+		return nil, err
+	}
+	if err := folder.WriteInfo(info); err != nil {
+		return nil, err
+	}
+	res.Info = info
+	if res.Skipped > 0 {
+		res.Notes = append(res.Notes, fmt.Sprintf("%d incomplete rows left out (a run killed while writing leaves a torn last line)", res.Skipped))
+	}
+	return res, nil
+}
+
+// mergeReference is the component-wise worst of the runs' reference
+// points, so that every run's front and the merged front are measured at
+// one point; when a run has none, the worst point of the merged front
+// plus a tenth of its range (as the search chooses one).
+func mergeReference(ins []mergeInput, front []search.Design, m int) ([]float64, string) {
+	ref := make([]float64, m)
+	for k := range ref {
+		ref[k] = math.Inf(-1)
+	}
+	ok := true
+	for _, in := range ins {
+		if len(in.info.Reference) != m {
+			ok = false
+			break
+		}
+		for k, v := range in.info.Reference {
+			ref[k] = max(ref[k], v)
+		}
+	}
+	if ok {
+		return ref, "the worst of the runs' reference points, objectives as minimised"
+	}
+	if len(front) == 0 {
+		return nil, "none: no feasible design"
+	}
+	for k := range ref {
+		lo, hi := math.Inf(1), math.Inf(-1)
+		for _, d := range front {
+			lo, hi = min(lo, d.F[k]), max(hi, d.F[k])
+		}
+		span := hi - lo
+		if span == 0 {
+			span = math.Max(math.Abs(hi), 1)
+		}
+		ref[k] = hi + 0.1*span
+	}
+	return ref, "the worst point of the merged front plus a tenth of its range, objectives as minimised"
+}
+
+func hypervolumeOf(ds []search.Design, ref []float64) float64 {
+	if ref == nil {
+		return 0
+	}
+	pts := make([][]float64, len(ds))
+	for i, d := range ds {
+		pts[i] = d.F
+	}
+	return Hypervolume(pts, ref)
+}
+
+// readEvaluations reads evaluations.csv of a run folder and calls add for
+// every complete row with the design (minimised objectives, Index unset),
+// the row's cells in the order of header, and its source run and index
+// (carried over when the run is itself a merge). Rows with the wrong
+// number of cells (a torn last line) are counted in skipped.
+func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d search.Design, cells []string, srcRun, srcIndex string) error, skipped *int) error {
+	path := f.Path(EvaluationsFile)
+	fh, err := os.Open(path)
+	if err != nil {
+		return &InputError{fmt.Errorf("%s: %w", f.Dir, err)}
+	}
+	defer fh.Close()
+	r := csv.NewReader(fh)
+	r.FieldsPerRecord = -1
+	have, err := r.Read()
+	if err != nil {
+		return inputErrorf("%s: no header: %v", path, err)
+	}
+	col := make([]int, len(header))
+	for j, h := range header {
+		col[j] = headerColumn(have, h)
+		if col[j] < 0 {
+			return inputErrorf("%s has no column %s (was the problem changed?)", path, h)
+		}
+	}
+	srcRunCol, srcIdxCol := headerColumn(have, SourceRunColumn), headerColumn(have, SourceIndexColumn)
+	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
+	cells := make([]string, len(header))
+	for line := 2; ; line++ {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return nil
+		}
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			*skipped++
+			continue
+		}
+		if err != nil {
+			return fmt.Errorf("%s: %w", path, err)
+		}
+		if len(rec) != len(have) {
+			*skipped++
+			continue
+		}
+		for j, c := range col {
+			cells[j] = rec[c]
+		}
+		d := search.Design{X: make([]float64, nv), F: make([]float64, no), G: make([]float64, ng)}
+		bad := func(what string) error {
+			return inputErrorf("%s:%d: %s", path, line, what)
+		}
+		for j, v := range spec.Variables {
+			cell := cells[1+j]
+			if v.Options != nil {
+				k := -1
+				for i, o := range v.Options {
+					if o == cell {
+						k = i
+					}
+				}
+				if k < 0 {
+					return bad(fmt.Sprintf("%q is not an option of %s", cell, v.Path()))
+				}
+				d.X[j] = float64(k)
+				continue
+			}
+			x, err := strconv.ParseFloat(cell, 64)
+			if err != nil {
+				return bad(fmt.Sprintf("%s = %q is not a number", header[1+j], cell))
+			}
+			d.X[j] = x
+		}
+		for i, o := range spec.Objectives {
+			v, err := strconv.ParseFloat(cells[1+nv+i], 64)
+			if err != nil {
+				return bad(fmt.Sprintf("%s = %q is not a number", header[1+nv+i], cells[1+nv+i]))
+			}
+			d.F[i] = scoreSign(o.Maximize, v)
+		}
+		for k := range ng {
+			v, err := strconv.ParseFloat(cells[1+nv+no+k], 64)
+			if err != nil {
+				return bad(fmt.Sprintf("%s = %q is not a number", header[1+nv+no+k], cells[1+nv+no+k]))
+			}
+			d.G[k] = v
+		}
+		base := 1 + nv + no + ng
+		cv, err := strconv.ParseFloat(cells[base], 64)
+		if err != nil {
+			return bad(fmt.Sprintf("violation = %q is not a number", cells[base]))
+		}
+		d.CV = cv
+		d.Failed = cells[base+2]
+		if feas, err := strconv.ParseBool(cells[base+1]); err != nil {
+			return bad(fmt.Sprintf("feasible = %q is not true or false", cells[base+1]))
+		} else if feas != d.Feasible() {
+			return bad(fmt.Sprintf("feasible = %s disagrees with violation %s and failure %q", cells[base+1], cells[base], d.Failed))
+		}
+		srcRun, srcIndex := f.Dir, cells[0]
+		if srcRunCol >= 0 && srcIdxCol >= 0 {
+			srcRun, srcIndex = rec[srcRunCol], rec[srcIdxCol]
+		}
+		if err := add(d, cells, srcRun, srcIndex); err != nil {
+			return err
+		}
+	}
+}

@@ -1,0 +1,96 @@
+package results
+
+import (
+	"context"
+	"errors"
+	"os"
+	"path/filepath"
+	"slices"
+	"strconv"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"plica/search"
+)
+
+// islandRun runs a small search with the given seed into dir.
+func islandRun(t *testing.T, dir string, seed uint64) {
+	t.Helper()
+	spec := smallProblem(t)
+	f, err := Create(dir)
+	require.NoError(t, err)
+	set := spec.Settings()
+	set.Seed = seed
+	set.MaxEvaluations = 120
+	set.Workers = 1
+	_, err = Execute(context.Background(), spec, f, set, Options{Version: "test"})
+	require.NoError(t, err)
+}
+
+// TestMergeArchives: the merged front is ParetoFront of every evaluation
+// of the runs (definition of Pareto dominance, SEARCH.md §1), a torn last
+// line of a killed run is left out and counted, and merging a merge keeps
+// the original source runs.
+func TestMergeArchives(t *testing.T) {
+	tmp := t.TempDir()
+	a, b, c := filepath.Join(tmp, "a"), filepath.Join(tmp, "b"), filepath.Join(tmp, "c")
+	islandRun(t, a, 1)
+	islandRun(t, b, 2)
+	islandRun(t, c, 3)
+	// a run killed while writing: a torn last line
+	fh, err := os.OpenFile(filepath.Join(b, EvaluationsFile), os.O_APPEND|os.O_WRONLY, 0)
+	require.NoError(t, err)
+	_, err = fh.WriteString("120,2.5,19")
+	require.NoError(t, err)
+	require.NoError(t, fh.Close())
+
+	ab := filepath.Join(tmp, "ab")
+	res, err := Merge([]string{a, b}, ab, "test")
+	require.NoError(t, err)
+	assert.Equal(t, 1, res.Skipped, "the torn line is left out")
+	assert.Equal(t, int64(240), res.Info.Evaluations, "every complete row")
+
+	spec := smallProblem(t)
+	var all []search.Design
+	for _, dir := range []string{a, b} {
+		var n int
+		err := readEvaluations(&Folder{Dir: dir}, spec, EvaluationHeader(spec), func(d search.Design, _ []string, _, idx string) error {
+			d.Index = int64(len(all))
+			all = append(all, d)
+			return nil
+		}, &n)
+		require.NoError(t, err)
+	}
+	want := ParetoFront(all)
+	require.NotEmpty(t, want, "the islands found feasible designs")
+	require.Len(t, res.Front, len(want), "merged front size")
+	for i, r := range res.Front {
+		assert.Equal(t, want[i].F, r.Design.F, "front design %d", i+1)
+		assert.Equal(t, want[i].Index, r.Design.Index, "front design %d keeps its merged index", i+1)
+	}
+	rf, err := LoadRunFront(ab)
+	require.NoError(t, err)
+	assert.Len(t, rf.F, len(want), "front.csv of the merged run reads back")
+
+	// merge of a merge: the source columns name the first runs
+	abc := filepath.Join(tmp, "abc")
+	_, err = Merge([]string{ab, c}, abc, "test")
+	require.NoError(t, err)
+	h, rows, err := (&Folder{Dir: abc}).ReadCSV(EvaluationsFile)
+	require.NoError(t, err)
+	src := slices.Index(h, SourceRunColumn)
+	seen := map[string]int{}
+	for _, r := range rows {
+		seen[r[src]]++
+	}
+	assert.Equal(t, map[string]int{filepath.Clean(a): 120, filepath.Clean(b): 120, filepath.Clean(c): 120}, seen, "source runs of a merged merge")
+	si := slices.Index(h, SourceIndexColumn)
+	assert.Equal(t, "0", rows[0][si], "source index of the first row")
+	assert.Equal(t, strconv.Itoa(119), rows[359][si], "source index of the last row")
+
+	_, err = Merge([]string{a, a}, filepath.Join(tmp, "twice"), "test")
+	var ie *InputError
+	assert.True(t, errors.As(err, &ie), "a run given twice is an input error: %v", err)
+}
