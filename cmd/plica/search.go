@@ -109,6 +109,13 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 		fmt.Fprintf(stderr, "plica: interrupted; checkpoint saved: continue with plica resume %s\n", folder.Dir)
 		return err
 	}
+	if err == nil {
+		// The run is complete and saved; a report that cannot be written
+		// is a warning, never a failed run.
+		if rerr := writeReport(folder, "", nil, stdout, stderr); rerr != nil {
+			fmt.Fprintf(stderr, "plica: warning: report not written: %v (the run is saved; retry with plica report %s)\n", rerr, folder.Dir)
+		}
+	}
 	return err
 }
 

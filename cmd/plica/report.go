@@ -1,0 +1,96 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"plica/objective"
+	"plica/results"
+)
+
+func init() {
+	register(&command{
+		name:  "report",
+		usage: "RUN [-o FILE.html] [-designs ID,...]",
+		short: "write a run's report, one self-contained HTML file, and its plots",
+		long: `Writes the figures into RUN/plots (front, design variables, hypervolume
+history, and the backbone and workspace of each design shown) and the report,
+RUN/report.html unless -o says otherwise. The report opens in any browser
+without a network: problem, settings, status, the front, the figures, the
+check table of each design shown, and the cautions. search and resume write
+it at the end of a run.`,
+		run: runReport,
+	})
+}
+
+func runReport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
+	out := fs.String("o", "", "report `file` (default: RUN/report.html)")
+	designs := fs.String("designs", "", "comma-separated front `ids` to show in detail (default: the best design of each objective and the knee)")
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 1 {
+		return usagef("report: expected one run folder, got %d arguments", len(pos))
+	}
+	ids, err := idList("designs", *designs)
+	if err != nil {
+		return err
+	}
+	folder, err := results.Open(pos[0])
+	if err != nil {
+		return usagef("%v", err)
+	}
+	return writeReport(folder, *out, ids, stdout, stderr)
+}
+
+// writeReport writes a run's report and plots and says where.
+func writeReport(folder *results.Folder, path string, ids []int, stdout, stderr io.Writer) error {
+	rep, err := folder.WriteReport(path, reportOptions(ids))
+	var unknown *results.UnknownDesignError
+	if errors.As(err, &unknown) {
+		return usagef("-designs: %v", err)
+	}
+	if err != nil {
+		return err
+	}
+	for _, p := range rep.Problems {
+		fmt.Fprintf(stderr, "plica: warning: %s\n", p)
+	}
+	if path == "" {
+		path = folder.Path(results.ReportFile)
+	}
+	fmt.Fprintf(stdout, "report: %s (plots in %s)\n", path, folder.Path(results.PlotsDir))
+	return nil
+}
+
+// reportOptions shows the given designs with the check verb's full output.
+func reportOptions(ids []int) results.ReportOptions {
+	return results.ReportOptions{Designs: ids, CheckText: func(name string, res *objective.Result) string {
+		var b bytes.Buffer
+		writeCheck(&b, name, res)
+		return b.String()
+	}}
+}
+
+// idList parses "1,3,7" into design ids (≥ 1).
+func idList(flagName, s string) ([]int, error) {
+	if strings.TrimSpace(s) == "" {
+		return nil, nil
+	}
+	var out []int
+	for _, p := range strings.Split(s, ",") {
+		id, err := strconv.Atoi(strings.TrimSpace(p))
+		if err != nil || id < 1 {
+			return nil, usagef("-%s: %q is not a design id (expected a comma-separated list of front ids such as 1,4)", flagName, p)
+		}
+		out = append(out, id)
+	}
+	return out, nil
+}

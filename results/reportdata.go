@@ -1,0 +1,383 @@
+package results
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+
+	"gonum.org/v1/gonum/mat"
+
+	"plica/problems"
+	"plica/search"
+)
+
+// ReportData is what the plots and the report show, read back from a run
+// folder: run.json, problem.toml, front.csv, evaluations.csv and
+// history.csv. Everything is in file units, as the CSV files hold it.
+type ReportData struct {
+	Folder *Folder
+	Info   *RunInfo
+	Spec   *problems.Spec
+	// Front holds the rows of front.csv in file order (ids 1, 2, ...).
+	Front []ReportRow
+	// Evaluated holds the feasible evaluations of evaluations.csv, thinned
+	// evenly to at most MaxEvaluatedPoints rows, for context in the front
+	// figure.
+	Evaluated []ReportRow
+	// History holds history.csv.
+	History []search.Stats
+}
+
+// MaxEvaluatedPoints caps the feasible evaluations drawn behind the front:
+// each is an SVG element, and a long run holds tens of thousands.
+const MaxEvaluatedPoints = 1500
+
+// ReportRow is one design of front.csv or evaluations.csv.
+type ReportRow struct {
+	ID    int   // front id (1-based); 0 for an evaluation
+	Index int64 // evaluation index
+	// X holds the variables in the problem's order, file units;
+	// categories as option indices.
+	X []float64
+	// Cells holds the variables as written in the CSV file.
+	Cells []string
+	// F holds the objectives in each score's own sign (maximised
+	// objectives are not negated).
+	F    []float64
+	Pass bool
+}
+
+// LoadReportData reads a run folder for plots and the report. A run
+// without evaluations or history (stopped before its first generation)
+// loads with those parts empty.
+func LoadReportData(f *Folder) (*ReportData, error) {
+	info, err := f.ReadInfo()
+	if err != nil {
+		return nil, err
+	}
+	spec, err := problems.LoadProblem(f.Path(ProblemFile))
+	if err != nil {
+		return nil, err
+	}
+	r := &ReportData{Folder: f, Info: info, Spec: spec}
+	if Exists(f.Path(FrontFile)) {
+		if r.Front, err = r.readRows(FrontFile, true); err != nil {
+			return nil, err
+		}
+	}
+	if Exists(f.Path(EvaluationsFile)) {
+		if r.Evaluated, err = r.readRows(EvaluationsFile, false); err != nil {
+			return nil, err
+		}
+		r.Evaluated = repThin(r.Evaluated, MaxEvaluatedPoints)
+	}
+	if Exists(f.Path(HistoryFile)) {
+		if r.History, err = r.readHistory(); err != nil {
+			return nil, err
+		}
+	}
+	return r, nil
+}
+
+// repColumns maps each wanted column name to its position in header.
+func repColumns(file string, header, want []string) ([]int, error) {
+	idx := make([]int, len(want))
+	for j, c := range want {
+		idx[j] = -1
+		for k, h := range header {
+			if h == c {
+				idx[j] = k
+				break
+			}
+		}
+		if idx[j] < 0 {
+			return nil, fmt.Errorf("%s has no column %s (was the problem changed?)", file, c)
+		}
+	}
+	return idx, nil
+}
+
+// readRows reads front.csv (front = true) or the feasible rows of
+// evaluations.csv.
+func (r *ReportData) readRows(name string, front bool) ([]ReportRow, error) {
+	header, recs, err := r.Folder.ReadCSV(name)
+	if err != nil {
+		return nil, err
+	}
+	path := r.Folder.Path(name)
+	s := r.Spec
+	c := NewColumns(s)
+	vi, err := repColumns(path, header, c.Variables)
+	if err != nil {
+		return nil, err
+	}
+	oi, err := repColumns(path, header, c.Objectives)
+	if err != nil {
+		return nil, err
+	}
+	extra := []string{"index", "feasible"}
+	if front {
+		extra = []string{"index", "id", "pass"}
+	}
+	ei, err := repColumns(path, header, extra)
+	if err != nil {
+		return nil, err
+	}
+	var out []ReportRow
+	for line, rec := range recs {
+		at := func(k int) string {
+			if k < len(rec) {
+				return rec[k]
+			}
+			return ""
+		}
+		where := fmt.Sprintf("%s: row %d", path, line+2)
+		if !front && at(ei[1]) != "true" {
+			continue
+		}
+		row := ReportRow{Cells: make([]string, len(vi)), X: make([]float64, len(vi)), F: make([]float64, len(oi))}
+		if row.Index, err = strconv.ParseInt(at(ei[0]), 10, 64); err != nil {
+			return nil, fmt.Errorf("%s: index %q is not a whole number", where, at(ei[0]))
+		}
+		if front {
+			if row.ID, err = strconv.Atoi(at(ei[1])); err != nil {
+				return nil, fmt.Errorf("%s: id %q is not a whole number", where, at(ei[1]))
+			}
+			row.Pass = at(ei[2]) == "true"
+		}
+		for j, v := range s.Variables {
+			cell := at(vi[j])
+			row.Cells[j] = cell
+			if v.Options != nil {
+				row.X[j] = math.NaN()
+				for k, o := range v.Options {
+					if o == cell {
+						row.X[j] = float64(k)
+					}
+				}
+				if math.IsNaN(row.X[j]) {
+					return nil, fmt.Errorf("%s: %q is not an option of %s", where, cell, v.Path())
+				}
+				continue
+			}
+			if row.X[j], err = strconv.ParseFloat(cell, 64); err != nil {
+				return nil, fmt.Errorf("%s: %s = %q is not a number", where, c.Variables[j], cell)
+			}
+		}
+		for i := range oi {
+			if row.F[i], err = strconv.ParseFloat(at(oi[i]), 64); err != nil {
+				return nil, fmt.Errorf("%s: %s = %q is not a number", where, c.Objectives[i], at(oi[i]))
+			}
+		}
+		out = append(out, row)
+	}
+	return out, nil
+}
+
+// repThin keeps at most n rows, evenly spread over the slice, first and last
+// included.
+func repThin(rows []ReportRow, n int) []ReportRow {
+	if len(rows) <= n || n < 2 {
+		return rows
+	}
+	out := make([]ReportRow, n)
+	for k := range n {
+		out[k] = rows[k*(len(rows)-1)/(n-1)]
+	}
+	return out
+}
+
+// readHistory reads history.csv.
+func (r *ReportData) readHistory() ([]search.Stats, error) {
+	header, recs, err := r.Folder.ReadCSV(HistoryFile)
+	if err != nil {
+		return nil, err
+	}
+	path := r.Folder.Path(HistoryFile)
+	idx, err := repColumns(path, header, HistoryHeader)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]search.Stats, 0, len(recs))
+	for line, rec := range recs {
+		var v [6]float64
+		for k, i := range idx {
+			if i >= len(rec) {
+				return nil, fmt.Errorf("%s: row %d has %d columns (expected %d)", path, line+2, len(rec), len(header))
+			}
+			x, err := strconv.ParseFloat(rec[i], 64)
+			if err != nil {
+				return nil, fmt.Errorf("%s: row %d: %s = %q is not a number", path, line+2, HistoryHeader[k], rec[i])
+			}
+			v[k] = x
+		}
+		out = append(out, search.Stats{Generation: int(v[0]), Evaluations: int64(v[1]), Failures: int64(v[2]),
+			Feasible: int(v[3]), ArchiveSize: int(v[4]), Hypervolume: v[5]})
+	}
+	return out, nil
+}
+
+// Minimised returns the objectives of a row as the search minimises them
+// (maximised objectives negated).
+func (r *ReportData) Minimised(row ReportRow) []float64 {
+	out := make([]float64, len(row.F))
+	for i, o := range r.Spec.Objectives {
+		out[i] = row.F[i]
+		if o.Maximize {
+			out[i] = -out[i]
+		}
+	}
+	return out
+}
+
+// FrontRow returns the front row with the given id.
+func (r *ReportData) FrontRow(id int) (ReportRow, bool) {
+	for _, row := range r.Front {
+		if row.ID == id {
+			return row, true
+		}
+	}
+	return ReportRow{}, false
+}
+
+// Representative returns the designs a report shows by default, as
+// indices into f (objective vectors, all minimised): the best design of
+// each objective in objective order, then the knee when the front has one
+// (see below), without repeats. Ties go to the lower index.
+//
+// The knee is the design farthest on the ideal side of the hyperplane
+// through the best designs of each objective, in objectives normalised to
+// [0, 1] over the front: the normal-boundary-intersection view of a knee
+// (Das, "On characterizing the 'knee' of the Pareto curve based on
+// Normal-Boundary Intersection", Struct. Optim. 18, 1999; Branke, Deb,
+// Dierolf & Osswald, "Finding knees in multi-objective optimization",
+// PPSN 2004 — both from memory (verify)). There is none when the front has
+// fewer than three designs, when those best designs do not span a
+// hyperplane, or when no design lies strictly on the ideal side.
+func Representative(f [][]float64) []int {
+	if len(f) == 0 {
+		return nil
+	}
+	m := len(f[0])
+	var out []int
+	seen := map[int]bool{}
+	add := func(i int) {
+		if !seen[i] {
+			seen[i] = true
+			out = append(out, i)
+		}
+	}
+	best := make([]int, m)
+	for k := range m {
+		for i := range f {
+			if f[i][k] < f[best[k]][k] {
+				best[k] = i
+			}
+		}
+		add(best[k])
+	}
+	if k := repKnee(f, best); k >= 0 {
+		add(k)
+	}
+	return out
+}
+
+// repKnee returns the knee of Representative, or −1.
+func repKnee(f [][]float64, best []int) int {
+	m := len(best)
+	if m < 2 || len(f) < 3 {
+		return -1
+	}
+	lo := make([]float64, m)
+	span := make([]float64, m)
+	for k := range m {
+		lo[k], span[k] = math.Inf(1), math.Inf(-1)
+		for _, p := range f {
+			lo[k] = math.Min(lo[k], p[k])
+			span[k] = math.Max(span[k], p[k])
+		}
+		span[k] -= lo[k]
+		if !(span[k] > 0) {
+			return -1
+		}
+	}
+	norm := func(p []float64) []float64 {
+		q := make([]float64, m)
+		for k := range m {
+			q[k] = (p[k] - lo[k]) / span[k]
+		}
+		return q
+	}
+	// hyperplane w·q = 1 through the normalised best designs
+	e := mat.NewDense(m, m, nil)
+	for r, i := range best {
+		e.SetRow(r, norm(f[i]))
+	}
+	ones := make([]float64, m)
+	for k := range ones {
+		ones[k] = 1
+	}
+	var w mat.VecDense
+	if err := w.SolveVec(e, mat.NewVecDense(m, ones)); err != nil {
+		return -1
+	}
+	wn := mat.Norm(&w, 2)
+	if !(wn > 0) || math.IsInf(wn, 0) {
+		return -1
+	}
+	bestI, bestD := -1, 1e-9
+	for i, p := range f {
+		q := mat.NewVecDense(m, norm(p))
+		if d := (1 - mat.Dot(&w, q)) / wn; d > bestD {
+			bestI, bestD = i, d
+		}
+	}
+	return bestI
+}
+
+// chosenIDs returns the front ids a report shows: ids when given, checked
+// against the front, else the representative designs.
+func (r *ReportData) chosenIDs(ids []int) ([]int, error) {
+	if len(ids) > 0 {
+		for _, id := range ids {
+			if _, ok := r.FrontRow(id); !ok {
+				return nil, &UnknownDesignError{Dir: r.Folder.Dir, ID: id, FrontSize: len(r.Front)}
+			}
+		}
+		return ids, nil
+	}
+	f := make([][]float64, len(r.Front))
+	for i, row := range r.Front {
+		f[i] = r.Minimised(row)
+	}
+	var out []int
+	for _, i := range Representative(f) {
+		out = append(out, r.Front[i].ID)
+	}
+	return out, nil
+}
+
+// UnknownDesignError is a requested design id that is not on the front.
+type UnknownDesignError struct {
+	Dir       string // run folder
+	ID        int
+	FrontSize int
+}
+
+func (e *UnknownDesignError) Error() string {
+	if e.FrontSize == 0 {
+		return fmt.Sprintf("the front of %s is empty: there is no design %d", e.Dir, e.ID)
+	}
+	return fmt.Sprintf("the front of %s has no design %d (expected an id from 1 to %d)", e.Dir, e.ID, e.FrontSize)
+}
+
+// repSortedKeys returns the keys of a map in order.
+func repSortedKeys[V any](m map[string]V) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
+}
