@@ -159,12 +159,13 @@ func tomlQuote(s string) string {
 // in the same directory, synced, then renamed over path, so a reader never
 // sees half a file.
 func WriteCalibration(path string, c *Calibration) error {
-	return writeAtomic(path, c.Format())
+	return WriteAtomic(path, c.Format())
 }
 
-// writeAtomic writes data to path through a temporary file in the same
-// directory and a rename; on failure path is untouched.
-func writeAtomic(path string, data []byte) (err error) {
+// WriteAtomic writes data to path through a temporary file in the same
+// directory, synced, then renamed over path: a reader never sees half a
+// file and a crash leaves the old one. On failure path is untouched.
+func WriteAtomic(path string, data []byte) (err error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
 		dir = "."

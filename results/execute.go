@@ -203,7 +203,13 @@ func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 }
 
 func problemName(s *problems.Spec) string {
-	d, _, err := s.Design(make([]float64, len(s.Variables)))
+	x := make([]float64, len(s.Variables))
+	for i, v := range s.Variables {
+		if v.Options == nil {
+			x[i] = (v.Lower + v.Upper) / 2
+		}
+	}
+	d, _, err := s.Design(x)
 	if err != nil || d == nil {
 		return ""
 	}

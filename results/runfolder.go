@@ -1,6 +1,7 @@
 // Package results reads and writes run folders: the resolved problem, the
 // evaluation archive, the front as CSV and as design files, checkpoints,
-// and (later) indicators, plots and the report.
+// front indicators, comparisons, merges and picks, plots, the HTML report
+// and the built-in verification cases.
 //
 // A run folder holds:
 //
@@ -11,6 +12,9 @@
 //	front.csv          the final front: variables, objectives, every score and check
 //	designs/front-NNN.toml  each front design as a design file (check and pose accept it)
 //	checkpoint.json    the latest checkpoint (atomic); checkpoint.prev.json the one before
+//	calibration/       copies of the calibration files the problem names
+//	plots/*.svg        the figures; report.html the self-contained report
+//	picked/pick-NNN.toml  designs chosen by plica pick
 package results
 
 import (
@@ -21,6 +25,7 @@ import (
 	"path/filepath"
 	"time"
 
+	"plica/problems"
 	"plica/search"
 )
 
@@ -126,35 +131,7 @@ func (f *Folder) WriteFile(name string, data []byte) error {
 
 // WriteAtomic writes path atomically (temporary file + rename), so a
 // reader never sees a half-written file and a crash leaves the old one.
-func WriteAtomic(path string, data []byte) error {
-	dir := filepath.Dir(path)
-	tmp, err := os.CreateTemp(dir, "."+filepath.Base(path)+".tmp-*")
-	if err != nil {
-		return err
-	}
-	name := tmp.Name()
-	ok := false
-	defer func() {
-		if !ok {
-			tmp.Close()
-			os.Remove(name)
-		}
-	}()
-	if _, err := tmp.Write(data); err != nil {
-		return err
-	}
-	if err := tmp.Sync(); err != nil {
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		return err
-	}
-	if err := os.Rename(name, path); err != nil {
-		return err
-	}
-	ok = true
-	return nil
-}
+func WriteAtomic(path string, data []byte) error { return problems.WriteAtomic(path, data) }
 
 // WriteInfo writes run.json.
 func (f *Folder) WriteInfo(info *RunInfo) error {
