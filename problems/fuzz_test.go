@@ -2,6 +2,7 @@ package problems
 
 import (
 	"errors"
+	"math"
 	"os"
 	"path/filepath"
 	"testing"
@@ -113,10 +114,14 @@ func FuzzEvaluate(f *testing.F) {
 		x := make([]float64, p.Dim)
 		for i := range x {
 			v := u[i%len(u)]
-			if v != v || v < 0 || v > 1 {
-				return // outside the unit box: not an in-bound design
+			if math.IsNaN(v) || math.IsInf(v, 0) {
+				return
 			}
+			v -= math.Floor(v) // any number maps into the unit box
 			x[i] = p.Lower[i] + v*(p.Upper[i]-p.Lower[i])
+			if p.Categorical[i] > 0 {
+				x[i] = math.Floor(v * float64(p.Categorical[i]))
+			}
 		}
 		fv := make([]float64, p.NumObjectives)
 		gv := make([]float64, p.NumConstraints)
