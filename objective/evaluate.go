@@ -155,7 +155,7 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	p := plan(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
-	var shapes []*shape
+	shapes := make([]*shape, 0, len(p.acts))
 	for _, a := range p.acts {
 		sh, err := e.evalShape(a)
 		if err != nil {

@@ -1,6 +1,7 @@
 package objective
 
 import (
+	"encoding/binary"
 	"fmt"
 	"math"
 
@@ -184,7 +185,12 @@ func (e *evaluator) stability(res *Result) {
 	seen := map[string]bool{}
 	var acts []kinematics.Actuation
 	for _, sh := range e.shapes {
-		key := fmt.Sprint(e.robot.EffectiveInsertion(sh.act))
+		beta := e.robot.EffectiveInsertion(sh.act)
+		kb := make([]byte, 0, 8*len(beta))
+		for _, b := range beta {
+			kb = binary.LittleEndian.AppendUint64(kb, math.Float64bits(b))
+		}
+		key := string(kb)
 		if !seen[key] {
 			seen[key] = true
 			acts = append(acts, sh.act)

@@ -11,9 +11,8 @@ import (
 // The common rotation of the whole set is not part of a shape: it turns
 // the shape rigidly about the base z axis and is applied analytically.
 type shape struct {
-	act   kinematics.Actuation
-	links []kinematics.Link
-	tip   kinematics.Pose
+	act kinematics.Actuation
+	tip kinematics.Pose
 	// comp is the linear tip compliance to a unit gravity vector: the tip
 	// displacement under self-weight plus payload is comp·g (PHYSICS §4.3).
 	comp [3][3]float64
@@ -166,9 +165,8 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 		e.solver = solver
 	}
-	buf, err := e.solver.Links(a.Theta, a.Beta, e.linkBuf[:0])
-	e.linkBuf = buf
-	links := append([]kinematics.Link(nil), buf...)
+	links, err := e.solver.Links(a.Theta, a.Beta, e.linkBuf[:0])
+	e.linkBuf = links
 	if err != nil {
 		var ae *kinematics.ActuationError
 		if errors.As(err, &ae) {
@@ -176,7 +174,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 		return nil, err
 	}
-	sh := &shape{act: a, links: links, strain: make([]float64, len(e.robot.Tubes))}
+	sh := &shape{act: a, strain: make([]float64, len(e.robot.Tubes))}
 	tip := kinematics.Identity()
 	for _, l := range links {
 		tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
@@ -267,19 +265,21 @@ func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
 			c[i] = pL[i] - nd.p[i]
 			a[i] = mp*c[i] + Q[i] - W*nd.p[i]
 		}
-		// C += −w [c]× KIN [a]×
-		A := skew(a)
-		Cx := skew(c)
+		// C += −w [c]× KIN [a]×, with the skew products written out.
 		var t1 [3][3]float64
 		for i := range 3 {
-			for j := range 3 {
-				t1[i][j] = nd.kin[i][0]*A[0][j] + nd.kin[i][1]*A[1][j] + nd.kin[i][2]*A[2][j]
-			}
+			k := &nd.kin[i]
+			// row i of KIN·[a]×
+			t1[i][0] = k[1]*a[2] - k[2]*a[1]
+			t1[i][1] = k[2]*a[0] - k[0]*a[2]
+			t1[i][2] = k[0]*a[1] - k[1]*a[0]
 		}
-		for i := range 3 {
-			for j := range 3 {
-				C[i][j] -= nd.w * (Cx[i][0]*t1[0][j] + Cx[i][1]*t1[1][j] + Cx[i][2]*t1[2][j])
-			}
+		w := nd.w
+		for j := range 3 {
+			// column j of [c]×·t1
+			C[0][j] -= w * (c[1]*t1[2][j] - c[2]*t1[1][j])
+			C[1][j] -= w * (c[2]*t1[0][j] - c[0]*t1[2][j])
+			C[2][j] -= w * (c[0]*t1[1][j] - c[1]*t1[0][j])
 		}
 	}
 	return C
@@ -309,11 +309,7 @@ func (e *evaluator) points() int {
 	return defaultCompliancePoints
 }
 
-func skew(a [3]float64) [3][3]float64 {
-	return [3][3]float64{{0, -a[2], a[1]}, {a[2], 0, -a[0]}, {-a[1], a[0], 0}}
-}
-
-// rkr returns R K⁻¹ Rᵀ.
+// rkr returns R K⁻¹ Rᵀ for a symmetric K⁻¹ (the result is symmetric).
 func rkr(R, kinv [3][3]float64) [3][3]float64 {
 	var t, out [3][3]float64
 	for i := range 3 {
@@ -322,8 +318,9 @@ func rkr(R, kinv [3][3]float64) [3][3]float64 {
 		}
 	}
 	for i := range 3 {
-		for j := range 3 {
-			out[i][j] = t[i][0]*R[j][0] + t[i][1]*R[j][1] + t[i][2]*R[j][2]
+		for j := i; j < 3; j++ {
+			v := t[i][0]*R[j][0] + t[i][1]*R[j][1] + t[i][2]*R[j][2]
+			out[i][j], out[j][i] = v, v
 		}
 	}
 	return out
