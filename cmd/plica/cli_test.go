@@ -152,3 +152,15 @@ func TestExitCodes(t *testing.T) {
 		})
 	}
 }
+
+// TestHelpShowsFlags: help VERB prints the verb's flags for every verb.
+func TestHelpShowsFlags(t *testing.T) {
+	for name := range commands {
+		code, out, errOut := runCLI(t, "help", name)
+		assert.Equal(t, 0, code, "help %s (%s)", name, errOut)
+		assert.Contains(t, out, "usage: plica "+name, "help %s", name)
+	}
+	_, out, _ := runCLI(t, "help", "search")
+	assert.Contains(t, out, "-seed")
+	assert.Contains(t, out, "-workers")
+}

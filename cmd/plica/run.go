@@ -59,7 +59,12 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	if name == "help" || name == "-h" || name == "--help" || name == "-help" {
 		if len(args) > 1 {
 			if c, ok := commands[args[1]]; ok {
-				printCommandHelp(stdout, c, newFlagSet(c, stdout))
+				// Each verb binds its flags when it runs: ask it for -h.
+				err := c.run(ctx, newFlagSet(c, stdout), []string{"-h"}, stdout, stderr)
+				if err != nil && !errors.Is(err, flag.ErrHelp) {
+					fmt.Fprintf(stderr, "plica: %v\n", err)
+					return exitCode(err)
+				}
 				return exitOK
 			}
 			fmt.Fprintf(stderr, "plica: unknown verb %q (expected one of: %s)\n", args[1], verbList())
