@@ -10,6 +10,8 @@ import (
 	"text/tabwriter"
 
 	"gonum.org/v1/gonum/stat"
+
+	"plica/search"
 )
 
 // jsonNum is a float that encodes NaN and ±Inf (an indicator without a
@@ -206,7 +208,7 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 		for _, q := range nf[r] {
 			on := true
 			for _, p := range z {
-				if dominatesPoint(p, q) {
+				if search.Dominates(p, q) {
 					on = false
 					break
 				}

@@ -31,7 +31,7 @@ func NonDominated(points [][]float64) []int {
 	for _, i := range order {
 		keep := true
 		for _, j := range front {
-			if weaklyDominates(points[j], points[i]) {
+			if search.WeaklyDominates(points[j], points[i]) {
 				keep = false
 				break
 			}
@@ -51,31 +51,6 @@ func hasNaN(p []float64) bool {
 		}
 	}
 	return false
-}
-
-// weaklyDominates reports whether a_k ≤ b_k for every k (SEARCH.md §1).
-func weaklyDominates(a, b []float64) bool {
-	for k := range a {
-		if a[k] > b[k] {
-			return false
-		}
-	}
-	return true
-}
-
-// dominatesPoint reports whether a Pareto-dominates b: a_k ≤ b_k for all k
-// and a_k < b_k for some k (SEARCH.md §1).
-func dominatesPoint(a, b []float64) bool {
-	strict := false
-	for k := range a {
-		if a[k] > b[k] {
-			return false
-		}
-		if a[k] < b[k] {
-			strict = true
-		}
-	}
-	return strict
 }
 
 // ParetoFront returns the feasible designs of ds that no other feasible
@@ -282,7 +257,7 @@ func Coverage(a, b [][]float64) float64 {
 	n := 0
 	for _, q := range b {
 		for _, p := range a {
-			if weaklyDominates(p, q) {
+			if search.WeaklyDominates(p, q) {
 				n++
 				break
 			}

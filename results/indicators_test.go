@@ -187,7 +187,7 @@ func bruteFront(ds []search.Design) []int64 {
 			if j == i || !q.Feasible() {
 				continue
 			}
-			if dominatesPoint(q.F, d.F) || (j < i && slices.Equal(q.F, d.F)) {
+			if search.Dominates(q.F, d.F) || (j < i && slices.Equal(q.F, d.F)) {
 				keep = false
 				break
 			}

@@ -22,6 +22,14 @@ func dominates(a, b []float64) bool {
 	return strict
 }
 
+// WeaklyDominates reports whether a weakly dominates b (minimisation):
+// a_k ≤ b_k for all k (SEARCH.md §1).
+func WeaklyDominates(a, b []float64) bool { return weaklyDominates(a, b) }
+
+// Dominates reports whether a Pareto-dominates b (minimisation): a_k ≤ b_k
+// for all k and a_k < b_k for some k.
+func Dominates(a, b []float64) bool { return dominates(a, b) }
+
 // weaklyDominates reports whether a_k ≤ b_k for all k.
 func weaklyDominates(a, b []float64) bool {
 	for k := range a {

@@ -1,8 +1,6 @@
 package main
 
 import (
-	"bytes"
-	"context"
 	"encoding/json"
 	"os"
 	"path/filepath"
@@ -17,19 +15,12 @@ import (
 
 const calExamples = "../../problems/examples/"
 
-func calibrateRun(t *testing.T, args ...string) (code int, stdout, stderr string) {
-	t.Helper()
-	var o, e bytes.Buffer
-	code = run(context.Background(), args, &o, &e)
-	return code, o.String(), e.String()
-}
-
 // TestCalibrateJSON checks the JSON contract of calibrate -json on the
 // shipped demo bench test, and that -o and -plot write their files.
 func TestCalibrateJSON(t *testing.T) {
 	dir := t.TempDir()
 	cal, plot := filepath.Join(dir, "cal.toml"), filepath.Join(dir, "fit.svg")
-	code, out, errOut := calibrateRun(t, "calibrate", calExamples+"boom-bench.csv", "--design", calExamples+"boom-geometry.toml",
+	code, out, errOut := runCLI(t, "calibrate", calExamples+"boom-bench.csv", "--design", calExamples+"boom-geometry.toml",
 		"-bellows", "2", "-printer", "fff 0.4", "-o", cal, "-plot", plot, "--json")
 	require.Equal(t, 0, code, "exit status (stderr %q)", errOut)
 	var got struct {
@@ -105,7 +96,7 @@ func relTo(t *testing.T, dir, p string) string {
 func TestCalibrateIntoCheck(t *testing.T) {
 	dir := t.TempDir()
 	cal := filepath.Join(dir, "petg-cal.toml")
-	code, _, errOut := calibrateRun(t, "calibrate", calExamples+"boom-bench.csv", "-design", calExamples+"boom-geometry.toml", "-bellows", "2", "-o", cal)
+	code, _, errOut := runCLI(t, "calibrate", calExamples+"boom-bench.csv", "-design", calExamples+"boom-geometry.toml", "-bellows", "2", "-o", cal)
 	require.Equal(t, 0, code, "calibrate (stderr %q)", errOut)
 	c, err := problems.LoadCalibration(cal)
 	require.NoError(t, err)
@@ -125,7 +116,7 @@ func TestCalibrateIntoCheck(t *testing.T) {
 		Models []string `json:"models"`
 	}
 	checkOf := func(path string) checkJSON {
-		code, out, errOut := calibrateRun(t, "check", path, "-json")
+		code, out, errOut := runCLI(t, "check", path, "-json")
 		require.Contains(t, []int{0, 1}, code, "check %s runs (stderr %q)", path, errOut)
 		var cj checkJSON
 		require.NoError(t, json.Unmarshal([]byte(out), &cj), "check -json of %s", path)
@@ -142,16 +133,16 @@ func TestCalibrateIntoCheck(t *testing.T) {
 	}
 	assert.Contains(t, strings.Join(calibrated.Models, "\n"), "calibrat", "check names the calibration among its models")
 
-	code, out, errOut := calibrateRun(t, "check", design)
+	code, out, errOut := runCLI(t, "check", design)
 	require.Contains(t, []int{0, 1}, code, "check text (stderr %q)", errOut)
 	assert.Contains(t, out, "calibrated", "check's table says calibrated")
-	code, out, errOut = calibrateRun(t, "pose", design, "-angles-deg", "0,180")
+	code, out, errOut = runCLI(t, "pose", design, "-angles-deg", "0,180")
 	require.Equal(t, 0, code, "pose (stderr %q)", errOut)
 	assert.Contains(t, out, "stiffness from calibrated, calibrated", "pose's sources line")
 }
 
 func TestCalibrateText(t *testing.T) {
-	code, out, errOut := calibrateRun(t, "calibrate", calExamples+"boom-bench.csv", "-design", calExamples+"boom-geometry.toml", "-bellows", "2")
+	code, out, errOut := runCLI(t, "calibrate", calExamples+"boom-bench.csv", "-design", calExamples+"boom-geometry.toml", "-bellows", "2")
 	require.Equal(t, 0, code, "stderr %q", errOut)
 	for _, want := range []string{"direction  points", "95 % interval N·mm²", "through origin", "residual_mm",
 		"calibration against bellows 2 of", "EI predicted N·mm²", "note: the fit assumes"} {
@@ -190,7 +181,7 @@ func TestCalibrateExitCodes(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			out := filepath.Join(dir, "out-"+strings.ReplaceAll(c.name, " ", "-")+".toml")
 			args := append(append([]string{}, c.args...), "-o", out)
-			code, _, errOut := calibrateRun(t, args...)
+			code, _, errOut := runCLI(t, args...)
 			assert.Equal(t, c.code, code, "exit status of %v (stderr %q)", args, errOut)
 			assert.Contains(t, errOut, c.stderr, "message of %v", args)
 			for _, line := range strings.Split(strings.TrimSpace(errOut), "\n") {
