@@ -52,6 +52,7 @@ func (e *evaluator) checks(res *Result) {
 		sf = 1
 	}
 	sc.AllowableStrain = math.NaN()
+	sc.StrainRatio = math.NaN()
 	for i, b := range e.d.Bellows {
 		if b.Model == nil {
 			continue
@@ -59,6 +60,9 @@ func (e *evaluator) checks(res *Result) {
 		allow := b.Model.Material.AllowableStrain / sf
 		if math.IsNaN(sc.AllowableStrain) || allow < sc.AllowableStrain {
 			sc.AllowableStrain = allow
+		}
+		if r := sc.StrainPerBellows[i] / allow; math.IsNaN(sc.StrainRatio) || r > sc.StrainRatio {
+			sc.StrainRatio = r
 		}
 		add(fmt.Sprintf("peak_strain[%d]", i+1), sc.StrainPerBellows[i], allow, "", true,
 			fmt.Sprintf("allowable %.3g / safety factor %.3g", b.Model.Material.AllowableStrain, sf))

@@ -56,6 +56,11 @@ type Scores struct {
 	// AllowableStrain is the smallest allowable strain divided by the
 	// safety factor, over the bellows with a wall model.
 	AllowableStrain float64
+	// StrainRatio is the largest ratio of a bellows' peak strain to its own
+	// allowable strain (after the safety factor), over the bellows with a
+	// wall model (NaN when none has one). With mixed materials it is not
+	// PeakStrain/AllowableStrain: those two may come from different bellows.
+	StrainRatio float64
 
 	// StabilityMargin is the smallest 1 − L/L_crit over neighbouring pairs
 	// (1 when no pair overlaps in its curved parts).

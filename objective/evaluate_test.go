@@ -269,3 +269,32 @@ func checkNames(r *Result) []string {
 	}
 	return out
 }
+
+// TestStrainRatioMixedMaterials: with bellows of different materials the
+// strain ratio is the worst ratio of a bellows' own peak strain to its own
+// allowable strain, max_i ε_i/ε_allow,i (derived from the definition of the
+// score), not the largest strain over the smallest allowable, which may
+// belong to different bellows. A tpu inner bellows (allowable 10 %) carries
+// most of the strain here, a petg outer one (2 %) the smallest allowable.
+func TestStrainRatioMixedMaterials(t *testing.T) {
+	tpu, ok := surrogate.LookupMaterial("tpu")
+	require.True(t, ok)
+	petg, ok := surrogate.LookupMaterial("petg")
+	require.True(t, ok)
+	geo := func(od, wall float64, m surrogate.Material) *surrogate.Bellows {
+		return &surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: od, Depth: 3e-3, Pitch: 10e-3, Wall: wall}, Material: m}
+	}
+	d := &Design{Bellows: []Bellows{
+		{Model: geo(20e-3, 0.5e-3, tpu), StraightLength: 0.15, CurvedLength: 0.1, Precurvature: [2]float64{0, 4}},
+		{Model: geo(30e-3, 0.6e-3, petg), StraightLength: 0.15, CurvedLength: 0.1, Precurvature: [2]float64{0, 1.3}},
+	}}
+	sc := &Scenario{Load: Load{NoGravity: true}, Workspace: Workspace{RelativeSteps: 16, BaseSteps: 4}}
+	res, err := Evaluate(d, sc)
+	require.NoError(t, err)
+	s := res.Scores
+	want := math.Max(s.StrainPerBellows[0]/tpu.AllowableStrain, s.StrainPerBellows[1]/petg.AllowableStrain)
+	ratio, ok := LookupScore("strain_ratio")
+	require.True(t, ok)
+	assert.InEpsilon(t, want, ratio.Value(&s), 1e-12, "strain_ratio of a tpu/petg pair (strains %v)", s.StrainPerBellows)
+	assert.Less(t, ratio.Value(&s), s.PeakStrain/s.AllowableStrain, "the worst bellows' own ratio, not peak strain over the smallest allowable")
+}

@@ -1,9 +1,6 @@
 package objective
 
-import (
-	"math"
-	"sort"
-)
+import "sort"
 
 // Score names a score in file units, for objectives, constraints and
 // outputs.
@@ -29,18 +26,11 @@ var scoreList = []Score{
 	{"curvature_max_per_m", "largest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMax }},
 	{"peak_strain", "largest meridional wall strain over the workspace", func(s *Scores) float64 { return s.PeakStrain }},
 	{"allowable_strain", "smallest allowable strain over the bellows, after the safety factor", func(s *Scores) float64 { return s.AllowableStrain }},
-	{"strain_ratio", "peak strain divided by the allowable strain (worst bellows)", strainRatio},
+	{"strain_ratio", "largest peak strain over allowable strain of a bellows (worst bellows)", func(s *Scores) float64 { return s.StrainRatio }},
 	{"stability_margin", "smallest snap margin 1 − L/L_crit over neighbouring pairs", func(s *Scores) float64 { return s.StabilityMargin }},
 	{"mass_g", "mass of the bellows", func(s *Scores) float64 { return s.Mass * 1e3 }},
 	{"payload_to_weight", "payload mass divided by the bellows mass", func(s *Scores) float64 { return s.PayloadToWeight }},
 	{"min_clearance_mm", "smallest radial clearance between neighbouring bellows", func(s *Scores) float64 { return s.MinClearance * mmPerM }},
-}
-
-func strainRatio(s *Scores) float64 {
-	if math.IsNaN(s.PeakStrain) || math.IsNaN(s.AllowableStrain) || s.AllowableStrain == 0 {
-		return math.NaN()
-	}
-	return s.PeakStrain / s.AllowableStrain
 }
 
 // LookupScore finds a score by its name.

@@ -5,9 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -118,12 +120,26 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 		}
 		ins = append(ins, mergeInput{dir: d, info: info, spec: spec})
 	}
+	// The problem of the first run, with the calibration files it names
+	// (read before the new folder is made, so a failure writes nothing).
+	text, files, err := ins[0].spec.Portable()
+	if err != nil {
+		return nil, err
+	}
 	folder, err := Create(out)
 	if err != nil {
 		return nil, &InputError{err}
 	}
 	res.Folder = folder
-	spec, err := problems.ParseProblem(ins[0].spec.Text, folder.Path(ProblemFile))
+	for _, name := range slices.Sorted(maps.Keys(files)) {
+		if err := os.MkdirAll(filepath.Dir(folder.Path(name)), 0o755); err != nil {
+			return nil, err
+		}
+		if err := folder.WriteFile(name, files[name]); err != nil {
+			return nil, err
+		}
+	}
+	spec, err := problems.ParseProblem(text, folder.Path(ProblemFile))
 	if err != nil {
 		return nil, err
 	}

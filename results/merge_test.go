@@ -7,11 +7,13 @@ import (
 	"path/filepath"
 	"slices"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/problems"
 	"plica/search"
 )
 
@@ -93,4 +95,36 @@ func TestMergeArchives(t *testing.T) {
 	_, err = Merge([]string{a, a}, filepath.Join(tmp, "twice"), "test")
 	var ie *InputError
 	assert.True(t, errors.As(err, &ie), "a run given twice is an input error: %v", err)
+}
+
+// TestMergeKeepsCalibrationFiles: runs of a problem that names a
+// calibration file keep a copy in calibration/; their merge must too, so
+// that the merged problem.toml loads (for pick, refine and report).
+func TestMergeKeepsCalibrationFiles(t *testing.T) {
+	tmp := t.TempDir()
+	cal, err := os.ReadFile("../problems/examples/boom-calibration.toml")
+	require.NoError(t, err)
+	require.NoError(t, os.WriteFile(filepath.Join(tmp, "cal.toml"), cal, 0o644))
+	text := string(smallProblem(t).Text)
+	require.Contains(t, text, "material = \"petg\"\n")
+	text = strings.ReplaceAll(text, "material = \"petg\"\n", "material = \"petg\"\ncalibration_file = \"cal.toml\"\n")
+	spec, err := problems.ParseProblem([]byte(text), filepath.Join(tmp, "problem.toml"))
+	require.NoError(t, err, "problem with a calibration file")
+	var runs []string
+	for seed := uint64(1); seed <= 2; seed++ {
+		dir := filepath.Join(tmp, "island"+strconv.FormatUint(seed, 10))
+		f, err := Create(dir)
+		require.NoError(t, err)
+		set := spec.Settings()
+		set.Seed, set.MaxEvaluations, set.Workers = seed, 48, 1
+		_, err = Execute(context.Background(), spec, f, set, Options{Version: "test"})
+		require.NoError(t, err, "island seed %d", seed)
+		runs = append(runs, dir)
+	}
+	out := filepath.Join(tmp, "merged")
+	_, err = Merge(runs, out, "test")
+	require.NoError(t, err, "merge of runs whose problem names a calibration file")
+	assert.FileExists(t, filepath.Join(out, "calibration", "cal.toml"), "the merged run keeps the calibration file")
+	_, err = problems.LoadProblem(filepath.Join(out, ProblemFile))
+	assert.NoError(t, err, "the merged problem.toml loads")
 }

@@ -261,6 +261,7 @@ func TestCompareMergePick(t *testing.T) {
 		{"not a run", []string{"pick", dir, "-knee"}, "is not a run folder"},
 		{"existing output", []string{"merge", a, b, "-o", m}, "already holds a run"},
 		{"merge without -o", []string{"merge", a, b}, "-o"},
+		{"resume a merged run", []string{"resume", m, "-quiet"}, "cannot be resumed"},
 	}
 	for _, e := range errs {
 		t.Run(e.name, func(t *testing.T) {

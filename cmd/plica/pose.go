@@ -20,12 +20,16 @@ func init() {
 		usage: "DESIGN.toml -angles-deg a1,a2,... [-insert-mm b1,b2,...] [-step-mm S] [-json]",
 		short: "print the shape of a design at one actuation: tip pose, links, backbone",
 		long: `Angles and insertions are listed innermost bellows first. An insertion
-b <= 0 mm puts the bellows' base b mm behind the base plane. Positions are in
+b <= 0 mm puts the bellows' base |b| mm behind the base plane. Positions are in
 the base frame with z along insertion; the rotation maps the tip frame to the
 base frame (row-major).`,
 		run: runPose,
 	})
 }
+
+// maxBackboneSamples bounds the backbone that pose prints, so that a tiny
+// -step-mm is a usage error rather than an out-of-memory crash.
+const maxBackboneSamples = 1000000
 
 type poseOptions struct {
 	angles, inserts string
@@ -63,6 +67,13 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	if err := robot.CheckActuation(a); err != nil {
 		return usagef("%v", err)
+	}
+	longest := 0.0
+	for _, t := range robot.Tubes {
+		longest = math.Max(longest, t.Length())
+	}
+	if n := longest / (o.step * 1e-3); n > maxBackboneSamples {
+		return usagef("-step-mm: %g gives %.3g backbone samples over %g mm (expected at most %d: a larger step)", o.step, n, longest*1e3, maxBackboneSamples)
 	}
 	links, err := robot.Links(a, nil)
 	if err != nil {

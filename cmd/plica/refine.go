@@ -39,6 +39,9 @@ func runRefine(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if *id < 1 {
 		return usagef("refine: -design: expected a front design id >= 1")
 	}
+	if *evals < 1 {
+		return usagef("-evals: %d is out of range (expected an evaluation budget >= 1)", *evals)
+	}
 	folder, err := results.Open(pos[0])
 	if err != nil {
 		return usagef("%v", err)

@@ -40,6 +40,11 @@ func runResume(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if err != nil {
 		return err
 	}
+	if info.Method == "merge" {
+		// A merged run has no checkpoint: resuming it would start a new
+		// search from seed 0 and overwrite the merged archive and front.
+		return usagef("%s is a merged run: it has no checkpoint and cannot be resumed (resume the island runs, then merge them again)", pos[0])
+	}
 	spec, err := problems.LoadProblem(folder.Path(results.ProblemFile))
 	if err != nil {
 		return err

@@ -46,6 +46,10 @@ func (b *budgetFlags) bind(fs *flag.FlagSet, withSeed bool) {
 }
 
 func (b *budgetFlags) apply(set *search.Settings) error {
+	if b.seed < -1 {
+		// -1 (the flag's default) means "the problem's seed".
+		return usagef("-seed: %d is out of range (expected a seed >= 0)", b.seed)
+	}
 	if b.seed >= 0 {
 		set.Seed = uint64(b.seed)
 	}

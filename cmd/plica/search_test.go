@@ -49,12 +49,19 @@ func TestSearchResumeRefine(t *testing.T) {
 	code, _, errOut = runCLI(t, "check", refined)
 	assert.Contains(t, []int{0, 1}, code, "check accepts a refined design (%s)", errOut)
 
+	code, _, errOut = runCLI(t, "search", prob, "-o", filepath.Join(dir, "c"), "-quiet", "-seed", "-5")
+	assert.Equal(t, 2, code, "a negative seed is a usage error, not the problem's seed")
+	assert.Contains(t, errOut, "-seed: -5 is out of range")
+	assert.NoDirExists(t, filepath.Join(dir, "c"), "nothing is written for a bad -seed")
 	code, _, errOut = runCLI(t, "search", prob, "-o", a, "-quiet")
 	assert.Equal(t, 2, code, "a folder that holds a run is refused")
 	assert.Contains(t, errOut, "already holds a run")
 	code, _, errOut = runCLI(t, "refine", a, "-design", "999")
 	assert.Equal(t, 2, code, "unknown design id")
 	assert.Contains(t, errOut, "has no design 999")
+	code, _, errOut = runCLI(t, "refine", a, "-design", "1", "-evals", "-5")
+	assert.Equal(t, 2, code, "a negative budget is a usage error, not an unlimited run")
+	assert.Contains(t, errOut, "-evals: -5 is out of range")
 }
 
 func TestSearchBadProblemWritesNothing(t *testing.T) {
