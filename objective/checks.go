@@ -42,7 +42,7 @@ func (e *evaluator) checks(res *Result) {
 	}
 	if len(e.sc.Tasks) > 0 {
 		min := q.MinTaskCoverage
-		if min == 0 {
+		if min == 0 && !q.MinTaskCoverageSet {
 			min = 1
 		}
 		add("task_coverage", sc.TaskCoverage, min, "", false, fmt.Sprintf("%d task points", len(e.sc.Tasks)))
@@ -69,7 +69,7 @@ func (e *evaluator) checks(res *Result) {
 	}
 	add("stability_margin", sc.StabilityMargin, q.MinStabilityMargin, "", false, "1 − L/L_crit, two-tube snap test")
 	minGap := q.MinClearance
-	if minGap == 0 {
+	if minGap == 0 && !q.MinClearanceSet {
 		minGap = 0.2e-3
 	}
 	if len(e.d.Bellows) > 1 {

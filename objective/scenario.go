@@ -105,9 +105,15 @@ type Requirements struct {
 	StrainSafetyFactor float64
 	// MinStabilityMargin on 1 − L/L_crit. Zero: 0 (snap-free required).
 	MinStabilityMargin float64
-	// MinClearance between neighbouring bellows (radial), m. Zero: 0.2 mm.
-	MinClearance       float64
-	MinTaskCoverage    float64 // fraction 0..1
+	// MinClearance between neighbouring bellows (radial), m. Zero: 0.2 mm,
+	// unless MinClearanceSet says an explicit 0 was meant.
+	MinClearance    float64
+	MinClearanceSet bool
+	// MinTaskCoverage is the fraction 0..1 of task points to reach. Zero:
+	// 1 when task points are given, unless MinTaskCoverageSet says an
+	// explicit 0 was meant.
+	MinTaskCoverage    float64
+	MinTaskCoverageSet bool
 	MaxMass            float64 // kg
 	MinPayloadToWeight float64 // payload mass / bellows mass
 }

@@ -7,10 +7,12 @@ import (
 	"os"
 	"regexp"
 	"sort"
+	"strings"
 
 	"github.com/BurntSushi/toml"
 
 	"plica/objective"
+	"plica/objective/kinematics"
 	"plica/surrogate"
 )
 
@@ -64,8 +66,24 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 	if len(r.errs) > 0 {
 		return nil, nil, r.errs.sorted()
 	}
-	if _, _, err := d.Robot(); err != nil {
+	robot, _, err := d.Robot()
+	if err != nil {
 		return nil, nil, r.physicsError(err)
+	}
+	// The bellows must nest at their base insertions (the lower ends of
+	// their insertion ranges, else 0) with no relative rotation.
+	a := kinematics.Actuation{Theta: make([]float64, len(robot.Tubes)), Beta: make([]float64, len(robot.Tubes))}
+	for i := range a.Beta {
+		a.Beta[i] = sc.Workspace.Insertion[i][0]
+	}
+	if err := robot.CheckActuation(a); err != nil {
+		var ae *kinematics.ActuationError
+		path := "bellows"
+		if errors.As(err, &ae) && ae.Tube >= 0 {
+			path = fmt.Sprintf("bellows[%d]", ae.Tube+1)
+		}
+		r.errorf(path, "the bellows do not nest: %s", BellowsWording(err))
+		return nil, nil, r.errs.sorted()
 	}
 	return d, &sc, nil
 }
@@ -348,4 +366,12 @@ func leaves(err error) []error {
 		return out
 	}
 	return []error{err}
+}
+
+// BellowsWording turns a kinematics message about tubes into the words of
+// the design files: bellows, counted from 1, innermost first.
+func BellowsWording(err error) string {
+	msg := strings.TrimPrefix(err.Error(), "kinematics: ")
+	msg = strings.ReplaceAll(msg, "tubes", "bellows")
+	return strings.ReplaceAll(msg, "tube", "bellows")
 }

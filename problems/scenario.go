@@ -147,12 +147,14 @@ func readRequirements(t *table, q *objective.Requirements) {
 		}
 		q.MinStabilityMargin = v
 	}
+	q.MinClearanceSet = t.has("min_clearance_mm")
 	q.MinClearance = pos("min_clearance_mm", "a radial clearance in mm", mm)
 	if v, ok := t.number("min_task_coverage", "a fraction in [0, 1]", false); ok {
 		if v < 0 || v > 1 {
 			t.r.errorf(t.key("min_task_coverage"), "%s is out of range (expected a fraction in [0, 1])", fmtNum(v))
 		}
 		q.MinTaskCoverage = v
+		q.MinTaskCoverageSet = true
 	}
 	q.MaxMass = pos("max_mass_g", "a mass in g", gram)
 	q.MinPayloadToWeight = pos("min_payload_to_weight", "a ratio", 1)

@@ -138,7 +138,7 @@ func TestExitCodes(t *testing.T) {
 		{"bad angle", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,x"}, 2, `"x" is not a number`},
 		{"bad file", []string{"check", "../../problems/testdata/design-errors/negative-wall.toml"}, 2, "wall_mm: -0.6 is out of range"},
 		{"missing file", []string{"check", "nope.toml"}, 2, "nope.toml: cannot read"},
-		{"nesting", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,0", "-insert-mm", "0,-20"}, 2, "tube"},
+		{"nesting", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,0", "-insert-mm", "0,-20"}, 2, "bellows 1 (innermost) starts at 0 mm but bellows 2 (outermost) around it at -20 mm"},
 		{"tiny backbone step", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,0", "-step-mm", "1e-9"}, 2, "-step-mm: 1e-09 gives"},
 		{"version", []string{"version"}, 0, ""},
 	}

@@ -66,7 +66,7 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 		return err
 	}
 	if err := robot.CheckActuation(a); err != nil {
-		return usagef("%v", err)
+		return usagef("%s", problems.BellowsWording(err))
 	}
 	longest := 0.0
 	for _, t := range robot.Tubes {
