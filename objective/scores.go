@@ -61,6 +61,17 @@ func AllScores() []Score { return append([]Score(nil), scoreList...) }
 // and on which bellows have geometry, not on the values, so a search can
 // give every check a fixed constraint slot.
 func CheckNames(d *Design, sc *Scenario) []string {
+	list := CheckList(d, sc)
+	names := make([]string, len(list))
+	for i, c := range list {
+		names[i] = c.Name
+	}
+	return names
+}
+
+// CheckList is CheckNames with each check's unit, limit and direction
+// (values zero).
+func CheckList(d *Design, sc *Scenario) []Check {
 	if sc == nil {
 		sc = &Scenario{}
 	}
@@ -68,9 +79,20 @@ func CheckNames(d *Design, sc *Scenario) []string {
 	res := &Result{}
 	res.Scores.StrainPerBellows = make([]float64, len(d.Bellows))
 	e.checks(res)
-	names := make([]string, len(res.Checks))
-	for i, c := range res.Checks {
-		names[i] = c.Name
+	for i := range res.Checks {
+		res.Checks[i].Value, res.Checks[i].Pass = 0, false
 	}
-	return names
+	return res.Checks
+}
+
+// UnitSuffix turns a unit into the suffix of a key or column name:
+// "mm" → "_mm", "1/m" → "_per_m", "" → "".
+func UnitSuffix(unit string) string {
+	switch unit {
+	case "":
+		return ""
+	case "1/m":
+		return "_per_m"
+	}
+	return "_" + unit
 }

@@ -98,8 +98,9 @@ type Spec struct {
 	Constraints []Constraint
 	Search      SearchSettings
 	// Checks are the requirement checks of every candidate (constraint
-	// slots), from objective.CheckNames.
-	Checks []string
+	// slots), from objective.CheckNames; CheckUnits their units.
+	Checks     []string
+	CheckUnits []string
 
 	base map[string]any // the decoded file, search-only tables removed
 	loc  *locator
@@ -173,7 +174,10 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
 	}
-	s.Checks = objective.CheckNames(tmpl, sc)
+	for _, c := range objective.CheckList(tmpl, sc) {
+		s.Checks = append(s.Checks, c.Name)
+		s.CheckUnits = append(s.CheckUnits, c.Unit)
+	}
 	return s, nil
 }
 

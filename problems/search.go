@@ -41,10 +41,9 @@ func (s *Spec) ConstraintNames() []string {
 
 // SearchProblem turns the problem into a search problem over the file's
 // variables (file units; categories as indices). Objectives to maximise
-// are negated. Constraint values are relative margins, g ≤ 0 feasible:
-// (value − limit)/max(|value|, |limit|) for an upper limit and
-// (limit − value)/max(|value|, |limit|) for a lower one, so every
-// violation lies in [0, 2] whatever the score's unit.
+// are negated. Constraint values are margins relative to the limit, g ≤ 0
+// feasible: (value − limit)/|limit| for an upper limit and
+// (limit − value)/|limit| for a lower one (not divided for a zero limit).
 func (s *Spec) SearchProblem() search.Problem {
 	p := search.Problem{
 		Dim:            len(s.Variables),
@@ -104,9 +103,9 @@ func (s *Spec) Fill(res *objective.Result, f, g []float64) error {
 			return fmt.Errorf("check %d is %s, expected %s", i+1, c.Name, s.Checks[i])
 		}
 		if c.Max {
-			g[k] = margin(c.Value, c.Limit)
+			g[k] = margin(c.Value, c.Limit, c.Limit)
 		} else {
-			g[k] = margin(c.Limit, c.Value)
+			g[k] = margin(c.Limit, c.Value, c.Limit)
 		}
 		k++
 	}
@@ -114,24 +113,25 @@ func (s *Spec) Fill(res *objective.Result, f, g []float64) error {
 		sc, _ := objective.LookupScore(c.Score)
 		v := sc.Value(&res.Scores)
 		if !math.IsNaN(c.Min) {
-			g[k] = margin(c.Min, v)
+			g[k] = margin(c.Min, v, c.Min)
 			k++
 		}
 		if !math.IsNaN(c.Max) {
-			g[k] = margin(v, c.Max)
+			g[k] = margin(v, c.Max, c.Max)
 			k++
 		}
 	}
 	return nil
 }
 
-// margin is (a − b)/max(|a|, |b|): positive when a exceeds b.
-func margin(a, b float64) float64 {
-	scale := math.Max(math.Abs(a), math.Abs(b))
-	if scale == 0 {
-		return 0
+// margin is (a − b)/|limit| (or a − b for a zero limit): positive when a
+// exceeds b, in units of the limit, so the search ranks infeasible
+// designs by how far they miss.
+func margin(a, b, limit float64) float64 {
+	if limit == 0 {
+		return a - b
 	}
-	return (a - b) / scale
+	return (a - b) / math.Abs(limit)
 }
 
 // Settings turns the [search] table into search settings; zero fields

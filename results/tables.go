@@ -212,8 +212,9 @@ func FrontHeader(s *problems.Spec) []string {
 	for _, sc := range objective.AllScores() {
 		h = append(h, sc.Name)
 	}
-	for _, n := range s.Checks {
-		h = append(h, "check_"+n, "limit_"+n, "pass_"+n)
+	for i, n := range s.Checks {
+		u := objective.UnitSuffix(s.CheckUnits[i])
+		h = append(h, "check_"+n+u, "limit_"+n+u, "pass_"+n)
 	}
 	h = append(h, c.Constraints...)
 	return append(h, "pass", "design_file")

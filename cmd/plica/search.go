@@ -134,6 +134,9 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 		res.Generation, res.Failures, res.Runtime.Round(time.Millisecond))
 	fmt.Fprintf(w, "front: %d designs (feasible in population: %d of %d); hypervolume %.6g at reference %v (objectives as minimised)\n",
 		len(res.Front), feasible, len(res.Population), res.Hypervolume, res.Reference)
+	if src := stiffnessSources(spec); src != "" {
+		fmt.Fprintf(w, "stiffness per bellows: %s\n", src)
+	}
 	fmt.Fprintf(w, "files: %s, %s, %s/front-NNN.toml\n", folder.Path(results.FrontFile), folder.Path(results.EvaluationsFile), folder.Path(results.DesignsDir))
 	if len(res.Front) == 0 {
 		fmt.Fprintln(w, "no feasible design found: relax the requirements or widen the ranges")
@@ -152,4 +155,29 @@ func setTimeBudget(set *search.Settings, s string) error {
 	}
 	set.Runtime = d
 	return nil
+}
+
+// stiffnessSources says where each bellows' stiffness comes from (strip,
+// shell, measured or calibrated), for the design at the middle of the
+// ranges; "" if that design cannot be built.
+func stiffnessSources(spec *problems.Spec) string {
+	x := make([]float64, len(spec.Variables))
+	for i, v := range spec.Variables {
+		if v.Options == nil {
+			x[i] = (v.Lower + v.Upper) / 2
+		}
+	}
+	d, _, err := spec.Design(x)
+	if err != nil {
+		return ""
+	}
+	st, err := d.Stiffness()
+	if err != nil {
+		return ""
+	}
+	src := make([]string, len(st))
+	for i, s := range st {
+		src[i] = s.Source
+	}
+	return strings.Join(src, ", ")
 }

@@ -3,6 +3,7 @@ package main
 import (
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -86,4 +87,21 @@ func TestInit(t *testing.T) {
 	code, _, errOut := runCLI(t, "init", p)
 	assert.Equal(t, 2, code, "init never overwrites")
 	assert.Contains(t, errOut, "exists")
+}
+
+// TestSearchSaysCalibrated: a search whose problem names a calibration file
+// says in its summary that the stiffness is calibrated.
+func TestSearchSaysCalibrated(t *testing.T) {
+	dir := t.TempDir()
+	prob := smallProblemFile(t, dir)
+	cal, err := os.ReadFile(examples + "boom-calibration.toml")
+	require.NoError(t, err)
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "cal.toml"), cal, 0o644))
+	text, err := os.ReadFile(prob)
+	require.NoError(t, err)
+	s := strings.Replace(string(text), "outer_diameter_mm = 30.0\n", "outer_diameter_mm = 30.0\ncalibration_file = \"cal.toml\"\n", 1)
+	require.NoError(t, os.WriteFile(prob, []byte(s), 0o644))
+	code, out, errOut := runCLI(t, "search", prob, "-o", filepath.Join(dir, "run"), "-quiet", "-evals", "24")
+	require.Equal(t, 0, code, "search: %s", errOut)
+	assert.Contains(t, out, "stiffness per bellows: strip, calibrated")
 }
