@@ -62,6 +62,12 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 	d, ins := readDesign(r, root)
 	sc := readScenario(root)
 	sc.Workspace.Insertion = ins
+	for _, k := range problemOnlyKeys {
+		if root.has(k) {
+			root.get(k)
+			r.errorf(k, "belongs in a problem file for plica search (expected a design file: every value fixed, no [[objective]], [[constraint]] or [search])")
+		}
+	}
 	root.finish(topKeys)
 	if len(r.errs) > 0 {
 		return nil, nil, r.errs.sorted()
@@ -255,7 +261,7 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 		}
 	}
 	g := &mb.Geometry
-	if !hasOD {
+	if !t.has("outer_diameter_mm") {
 		t.r.errorf(t.key("outer_diameter_mm"), "missing (expected a diameter in mm)")
 	}
 	g.OuterDiameter = od * mm

@@ -166,6 +166,11 @@ func join(prefix, key string) string {
 // find returns the position of a key path, falling back to its closest
 // enclosing table.
 func (l *locator) find(path string) position {
+	if pos, ok := l.keys[path+"[1]"]; ok { // an array of tables: its first header
+		if _, exact := l.keys[path]; !exact {
+			return pos
+		}
+	}
 	for p := path; p != ""; {
 		if pos, ok := l.keys[p]; ok {
 			return pos

@@ -91,6 +91,10 @@ func (t *table) number(k, what string, required bool) (float64, bool) {
 	}
 	x, ok := asFloat(v)
 	if !ok {
+		if arr, isArr := v.([]any); isArr && len(arr) == 2 {
+			t.r.errorf(t.key(k), "found a range (expected %s: a design fixes every value; ranges belong in a problem file for plica search)", what)
+			return 0, false
+		}
 		t.r.errorf(t.key(k), "found %s (expected %s)", describe(v), what)
 		return 0, false
 	}
