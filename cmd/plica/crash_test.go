@@ -67,7 +67,7 @@ func TestKillAndResume(t *testing.T) {
 	run := filepath.Join(dir, "killed")
 	cmd := exec.Command(bin, "search", prob, "-o", run, "-quiet", "-evals", evals)
 	kills := 0
-	for _, rows := range []int{1, 40, 100, 170} { // kill once evaluations.csv holds this many lines
+	for _, rows := range []int{1, 40, 100, 150} { // kill once evaluations.csv holds this many lines
 		require.NoError(t, cmd.Start())
 		deadline := time.Now().Add(60 * time.Second)
 		for countLines(filepath.Join(run, "evaluations.csv")) < rows && time.Now().Before(deadline) {
@@ -77,6 +77,10 @@ func TestKillAndResume(t *testing.T) {
 			kills++
 		}
 		cmd.Wait()
+		// The kill must land mid-run: run.json still says so.
+		info, err := os.ReadFile(filepath.Join(run, "run.json"))
+		require.NoError(t, err, "run.json exists after the kill at %d lines", rows)
+		assert.Contains(t, string(info), `"status": "running"`, "killed while running (at %d lines)", rows)
 		cmd = exec.Command(bin, "resume", run, "-quiet")
 	}
 	require.Greater(t, kills, 0)
