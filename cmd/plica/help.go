@@ -16,8 +16,12 @@ func init() {
 		usage: "",
 		short: "print plica's version",
 		run: func(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
-			if _, err := parseArgs(fs, args); err != nil {
+			pos, err := parseArgs(fs, args)
+			if err != nil {
 				return err
+			}
+			if len(pos) != 0 {
+				return usagef("version: expected no arguments, got %d", len(pos))
 			}
 			fmt.Fprintf(stdout, "plica %s\n", version)
 			return nil
