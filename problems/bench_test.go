@@ -19,27 +19,7 @@ import (
 // file in testdata/bench/bad-*.csv: one line per problem, each naming file,
 // line, column (field index) and column name. Rewrite with -update.
 func TestBenchErrorsGolden(t *testing.T) {
-	files, err := filepath.Glob("testdata/bench/bad-*.csv")
-	require.NoError(t, err)
-	require.NotEmpty(t, files)
-	for _, f := range files {
-		t.Run(filepath.Base(f), func(t *testing.T) {
-			_, err := LoadBench(f)
-			require.Error(t, err, "bench file %s must be rejected", f)
-			assert.True(t, IsInputError(err), "bench file %s: error must be an input error, got %T", f, err)
-			got := err.Error() + "\n"
-			golden := strings.TrimSuffix(f, ".csv") + ".golden"
-			if *update {
-				require.NoError(t, os.WriteFile(golden, []byte(got), 0o644))
-			}
-			want, err := os.ReadFile(golden)
-			require.NoError(t, err, "missing golden for %s (run go test ./problems -update)", f)
-			assert.Equal(t, string(want), got, "error message for %s", f)
-			for _, line := range strings.Split(strings.TrimSpace(got), "\n") {
-				assert.Regexp(t, `^testdata/bench/bad-[a-z-]+\.csv:\d+:\d+: `, line, "every line names file:line:col (%s)", f)
-			}
-		})
-	}
+	goldenErrors(t, "testdata/bench/bad-*.csv", func(f string) error { _, err := LoadBench(f); return err })
 }
 
 // TestBenchErrorPositions checks the issue's four error kinds field by

@@ -5,6 +5,7 @@ import (
 	"flag"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -20,16 +21,19 @@ var update = flag.Bool("update", false, "rewrite the .golden files")
 // in testdata/design-errors: each names file, line, column, key and what
 // was expected. Rewrite the goldens with -update after a deliberate change.
 func TestDesignErrorsGolden(t *testing.T) {
-	goldenErrors(t, "design-errors", func(f string) error { _, _, err := LoadDesign(f); return err })
+	goldenErrors(t, "testdata/design-errors/*.toml", func(f string) error { _, _, err := LoadDesign(f); return err })
 }
 
 // TestProblemErrorsGolden does the same for malformed problem files.
 func TestProblemErrorsGolden(t *testing.T) {
-	goldenErrors(t, "problem-errors", func(f string) error { _, err := LoadProblem(f); return err })
+	goldenErrors(t, "testdata/problem-errors/*.toml", func(f string) error { _, err := LoadProblem(f); return err })
 }
 
-func goldenErrors(t *testing.T, dir string, load func(string) error) {
-	files, err := filepath.Glob("testdata/" + dir + "/*.toml")
+// goldenErrors loads every file matching pattern, expects an input error,
+// and compares its text with the .golden file beside it (rewrite with
+// -update); every line must name file:line:col.
+func goldenErrors(t *testing.T, pattern string, load func(string) error) {
+	files, err := filepath.Glob(pattern)
 	require.NoError(t, err)
 	require.NotEmpty(t, files)
 	for _, f := range files {
@@ -38,7 +42,7 @@ func goldenErrors(t *testing.T, dir string, load func(string) error) {
 			require.Error(t, err, "design %s must be rejected", f)
 			assert.True(t, IsInputError(err), "design %s: error must be an input error, got %T", f, err)
 			got := err.Error() + "\n"
-			golden := strings.TrimSuffix(f, ".toml") + ".golden"
+			golden := strings.TrimSuffix(f, filepath.Ext(f)) + ".golden"
 			if *update {
 				require.NoError(t, os.WriteFile(golden, []byte(got), 0o644))
 			}
@@ -46,7 +50,7 @@ func goldenErrors(t *testing.T, dir string, load func(string) error) {
 			require.NoError(t, err, "missing golden for %s (run go test ./problems -update)", f)
 			assert.Equal(t, string(want), got, "error message for %s", f)
 			for _, line := range strings.Split(strings.TrimSpace(got), "\n") {
-				assert.Regexp(t, `^testdata/`+dir+`/[a-z-]+\.toml:\d+:\d+: `, line, "every line names file:line:col (%s)", f)
+				assert.Regexp(t, `^`+regexp.QuoteMeta(filepath.Dir(f))+`/[a-z0-9-]+\.[a-z]+:\d+:\d+: `, line, "every line names file:line:col (%s)", f)
 			}
 		})
 	}
