@@ -89,10 +89,8 @@ func (e *evaluator) sag(res *Result) error {
 	for i := range 3 {
 		sag += gh[i] * (loaded.Tip.P[i] - free.Tip.P[i])
 	}
-	shape := loaded
-	shape.Iterations += free.Iterations
 	sc.TipSag = sag
-	sc.SagIterations = shape.Iterations
+	sc.SagIterations = loaded.Iterations + free.Iterations
 	// Linear estimate at the same configuration: the compliance on a fine
 	// grid (PHYSICS §4.3).
 	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 200}
