@@ -225,7 +225,7 @@ func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
 		}
 		h := ll / float64(m)
 		step := kinematics.LinkTransform(l.U, h)
-		kinv := inv3(l.K)
+		kinv, _ := kinematics.InvertSPD(l.K) // Links checked K
 		for j := 0; j < m; j++ {
 			nd := complianceNode{s: sPos, p: pose.P, w: h, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)}
 			if j == 0 {
@@ -323,24 +323,5 @@ func rkr(R, kinv [3][3]float64) [3][3]float64 {
 			out[i][j], out[j][i] = v, v
 		}
 	}
-	return out
-}
-
-// inv3 inverts a symmetric positive definite 3×3 matrix by cofactors.
-func inv3(m [3][3]float64) [3][3]float64 {
-	c00 := m[1][1]*m[2][2] - m[1][2]*m[2][1]
-	c01 := m[1][2]*m[2][0] - m[1][0]*m[2][2]
-	c02 := m[1][0]*m[2][1] - m[1][1]*m[2][0]
-	det := m[0][0]*c00 + m[0][1]*c01 + m[0][2]*c02
-	var out [3][3]float64
-	out[0][0] = c00 / det
-	out[1][0] = c01 / det
-	out[2][0] = c02 / det
-	out[0][1] = (m[0][2]*m[2][1] - m[0][1]*m[2][2]) / det
-	out[1][1] = (m[0][0]*m[2][2] - m[0][2]*m[2][0]) / det
-	out[2][1] = (m[0][1]*m[2][0] - m[0][0]*m[2][1]) / det
-	out[0][2] = (m[0][1]*m[1][2] - m[0][2]*m[1][1]) / det
-	out[1][2] = (m[0][2]*m[1][0] - m[0][0]*m[1][2]) / det
-	out[2][2] = (m[0][0]*m[1][1] - m[0][1]*m[1][0]) / det
 	return out
 }

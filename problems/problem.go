@@ -63,6 +63,28 @@ type Variable struct {
 // Path is the variable's key path, e.g. "bellows[2].wall_mm".
 func (v Variable) Path() string { return fmt.Sprintf("bellows[%d].%s", v.Table+1, v.Key) }
 
+// OptionIndex returns the index of a categorical option, or -1.
+func (v Variable) OptionIndex(name string) int {
+	for i, o := range v.Options {
+		if o == name {
+			return i
+		}
+	}
+	return -1
+}
+
+// Midpoint is the candidate at the middle of every range, with the first
+// option of every choice.
+func (s *Spec) Midpoint() []float64 {
+	x := make([]float64, len(s.Variables))
+	for i, v := range s.Variables {
+		if v.Options == nil {
+			x[i] = (v.Lower + v.Upper) / 2
+		}
+	}
+	return x
+}
+
 // Objective is one score to minimise or maximise.
 type Objective struct {
 	Score    string

@@ -203,13 +203,7 @@ func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 }
 
 func problemName(s *problems.Spec) string {
-	x := make([]float64, len(s.Variables))
-	for i, v := range s.Variables {
-		if v.Options == nil {
-			x[i] = (v.Lower + v.Upper) / 2
-		}
-	}
-	d, _, err := s.Design(x)
+	d, _, err := s.Design(s.Midpoint())
 	if err != nil || d == nil {
 		return ""
 	}

@@ -360,12 +360,7 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 		for j, v := range spec.Variables {
 			cell := cells[1+j]
 			if v.Options != nil {
-				k := -1
-				for i, o := range v.Options {
-					if o == cell {
-						k = i
-					}
-				}
+				k := v.OptionIndex(cell)
 				if k < 0 {
 					return bad(fmt.Sprintf("%q is not an option of %s", cell, v.Path()))
 				}

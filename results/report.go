@@ -284,14 +284,7 @@ func (r *ReportData) page(ids []int) *repPage {
 	name := info.ProblemName
 	if name == "" {
 		// the design at mid-range carries the file's name key
-		x := make([]float64, len(s.Variables))
-		for j, v := range s.Variables {
-			x[j] = (v.Lower + v.Upper) / 2
-			if v.Options != nil {
-				x[j] = 0
-			}
-		}
-		if d, _, err := s.Design(x); err == nil && d.Name != "" {
+		if d, _, err := s.Design(s.Midpoint()); err == nil && d.Name != "" {
 			name = d.Name
 		} else {
 			name = info.ProblemFile

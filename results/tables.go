@@ -315,12 +315,7 @@ func (f *Folder) FrontX(s *problems.Spec, id int) ([]float64, error) {
 		for j, v := range s.Variables {
 			cell := row[idx[j]]
 			if v.Options != nil {
-				k := -1
-				for i, o := range v.Options {
-					if o == cell {
-						k = i
-					}
-				}
+				k := v.OptionIndex(cell)
 				if k < 0 {
 					return nil, fmt.Errorf("%s: design %d: %q is not an option of %s", f.Path(FrontFile), id, cell, v.Path())
 				}

@@ -161,13 +161,7 @@ func setTimeBudget(set *search.Settings, s string) error {
 // shell, measured or calibrated), for the design at the middle of the
 // ranges; "" if that design cannot be built.
 func stiffnessSources(spec *problems.Spec) string {
-	x := make([]float64, len(spec.Variables))
-	for i, v := range spec.Variables {
-		if v.Options == nil {
-			x[i] = (v.Lower + v.Upper) / 2
-		}
-	}
-	d, _, err := spec.Design(x)
+	d, _, err := spec.Design(spec.Midpoint())
 	if err != nil {
 		return ""
 	}

@@ -331,6 +331,11 @@ func stInsertSorted(s []float64, v float64) []float64 {
 	return s
 }
 
+// InvertSPD inverts a symmetric positive definite 3×3 matrix (such as a
+// link's composite stiffness K) by cofactors; it reports false if K is not
+// symmetric (to 1e-9 relative) or not positive definite.
+func InvertSPD(k [3][3]float64) ([3][3]float64, bool) { return stInvSPD(k) }
+
 // stInvSPD inverts a symmetric positive definite 3×3 matrix by cofactors;
 // it reports false if K is not symmetric (to 1e-9 relative) or not
 // positive definite (leading minors).
