@@ -17,12 +17,15 @@
 //
 //   - Strip: the r-weighted curved-strip model of one pitch (microseconds),
 //     corrected for hoop stiffening by factors interpolated from tables
-//     that the shell model generates (hoop_table_gen.go, made by
-//     `go generate` from gen_hoop.go). Outside the tables the shell model
-//     runs instead.
+//     that the shell model generates (hoop_table_gen.go, written by
+//     `go generate` with internal/hoopgen). Outside the tables the shell
+//     model runs instead.
 //   - Shell: a linear axisymmetric Kirchhoff–Love shell finite-element
 //     model of half a convolution with conical-frustum elements
 //     (milliseconds).
+//
+// The wall models of one convolution live in package convolution, the
+// shell finite elements in package shell.
 //
 // The beam analogy (EA, EI tensor with an optional axial spine, GJ by the
 // membrane formula, helical correction) follows the project's physics

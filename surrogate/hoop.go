@@ -1,4 +1,4 @@
-//go:generate go run gen_hoop.go
+//go:generate go run ./internal/hoopgen
 
 package surrogate
 
@@ -7,19 +7,14 @@ import (
 	"fmt"
 	"math"
 	"sort"
+
+	"plica/surrogate/convolution"
 )
 
 // ThinWall is the smallest wall ratio of the generated tables (t/rm for
 // U-profiles, t/w for sinusoids and trapezoids), which stands for the thin
-// limit of PHYSICS §6.2: at fixed shape parameters a vanishing wall ratio
-// also sends w/Dm and t/Dm to zero, and the residual effects of finite
-// thickness (meridional stretching, finite crown curvature) vanish with
-// it. Thinner designs use the first grid point. The tables extend the wall
-// ratio to its validity limit (t/rm < 2, t/w < 0.5) because printed
-// bellows are thick: finite thickness moves the factors by several percent
-// there, and by much more for U-crowns with t/rm near 1 [derived: shell
-// model].
-const ThinWall = 0.005
+// limit (convolution.ThinWall). Thinner designs use the first grid point.
+const ThinWall = convolution.ThinWall
 
 // ShapePoint locates a convolution shape on the hoop-stiffening grids
 // (PHYSICS §1.2, §6.2). Printed walls use tp = t.
@@ -45,69 +40,34 @@ type ShapePoint struct {
 // ErrNoBore is returned by ShapeFactors for a shape point whose root
 // inner radius Dm/2 − w/2 − t/2 is not positive; the generated tables hold
 // NaN there, and Lookup reports such cells as outside the table.
-var ErrNoBore = errors.New("surrogate: shape point has a non-positive root inner radius")
+var ErrNoBore = convolution.ErrNoBore
 
-// shapeBellows builds the isotropic (E = 1) bellows of a shape point at
-// Dm = 1: with the wall ratio τ,
-//
-//	U (τ = t/rm):                  rm = Dm·τ·C2²/1.82², q = 4·rm, w = 2·rm/C1, t = τ·rm
-//	sinusoid/trapezoid (τ = t/w):  q = 2.2²·Dm·τ·(w/q)·C2q², w = (w/q)·q, t = τ·w
-func shapeBellows(p ShapePoint) (Bellows, error) {
-	const dm = 1.0
-	tau := p.Wall
-	if !(tau > 0 && tau < 4) {
-		return Bellows{}, fmt.Errorf("surrogate: shape point needs 0 < wall ratio < 4 (got %g)", tau)
-	}
-	var t float64
-	g := Geometry{Profile: p.Profile}
+// shape returns the isotropic convolution of a shape point at Dm = 1
+// (convolution.Shape).
+func (p ShapePoint) shape() (convolution.Shape, error) {
 	switch p.Profile {
 	case UShape:
-		if !(p.C1 > 0 && p.C1 <= 1 && p.C2 > 0) {
-			return Bellows{}, fmt.Errorf("surrogate: U shape point needs 0 < C1 ≤ 1, C2 > 0 (got C1 = %g, C2 = %g)", p.C1, p.C2)
-		}
-		rm := dm * tau * p.C2 * p.C2 / (1.82 * 1.82)
-		g.Pitch = 4 * rm
-		g.Depth = 2 * rm / p.C1
-		t = tau * rm
-	case Sinusoid, Trapezoid:
-		if !(p.DepthRatio > 0 && p.C2 > 0) {
-			return Bellows{}, fmt.Errorf("surrogate: %v shape point needs w/q > 0, C2q > 0 (got %g, %g)", p.Profile, p.DepthRatio, p.C2)
-		}
-		g.Pitch = 2.2 * 2.2 * dm * tau * p.DepthRatio * p.C2 * p.C2
-		g.Depth = p.DepthRatio * g.Pitch
-		g.FlatFraction = p.FlatFraction
-		t = tau * g.Depth
-	default:
-		return Bellows{}, fmt.Errorf("surrogate: unknown profile %d", int(p.Profile))
+		return convolution.UShapePoint(p.C1, p.C2, p.Wall, p.Poisson)
+	case Sinusoid:
+		return convolution.SinusoidPoint(p.DepthRatio, p.C2, p.Wall, p.Poisson)
+	case Trapezoid:
+		return convolution.TrapezoidPoint(p.FlatFraction, p.DepthRatio, p.C2, p.Wall, p.Poisson)
 	}
-	g.Wall = t
-	g.OuterDiameter = dm + g.Depth + t
-	if dm/2-g.Depth/2-t/2 <= 0 {
-		return Bellows{}, ErrNoBore
-	}
-	return Bellows{Geometry: g, Material: Material{
-		ModulusAcross: 1, ModulusInLayer: 1, Poisson: p.Poisson, Density: 1, AllowableStrain: 1,
-	}}, nil
+	return convolution.Shape{}, fmt.Errorf("surrogate: unknown profile %d", int(p.Profile))
 }
 
 // ShapeFactors runs the shell model (elements per arc, flank or flat; five
 // times as many per half sinusoid) and the r-weighted strip model on the
 // isotropic bellows of a shape point and returns the hoop-stiffening
 // factor H = k_shell/k_strip and the strain factor ε_shell/ε_strip (peak
-// meridional surface strain at equal movement). These are the entries of
-// the generated tables.
+// meridional surface strain at equal movement), as
+// convolution.Shape.Factors does for the generator of the tables.
 func ShapeFactors(p ShapePoint, elements int) (hoop, strain float64, err error) {
-	b, err := shapeBellows(p)
+	s, err := p.shape()
 	if err != nil {
 		return 0, 0, err
 	}
-	m := b.halfMeridian()
-	st := stripModel(&b.Geometry, &m, 1, p.Poisson)
-	sh, err := shellModel(&b.Geometry, &b.Material, elements)
-	if err != nil {
-		return 0, 0, err
-	}
-	return sh.k / st.k, sh.epsPerE / st.epsPerE, nil
+	return s.Factors(elements)
 }
 
 // FactorTable is a generated table of hoop and strain factors on a
@@ -132,11 +92,12 @@ type FactorTable struct {
 	logH, logS []float64
 }
 
-// generated tables (hoop_table_gen.go sets them; nil means "no table",
-// and Strip fidelity then falls back to the shell model).
-var uTable, sineTable, trapTable *FactorTable
+// The generated tables (data in hoop_table_gen.go), checked and given
+// their logarithms when the package is initialised. Outside them Strip
+// fidelity falls back to the shell model.
+var uTable, sineTable, trapTable = uFactors.prepare(), sineFactors.prepare(), trapFactors.prepare()
 
-// Tables returns the generated tables (nil entries if absent).
+// Tables returns the generated tables.
 func Tables() []*FactorTable { return []*FactorTable{uTable, sineTable, trapTable} }
 
 // Point returns the shape point of a grid index (one index per axis).
@@ -267,7 +228,7 @@ func (t *FactorTable) prepare() *FactorTable {
 // shapePoint returns the table coordinates of a bellows. The orthotropic
 // wall enters through an effective C2 scaled by (E_inlayer/E_across)^(1/4):
 // the boundary-layer decay of an orthotropic cylinder is
-// β⁴ = 3(1−ν²)·E_θ/(E_s R² t²) with the coupling of shellMat [derived].
+// β⁴ = 3(1−ν²)·E_θ/(E_s R² t²) with the coupling of shell.Wall [derived].
 // ok is false for shapes outside the tables' families (UShape with
 // rm < q/4).
 func (b *Bellows) shapePoint() (p ShapePoint, ok bool) {

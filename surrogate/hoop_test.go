@@ -13,8 +13,10 @@ import (
 // TestGeneratedTablesRecompute recomputes a sample of the generated table
 // entries with the shell model; they must match to 1e-6 relative (the
 // file stores 7 significant digits). Source: the tables' own generator
-// (gen_hoop.go, surrogate.ShapeFactors), so this guards against stale or
-// hand-edited tables.
+// (internal/hoopgen, convolution.Shape.Factors, reached here through
+// FactorTable.Point and ShapeFactors), so this guards against stale or
+// hand-edited tables and against a generator whose axes disagree with
+// Point.
 func TestGeneratedTablesRecompute(t *testing.T) {
 	for _, tb := range Tables() {
 		require.NotNil(t, tb, "generated table missing: run go generate ./surrogate/")

@@ -1,6 +1,10 @@
 package surrogate
 
-import "math"
+import (
+	"math"
+
+	"plica/surrogate/shell"
+)
 
 // The shell element on a straight cylinder, for verification against the
 // closed forms of cylindrical-shell theory (PHYSICS §9.7). Units are
@@ -20,13 +24,13 @@ func cylinderMesh(r, l float64, n int) (rs, zs []float64) {
 func CylinderAxialStiffness(r, t, l, e, nu float64, n int) (float64, error) {
 	rs, zs := cylinderMesh(r, l, n)
 	nn := len(rs)
-	p := shellProblem{r: rs, z: zs, mat: shellMat{Es: e, Et: e, nu: nu, t: t},
-		fixed: make([]bool, 3*nn), value: make([]float64, 3*nn)}
+	p := shell.Problem{R: rs, Z: zs, Wall: shell.Wall{Es: e, Et: e, Nu: nu, T: t},
+		Fixed: make([]bool, 3*nn), Value: make([]float64, 3*nn)}
 	last := 3 * (nn - 1)
 	const delta = 0.01
-	p.fixed[1], p.fixed[last+1] = true, true
-	p.value[last+1] = delta
-	_, react, err := p.solve()
+	p.Fixed[1], p.Fixed[last+1] = true, true
+	p.Value[last+1] = delta
+	_, react, err := p.Solve()
 	if err != nil {
 		return 0, err
 	}
@@ -41,12 +45,12 @@ func CylinderEdgeStiffness(r, t, e, nu float64, n int) (float64, error) {
 	beta := math.Pow(3*(1-nu*nu)/(r*r*t*t), 0.25)
 	rs, zs := cylinderMesh(r, 12/beta, n)
 	nn := len(rs)
-	p := shellProblem{r: rs, z: zs, mat: shellMat{Es: e, Et: e, nu: nu, t: t},
-		fixed: make([]bool, 3*nn), value: make([]float64, 3*nn), load: make([]float64, 3*nn)}
+	p := shell.Problem{R: rs, Z: zs, Wall: shell.Wall{Es: e, Et: e, Nu: nu, T: t},
+		Fixed: make([]bool, 3*nn), Value: make([]float64, 3*nn), Load: make([]float64, 3*nn)}
 	last := 3 * (nn - 1)
-	p.fixed[last], p.fixed[last+1], p.fixed[last+2] = true, true, true
-	p.load[0] = 2 * math.Pi * r // unit radial line load
-	disp, _, err := p.solve()
+	p.Fixed[last], p.Fixed[last+1], p.Fixed[last+2] = true, true, true
+	p.Load[0] = 2 * math.Pi * r // unit radial line load
+	disp, _, err := p.Solve()
 	if err != nil {
 		return 0, err
 	}

@@ -57,8 +57,7 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 		return Section{}, err
 	}
 	g, mtl := &b.Geometry, &b.Material
-	m := g.halfMeridian()
-	st := stripModel(g, &m, mtl.ModulusAcross, mtl.Poisson)
+	st := stripModel(g, mtl.ModulusAcross, mtl.Poisson)
 
 	var s Section
 	s.Fidelity = Shell
@@ -66,9 +65,9 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 		if p, ok := b.shapePoint(); ok {
 			if h, sf, ok := tableFor(g.Profile).Lookup(p); ok {
 				s.Fidelity = Strip
-				s.AxialRatePerConvolution = st.k * h
+				s.AxialRatePerConvolution = st.K * h
 				s.HoopFactor = h
-				s.StrainPerCurvature = st.epsPerE * sf // per unit e for now
+				s.StrainPerCurvature = st.StrainPerMovement * sf // per unit e for now
 			}
 		}
 	}
@@ -77,9 +76,9 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 		if err != nil {
 			return Section{}, err
 		}
-		s.AxialRatePerConvolution = sh.k
-		s.HoopFactor = sh.k / st.k
-		s.StrainPerCurvature = sh.epsPerE
+		s.AxialRatePerConvolution = sh.K
+		s.HoopFactor = sh.K / st.K
+		s.StrainPerCurvature = sh.StrainPerMovement
 	}
 	b.beam(&s, &st)
 	return s, nil

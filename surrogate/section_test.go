@@ -166,10 +166,9 @@ func TestPlainTubeTorsion(t *testing.T) {
 	for _, w := range []float64{1e-6, 1e-8} {
 		g := Geometry{Profile: Sinusoid, OuterDiameter: od, Depth: w, Pitch: 5e-3, Wall: th}
 		rm := g.MeanRadius()
-		m := g.halfMeridian()
-		st := stripModel(&g, &m, mat.ModulusAcross, mat.Poisson)
+		st := stripModel(&g, mat.ModulusAcross, mat.Poisson)
 		b := Bellows{Geometry: g, Material: mat}
-		s := Section{AxialRatePerConvolution: st.k}
+		s := Section{AxialRatePerConvolution: st.K}
 		b.beam(&s, &st)
 		want := 2 * math.Pi * gm * th * rm * rm * rm
 		// GJ ∝ 1/∫ds/r³ changes by O((w/R)²) from the tube value.

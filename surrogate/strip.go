@@ -1,36 +1,23 @@
 package surrogate
 
-import "math"
+import (
+	"math"
 
-// stripResult is the r-weighted strip (curved-beam) model of one
-// convolution (PHYSICS §6.1).
+	"plica/surrogate/convolution"
+)
+
+// stripResult is the r-weighted strip model of one convolution
+// (convolution.Strip, PHYSICS §6.1) with its integrals over one pitch.
 type stripResult struct {
-	k       float64 // k_conv, N/m
-	epsPerE float64 // peak meridional surface strain per unit movement e, 1/m
-	mom     moments // integrals over one pitch
+	convolution.Result
+	mom convolution.Moments
 }
 
-// stripModel cuts the wall into meridional strips of unit circumferential
-// width, neglects hoop action and meridional stretching, and integrates
-// over one pitch (PHYSICS §6.1, r-weighted form; the approach of Turner &
-// Ford, Stress and deflection studies of flat-plate and toroidal expansion
-// bellows, Proc. IMechE, 1957, from memory):
-//
-//	ζ̄ = ∫ζ/r ds / ∫ds/r,  k_conv = 2πD / ∫(ζ − ζ̄)²/r ds,
-//	ε_peak = k_conv·e·max|ζ − ζ̄|·t/(4π r D),
-//
-// with D = E t³/(12(1 − ν²)) from the across-layer modulus. Over half a
-// convolution r is monotone, so |ζ − ζ̄|/r peaks at the root or crown apex.
-func stripModel(g *Geometry, m *meridian, e, nu float64) stripResult {
-	rMean := g.MeanRadius()
-	mo := m.pitchMoments(rMean)
-	t, w := g.Wall, g.Depth
-	d := e * t * t * t / (12 * (1 - nu*nu))
-	zbar := mo.B1 / mo.B0
-	iz := mo.B2 - mo.B1*mo.B1/mo.B0
-	k := 2 * math.Pi * d / iz
-	peak := math.Max((zbar+w/2)/(rMean-w/2), (w/2-zbar)/(rMean+w/2))
-	return stripResult{k: k, epsPerE: k * t * peak / (4 * math.Pi * d), mom: mo}
+// stripModel runs the strip model on the wall with meridional modulus e.
+func stripModel(g *Geometry, e, nu float64) stripResult {
+	m := g.halfMeridian()
+	r, mo := convolution.Strip(&m, g.Wall, e, nu)
+	return stripResult{Result: r, mom: mo}
 }
 
 // UCfStrip returns the strip-model flexibility factor of a U-convolution

@@ -6,6 +6,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/surrogate/convolution"
 )
 
 // plainMoments integrates ∫ds, ∫ζ ds, ∫ζ² ds (ζ = r − Rm) over one pitch
@@ -13,7 +15,7 @@ import (
 // independent numerical form of the r ≈ Rm strip integrals of PHYSICS §6.1.
 func plainIz(g Geometry, perSeg int) float64 {
 	m := g.halfMeridian()
-	r, z := m.nodes(perSeg)
+	r, z := m.Nodes(perSeg)
 	rm := g.MeanRadius()
 	var b0, b1, b2 float64
 	for i := 1; i < len(r); i++ {
@@ -69,12 +71,11 @@ func TestStripPlainLimit(t *testing.T) {
 		rmc := c1 * w / 2
 		dm := 1000 * w
 		g := Geometry{Profile: UShape, Depth: w, Pitch: 4 * rmc, Wall: th, OuterDiameter: dm + w + th}
-		m := g.halfMeridian()
-		st := stripModel(&g, &m, e, nu)
+		st := stripModel(&g, e, nu)
 		cf := UCfStrip(c1)
 		k := math.Pi * dm * e * th * th * th / (2 * (1 - nu*nu) * w * w * w * cf)
-		assert.InEpsilon(t, k, st.k, 1e-5, "k_conv at C1 = %g, Dm = 1000 w", c1)
-		assert.InEpsilon(t, 1.5*th/(w*w*cf), st.epsPerE, 1e-3, "ε/e at C1 = %g, Dm = 1000 w", c1)
+		assert.InEpsilon(t, k, st.K, 1e-5, "k_conv at C1 = %g, Dm = 1000 w", c1)
+		assert.InEpsilon(t, 1.5*th/(w*w*cf), st.StrainPerMovement, 1e-3, "ε/e at C1 = %g, Dm = 1000 w", c1)
 	}
 }
 
@@ -88,16 +89,15 @@ func TestStripPlainLimit(t *testing.T) {
 func TestShellMatchesStripWithoutHoopStiffening(t *testing.T) {
 	const nu = 0.3
 	for _, c1 := range []float64{0.1, 0.3, 0.5, 0.7, 0.9} {
-		b, err := shapeBellows(ShapePoint{Profile: UShape, C1: c1, C2: 0.2, Wall: ThinWall, Poisson: nu})
+		s, err := ShapePoint{Profile: UShape, C1: c1, C2: 0.2, Wall: ThinWall, Poisson: nu}.shape()
 		require.NoError(t, err, "C1 = %g", c1)
-		sh, err := shellModel(&b.Geometry, &b.Material, DefaultShellElements)
+		sh, err := convolution.Shell(&s.Meridian, s.ShellWall(), DefaultShellElements)
 		require.NoError(t, err, "C1 = %g", c1)
-		g := b.Geometry
-		dm := 2 * g.MeanRadius()
-		w, th := g.Depth, g.Wall
+		dm := 2 * s.Meridian.MeanRadius()
+		w, th := s.Meridian.Depth(), s.Wall
 		k := math.Pi * dm * th * th * th / (2 * (1 - nu*nu) * w * w * w * UCfStrip(c1))
-		assert.InEpsilon(t, k, sh.k, 1.5e-3, "U C1 = %g, C2 = 0.2: shell vs Cf_strip", c1)
-		assert.GreaterOrEqual(t, sh.k, k, "U C1 = %g, C2 = 0.2: hoop action only stiffens", c1)
+		assert.InEpsilon(t, k, sh.K, 1.5e-3, "U C1 = %g, C2 = 0.2: shell vs Cf_strip", c1)
+		assert.GreaterOrEqual(t, sh.K, k, "U C1 = %g, C2 = 0.2: hoop action only stiffens", c1)
 	}
 	for _, wq := range []float64{0.25, 0.5, 1, 2, 3} {
 		h, _, err := ShapeFactors(ShapePoint{Profile: Sinusoid, DepthRatio: wq, C2: 0.1, Wall: ThinWall, Poisson: nu}, DefaultShellElements)

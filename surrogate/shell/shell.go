@@ -1,4 +1,8 @@
-package surrogate
+// Package shell is a linear axisymmetric thin-shell (Kirchhoff–Love)
+// finite-element model on a meridian polyline: conical-frustum elements,
+// three degrees of freedom per node, banded Cholesky solve. Units are
+// consistent (any set).
+package shell
 
 import (
 	"errors"
@@ -9,14 +13,8 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// DefaultShellElements is the default number of shell elements per arc,
-// flank or flat of half a convolution (five times as many on a half
-// sinusoid): 80 + 80 + 80 for a half U-convolution, 400 for a half
-// sinusoid (PHYSICS §6.3 reference resolution).
-const DefaultShellElements = 80
-
-// shellMat is the wall of the shell model: meridional modulus Es (across
-// layers), hoop modulus Et (in layer), one Poisson ratio and thickness.
+// Wall is the shell wall: meridional modulus Es (across layers of a
+// print), hoop modulus Et (in layer), one Poisson ratio Nu and thickness T.
 // The orthotropic constitutive matrices use the geometric-mean coupling
 // ν·sqrt(Es·Et) (Huber's approximation for orthotropic plates, Huber 1923,
 // from memory), which is symmetric, positive definite for ν < 1 and
@@ -24,7 +22,7 @@ const DefaultShellElements = 80
 //
 //	[N_s, N_θ] = t/(1−ν²)·[[Es, ν√(Es Et)], [ν√(Es Et), Et]]·[ε_s, ε_θ]
 //	[M_s, M_θ] = t³/(12(1−ν²))·(same matrix)·[κ_s, κ_θ]
-type shellMat struct{ Es, Et, nu, t float64 }
+type Wall struct{ Es, Et, Nu, T float64 }
 
 // gauss5 are the 5-point Gauss–Legendre nodes and weights on [0, 1]
 // (Abramowitz & Stegun 1964, Table 25.4, mapped from [−1, 1]).
@@ -47,12 +45,12 @@ var gauss5x, gauss5w = func() ([5]float64, [5]float64) {
 // This is the frustum element of Grafton & Strome, Analysis of
 // axisymmetrical shells by the direct stiffness method, AIAA J. 1, 1963
 // (from memory).
-func elementStiffness(r1, z1, r2, z2 float64, m shellMat, ke *[6][6]float64) {
+func elementStiffness(r1, z1, r2, z2 float64, m Wall, ke *[6][6]float64) {
 	l := math.Hypot(r2-r1, z2-z1)
 	c, s := (r2-r1)/l, (z2-z1)/l
-	f := m.t / (1 - m.nu*m.nu)
-	a11, a22, a12 := f*m.Es, f*m.Et, f*m.nu*math.Sqrt(m.Es*m.Et)
-	g := m.t * m.t / 12
+	f := m.T / (1 - m.Nu*m.Nu)
+	a11, a22, a12 := f*m.Es, f*m.Et, f*m.Nu*math.Sqrt(m.Es*m.Et)
+	g := m.T * m.T / 12
 	d11, d22, d12 := g*a11, g*a22, g*a12
 
 	var kl [6][6]float64
@@ -117,31 +115,32 @@ func elementStiffness(r1, z1, r2, z2 float64, m shellMat, ke *[6][6]float64) {
 	}
 }
 
-// shellProblem is a linear axisymmetric shell problem on a meridian
-// polyline: three global DOFs per node (U radial, W axial, χ rotation),
-// index 3i+0..2. Loads are total (around the circumference) nodal forces.
-type shellProblem struct {
-	r, z  []float64
-	mat   shellMat
-	fixed []bool    // per DOF
-	value []float64 // prescribed values of fixed DOFs
-	load  []float64 // nodal loads of free DOFs
+// Problem is a linear axisymmetric shell problem on a meridian polyline
+// (nodes R[i], Z[i]): three global DOFs per node (U radial, W axial, χ
+// rotation), index 3i+0..2. Loads are total (around the circumference)
+// nodal forces.
+type Problem struct {
+	R, Z  []float64
+	Wall  Wall
+	Fixed []bool    // per DOF
+	Value []float64 // prescribed values of fixed DOFs
+	Load  []float64 // nodal loads of free DOFs (nil: none)
 }
 
 const shellBand = 5 // half bandwidth: an element couples 6 consecutive DOFs
 
-// solve returns the displacements and the reactions K·d − load.
-func (p *shellProblem) solve() (d, react []float64, err error) {
-	nn := len(p.r)
+// Solve returns the displacements and the reactions K·d − Load.
+func (p *Problem) Solve() (d, react []float64, err error) {
+	nn := len(p.R)
 	if nn < 2 {
-		return nil, nil, errors.New("surrogate: shell mesh needs at least two nodes")
+		return nil, nil, errors.New("shell: mesh needs at least two nodes")
 	}
 	n := 3 * nn
 	bw := shellBand + 1
 	kb := make([]float64, n*bw) // upper band, row-major: K[i][j] at i*bw + j − i
 	var ke [6][6]float64
 	for e := 0; e+1 < nn; e++ {
-		elementStiffness(p.r[e], p.z[e], p.r[e+1], p.z[e+1], p.mat, &ke)
+		elementStiffness(p.R[e], p.Z[e], p.R[e+1], p.Z[e+1], p.Wall, &ke)
 		o := 3 * e
 		for i := 0; i < 6; i++ {
 			for j := i; j < 6; j++ {
@@ -161,17 +160,17 @@ func (p *shellProblem) solve() (d, react []float64, err error) {
 	}
 	rhs := make([]float64, n)
 	for i := range rhs {
-		if p.load != nil && !p.fixed[i] {
-			rhs[i] = p.load[i]
+		if p.Load != nil && !p.Fixed[i] {
+			rhs[i] = p.Load[i]
 		}
 	}
 	for j := 0; j < n; j++ {
-		if !p.fixed[j] {
+		if !p.Fixed[j] {
 			continue
 		}
-		v := p.value[j]
+		v := p.Value[j]
 		for i := max(0, j-shellBand); i <= min(n-1, j+shellBand); i++ {
-			if i != j && !p.fixed[i] {
+			if i != j && !p.Fixed[i] {
 				rhs[i] -= at(i, j) * v
 			}
 		}
@@ -189,13 +188,13 @@ func (p *shellProblem) solve() (d, react []float64, err error) {
 	a := mat.NewSymBandDense(n, shellBand, kb).RawSymBand()
 	u, ok := lapack64.Pbtrf(a)
 	if !ok {
-		return nil, nil, errors.New("surrogate: shell stiffness matrix is not positive definite")
+		return nil, nil, errors.New("shell: stiffness matrix is not positive definite")
 	}
 	d = rhs
 	lapack64.Pbtrs(u, blas64.General{Rows: n, Cols: 1, Stride: 1, Data: d})
 	for _, v := range d {
-		if !finite(v) {
-			return nil, nil, errors.New("surrogate: shell solve produced a non-finite displacement")
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return nil, nil, errors.New("shell: solve produced a non-finite displacement")
 		}
 	}
 	react = make([]float64, n)
@@ -204,20 +203,20 @@ func (p *shellProblem) solve() (d, react []float64, err error) {
 		for j := max(0, i-shellBand); j <= min(n-1, i+shellBand); j++ {
 			v += at(i, j) * d[j]
 		}
-		if p.load != nil {
-			v -= p.load[i]
+		if p.Load != nil {
+			v -= p.Load[i]
 		}
 		react[i] = v
 	}
 	return d, react, nil
 }
 
-// peakMeridionalStrain returns max |ε_s ± κ_s t/2| over the element ends
+// PeakMeridionalStrain returns, for displacements d, max |ε_s ± κ_s t/2| over the element ends
 // (κ_s is linear and ε_s constant in an element, so the ends bound it).
-func (p *shellProblem) peakMeridionalStrain(d []float64) float64 {
+func (p *Problem) PeakMeridionalStrain(d []float64) float64 {
 	var peak float64
-	for e := 0; e+1 < len(p.r); e++ {
-		dr, dz := p.r[e+1]-p.r[e], p.z[e+1]-p.z[e]
+	for e := 0; e+1 < len(p.R); e++ {
+		dr, dz := p.R[e+1]-p.R[e], p.Z[e+1]-p.Z[e]
 		l := math.Hypot(dr, dz)
 		c, s := dr/l, dz/l
 		o := 3 * e
@@ -231,43 +230,9 @@ func (p *shellProblem) peakMeridionalStrain(d []float64) float64 {
 		k0 := -((-6*w1+6*w2)/(l*l) + (-4*x1-2*x2)/l)
 		k1 := -((6*w1-6*w2)/(l*l) + (2*x1+4*x2)/l)
 		for _, k := range [2]float64{k0, k1} {
-			peak = math.Max(peak, math.Abs(es+k*p.mat.t/2))
-			peak = math.Max(peak, math.Abs(es-k*p.mat.t/2))
+			peak = math.Max(peak, math.Abs(es+k*p.Wall.T/2))
+			peak = math.Max(peak, math.Abs(es-k*p.Wall.T/2))
 		}
 	}
 	return peak
-}
-
-// shellResult is the shell model of one convolution.
-type shellResult struct {
-	k       float64 // k_conv = F_a/(2δ), N/m
-	epsPerE float64 // peak meridional surface strain per unit movement e, 1/m
-}
-
-// shellModel runs the axisymmetric shell model on half a convolution
-// (PHYSICS §6.3): root apex W = 0, χ = 0; crown apex W = δ, χ = 0; U free;
-// k_conv = F_a/(2δ) (two half convolutions in series, movement e = 2δ).
-func shellModel(g *Geometry, mtl *Material, perSeg int) (shellResult, error) {
-	m := g.halfMeridian()
-	r, z := m.nodes(perSeg)
-	nn := len(r)
-	p := shellProblem{
-		r: r, z: z,
-		mat:   shellMat{Es: mtl.ModulusAcross, Et: mtl.ModulusInLayer, nu: mtl.Poisson, t: g.Wall},
-		fixed: make([]bool, 3*nn),
-		value: make([]float64, 3*nn),
-	}
-	const delta = 1.0 // linear model: any δ
-	last := 3 * (nn - 1)
-	p.fixed[1], p.fixed[2] = true, true
-	p.fixed[last+1], p.fixed[last+2] = true, true
-	p.value[last+1] = delta
-	d, react, err := p.solve()
-	if err != nil {
-		return shellResult{}, err
-	}
-	return shellResult{
-		k:       react[last+1] / (2 * delta),
-		epsPerE: p.peakMeridionalStrain(d) / (2 * delta),
-	}, nil
 }
