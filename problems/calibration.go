@@ -8,7 +8,6 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
-	"sync"
 	"time"
 
 	"plica/objective"
@@ -229,20 +228,13 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 	}
 	c.Printer = req("printer")
 	if !root.has("profile") {
-		r.errorf("profile", "missing (expected one of: %s)", strings.Join(profileNames, "|"))
+		r.errorf("profile", "missing (expected one of: %s)", strings.Join(surrogate.ProfileNames(), "|"))
 	}
-	switch root.choice("profile", profileNames, "sinusoid") {
-	case "u":
-		c.Profile = surrogate.UShape
-	case "trapezoid":
-		c.Profile = surrogate.Trapezoid
-	}
+	root.enum("profile", &c.Profile, surrogate.ProfileNames())
 	if !root.has("fidelity") {
-		r.errorf("fidelity", "missing (expected one of: %s)", strings.Join(fidelityName, "|"))
+		r.errorf("fidelity", "missing (expected one of: %s)", strings.Join(surrogate.FidelityNames(), "|"))
 	}
-	if root.choice("fidelity", fidelityName, "strip") == "shell" {
-		c.Fidelity = surrogate.Shell
-	}
+	root.enum("fidelity", &c.Fidelity, surrogate.FidelityNames())
 	if v, ok := root.get("date"); !ok {
 		r.errorf("date", "missing (expected a date such as 2025-01-31)")
 	} else if tm, isTime := v.(time.Time); isTime {
@@ -351,22 +343,15 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 	if !filepath.IsAbs(path) {
 		path = filepath.Join(filepath.Dir(t.r.file), rel)
 	}
-	c, err := cachedCalibration(path)
+	c, err := t.r.cals.read(path)
 	if err != nil {
-		var re *readError
-		if errors.As(err, &re) {
-			t.r.errorf(t.key(k), "cannot read %s: %v (expected a calibration file written by plica calibrate, path relative to this design file)", strconv.Quote(path), re.err)
+		var ce *calibrationError
+		if errors.As(err, &ce) {
+			t.r.errs = append(t.r.errs, ce.errs...)
+			t.r.errorf(t.key(k), "%s is not a valid calibration file (see its errors)", strconv.Quote(path))
 			return
 		}
-		var es Errors
-		var e *Error
-		switch {
-		case errors.As(err, &es):
-			t.r.errs = append(t.r.errs, es...)
-		case errors.As(err, &e):
-			t.r.errs = append(t.r.errs, e)
-		}
-		t.r.errorf(t.key(k), "%s is not a valid calibration file (see its errors)", strconv.Quote(path))
+		t.r.errorf(t.key(k), "cannot read %s: %v (expected a calibration file written by plica calibrate, path relative to this design file)", strconv.Quote(path), err)
 		return
 	}
 	if mb.Material.Name != "" && (c.Material != mb.Material.Name || c.Profile != mb.Profile) {
@@ -377,55 +362,63 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 	mb.Calibration = [2]float64{c.Factor[0].Value, c.Factor[1].Value}
 }
 
-// readError is a calibration file that cannot be read at all.
-type readError struct{ err error }
+// calibrations are the calibration files one file names, read once when
+// the file is parsed and kept by path (as resolved against the file): a
+// calibration file edited afterwards changes nothing, and a search reads
+// no file. Only one goroutine parses.
+type calibrations map[string]*calibrationFile
 
-func (e *readError) Error() string { return e.err.Error() }
-
-// calibrationCache keeps parsed calibration files by path, size and
-// modification time: a search reads each candidate's design tables again,
-// and parsing a calibration file costs about 0.1 ms.
-var calibrationCache = struct {
-	sync.Mutex
-	m map[string]cachedCal
-}{m: map[string]cachedCal{}}
-
-type cachedCal struct {
-	size    int64
-	modTime time.Time
-	cal     Calibration
+type calibrationFile struct {
+	data []byte
+	cal  *Calibration
+	err  error // a read failure, or a *calibrationError
 }
 
-// cachedCalibration reads and parses path, or returns the parse of the same
-// unchanged file. Only valid files are kept.
-func cachedCalibration(path string) (*Calibration, error) {
-	key, err := filepath.Abs(path)
-	if err != nil {
-		key = path
+// calibrationError is a calibration file that was read but is not valid;
+// its problems carry the calibration file's own positions.
+type calibrationError struct{ errs Errors }
+
+func (e *calibrationError) Error() string { return e.errs.Error() }
+
+// lookup returns the calibration read at path, without reading; safe for
+// concurrent use once parsing is over.
+func (cs calibrations) lookup(path string) (*Calibration, error) {
+	f, ok := cs[path]
+	if !ok {
+		return nil, fmt.Errorf("%s was not read with the file", path)
 	}
-	fi, err := os.Stat(path)
-	if err == nil && fi.Mode().IsRegular() {
-		calibrationCache.Lock()
-		e, ok := calibrationCache.m[key]
-		calibrationCache.Unlock()
-		if ok && e.size == fi.Size() && e.modTime.Equal(fi.ModTime()) {
-			c := e.cal
-			return &c, nil
-		}
+	return f.cal, f.err
+}
+
+// read returns the calibration at path, reading and parsing it the first
+// time.
+func (cs calibrations) read(path string) (*Calibration, error) {
+	if f, ok := cs[path]; ok {
+		return f.cal, f.err
 	}
+	f := &calibrationFile{}
+	cs[path] = f
 	data, err := readSmallFile(path)
 	if err != nil {
-		return nil, &readError{err}
-	}
-	c, err := ParseCalibration(data, path)
-	if err != nil {
+		f.err = err
 		return nil, err
 	}
-	if fi != nil && int64(len(data)) == fi.Size() {
-		calibrationCache.Lock()
-		calibrationCache.m[key] = cachedCal{size: fi.Size(), modTime: fi.ModTime(), cal: *c}
-		calibrationCache.Unlock()
+	f.data = data
+	c, err := ParseCalibration(data, path)
+	if err != nil {
+		var es Errors
+		var e *Error
+		switch {
+		case errors.As(err, &es):
+			f.err = &calibrationError{es}
+		case errors.As(err, &e):
+			f.err = &calibrationError{Errors{e}}
+		default:
+			f.err = err
+		}
+		return nil, f.err
 	}
+	f.cal = c
 	return c, nil
 }
 

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"os"
-	"regexp"
 	"sort"
 	"strings"
 
@@ -36,10 +35,6 @@ var (
 	measuredKeys = []string{"bending_stiffness_n_mm2", "torsional_stiffness_n_mm2", "linear_density_kg_per_m"}
 	materialKeys = []string{"name", "modulus_across_layers_mpa", "modulus_in_layer_mpa", "poisson_ratio",
 		"density_kg_per_m3", "allowable_strain"}
-
-	profileNames = []string{"sinusoid", "u", "trapezoid"}
-	windingNames = []string{"revolved", "helical"}
-	fidelityName = []string{"strip", "shell"}
 )
 
 // LoadDesign reads and checks a design file.
@@ -59,7 +54,7 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 	if err != nil {
 		return nil, nil, err
 	}
-	d, ins := readDesign(r, root)
+	d, ins, _ := readDesign(r, root)
 	sc := readScenario(root)
 	sc.Workspace.Insertion = ins
 	for _, k := range problemOnlyKeys {
@@ -105,17 +100,17 @@ func decode(data []byte, file string) (*reader, *table, error) {
 		}
 		return nil, nil, &Error{File: file, Msg: "syntax error: " + err.Error()}
 	}
-	r := &reader{file: file, loc: newLocator(string(data))}
+	r := &reader{file: file, loc: newLocator(string(data)), cals: calibrations{}}
 	return r, r.root(m), nil
 }
 
-func readDesign(r *reader, root *table) (*objective.Design, [][2]float64) {
+// readDesign reads the design tables; it returns the design, the
+// insertion ranges and the materials the file defines.
+func readDesign(r *reader, root *table) (*objective.Design, [][2]float64, map[string]surrogate.Material) {
 	d := &objective.Design{}
 	var ins [][2]float64
 	d.Name, _ = root.text("name")
-	if root.choice("fidelity", fidelityName, "strip") == "shell" {
-		d.Fidelity = surrogate.Shell
-	}
+	root.enum("fidelity", &d.Fidelity, surrogate.FidelityNames())
 	materials := readMaterials(root)
 	bs := root.tables("bellows")
 	if len(bs) == 0 && !root.has("bellows") {
@@ -132,7 +127,7 @@ func readDesign(r *reader, root *table) (*objective.Design, [][2]float64) {
 		}
 		r.errorf(bs[n-1].key(k), "the outermost bellows has no outer bellows to thread into (expected the thread on the inner bellows of a pair)")
 	}
-	return d, ins
+	return d, ins, materials
 }
 
 // readInsertion reads the optional insertion range of one bellows, m.
@@ -185,8 +180,8 @@ func readMaterials(root *table) map[string]surrogate.Material {
 
 func readBellows(t *table, materials map[string]surrogate.Material) objective.Bellows {
 	var b objective.Bellows
-	ls, _ := t.positive("straight_length_mm", "a length in mm", true, true)
-	lc, _ := t.positive("curved_length_mm", "a length in mm", true, true)
+	ls, _ := t.positive("straight_length_mm", what("straight_length_mm"), true, true)
+	lc, _ := t.positive("curved_length_mm", what("curved_length_mm"), true, true)
 	b.StraightLength, b.CurvedLength = ls*mm, lc*mm
 	if ls+lc <= 0 && t.has("straight_length_mm") && t.has("curved_length_mm") {
 		t.r.errorf(t.key("curved_length_mm"), "the bellows has zero length (expected straight_length_mm + curved_length_mm > 0)")
@@ -201,7 +196,7 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 			b.Precurvature = [2]float64{v[0], v[1]}
 		}
 	default:
-		k, _ := t.number("precurvature_per_m", "a curvature in 1/m (bends toward the bellows' own +x)", false)
+		k, _ := t.number("precurvature_per_m", what("precurvature_per_m"), false)
 		b.Precurvature = [2]float64{0, k}
 	}
 	if b.CurvedLength == 0 && (b.Precurvature != [2]float64{}) && t.has("curved_length_mm") {
@@ -209,7 +204,7 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 	}
 	lead, hasLead := t.positive("thread_lead_mm", "a thread lead in mm", false, false)
 	threaded, _ := t.boolean("threaded")
-	od, hasOD := t.positive("outer_diameter_mm", "a diameter in mm", false, false)
+	od, hasOD := t.positive("outer_diameter_mm", what("outer_diameter_mm"), false, false)
 
 	if t.has("bending_stiffness_n_mm2") {
 		for _, k := range geometryKeys {
@@ -265,25 +260,20 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 		t.r.errorf(t.key("outer_diameter_mm"), "missing (expected a diameter in mm)")
 	}
 	g.OuterDiameter = od * mm
-	v, _ := t.positive("depth_mm", "a convolution depth in mm", true, false)
+	v, _ := t.positive("depth_mm", what("depth_mm"), true, false)
 	g.Depth = v * mm
-	v, _ = t.positive("pitch_mm", "a convolution pitch in mm", true, false)
+	v, _ = t.positive("pitch_mm", what("pitch_mm"), true, false)
 	g.Pitch = v * mm
-	v, _ = t.positive("wall_mm", "a wall thickness in mm", true, false)
+	v, _ = t.positive("wall_mm", what("wall_mm"), true, false)
 	g.Wall = v * mm
-	switch t.choice("profile", profileNames, "sinusoid") {
-	case "u":
-		g.Profile = surrogate.UShape
-	case "trapezoid":
-		g.Profile = surrogate.Trapezoid
-	}
-	if v, ok := t.positive("crest_radius_mm", "a crest radius in mm", false, false); ok {
+	t.enum("profile", &g.Profile, surrogate.ProfileNames())
+	if v, ok := t.positive("crest_radius_mm", what("crest_radius_mm"), false, false); ok {
 		if g.Profile != surrogate.UShape {
 			t.r.errorf(t.key("crest_radius_mm"), "only used with profile = \"u\"")
 		}
 		g.CrestRadius = v * mm
 	}
-	if v, ok := t.number("flat_fraction", "a fraction of the pitch in [0, 1)", false); ok {
+	if v, ok := t.number("flat_fraction", what("flat_fraction"), false); ok {
 		if g.Profile != surrogate.Trapezoid {
 			t.r.errorf(t.key("flat_fraction"), "only used with profile = \"trapezoid\"")
 		} else if v < 0 || v >= 1 {
@@ -291,11 +281,13 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 		}
 		g.FlatFraction = v
 	}
-	g.Helical = t.choice("winding", windingNames, "revolved") == "helical"
-	if v, ok := t.positive("spine_width_mm", "an arc width in mm", false, true); ok {
+	var w surrogate.Winding
+	t.enum("winding", &w, surrogate.WindingNames())
+	g.Helical = w == surrogate.Helical
+	if v, ok := t.positive("spine_width_mm", what("spine_width_mm"), false, true); ok {
 		g.SpineWidth = v * mm
 	}
-	if v, ok := t.number("spine_angle_deg", "an angle in degrees from the bellows' own +x", false); ok {
+	if v, ok := t.number("spine_angle_deg", what("spine_angle_deg"), false); ok {
 		g.SpineAngle = v * deg
 	}
 	if v, ok := t.numbers("calibration_factor", 2, "[c_x, c_y], both > 0", false); ok {
@@ -319,6 +311,9 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 	return b
 }
 
+// what is what the reader expects of a key a problem may vary.
+func what(key string) string { return numericVariables[key].what }
+
 func materialList(custom map[string]surrogate.Material) string {
 	names := surrogate.MaterialNames()
 	var extra []string
@@ -337,11 +332,9 @@ func materialList(custom map[string]surrogate.Material) string {
 	return s
 }
 
-var leadingKey = regexp.MustCompile(`^([a-z][a-z0-9_]*): `)
-
 // physicsError gives model errors (impossible geometry, nesting) the
-// position of the key they name, when they name one. A joined error is
-// split into its parts, one line each.
+// position of the key they name: a *surrogate.InputError carries its key.
+// A joined error is split into its parts, one line each.
 func (r *reader) physicsError(err error) error {
 	var be *objective.BellowsError
 	if !errors.As(err, &be) {
@@ -351,10 +344,10 @@ func (r *reader) physicsError(err error) error {
 	for _, part := range leaves(be.Err) {
 		path := fmt.Sprintf("bellows[%d]", be.Index+1)
 		msg := part.Error()
-		if m := leadingKey.FindStringSubmatch(msg); m != nil {
-			if _, ok := r.loc.keys[path+"."+m[1]]; ok {
-				path += "." + m[1]
-				msg = msg[len(m[0]):]
+		if ie, ok := part.(*surrogate.InputError); ok {
+			if _, ok := r.loc.keys[path+"."+ie.Key]; ok {
+				path += "." + ie.Key
+				msg = ie.Msg
 			}
 		}
 		r.errorf(path, "%s", msg)

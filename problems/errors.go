@@ -66,11 +66,19 @@ func (es Errors) sorted() Errors {
 	return es
 }
 
-// IsInputError reports whether err is (or wraps) a problem with an input
-// file, as opposed to a failure while running. Command-line tools exit with
-// status 2 on input errors.
-func IsInputError(err error) bool {
-	var e *Error
-	var es Errors
-	return errors.As(err, &e) || errors.As(err, &es)
-}
+// ErrInput is what every input error matches with errors.Is: a problem
+// with a file or an argument the user gave, as opposed to a failure while
+// running. *Error and Errors match it; so do the input errors of results
+// and cmd/plica, through their Is methods. Command-line tools exit with
+// status 2 on it.
+var ErrInput = errors.New("input error")
+
+// Is makes an *Error match ErrInput.
+func (e *Error) Is(target error) bool { return target == ErrInput }
+
+// Is makes Errors match ErrInput.
+func (es Errors) Is(target error) bool { return target == ErrInput }
+
+// IsInputError reports whether err is (or wraps) an input error:
+// errors.Is(err, ErrInput).
+func IsInputError(err error) bool { return errors.Is(err, ErrInput) }

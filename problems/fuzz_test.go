@@ -103,7 +103,7 @@ func FuzzEvaluate(f *testing.F) {
 		f.Fatal(err)
 	}
 	// A coarse workspace keeps each evaluation short.
-	s.base["workspace"] = map[string]any{"relative_steps": int64(8), "base_steps": int64(4)}
+	s.tmpl.scenario.Workspace.RelativeSteps, s.tmpl.scenario.Workspace.BaseSteps = 8, 4
 	p := s.SearchProblem()
 	f.Add(0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5, 0.5)
 	f.Add(0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0, 0.0)

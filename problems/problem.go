@@ -1,7 +1,6 @@
 package problems
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"math"
@@ -21,19 +20,44 @@ import (
 // objectives, extra constraints and search settings. The file's own units
 // apply to ranges.
 
-// numericVariables are the [[bellows]] keys that may be a range.
-var numericVariables = map[string]string{
-	"outer_diameter_mm":  "mm",
-	"depth_mm":           "mm",
-	"pitch_mm":           "mm",
-	"wall_mm":            "mm",
-	"crest_radius_mm":    "mm",
-	"flat_fraction":      "",
-	"spine_width_mm":     "mm",
-	"spine_angle_deg":    "deg",
-	"straight_length_mm": "mm",
-	"curved_length_mm":   "mm",
-	"precurvature_per_m": "1/m",
+// numericVariables are the [[bellows]] keys that may be a range: their
+// unit, what the reader expects, and the sign a value must have.
+var numericVariables = map[string]numericKey{
+	"outer_diameter_mm":  {"mm", "a diameter in mm", positiveValue},
+	"depth_mm":           {"mm", "a convolution depth in mm", positiveValue},
+	"pitch_mm":           {"mm", "a convolution pitch in mm", positiveValue},
+	"wall_mm":            {"mm", "a wall thickness in mm", positiveValue},
+	"crest_radius_mm":    {"mm", "a crest radius in mm", positiveValue},
+	"flat_fraction":      {"", "a fraction of the pitch in [0, 1)", anyValue},
+	"spine_width_mm":     {"mm", "an arc width in mm", nonNegativeValue},
+	"spine_angle_deg":    {"deg", "an angle in degrees from the bellows' own +x", anyValue},
+	"straight_length_mm": {"mm", "a length in mm", nonNegativeValue},
+	"curved_length_mm":   {"mm", "a length in mm", nonNegativeValue},
+	"precurvature_per_m": {"1/m", "a curvature in 1/m (bends toward the bellows' own +x)", anyValue},
+}
+
+type numericKey struct {
+	unit, what string
+	sign       int
+}
+
+const (
+	anyValue = iota
+	nonNegativeValue
+	positiveValue
+)
+
+// check returns the reader's message for a value the key does not accept.
+func (k numericKey) check(x float64) (string, bool) {
+	switch {
+	case math.IsNaN(x) || math.IsInf(x, 0):
+		return fmt.Sprintf("non-finite value %v (expected %s)", x, k.what), false
+	case k.sign == positiveValue && x <= 0:
+		return fmt.Sprintf("%s is out of range (expected %s, > 0)", fmtNum(x), k.what), false
+	case k.sign == nonNegativeValue && x < 0:
+		return fmt.Sprintf("%s is out of range (expected %s, >= 0)", fmtNum(x), k.what), false
+	}
+	return "", true
 }
 
 // categoricalVariables are the [[bellows]] keys that may be a list of options.
@@ -45,8 +69,6 @@ var (
 	constraintKeys  = []string{"score", "min", "max"}
 	searchKeys      = []string{"method", "population", "evaluations", "time", "seed", "workers",
 		"stall_generations", "stall_tolerance", "checkpoint_every", "weights"}
-	methodNames = []string{"nsga2", "ga"}
-	goalNames   = []string{"minimize", "maximize"}
 )
 
 // Variable is one design variable of a problem.
@@ -99,9 +121,9 @@ type Constraint struct {
 
 // SearchSettings are the [search] table, file units.
 type SearchSettings struct {
-	Method           string // "nsga2" or "ga"
-	Population       int    // 0: default
-	Evaluations      int64  // 0: default
+	Method           Method
+	Population       int   // 0: default
+	Evaluations      int64 // 0: default
 	Time             time.Duration
 	Seed             uint64
 	Workers          int // 0: all cores
@@ -124,11 +146,13 @@ type Spec struct {
 	Checks     []string
 	CheckUnits []string
 
-	base map[string]any // the decoded file, search-only tables removed
 	loc  *locator
+	form problemForm // the file as typed values, file units
+	cals calibrations
 	// ties copies the outer bellows' pitch into a threaded inner bellows
-	// that gives none (a threaded pair shares one pitch).
+	// that gives none (a threaded pair shares one pitch): inner, outer.
 	ties [][2]int
+	tmpl template
 }
 
 // LoadProblem reads and checks a problem file.
@@ -147,7 +171,7 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	if err != nil {
 		return nil, err
 	}
-	s := &Spec{File: file, Text: data, loc: r.loc}
+	s := &Spec{File: file, Text: data, loc: r.loc, cals: r.cals}
 	s.readObjectives(root)
 	s.readConstraints(root)
 	s.readSearch(root.sub("search"))
@@ -157,7 +181,6 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 			base[k] = v
 		}
 	}
-	s.base = base
 	s.findVariables(r, root)
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
@@ -176,10 +199,11 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	}
 	var tmpl *objective.Design
 	var sc *objective.Scenario
+	var materials map[string]surrogate.Material
 	for pass, x := range [][]float64{lo, hi} {
-		rr := &reader{file: file, loc: r.loc}
-		t := rr.root(s.resolve(x))
-		d, ins := readDesign(rr, t)
+		rr := &reader{file: file, loc: r.loc, cals: r.cals}
+		t := rr.root(s.atBounds(base, x))
+		d, ins, ms := readDesign(rr, t)
 		scn := readScenario(t)
 		scn.Workspace.Insertion = ins
 		t.finish(append(append([]string{}, topKeys...), problemOnlyKeys...))
@@ -190,11 +214,17 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 			}
 		}
 		if pass == 0 {
-			tmpl, sc = d, &scn
+			tmpl, sc, materials = d, &scn, ms
 		}
 	}
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
+	}
+	if _, err := toml.Decode(string(data), &s.form); err != nil {
+		return nil, &Error{File: file, Msg: "cannot read the checked file back: " + err.Error()}
+	}
+	if err := s.compile(tmpl, sc, materials); err != nil {
+		return nil, err
 	}
 	for _, c := range objective.CheckList(tmpl, sc) {
 		s.Checks = append(s.Checks, c.Name)
@@ -224,7 +254,9 @@ func (s *Spec) readObjectives(root *table) {
 			t.r.errorf(t.key("score"), "%s", unknownScore(name))
 		}
 		o.Score = name
-		o.Maximize = t.choice("goal", goalNames, "minimize") == "maximize"
+		var goal Goal
+		t.enum("goal", &goal, goalNames)
+		o.Maximize = goal == Maximize
 		t.finish(objectiveKeys)
 		s.Objectives = append(s.Objectives, o)
 	}
@@ -270,7 +302,7 @@ func (s *Spec) readConstraints(root *table) {
 
 func (s *Spec) readSearch(t *table) {
 	st := &s.Search
-	st.Method = t.choice("method", methodNames, "nsga2")
+	t.enum("method", &st.Method, methodNames)
 	st.Population = t.count("population", 4, 100000)
 	if v, ok := t.number("evaluations", "a whole number of evaluations >= 1", false); ok {
 		if v < 1 || v != math.Trunc(v) {
@@ -331,7 +363,8 @@ func (s *Spec) findVariables(r *reader, root *table) {
 			if !isArr {
 				continue
 			}
-			if unit, ok := numericVariables[k]; ok {
+			if nk, ok := numericVariables[k]; ok {
+				unit := nk.unit
 				v := Variable{Table: i, Key: k, Unit: unit}
 				lo, ok1 := finiteNumber(arr, 0)
 				hi, ok2 := finiteNumber(arr, 1)
@@ -349,7 +382,7 @@ func (s *Spec) findVariables(r *reader, root *table) {
 			}
 			if categoricalVariables[k] {
 				v := Variable{Table: i, Key: k}
-				allowed := map[string][]string{"profile": profileNames, "winding": windingNames, "material": s.materialNames(root)}[k]
+				allowed := map[string][]string{"profile": surrogate.ProfileNames(), "winding": surrogate.WindingNames(), "material": s.materialNames(root)}[k]
 				for _, e := range arr {
 					str, ok := e.(string)
 					if !ok {
@@ -408,20 +441,15 @@ func unitOr(u string) string {
 	return u
 }
 
-// resolve returns a deep copy of the file's design tables with the
-// variables set to x (numeric values in file units; categorical values as
-// option indices).
-func (s *Spec) resolve(x []float64) map[string]any {
-	m := deepCopy(s.base).(map[string]any)
+// atBounds returns a copy of the file's design tables with the variables
+// set to x (numeric values in file units; categorical values as option
+// indices), for the checks of the file at its bounds.
+func (s *Spec) atBounds(base map[string]any, x []float64) map[string]any {
+	m := deepCopy(base).(map[string]any)
 	bs, _ := m["bellows"].([]map[string]any)
 	for j, v := range s.Variables {
-		if v.Table >= len(bs) {
-			continue
-		}
 		if v.Options != nil {
-			k := int(x[j])
-			k = max(0, min(k, len(v.Options)-1))
-			bs[v.Table][v.Key] = v.Options[k]
+			bs[v.Table][v.Key] = v.Options[int(x[j])]
 		} else {
 			bs[v.Table][v.Key] = x[j]
 		}
@@ -456,56 +484,4 @@ func deepCopy(v any) any {
 		return out
 	}
 	return v
-}
-
-// Design builds the candidate design at x (file units; category indices)
-// and its scenario. An error names the offending key; a search treats it
-// as an infeasible candidate.
-func (s *Spec) Design(x []float64) (*objective.Design, *objective.Scenario, error) {
-	r := &reader{file: s.File, loc: s.loc}
-	t := r.root(s.resolve(x))
-	d, ins := readDesign(r, t)
-	sc := readScenario(t)
-	sc.Workspace.Insertion = ins
-	if len(r.errs) > 0 {
-		return nil, nil, r.errs.sorted()
-	}
-	return d, &sc, nil
-}
-
-// DesignTOML writes the candidate at x as a design file that check and
-// pose accept: the problem file's design tables with every variable fixed.
-func (s *Spec) DesignTOML(x []float64, comment string) ([]byte, error) {
-	var buf bytes.Buffer
-	m := s.resolve(x)
-	if names := s.inlineCalibration(m); len(names) > 0 {
-		comment += "\ncalibration_factor values from " + joinNames(names)
-	}
-	for _, line := range strings.Split(strings.TrimSpace(comment), "\n") {
-		fmt.Fprintf(&buf, "# %s\n", line)
-	}
-	for _, v := range s.Variables {
-		if v.Options == nil {
-			bs := m["bellows"].([]map[string]any)
-			if f, ok := bs[v.Table][v.Key].(float64); ok {
-				bs[v.Table][v.Key] = roundSig(f, 9)
-			}
-		}
-	}
-	enc := toml.NewEncoder(&buf)
-	enc.Indent = ""
-	if err := enc.Encode(m); err != nil {
-		return nil, err
-	}
-	return buf.Bytes(), nil
-}
-
-// roundSig rounds to n significant digits, so that written designs read
-// cleanly; 9 digits keep every score within 1e-8 relative.
-func roundSig(f float64, n int) float64 {
-	if f == 0 || math.IsNaN(f) || math.IsInf(f, 0) {
-		return f
-	}
-	p := math.Pow(10, float64(n-1)-math.Floor(math.Log10(math.Abs(f))))
-	return math.Round(f*p) / p
 }

@@ -1,11 +1,15 @@
 package problems
 
 import (
+	"encoding"
+	"errors"
 	"fmt"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
+
+	"plica/surrogate"
 )
 
 // reader walks a decoded TOML document and collects every problem with its
@@ -14,6 +18,7 @@ type reader struct {
 	file string
 	loc  *locator
 	errs Errors
+	cals calibrations // the calibration files read so far
 }
 
 func (r *reader) errorf(path, format string, args ...any) {
@@ -166,6 +171,38 @@ func (t *table) choice(k string, allowed []string, def string) string {
 	}
 	t.r.errorf(t.key(k), "%q is not allowed (expected one of: %s)", s, strings.Join(allowed, "|"))
 	return def
+}
+
+// enum reads a name into v, an enumeration whose UnmarshalText knows its
+// names; absent leaves v as it is. names lists them for a value that is
+// not a string. A refused name is reported at the key with the message of
+// UnmarshalText (an *Error or a *surrogate.InputError without position).
+func (t *table) enum(k string, v encoding.TextUnmarshaler, names []string) {
+	raw, ok := t.get(k)
+	if !ok {
+		return
+	}
+	s, ok := raw.(string)
+	if !ok {
+		t.r.errorf(t.key(k), "found %s (expected one of: %s)", describe(raw), strings.Join(names, "|"))
+		return
+	}
+	if err := v.UnmarshalText([]byte(s)); err != nil {
+		t.r.errorf(t.key(k), "%s", messageOf(err))
+	}
+}
+
+// messageOf is the message of an input error without its key.
+func messageOf(err error) string {
+	var e *Error
+	var ie *surrogate.InputError
+	switch {
+	case errors.As(err, &e):
+		return e.Msg
+	case errors.As(err, &ie):
+		return ie.Msg
+	}
+	return err.Error()
 }
 
 // text reads a free string.

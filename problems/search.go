@@ -156,7 +156,7 @@ func (s *Spec) Settings() search.Settings {
 
 // Method returns the search method of the [search] table.
 func (s *Spec) Method() search.Method {
-	if s.Search.Method == "ga" {
+	if s.Search.Method == GA {
 		sc := search.Scalarization{Weights: s.Search.Weights}
 		return &search.GA{Scalarization: sc}
 	}

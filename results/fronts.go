@@ -16,11 +16,12 @@ import (
 // InputError is a mistake in the runs given to compare, merge or pick (not
 // a run folder, runs of different problems, an unknown column, a bad
 // expression): the caller's input, not a failure of the work. Command-line
-// tools exit with status 2 on it.
+// tools exit with status 2 on it: it matches problems.ErrInput.
 type InputError struct{ Err error }
 
-func (e *InputError) Error() string { return e.Err.Error() }
-func (e *InputError) Unwrap() error { return e.Err }
+func (e *InputError) Error() string        { return e.Err.Error() }
+func (e *InputError) Unwrap() error        { return e.Err }
+func (e *InputError) Is(target error) bool { return target == problems.ErrInput }
 
 func inputErrorf(format string, args ...any) error {
 	return &InputError{fmt.Errorf(format, args...)}

@@ -1,35 +1,9 @@
 package surrogate
 
 import (
-	"strconv"
-
 	"plica/surrogate/convolution"
 	"plica/surrogate/shell"
 )
-
-// String returns the profile's name as used in messages and design files.
-func (p Profile) String() string {
-	switch p {
-	case Sinusoid:
-		return "sinusoid"
-	case UShape:
-		return "u"
-	case Trapezoid:
-		return "trapezoid"
-	}
-	return "profile(" + strconv.Itoa(int(p)) + ")"
-}
-
-// String returns "strip" or "shell".
-func (f Fidelity) String() string {
-	switch f {
-	case Strip:
-		return "strip"
-	case Shell:
-		return "shell"
-	}
-	return "fidelity(" + strconv.Itoa(int(f)) + ")"
-}
 
 // MeanRadius returns Rm = OD/2 − t/2 − w/2, m: the crown centreline lies at
 // Rm + w/2 and the root centreline at Rm − w/2 (PHYSICS §1.2).

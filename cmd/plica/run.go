@@ -35,10 +35,12 @@ var commands = map[string]*command{}
 
 func register(c *command) { commands[c.name] = c }
 
-// usageError is a mistake on the command line (exit status 2).
+// usageError is a mistake on the command line (exit status 2): it
+// matches problems.ErrInput.
 type usageError struct{ msg string }
 
-func (e *usageError) Error() string { return e.msg }
+func (e *usageError) Error() string        { return e.msg }
+func (e *usageError) Is(target error) bool { return target == problems.ErrInput }
 
 func usagef(format string, args ...any) error { return &usageError{fmt.Sprintf(format, args...)} }
 
@@ -94,14 +96,14 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	return exitCode(err)
 }
 
-// exitCode maps an error to the exit status.
+// exitCode maps an error to the exit status: every input error (files,
+// arguments, runs given) matches problems.ErrInput.
 func exitCode(err error) int {
-	var u *usageError
 	var f *failure
 	switch {
 	case err == nil:
 		return exitOK
-	case errors.As(err, &u), problems.IsInputError(err):
+	case errors.Is(err, problems.ErrInput):
 		return exitUsage
 	case errors.Is(err, context.Canceled):
 		return exitInterrupt

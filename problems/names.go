@@ -1,0 +1,82 @@
+package problems
+
+import (
+	"fmt"
+	"strconv"
+	"strings"
+)
+
+// Goal says whether an objective is minimised or maximised.
+type Goal int
+
+const (
+	Minimize Goal = iota
+	Maximize
+)
+
+// Method is the search method of a problem's [search] table.
+type Method int
+
+const (
+	NSGA2 Method = iota // the default
+	GA
+)
+
+// The names as problem files write them: one list per type, indexed by
+// its value.
+var (
+	goalNames   = []string{Minimize: "minimize", Maximize: "maximize"}
+	methodNames = []string{NSGA2: "nsga2", GA: "ga"}
+)
+
+func (g Goal) String() string   { return enumName(goalNames, int(g), "goal") }
+func (m Method) String() string { return enumName(methodNames, int(m), "method") }
+
+// MarshalText writes the goal's name.
+func (g Goal) MarshalText() ([]byte, error) { return marshalEnum(goalNames, int(g), "goal") }
+
+// MarshalText writes the method's name.
+func (m Method) MarshalText() ([]byte, error) { return marshalEnum(methodNames, int(m), "method") }
+
+// UnmarshalText reads a goal name; an unknown one is an *Error (key
+// "goal", no position) that lists the allowed names.
+func (g *Goal) UnmarshalText(text []byte) error {
+	v, err := parseEnum(goalNames, text, "goal")
+	if err == nil {
+		*g = Goal(v)
+	}
+	return err
+}
+
+// UnmarshalText reads a method name; an unknown one is an *Error (key
+// "method", no position) that lists the allowed names.
+func (m *Method) UnmarshalText(text []byte) error {
+	v, err := parseEnum(methodNames, text, "method")
+	if err == nil {
+		*m = Method(v)
+	}
+	return err
+}
+
+func enumName(names []string, v int, kind string) string {
+	if v >= 0 && v < len(names) {
+		return names[v]
+	}
+	return kind + "(" + strconv.Itoa(v) + ")"
+}
+
+func marshalEnum(names []string, v int, kind string) ([]byte, error) {
+	if v < 0 || v >= len(names) {
+		return nil, fmt.Errorf("%s(%d) has no name", kind, v)
+	}
+	return []byte(names[v]), nil
+}
+
+func parseEnum(names []string, text []byte, key string) (int, error) {
+	for i, n := range names {
+		if string(text) == n {
+			return i, nil
+		}
+	}
+	return 0, &Error{Key: key, Msg: fmt.Sprintf("%q is not allowed (expected one of: %s)", text, strings.Join(names, "|"))}
+}
