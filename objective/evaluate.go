@@ -197,6 +197,9 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 			res, err = nil, &InternalError{Stage: e.stage, Value: r}
 		}
 	}()
+	if err := sc.Workspace.check(); err != nil {
+		return nil, err
+	}
 	e.enter(StageStiffness)
 	robot, st, err := d.Robot()
 	if err != nil {
