@@ -92,6 +92,9 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 		return fmt.Errorf("pose: %s at angles_deg %s is not finite (the design is beyond what the model computes: lengths, curvatures or stiffnesses too large or too small)",
 			what, joinFloats(a.Theta, 180/math.Pi))
 	}
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("pose interrupted, nothing printed: %w", err)
+	}
 	out := newPoseOutput(tip, links, poses)
 	if o.json {
 		enc := json.NewEncoder(stdout)
