@@ -6,7 +6,9 @@
 package objective
 
 import (
+	"errors"
 	"fmt"
+	"math"
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
@@ -98,11 +100,83 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 	return out, nil
 }
 
-// Robot builds the nested-tube model of the design.
+// Largest values a design may hold. They lie far beyond any bellows that
+// can be printed or bought, and far inside what the models compute in
+// floating point: a longer, more curved or stiffer bellows is refused as
+// out of range rather than evaluated into overflow.
+const (
+	MaxLength        = 100.0 // m, each of the straight and curved lengths and a thread lead
+	MaxPrecurvature  = 1e4   // 1/m (a bend radius of 0.1 mm)
+	MaxStiffness     = 1e9   // N·m², measured EI and GJ
+	MaxLinearDensity = 1e4   // kg/m, measured
+)
+
+// checkRanges refuses values outside the ranges above, one error per
+// value, each starting with the design-file key it belongs to.
+func (b Bellows) checkRanges() error {
+	var errs []error
+	out := func(key string, v, hi, scale float64, unit string) {
+		if !(math.Abs(v) <= hi) {
+			errs = append(errs, fmt.Errorf("%s: %.6g is out of range (expected at most %.6g %s)", key, v*scale, hi*scale, unit))
+		}
+	}
+	out("straight_length_mm", b.StraightLength, MaxLength, 1e3, "mm")
+	out("curved_length_mm", b.CurvedLength, MaxLength, 1e3, "mm")
+	if k := math.Hypot(b.Precurvature[0], b.Precurvature[1]); !(k <= MaxPrecurvature) {
+		if b.Precurvature[0] == 0 { // the file form (0, κ)
+			errs = append(errs, fmt.Errorf("precurvature_per_m: %.6g is out of range (expected at most %.6g 1/m in magnitude)", b.Precurvature[1], float64(MaxPrecurvature)))
+		} else {
+			errs = append(errs, fmt.Errorf("precurvature_xy_per_m: [%.6g, %.6g] is out of range (expected a magnitude of at most %.6g 1/m)", b.Precurvature[0], b.Precurvature[1], float64(MaxPrecurvature)))
+		}
+	}
+	out("thread_lead_mm", b.ThreadLead, MaxLength, 1e3, "mm")
+	if m := b.Measured; m != nil {
+		for _, v := range m.EI {
+			if !(v <= MaxStiffness) {
+				errs = append(errs, fmt.Errorf("bending_stiffness_n_mm2: [%.6g, %.6g] is out of range (expected each at most %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MaxStiffness*1e6))
+				break
+			}
+		}
+		out("torsional_stiffness_n_mm2", m.GJ, MaxStiffness, 1e6, "N·mm²")
+		out("linear_density_kg_per_m", m.LinearDensity, MaxLinearDensity, 1, "kg/m")
+	}
+	return errors.Join(errs...)
+}
+
+// checkFinite refuses a section the stiffness model could not compute in
+// floating point (a geometry far outside the model's range).
+func (s Stiffness) checkFinite() error {
+	bad := func(x float64) bool { return math.IsNaN(x) || math.IsInf(x, 0) }
+	switch {
+	case bad(s.EI[0][0]) || bad(s.EI[0][1]) || bad(s.EI[1][0]) || bad(s.EI[1][1]):
+		return fmt.Errorf("the %s stiffness model gives a non-finite bending stiffness (the geometry is beyond what the model represents)", s.Source)
+	case bad(s.GJ):
+		return fmt.Errorf("the %s stiffness model gives a non-finite torsional stiffness (the geometry is beyond what the model represents)", s.Source)
+	case bad(s.LinearDensity):
+		return fmt.Errorf("the %s stiffness model gives a non-finite mass per length (the geometry is beyond what the model represents)", s.Source)
+	case s.Section != nil && bad(s.Section.StrainPerCurvature):
+		return fmt.Errorf("the %s stiffness model gives a non-finite wall strain per curvature (the geometry is beyond what the model represents)", s.Source)
+	}
+	return nil
+}
+
+// Robot builds the nested-tube model of the design. Values outside the
+// ranges of MaxLength and its neighbours, and sections the stiffness model
+// cannot compute in floating point, are *BellowsError.
 func (d *Design) Robot() (*kinematics.Robot, []Stiffness, error) {
+	for i, b := range d.Bellows {
+		if err := b.checkRanges(); err != nil {
+			return nil, nil, &BellowsError{Index: i, Err: err}
+		}
+	}
 	st, err := d.Stiffness()
 	if err != nil {
 		return nil, nil, err
+	}
+	for i, s := range st {
+		if err := s.checkFinite(); err != nil {
+			return nil, nil, &BellowsError{Index: i, Err: err}
+		}
 	}
 	r := &kinematics.Robot{Tubes: make([]kinematics.Tube, len(d.Bellows))}
 	for i, b := range d.Bellows {

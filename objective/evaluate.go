@@ -1,8 +1,10 @@
 package objective
 
 import (
+	"context"
 	"fmt"
 	"math"
+	"strings"
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
@@ -119,49 +121,165 @@ type evaluator struct {
 	shapes             []*shape
 	solver             *kinematics.Solver
 	linkBuf            []kinematics.Link
+
+	ctx      context.Context // nil: never cancelled
+	progress func(Progress)
+	stage    string // the stage running, for internal-error messages
+}
+
+// Progress is how far an evaluation has come: Done of Total work units of
+// the named stage (actuation samples, or samples times common rotations).
+type Progress struct {
+	Stage       string
+	Done, Total int
+}
+
+// Stage names, as progress reports and internal-error messages give them.
+const (
+	StageStiffness = "stiffness"
+	StageWorkspace = "workspace sampling"
+	StageTasks     = "task points"
+	StageSag       = "tip sag"
+	StageVolume    = "workspace volume"
+	StageMargins   = "margins"
+	StageChecks    = "checks"
+)
+
+// batch is the number of work units between two looks at the context and
+// two progress reports: cheap against the work, frequent enough that a
+// cancelled evaluation stops within milliseconds.
+const batch = 256
+
+// stageHook, when set (by tests), runs at the start of every stage.
+var stageHook func(stage string)
+
+// InternalError is a failure of plica itself inside an evaluation (a
+// panic), turned into an error that names the stage.
+type InternalError struct {
+	Stage string
+	Value any
+}
+
+func (e *InternalError) Error() string {
+	msg := strings.Join(strings.Fields(fmt.Sprint(e.Value)), " ")
+	return fmt.Sprintf("internal error in %s: %s", e.Stage, msg)
 }
 
 // Evaluate scores one design in a scenario: workspace, straightening,
 // tip sag under payload and margins, each against the scenario's
-// requirements.
+// requirements. It is EvaluateContext without cancellation.
 func Evaluate(d *Design, sc *Scenario) (*Result, error) {
+	return EvaluateProgress(context.Background(), d, sc, nil)
+}
+
+// EvaluateContext is Evaluate that stops, returning ctx.Err(), soon after
+// ctx is cancelled.
+func EvaluateContext(ctx context.Context, d *Design, sc *Scenario) (*Result, error) {
+	return EvaluateProgress(ctx, d, sc, nil)
+}
+
+// EvaluateProgress is EvaluateContext that also reports its progress to
+// progress (when not nil), every few hundred work units, from the calling
+// goroutine.
+//
+// A design whose physics leaves floating point (a non-finite stiffness,
+// tip, curvature, strain, compliance or sag) fails with an error naming
+// what was not finite; a panic inside the evaluation is returned as an
+// *InternalError naming the stage. Neither prints NaN nor stops the
+// caller.
+func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress func(Progress)) (res *Result, err error) {
 	if sc == nil {
 		sc = &Scenario{}
 	}
+	e := &evaluator{d: d, sc: sc, payload: sc.Load.PayloadMass, ctx: ctx, progress: progress}
+	defer func() {
+		if r := recover(); r != nil {
+			res, err = nil, &InternalError{Stage: e.stage, Value: r}
+		}
+	}()
+	if err := sc.Workspace.check(); err != nil {
+		return nil, err
+	}
+	e.enter(StageStiffness)
 	robot, st, err := d.Robot()
 	if err != nil {
 		return nil, err
 	}
-	e := &evaluator{d: d, sc: sc, robot: robot, st: st, payload: sc.Load.PayloadMass}
+	e.robot, e.st = robot, st
 	e.strainPerCurvature = make([]float64, len(st))
 	for i, s := range st {
 		if s.Section != nil {
 			e.strainPerCurvature[i] = s.Section.StrainPerCurvature
 		}
 	}
-	res := &Result{Bellows: st}
+	res = &Result{Bellows: st}
 	w := defaults(sc.Workspace)
 	if err := e.workspace(w, res); err != nil {
 		return nil, err
 	}
+	e.enter(StageSag)
 	if err := e.sag(res); err != nil {
 		return nil, err
 	}
-	e.margins(res)
+	e.enter(StageMargins)
+	if err := e.margins(res); err != nil {
+		return nil, err
+	}
+	e.enter(StageChecks)
 	e.checks(res)
 	e.models(res)
+	if err := finiteScores(d, res); err != nil {
+		return nil, err
+	}
 	return res, nil
+}
+
+// enter starts a stage.
+func (e *evaluator) enter(stage string) {
+	e.stage = stage
+	if stageHook != nil {
+		stageHook(stage)
+	}
+}
+
+// tick is called once per work unit k of total in the running stage: every
+// batch units it reports progress and returns the context's error once
+// cancelled.
+func (e *evaluator) tick(k, total int) error {
+	if k%batch != 0 {
+		return nil
+	}
+	if e.ctx != nil {
+		if err := e.ctx.Err(); err != nil {
+			return err
+		}
+	}
+	if e.progress != nil {
+		e.progress(Progress{Stage: e.stage, Done: k, Total: total})
+	}
+	return nil
+}
+
+func isFinite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
+
+// nonFinite is the reason of a design whose physics left floating point.
+func nonFinite(what string) error {
+	return fmt.Errorf("%s is not finite (the design is beyond what the model computes: lengths, curvatures or stiffnesses too large or too small)", what)
 }
 
 // workspace samples the actuation space and fills the workspace,
 // straightening and strain scores.
 func (e *evaluator) workspace(w Workspace, res *Result) error {
+	e.enter(StageWorkspace)
 	n := len(e.robot.Tubes)
 	p := plan(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
 	shapes := make([]*shape, 0, len(p.acts))
-	for _, a := range p.acts {
+	for k, a := range p.acts {
+		if err := e.tick(k, len(p.acts)); err != nil {
+			return err
+		}
 		sh, err := e.evalShape(a)
 		if err != nil {
 			return err
@@ -178,7 +296,7 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	sc.CurvatureMin = math.Inf(1)
 	sc.StraightTipOffset = math.Inf(1)
 	sc.StrainPerBellows = make([]float64, n)
-	var straightest *shape
+	straightest := shapes[0]
 	for _, sh := range shapes {
 		rho := math.Hypot(sh.tip.P[0], sh.tip.P[1])
 		sc.Reach = math.Max(sc.Reach, rho)
@@ -210,11 +328,16 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	if p.grid2 {
 		sc.SurfaceArea = revolvedArea(shapes)
 	} else if p.dof >= 3 {
+		e.enter(StageVolume)
 		sc.VoxelSize = w.VoxelSize
-		sc.Volume = voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
+		v, err := e.voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
+		if err != nil {
+			return err
+		}
+		sc.Volume = v
 	}
-	e.tasks(shapes, res)
-	return nil
+	e.enter(StageTasks)
+	return e.tasks(shapes, res)
 }
 
 // revolvedArea is the area of the surface swept by the tip of a pair: the
@@ -237,9 +360,12 @@ func revolvedArea(shapes []*shape) float64 {
 
 // voxelVolume counts the voxels of edge h that hold at least one tip
 // sample, over the shapes and baseSteps common rotations.
-func voxelVolume(shapes []*shape, baseSteps int, h float64) float64 {
+func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (float64, error) {
 	occupied := make(map[[3]int32]struct{})
-	for _, sh := range shapes {
+	for k, sh := range shapes {
+		if err := e.tick(k, len(shapes)); err != nil {
+			return 0, err
+		}
 		for j := 0; j < baseSteps; j++ {
 			s, c := math.Sincos(2 * math.Pi * float64(j) / float64(baseSteps))
 			p := sh.tip.P
@@ -248,7 +374,7 @@ func voxelVolume(shapes []*shape, baseSteps int, h float64) float64 {
 			occupied[key] = struct{}{}
 		}
 	}
-	return float64(len(occupied)) * h * h * h
+	return float64(len(occupied)) * h * h * h, nil
 }
 
 // tasks decides for every task point whether some actuation reaches it.
@@ -257,15 +383,19 @@ func voxelVolume(shapes []*shape, baseSteps int, h float64) float64 {
 // leaving the distance sqrt((ρ − ρ_t)² + (z − z_t)²). The relative rotation
 // is sampled, then refined by golden-section search around the best
 // sample for pairs.
-func (e *evaluator) tasks(shapes []*shape, res *Result) {
+func (e *evaluator) tasks(shapes []*shape, res *Result) error {
 	sc := &res.Scores
 	if len(e.sc.Tasks) == 0 {
 		sc.TaskCoverage = 1
-		return
+		return nil
 	}
 	reached := 0
 	sc.TaskReached = make([]bool, len(e.sc.Tasks))
 	for ti, t := range e.sc.Tasks {
+		// every task point looks at every shape: one batch each
+		if err := e.tick(ti*batch, len(e.sc.Tasks)*batch); err != nil {
+			return err
+		}
 		tol := t.Tolerance
 		if tol == 0 {
 			tol = 1e-3
@@ -290,6 +420,7 @@ func (e *evaluator) tasks(shapes []*shape, res *Result) {
 		}
 	}
 	sc.TaskCoverage = float64(reached) / float64(len(e.sc.Tasks))
+	return nil
 }
 
 // taskDistance is the distance from a tip (after the best common rotation)

@@ -32,7 +32,10 @@ func (e *evaluator) sag(res *Result) error {
 	for j := range sins {
 		sins[j], coss[j] = math.Sincos(2 * math.Pi * float64(j) / float64(w.BaseSteps))
 	}
-	for _, sh := range e.shapes {
+	for k, sh := range e.shapes {
+		if err := e.tick(k, len(e.shapes)); err != nil {
+			return err
+		}
 		for j := 0; j < w.BaseSteps; j++ {
 			phi := 2 * math.Pi * float64(j) / float64(w.BaseSteps)
 			s, c := sins[j], coss[j]
@@ -85,9 +88,17 @@ func (e *evaluator) sag(res *Result) error {
 			return fmt.Errorf("tip sag at angles %s (no gravity): %w", degList(act.Theta), err)
 		}
 	}
+	if e.ctx != nil {
+		if err := e.ctx.Err(); err != nil {
+			return err
+		}
+	}
 	sag := 0.0
 	for i := range 3 {
 		sag += gh[i] * (loaded.Tip.P[i] - free.Tip.P[i])
+	}
+	if !isFinite(sag) {
+		return nonFinite("the tip sag at angles " + degList(act.Theta))
 	}
 	sc.TipSag = sag
 	sc.SagIterations = loaded.Iterations + free.Iterations
@@ -100,6 +111,9 @@ func (e *evaluator) sag(res *Result) error {
 		dp[i] = C[i][0]*g[0] + C[i][1]*g[1] + C[i][2]*g[2]
 	}
 	sc.TipSagLinear = dp[0]*gh[0] + dp[1]*gh[1] + dp[2]*gh[2]
+	if !isFinite(sc.TipSagLinear) {
+		return nonFinite("the linear tip sag estimate at angles " + degList(act.Theta))
+	}
 	L := links[len(links)-1].End
 	if math.Sqrt(dp[0]*dp[0]+dp[1]*dp[1]+dp[2]*dp[2])/L > kinematics.LinearDeflectionLimit {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("tip deflection under load exceeds %.0f %% of the length: the linear sag estimate is unreliable; the reported sag is from the geometrically exact model",
@@ -120,10 +134,13 @@ func degList(th []float64) string {
 }
 
 // margins fills mass, clearance and stability.
-func (e *evaluator) margins(res *Result) {
+func (e *evaluator) margins(res *Result) error {
 	sc := &res.Scores
 	for i, b := range e.d.Bellows {
 		sc.Mass += e.st[i].LinearDensity * (b.StraightLength + b.CurvedLength)
+	}
+	if !isFinite(sc.Mass) {
+		return nonFinite("the bellows mass")
 	}
 	if sc.Mass > 0 {
 		sc.PayloadToWeight = e.sc.Load.PayloadMass / sc.Mass
@@ -140,7 +157,7 @@ func (e *evaluator) margins(res *Result) {
 	if len(e.d.Bellows) < 2 {
 		sc.MinClearance = math.NaN()
 	}
-	e.stability(res)
+	return e.stability(res)
 }
 
 // clearance is the radial gap between bellows i and i+1, m; NaN when a
@@ -175,14 +192,17 @@ func (e *evaluator) clearance(i int) float64 {
 // stability applies the two-tube snap test to every neighbouring pair
 // whose curved parts overlap, at the insertions of the sampled workspace
 // (the longest overlap is the worst).
-func (e *evaluator) stability(res *Result) {
+func (e *evaluator) stability(res *Result) error {
 	sc := &res.Scores
 	sc.StabilityMargin = 1
 	// The test depends on the insertions only (threads included), so each
 	// distinct set of effective insertions is tested once.
 	seen := map[string]bool{}
 	var acts []kinematics.Actuation
-	for _, sh := range e.shapes {
+	for k, sh := range e.shapes {
+		if err := e.tick(k, len(e.shapes)); err != nil {
+			return err
+		}
 		beta := e.robot.EffectiveInsertion(sh.act)
 		kb := make([]byte, 0, 8*len(beta))
 		for _, b := range beta {
@@ -196,9 +216,18 @@ func (e *evaluator) stability(res *Result) {
 	}
 	for i := 0; i+1 < len(e.robot.Tubes); i++ {
 		var worst *PairMargin
-		for _, a := range acts {
+		for k, a := range acts {
+			if err := e.tick(k, len(acts)); err != nil {
+				return err
+			}
 			pm, ok := e.pairMargin(i, a)
-			if ok && (worst == nil || pm.Margin < worst.Margin) {
+			if !ok {
+				continue
+			}
+			if !isFinite(pm.Margin) || math.IsNaN(pm.LCrit) || !isFinite(pm.Lambda) { // LCrit is +Inf when the pair cannot snap
+				return nonFinite(fmt.Sprintf("the snap-stability margin of bellows %d and %d", i+1, i+2))
+			}
+			if worst == nil || pm.Margin < worst.Margin {
 				worst = &pm
 			}
 		}
@@ -207,6 +236,7 @@ func (e *evaluator) stability(res *Result) {
 			sc.StabilityMargin = math.Min(sc.StabilityMargin, worst.Margin)
 		}
 	}
+	return nil
 }
 
 // pairMargin runs the two-tube snap test for bellows i and i+1 at one

@@ -1,5 +1,10 @@
 package objective
 
+import (
+	"fmt"
+	"math"
+)
+
 // Scenario is everything besides the bellows themselves that the scores
 // need: the load, the printer, the workspace sampling, task points and the
 // requirements a design must meet. The zero value of every field means its
@@ -80,6 +85,38 @@ type Workspace struct {
 	// Insertion is the insertion range [lo, hi] of each bellows, m,
 	// innermost first; a missing or zero-width range means fixed at lo.
 	Insertion [][2]float64
+}
+
+// Largest workspace sample counts. The cost of an evaluation grows with
+// the number of shapes sampled (at most Samples, or the grid when it is
+// smaller) times BaseSteps; these caps keep the largest evaluation to
+// seconds, not hours. Each is 16 to 64 times its default.
+const (
+	MaxRelativeSteps  = 4096
+	MaxBaseSteps      = 1024
+	MaxInsertionSteps = 1024
+	MaxSamples        = 65536
+)
+
+// check refuses negative counts and counts above the caps.
+func (w Workspace) check() error {
+	for _, c := range []struct {
+		name   string
+		v, max int
+	}{
+		{"relative steps", w.RelativeSteps, MaxRelativeSteps},
+		{"base steps", w.BaseSteps, MaxBaseSteps},
+		{"insertion steps", w.InsertionSteps, MaxInsertionSteps},
+		{"samples", w.Samples, MaxSamples},
+	} {
+		if c.v < 0 || c.v > c.max {
+			return fmt.Errorf("workspace %s %d is out of range (expected 0 for the default, or up to %d)", c.name, c.v, c.max)
+		}
+	}
+	if !(w.VoxelSize >= 0) || math.IsInf(w.VoxelSize, 0) {
+		return fmt.Errorf("workspace voxel size %g m is out of range (expected 0 for the default, or a finite size > 0)", w.VoxelSize)
+	}
+	return nil
 }
 
 // TaskPoint is a point the tip should reach.

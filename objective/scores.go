@@ -1,6 +1,10 @@
 package objective
 
-import "sort"
+import (
+	"fmt"
+	"math"
+	"sort"
+)
 
 // Score names a score in file units, for objectives, constraints and
 // outputs.
@@ -95,4 +99,44 @@ func UnitSuffix(unit string) string {
 		return "_per_m"
 	}
 	return "_" + unit
+}
+
+// finiteScores is the last guard of an evaluation: every score and check
+// value is finite, except the scores documented as NaN when the model
+// cannot give them (the wall strain of bellows without a wall model, a
+// clearance with an unknown diameter).
+func finiteScores(d *Design, res *Result) error {
+	sc := &res.Scores
+	withWall := 0
+	for i, b := range d.Bellows {
+		if b.Model == nil {
+			continue
+		}
+		withWall++
+		if !isFinite(sc.StrainPerBellows[i]) {
+			return nonFinite(fmt.Sprintf("the peak wall strain of bellows %d", i+1))
+		}
+	}
+	for _, s := range scoreList {
+		v := s.Value(sc)
+		switch s.Name {
+		case "peak_strain", "allowable_strain", "strain_ratio":
+			if withWall == 0 && math.IsNaN(v) {
+				continue
+			}
+		case "min_clearance_mm":
+			if math.IsNaN(v) {
+				continue
+			}
+		}
+		if !isFinite(v) {
+			return nonFinite("the score " + s.Name)
+		}
+	}
+	for _, c := range res.Checks {
+		if !isFinite(c.Value) {
+			return nonFinite("the value of check " + c.Name)
+		}
+	}
+	return nil
 }

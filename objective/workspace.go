@@ -2,6 +2,7 @@ package objective
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"plica/objective/kinematics"
@@ -199,7 +200,36 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 	}
 	sh.tip = tip
 	sh.comp = e.compliance(links)
+	if what := sh.nonFinite(); what != "" {
+		return nil, nonFinite(what + " at angles " + degList(a.Theta))
+	}
 	return sh, nil
+}
+
+// nonFinite names the first non-finite quantity of a shape, "" if none.
+func (sh *shape) nonFinite() string {
+	for i := range 3 {
+		if !isFinite(sh.tip.P[i]) {
+			return "the tip position"
+		}
+		for j := range 3 {
+			if !isFinite(sh.tip.R[i][j]) {
+				return "the tip orientation"
+			}
+			if !isFinite(sh.comp[i][j]) {
+				return "the tip compliance under gravity"
+			}
+		}
+	}
+	if !isFinite(sh.kmax) {
+		return "the curvature"
+	}
+	for i, s := range sh.strain {
+		if !isFinite(s) {
+			return fmt.Sprintf("the wall strain of bellows %d", i+1)
+		}
+	}
+	return ""
 }
 
 // compliance returns the linear tip compliance matrix C of a shape to a

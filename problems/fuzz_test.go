@@ -5,9 +5,12 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"strings"
 	"testing"
 
 	"github.com/BurntSushi/toml"
+
+	"plica/objective"
 )
 
 // seedCorpus adds every TOML file of the shipped examples and the bad-input
@@ -51,10 +54,18 @@ func checkParseError(t *testing.T, data []byte, err error) {
 	}
 }
 
-// FuzzParseDesign: the design parser never panics, and a design it accepts
-// builds a robot and can be written back.
+// FuzzParseDesign: the design parser never panics, and a design it accepts,
+// whatever its values, builds a robot and evaluates without a panic: either
+// a failure with a one-line reason, or a result whose every printed score
+// is finite (NaN only where the model documents it: the wall strain of
+// bellows without a wall model, a clearance with an unknown diameter).
 func FuzzParseDesign(f *testing.F) {
 	seedCorpus(f)
+	// Values the range checks and the physics must handle.
+	for _, v := range []string{"1e120", "1e300", "1e-300", "99999", "1e5"} {
+		f.Add([]byte("[[bellows]]\nstraight_length_mm = " + v + "\ncurved_length_mm = 100.0\nprecurvature_per_m = 10.0\n" +
+			"bending_stiffness_n_mm2 = [1.0e6, " + v + "]\ntorsional_stiffness_n_mm2 = 5.0e7\nlinear_density_kg_per_m = 0.05\n"))
+	}
 	f.Fuzz(func(t *testing.T, data []byte) {
 		d, sc, err := ParseDesign(data, "fuzz.toml")
 		checkParseError(t, data, err)
@@ -67,7 +78,44 @@ func FuzzParseDesign(f *testing.F) {
 		if _, _, err := d.Robot(); err != nil {
 			t.Fatalf("an accepted design must build: %v", err)
 		}
+		// A coarse workspace keeps each execution cheap; the values of
+		// the design are the fuzzer's.
+		sc.Workspace.RelativeSteps, sc.Workspace.BaseSteps = 4, 2
+		sc.Workspace.InsertionSteps, sc.Workspace.Samples = 2, 16
+		res, err := objective.Evaluate(d, sc)
+		if err != nil {
+			msg := err.Error()
+			if msg == "" || strings.Contains(msg, "\n") || strings.Contains(msg, "internal error") {
+				t.Fatalf("a failed evaluation says why in one line, without an internal error: %q", msg)
+			}
+			return
+		}
+		for _, s := range objective.AllScores() {
+			v := s.Value(&res.Scores)
+			if !math.IsNaN(v) && !math.IsInf(v, 0) {
+				continue
+			}
+			documented := math.IsNaN(v) && (s.Name == "min_clearance_mm" ||
+				((s.Name == "peak_strain" || s.Name == "allowable_strain" || s.Name == "strain_ratio") && !hasWallModel(d)))
+			if !documented {
+				t.Fatalf("score %s is %v in a result without a failure", s.Name, v)
+			}
+		}
+		for _, c := range res.Checks {
+			if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
+				t.Fatalf("check %s is %v in a result without a failure", c.Name, c.Value)
+			}
+		}
 	})
+}
+
+func hasWallModel(d *objective.Design) bool {
+	for _, b := range d.Bellows {
+		if b.Model != nil {
+			return true
+		}
+	}
+	return false
 }
 
 // FuzzParseProblem: the problem parser never panics; an accepted problem

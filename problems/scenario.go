@@ -86,10 +86,10 @@ func readPrinter(t *table, p *objective.Printer) {
 }
 
 func readWorkspace(t *table, w *objective.Workspace) {
-	w.RelativeSteps = t.count("relative_steps", 4, 100000)
-	w.BaseSteps = t.count("base_steps", 1, 100000)
-	w.InsertionSteps = t.count("insertion_steps", 2, 10000)
-	w.Samples = t.count("samples", 16, 10000000)
+	w.RelativeSteps = t.count("relative_steps", 4, objective.MaxRelativeSteps)
+	w.BaseSteps = t.count("base_steps", 1, objective.MaxBaseSteps)
+	w.InsertionSteps = t.count("insertion_steps", 2, objective.MaxInsertionSteps)
+	w.Samples = t.count("samples", 16, objective.MaxSamples)
 	if v, ok := t.positive("voxel_mm", "a voxel edge in mm", false, false); ok {
 		w.VoxelSize = v * mm
 	}

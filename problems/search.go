@@ -61,11 +61,25 @@ func (s *Spec) SearchProblem() search.Problem {
 		}
 		p.Lower[j], p.Upper[j] = v.Lower, v.Upper
 	}
-	p.Evaluate = func(ctx context.Context, index int64, x, f, g []float64) error {
-		res, err := s.Evaluate(x)
+	p.Evaluate = func(ctx context.Context, index int64, x, f, g []float64) (err error) {
+		// A panic is a reason in the failure column, naming the stage,
+		// never a goroutine trace (objective recovers its own stages).
+		stage := "building the design"
+		defer func() {
+			if r := recover(); r != nil {
+				err = &objective.InternalError{Stage: stage, Value: r}
+			}
+		}()
+		d, sc, err := s.Design(x)
 		if err != nil {
 			return err
 		}
+		stage = "evaluation"
+		res, err := objective.EvaluateContext(ctx, d, sc)
+		if err != nil {
+			return err
+		}
+		stage = "filling objectives and constraints"
 		return s.Fill(res, f, g)
 	}
 	return p

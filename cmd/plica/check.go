@@ -7,8 +7,10 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"strings"
 	"text/tabwriter"
+	"time"
 
 	"plica/objective"
 	"plica/problems"
@@ -21,8 +23,11 @@ func init() {
 		usage: "DESIGN.toml [-json]",
 		short: "score one design and check it against its requirements before printing",
 		long: `Prints every score with its unit, every requirement with its limit and
-PASS or FAIL, the models used, and the cautions. Exit status 0 when every
-check passes, 1 when any fails, 2 on bad input.`,
+PASS or FAIL, the models used, and the cautions. A design whose physics
+leaves floating point (say a non-finite tip) fails with the reason. A long
+check shows its progress when standard error is a terminal. Exit status 0
+when every check passes, 1 when any fails, 2 on bad input, 130 when
+interrupted (Ctrl-C or SIGTERM; nothing is printed).`,
 		run: runCheck,
 	})
 }
@@ -40,8 +45,13 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	if err != nil {
 		return err
 	}
-	res, err := objective.Evaluate(d, sc)
+	prog := newProgressLine(stderr, "check")
+	res, err := objective.EvaluateProgress(ctx, d, sc, prog.report)
+	prog.clear()
 	if err != nil {
+		if ctx.Err() != nil {
+			return fmt.Errorf("check interrupted, nothing printed: %w", ctx.Err())
+		}
 		return err
 	}
 	if *asJSON {
@@ -61,6 +71,60 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 		return &failure{}
 	}
 	return nil
+}
+
+// progressLine draws one self-overwriting progress line on a terminal,
+// once the work has taken longer than progressDelay; on anything else it
+// draws nothing, so that scripts and pipes see only the result.
+type progressLine struct {
+	w           io.Writer // nil: not a terminal
+	verb        string
+	start, last time.Time
+	drawn       bool
+	stage       string
+}
+
+const (
+	progressDelay    = 500 * time.Millisecond
+	progressInterval = 200 * time.Millisecond
+)
+
+func newProgressLine(w io.Writer, verb string) *progressLine {
+	p := &progressLine{verb: verb, start: time.Now()}
+	if isTerminal(w) {
+		p.w = w
+	}
+	return p
+}
+
+// isTerminal is true when w is a character device (a terminal).
+func isTerminal(w io.Writer) bool {
+	f, ok := w.(*os.File)
+	if !ok {
+		return false
+	}
+	fi, err := f.Stat()
+	return err == nil && fi.Mode()&os.ModeCharDevice != 0
+}
+
+func (p *progressLine) report(pr objective.Progress) {
+	if p.w == nil || pr.Total <= 0 {
+		return
+	}
+	now := time.Now()
+	if now.Sub(p.start) < progressDelay || (pr.Stage == p.stage && now.Sub(p.last) < progressInterval) {
+		return
+	}
+	p.last, p.stage, p.drawn = now, pr.Stage, true
+	fmt.Fprintf(p.w, "\r\033[K%s: %s %3.0f %% (%d of %d)", p.verb, pr.Stage, 100*float64(pr.Done)/float64(pr.Total), pr.Done, pr.Total)
+}
+
+// clear removes the progress line, if one was drawn.
+func (p *progressLine) clear() {
+	if p.drawn {
+		fmt.Fprint(p.w, "\r\033[K")
+		p.drawn = false
+	}
 }
 
 // num is a float that encodes NaN (a value the model cannot give, such as

@@ -87,6 +87,14 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	if err != nil {
 		return err
 	}
+	if what := nonFinitePose(tip, links, poses); what != "" {
+		// NaN is no position: refuse rather than print it.
+		return fmt.Errorf("pose: %s at angles_deg %s is not finite (the design is beyond what the model computes: lengths, curvatures or stiffnesses too large or too small)",
+			what, joinFloats(a.Theta, 180/math.Pi))
+	}
+	if err := ctx.Err(); err != nil {
+		return fmt.Errorf("pose interrupted, nothing printed: %w", err)
+	}
 	out := newPoseOutput(tip, links, poses)
 	if o.json {
 		enc := json.NewEncoder(stdout)
@@ -126,6 +134,33 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 		fmt.Fprintf(tw, "%.3f\t%.4f\t%.4f\t%.4f\t\n", ss[i]*1e3, z4(p[0]), z4(p[1]), z4(p[2]))
 	}
 	return tw.Flush()
+}
+
+// nonFinitePose names the first non-finite quantity of a shape, "" if
+// none.
+func nonFinitePose(tip kinematics.Pose, links []kinematics.Link, poses []kinematics.Pose) string {
+	bad := func(x float64) bool { return math.IsNaN(x) || math.IsInf(x, 0) }
+	for i := range 3 {
+		if bad(tip.P[i]) {
+			return "the tip position"
+		}
+		for j := range 3 {
+			if bad(tip.R[i][j]) {
+				return "the tip orientation"
+			}
+		}
+	}
+	for k, l := range links {
+		if bad(l.Start) || bad(l.End) || bad(l.U[0]) || bad(l.U[1]) || bad(l.U[2]) {
+			return fmt.Sprintf("link %d", k+1)
+		}
+	}
+	for _, p := range poses {
+		if bad(p.P[0]) || bad(p.P[1]) || bad(p.P[2]) {
+			return "the backbone"
+		}
+	}
+	return ""
 }
 
 // actuation converts the command-line lists to SI.

@@ -80,6 +80,11 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "plica: unknown verb %q (expected one of: %s)\n", name, verbList())
 		return exitUsage
 	}
+	if ctx.Err() != nil {
+		// Interrupted before the verb began: nothing is read or written.
+		fmt.Fprintf(stderr, "plica: %s interrupted before it started, nothing written\n", name)
+		return exitInterrupt
+	}
 	fs := newFlagSet(c, stderr)
 	err := c.run(ctx, fs, args[1:], stdout, stderr)
 	if errors.Is(err, flag.ErrHelp) {
