@@ -111,29 +111,35 @@ const (
 	MaxLinearDensity = 1e4   // kg/m, measured
 )
 
+// rangeErr is an out-of-range value of one design-file key; the key is a
+// field, so a loader positions the message without reading its text.
+func rangeErr(key, format string, args ...any) error {
+	return &surrogate.InputError{Key: key, Msg: fmt.Sprintf(format, args...)}
+}
+
 // checkRanges refuses values outside the ranges above, one error per
 // value, each starting with the design-file key it belongs to.
 func (b Bellows) checkRanges() error {
 	var errs []error
 	out := func(key string, v, hi, scale float64, unit string) {
 		if !(math.Abs(v) <= hi) {
-			errs = append(errs, fmt.Errorf("%s: %.6g is out of range (expected at most %.6g %s)", key, v*scale, hi*scale, unit))
+			errs = append(errs, rangeErr(key, "%.6g is out of range (expected at most %.6g %s)", v*scale, hi*scale, unit))
 		}
 	}
 	out("straight_length_mm", b.StraightLength, MaxLength, 1e3, "mm")
 	out("curved_length_mm", b.CurvedLength, MaxLength, 1e3, "mm")
 	if k := math.Hypot(b.Precurvature[0], b.Precurvature[1]); !(k <= MaxPrecurvature) {
 		if b.Precurvature[0] == 0 { // the file form (0, κ)
-			errs = append(errs, fmt.Errorf("precurvature_per_m: %.6g is out of range (expected at most %.6g 1/m in magnitude)", b.Precurvature[1], float64(MaxPrecurvature)))
+			errs = append(errs, rangeErr("precurvature_per_m", "%.6g is out of range (expected at most %.6g 1/m in magnitude)", b.Precurvature[1], float64(MaxPrecurvature)))
 		} else {
-			errs = append(errs, fmt.Errorf("precurvature_xy_per_m: [%.6g, %.6g] is out of range (expected a magnitude of at most %.6g 1/m)", b.Precurvature[0], b.Precurvature[1], float64(MaxPrecurvature)))
+			errs = append(errs, rangeErr("precurvature_xy_per_m", "[%.6g, %.6g] is out of range (expected a magnitude of at most %.6g 1/m)", b.Precurvature[0], b.Precurvature[1], float64(MaxPrecurvature)))
 		}
 	}
 	out("thread_lead_mm", b.ThreadLead, MaxLength, 1e3, "mm")
 	if m := b.Measured; m != nil {
 		for _, v := range m.EI {
 			if !(v <= MaxStiffness) {
-				errs = append(errs, fmt.Errorf("bending_stiffness_n_mm2: [%.6g, %.6g] is out of range (expected each at most %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MaxStiffness*1e6))
+				errs = append(errs, rangeErr("bending_stiffness_n_mm2", "[%.6g, %.6g] is out of range (expected each at most %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MaxStiffness*1e6))
 				break
 			}
 		}
