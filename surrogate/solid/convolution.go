@@ -93,7 +93,12 @@ func (r Result) BeamAnalogyEI(c Convolution) float64 {
 // the crest (uz = β·r·cos θ), U and V free, and U = 0 at one root node to
 // remove the rigid sideways translation (its reaction is zero by
 // statics). One convolution extends by 2δ and turns by 2β.
+//
+// A zero MeshSize means c.DefaultMesh().
 func Analyze(c Convolution, mat Material, ms MeshSize) (Result, error) {
+	if ms == (MeshSize{}) {
+		ms = c.DefaultMesh()
+	}
 	wm, err := c.Mesh(ms)
 	if err != nil {
 		return Result{}, err
@@ -103,7 +108,7 @@ func Analyze(c Convolution, mat Material, ms MeshSize) (Result, error) {
 
 // Analyze solves the mesh's convolution; see the function Analyze.
 func (wm *WallMesh) Analyze(mat Material) (Result, error) {
-	res := Result{Mesh: MeshSize{Through: wm.Through, Along: wm.Along}, Nodes: len(wm.X)}
+	res := Result{Mesh: wm.Size, Nodes: len(wm.X)}
 	q := wm.Conv.Pitch
 	start, end := wm.Nodes(Start), wm.Nodes(End)
 
@@ -198,7 +203,11 @@ func (wm *WallMesh) response(eps []Strain, scale float64, harmonic bool) Respons
 			if surf == Interior {
 				continue
 			}
-			if p := map[Surface]*Peak{Inner: &r.Inner, Outer: &r.Outer}[surf]; better(p, v) {
+			p := &r.Outer
+			if surf == Inner {
+				p = &r.Inner
+			}
+			if better(p, v) {
 				*p = at
 			}
 			// the meridional strain has no sin θ part: its peak is at θ = 0

@@ -145,8 +145,8 @@ type segment struct {
 	r0, z0, r1, z1 float64
 	rc, zc, rad    float64
 	zk, a0, a1     float64
-	length         float64
-	table          []float64 // sine: cumulative length at uniform φ steps
+	length, turn   float64   // arc length and turning angle of the tangent
+	sTab, psiTab   []float64 // their cumulative values at uniform parameter steps
 }
 
 // at returns the point and unit tangent (toward the crest) at parameter
@@ -169,42 +169,67 @@ func (s *segment) at(u float64) (r, z, tr, tz float64) {
 	return s.rc - s.rad*cs, s.zk * p, dr / l, dz / l
 }
 
-const sineSteps = 512
+const tableSteps = 512
 
-// measure sets the segment's length (and, for sines, the table of
-// cumulative length by Simpson's rule on sineSteps intervals).
+// measure tabulates the segment's cumulative length and turning angle of
+// the tangent at tableSteps uniform steps of its parameter (Simpson's
+// rule for the length of a sine; exact for lines and arcs).
 func (s *segment) measure() {
-	switch s.kind {
-	case segLine:
-		s.length = math.Hypot(s.r1-s.r0, s.z1-s.z0)
-		return
-	case segArc:
-		s.length = s.rad * math.Abs(s.a1-s.a0)
-		return
+	s.sTab = make([]float64, tableSteps+1)
+	s.psiTab = make([]float64, tableSteps+1)
+	_, _, tr0, tz0 := s.at(0)
+	a0 := math.Atan2(tz0, tr0)
+	h := 1.0 / tableSteps
+	speed := func(u float64) float64 {
+		switch s.kind {
+		case segLine:
+			return math.Hypot(s.r1-s.r0, s.z1-s.z0)
+		case segArc:
+			return s.rad * math.Abs(s.a1-s.a0)
+		}
+		p := s.a0 + u*(s.a1-s.a0)
+		return math.Hypot(s.rad*math.Sin(p), s.zk) * math.Abs(s.a1-s.a0)
 	}
-	h := (s.a1 - s.a0) / sineSteps
-	speed := func(p float64) float64 { return math.Hypot(s.rad*math.Sin(p), s.zk) }
-	s.table = make([]float64, sineSteps+1)
-	for i := range sineSteps {
-		p := s.a0 + float64(i)*h
-		s.table[i+1] = s.table[i] + h/6*(speed(p)+4*speed(p+h/2)+speed(p+h))
+	for i := range tableSteps {
+		u := float64(i) * h
+		s.sTab[i+1] = s.sTab[i] + h/6*(speed(u)+4*speed(u+h/2)+speed(u+h))
+		_, _, tr, tz := s.at(u + h)
+		s.psiTab[i+1] = math.Abs(math.Atan2(tz, tr) - a0)
 	}
-	s.length = s.table[sineSteps]
+	s.length = s.sTab[tableSteps]
+	s.turn = s.psiTab[tableSteps]
 }
 
-// param returns the parameter u at the fraction f of the segment's
-// length.
-func (s *segment) param(f float64) float64 {
-	if s.kind != segSine {
-		return f
+// alongGrading is the weight of the turning angle in the meridional node
+// spacing: nodes are equidistributed in (1 − g)·s/L + g·ψ/Ψ, arc length
+// s and turning angle ψ of the tangent, so the folds get elements in
+// proportion to how sharply they turn.
+const alongGrading = 0.5
+
+// measureAt returns the combined spacing measure at table index i.
+func (s *segment) measureAt(i int, length, turn float64) float64 {
+	m := (1 - alongGrading) * s.sTab[i] / length
+	if turn > 0 {
+		m += alongGrading * s.psiTab[i] / turn
 	}
-	target := f * s.length
+	return m
+}
+
+// param returns the parameter u and the arc length from the segment's
+// start at the fraction f of the segment's spacing measure.
+func (s *segment) param(f, length, turn float64) (u, sl float64) {
+	total := s.measureAt(tableSteps, length, turn)
+	target := f * total
 	i := 0
-	for i < sineSteps-1 && s.table[i+1] < target {
+	for i < tableSteps-1 && s.measureAt(i+1, length, turn) < target {
 		i++
 	}
-	d := s.table[i+1] - s.table[i]
-	return (float64(i) + (target-s.table[i])/d) / sineSteps
+	m0, m1 := s.measureAt(i, length, turn), s.measureAt(i+1, length, turn)
+	x := 0.0
+	if m1 > m0 {
+		x = (target - m0) / (m1 - m0)
+	}
+	return (float64(i) + x) / tableSteps, s.sTab[i] + x*(s.sTab[i+1]-s.sTab[i])
 }
 
 // midline returns the segments of the half-convolution midline, root
@@ -254,9 +279,20 @@ type MeshSize struct {
 	Bias float64
 }
 
-// DefaultMesh is the mesh chosen by the convergence study in
-// CONVERGENCE.md.
-var DefaultMesh = MeshSize{Through: 8, Along: 96, Bias: 0.5}
+// DefaultMesh returns the mesh chosen by the convergence study in
+// CONVERGENCE.md: elements through the wall grow with t/(2ρ), from 6 at
+// 0.15 to 16 at 0.8, clustered toward both surfaces (Bias 0.8); along
+// the half meridian at least 96 elements and no element longer than half
+// the wall thickness.
+func (c Convolution) DefaultMesh() MeshSize {
+	through := min(16, max(4, 4+int(math.Round(15*c.FoldRatio()))))
+	var length float64
+	for _, s := range c.midline() {
+		length += s.length
+	}
+	along := max(96, int(math.Ceil(2*length/c.Wall)))
+	return MeshSize{Through: through, Along: min(along, 2000), Bias: 0.8}
+}
 
 func (ms MeshSize) validate() error {
 	if ms.Through < 1 || ms.Through > 48 {
@@ -278,6 +314,7 @@ func (ms MeshSize) validate() error {
 type WallMesh struct {
 	*Grid
 	Conv Convolution
+	Size MeshSize
 	// Per grid row k: midline arc length from the root apex (m), region,
 	// and unit tangent (toward the crest).
 	S       []float64
@@ -285,10 +322,11 @@ type WallMesh struct {
 	Tangent [][2]float64
 }
 
-// Mesh builds the wall mesh of half a convolution. The elements along
-// the meridian are shared among the midline's pieces in proportion to
-// their length (at least one each), so that every change of curvature
-// falls on an element boundary, and are uniform in length within a piece.
+// Mesh builds the wall mesh of half a convolution. Along the meridian
+// the nodes are equidistributed in an equal mix of arc length and
+// turning angle of the midline (so the folds, where the strain peaks, are
+// finer); every change of curvature of a U profile falls on an element
+// boundary (each piece gets at least one element).
 func (c Convolution) Mesh(ms MeshSize) (*WallMesh, error) {
 	if err := c.Validate(); err != nil {
 		return nil, err
@@ -300,9 +338,18 @@ func (c Convolution) Mesh(ms MeshSize) (*WallMesh, error) {
 	if len(segs) > ms.Along {
 		return nil, fmt.Errorf("solid: %d elements along cannot cover the %d pieces of the %v midline", ms.Along, len(segs), c.Profile)
 	}
-	counts := share(segs, ms.Along)
+	var length, turn float64
+	for _, sg := range segs {
+		length += sg.length
+		turn += sg.turn
+	}
+	weights := make([]float64, len(segs))
+	for i := range segs {
+		weights[i] = segs[i].measureAt(tableSteps, length, turn)
+	}
+	counts := share(weights, ms.Along)
 	rows := 2*ms.Along + 1
-	wm := &WallMesh{Conv: c, S: make([]float64, rows), Region: make([]Region, rows), Tangent: make([][2]float64, rows)}
+	wm := &WallMesh{Conv: c, Size: ms, S: make([]float64, rows), Region: make([]Region, rows), Tangent: make([][2]float64, rows)}
 	pr := make([]float64, rows)
 	pz := make([]float64, rows)
 	k := 0
@@ -315,10 +362,10 @@ func (c Convolution) Mesh(ms MeshSize) (*WallMesh, error) {
 			first = 1 // the joint row belongs to the previous piece
 		}
 		for m := first; m <= n; m++ {
-			f := float64(m) / float64(n)
-			r, z, tr, tz := sg.at(sg.param(f))
+			u, sl := sg.param(float64(m)/float64(n), length, turn)
+			r, z, tr, tz := sg.at(u)
 			pr[k], pz[k] = r, z
-			wm.S[k] = s0 + f*sg.length
+			wm.S[k] = s0 + sl
 			wm.Region[k] = sg.region
 			wm.Tangent[k] = [2]float64{tr, tz}
 			k++
@@ -347,18 +394,18 @@ func (c Convolution) Mesh(ms MeshSize) (*WallMesh, error) {
 	return wm, nil
 }
 
-// share divides n elements among the segments in proportion to length,
-// at least one each (largest remainders).
-func share(segs []segment, n int) []int {
+// share divides n elements in proportion to the weights, at least one
+// each (largest remainders).
+func share(weights []float64, n int) []int {
 	var total float64
-	for _, s := range segs {
-		total += s.length
+	for _, w := range weights {
+		total += w
 	}
-	counts := make([]int, len(segs))
-	rest := make([]float64, len(segs))
+	counts := make([]int, len(weights))
+	rest := make([]float64, len(weights))
 	used := 0
-	for i, s := range segs {
-		x := float64(n-len(segs)) * s.length / total
+	for i, w := range weights {
+		x := float64(n-len(weights)) * w / total
 		counts[i] = 1 + int(x)
 		rest[i] = x - float64(int(x))
 		used += counts[i]

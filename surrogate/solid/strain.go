@@ -27,8 +27,18 @@ func (e Strain) Principal() [3]float64 {
 	q := (a11 + a22 + a33) / 3
 	b11, b22, b33 := a11-q, a22-q, a33-q
 	p2 := b11*b11 + b22*b22 + b33*b33 + 2*p1
-	if p2 == 0 {
-		return [3]float64{q, q, q}
+	if p1 == 0 {
+		d := [3]float64{a11, a22, a33}
+		if d[0] < d[1] {
+			d[0], d[1] = d[1], d[0]
+		}
+		if d[1] < d[2] {
+			d[1], d[2] = d[2], d[1]
+		}
+		if d[0] < d[1] {
+			d[0], d[1] = d[1], d[0]
+		}
+		return d
 	}
 	p := math.Sqrt(p2 / 6)
 	det := b11*(b22*b33-a23*a23) - a12*(a12*b33-a23*a13) + a13*(a12*a23-b22*a13)
