@@ -29,8 +29,9 @@ func lameModel(t *testing.T, a, b, length float64, along, through int) (*Grid, *
 
 // TestLameCylinder checks a thick-walled cylinder under internal pressure
 // in the axisymmetric mode against Lamé's solution (Timoshenko & Goodier,
-// Theory of Elasticity, 3rd ed., 1970, §28, thick-walled cylinder; plane
-// strain ends so σz = ν(σr + σθ)).
+// Theory of Elasticity, 3rd ed., 1970, thick-walled cylinder, §28 from
+// memory; plane strain ends so σz = ν(σr + σθ)). Nodal stresses of
+// quadratic elements converge as h², hence the tolerances.
 func TestLameCylinder(t *testing.T) {
 	const a, b, p = 0.01, 0.025, 1e6
 	g, m, l := lameModel(t, a, b, 0.004, 24, 2)
@@ -70,7 +71,8 @@ func TestLameCylinder(t *testing.T) {
 // curvedBar meshes a quarter ring a ≤ r ≤ b, 0 ≤ θ ≤ π/2 in plane stress,
 // symmetric on θ = 0, with the section θ = π/2 turned rigidly by β about
 // the centre (sections of a curved bar in pure bending stay plane:
-// Timoshenko & Goodier, Theory of Elasticity, 3rd ed., 1970, §29). It
+// Timoshenko & Goodier, Theory of Elasticity, 3rd ed., 1970, §29 from
+// memory). It
 // returns the bending moment per unit thickness, the hoop stress on the
 // inner and outer fibres at θ = π/4, and the rotation.
 func curvedBar(t *testing.T, a, b float64, along, through int) (m, sInner, sOuter, beta float64) {
@@ -245,7 +247,8 @@ func TestTubeAxial(t *testing.T) {
 
 // TestTubeBending: harmonic 1 on a plain tube under end rotation gives
 // EI = E·π(Ro⁴ − Ri⁴)/4 (Euler–Bernoulli; the pure-bending elasticity
-// solution, Timoshenko & Goodier, Theory of Elasticity, §102, lies in the
+// solution, Timoshenko & Goodier, Theory of Elasticity, pure bending of
+// prismatic bars (from memory), lies in the
 // element's quadratic field, so the match is to round-off) and the
 // thin-tube limit EI = E·π·R³·t (up to the (t/2R)² term).
 func TestTubeBending(t *testing.T) {
