@@ -22,6 +22,7 @@ func TestLayering(t *testing.T) {
 		"plica/search":                     {},
 		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/search"},
 		"plica/results":                    {"plica/search", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics"},
+		"plica/surrogate/solid":            {},
 	}
 	for pkg, ok := range allowed {
 		out, err := exec.Command("go", "list", "-deps", pkg).Output()
