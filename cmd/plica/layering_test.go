@@ -14,6 +14,7 @@ import (
 func TestLayering(t *testing.T) {
 	allowed := map[string][]string{
 		"plica/surrogate":            {},
+		"plica/surrogate/fecheck":    {"plica/surrogate"},
 		"plica/objective/kinematics": {},
 		"plica/objective":            {"plica/surrogate", "plica/objective/kinematics"},
 		"plica/search":               {},

@@ -129,11 +129,11 @@ type Comparison struct {
 func meshParams(m Mesh) (around, perPitch, through int) {
 	switch m {
 	case Fine:
-		return 32, 32, 8
+		return 32, 32, 16
 	case draft:
-		return 12, 12, 2
+		return 12, 12, 4
 	}
-	return 20, 20, 4
+	return 20, 20, 8
 }
 
 // Pitches is the number of convolutions of the shell model; the
@@ -162,12 +162,12 @@ func shellFor(b *surrogate.Bellows, m Mesh) shellSpec {
 
 func solidFor(w wall, mat wallMaterial, m Mesh) axiSpec {
 	_, _, through := meshParams(m)
-	// elements along the pitch: about twice as long as thick
+	// elements along the pitch: about 1.5 times as long as thick
 	var dev float64
 	for i := range w.pieces {
 		dev += w.pieces[i].length()
 	}
-	n := int(math.Ceil(dev / (2 * mat.t / float64(through))))
+	n := int(math.Ceil(dev / (1.5 * mat.t / float64(through))))
 	n = max(n, 20*through)
 	n = min(n, 600*through)
 	return axiSpec{wall: w, mat: mat, perPt: n, through: through}
