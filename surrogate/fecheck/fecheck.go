@@ -79,6 +79,7 @@ type ShellResult struct {
 	Nodes                 int     `json:"nodes"`
 	Convolutions          int     `json:"convolutions"`
 	MeasuredConvolutions  int     `json:"measured_convolutions"`
+	PitchM                float64 `json:"pitch_m"`
 	EAN                   float64 `json:"ea_n"`
 	AxialRateNPerM        float64 `json:"axial_rate_per_convolution_n_per_m"`
 	EIxNm2                float64 `json:"ei_x_n_m2"`
@@ -153,8 +154,11 @@ func shellFor(b *surrogate.Bellows, m Mesh) shellSpec {
 		spineWidth: b.SpineWidth, spineAngle: b.SpineAngle,
 		pitches: Pitches, around: around, perPitch: per, ringA: RingOffset, ring: Pitches - 2*RingOffset}
 	if b.SpineWidth > 0 {
-		// at least two elements across the spine
-		need := int(math.Ceil(2 * 2 * math.Pi * b.MeanRadius() / b.SpineWidth))
+		// the wall blends into the spine over one convolution depth; at
+		// least one element across the spine and across each blend (the
+		// grid is centred on the spine)
+		s.spineBlendWidth = b.Depth
+		need := int(math.Ceil(2 * math.Pi * b.MeanRadius() / min(b.SpineWidth, b.Depth)))
 		s.around = max(s.around, min(need, 96))
 	}
 	return s
@@ -340,7 +344,9 @@ func Compare(r *Result, s surrogate.Section) []Comparison {
 		add("ei_x", "N·m²", sh.EIxNm2, s.EI[0][0])
 		add("ei_y", "N·m²", sh.EIyNm2, s.EI[1][1])
 		add("gj", "N·m²", sh.GJNm2, s.GJ)
-		add("axial_rate_per_convolution", "N/m", sh.AxialRateNPerM, s.AxialRatePerConvolution)
+		// EA/q: the axial rate of one pitch of the whole section (with
+		// its spine, if any)
+		add("axial_rate_per_convolution", "N/m", sh.AxialRateNPerM, s.EA/sh.PitchM)
 		add("strain_per_curvature", "m", sh.StrainPerCurvatureM, s.StrainPerCurvature)
 	}
 	if so := r.Solid; so != nil {

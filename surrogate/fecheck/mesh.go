@@ -11,15 +11,18 @@ type wallMaterial struct{ Es, Et, nu, t float64 }
 
 // shellSpec describes a 3-D shell model of a wall of revolution.
 type shellSpec struct {
-	wall        wall
-	mat         wallMaterial
-	helical     bool    // single-start helix of lead = pitch
-	spineWidth  float64 // arc width of the plain-wall spine at rMean, m (0: none)
-	spineAngle  float64 // centre of the spine from +x, rad
-	pitches     int     // convolutions modelled
-	around      int     // quadratic elements around the circumference
-	perPitch    int     // quadratic elements per pitch along the meridian
-	ringA, ring int     // measuring rings (root apexes) at pitch ringA and ringA+ring
+	wall       wall
+	mat        wallMaterial
+	helical    bool    // single-start helix of lead = pitch
+	spineWidth float64 // arc width of the plain-wall spine at rMean, m (0: none)
+	spineAngle float64 // centre of the spine from +x, rad
+	// arc width (at rMean) over which the wall blends from the spine to
+	// the convolutions on each side, m
+	spineBlendWidth float64
+	pitches         int // convolutions modelled
+	around          int // quadratic elements around the circumference
+	perPitch        int // quadratic elements per pitch along the meridian
+	ringA, ring     int // measuring rings (root apexes) at pitch ringA and ringA+ring
 }
 
 // shellNode is one node of the shell grid.
@@ -46,13 +49,14 @@ type shellMesh struct {
 }
 
 // spineBlend returns the blend factor f ∈ [0, 1] at angle phi: 0 on the
-// spine (plain wall), 1 on the convolutions, linear across one element
-// width dphi beyond each edge of the spine.
-func (s *shellSpec) spineBlend(phi, dphi float64) float64 {
+// spine (plain wall), 1 on the convolutions, linear across an arc
+// s.spineBlendWidth (at rMean) beyond each edge of the spine.
+func (s *shellSpec) spineBlend(phi float64) float64 {
 	if s.spineWidth <= 0 {
 		return 1
 	}
 	h := s.spineWidth / s.wall.rMean / 2
+	dphi := s.spineBlendWidth / s.wall.rMean
 	d := math.Abs(math.Remainder(phi-s.spineAngle, 2*math.Pi))
 	switch {
 	case d <= h:
@@ -70,7 +74,6 @@ func (s *shellSpec) build() *shellMesh {
 	mp := s.wall.points(s.perPitch)
 	rowsPer := len(mp) - 1 // points() may add elements (one per piece at least)
 	rows := rowsPer*s.pitches + 1
-	dphi := 2 * math.Pi / float64(s.around)
 	id := func(i, j int) int { return j*cols + i + 1 }
 	// wrap maps a column index at or past the seam to the grid.
 	wrap := func(i, j int) (int, int) {
@@ -124,7 +127,11 @@ func (s *shellSpec) build() *shellMesh {
 				continue
 			}
 			phi := float64(i) / float64(cols) * 2 * math.Pi
-			f := s.spineBlend(phi, dphi)
+			if s.spineWidth > 0 {
+				// centre the grid on the spine
+				phi += s.spineAngle
+			}
+			f := s.spineBlend(phi)
 			zPlain := float64(jj) / float64(rowsPer) * s.wall.pitch
 			r := s.wall.rMean + f*(p.r-s.wall.rMean)
 			z := zPlain + f*(p.z-zPlain) + float64(k)*s.wall.pitch

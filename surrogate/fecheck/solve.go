@@ -175,7 +175,7 @@ func extractShell(m *shellMesh, blocks []datBlock, frd *frdResult) (*ShellResult
 	q := m.spec.wall.pitch
 	res := &ShellResult{
 		Elements: len(m.elems), Nodes: len(m.nodes),
-		Convolutions: m.spec.pitches, MeasuredConvolutions: m.spec.ring,
+		Convolutions: m.spec.pitches, MeasuredConvolutions: m.spec.ring, PitchM: q,
 		EAN: ea, AxialRateNPerM: ea / q,
 		EIxNm2: ei(1, 1), EIyNm2: ei(2, 2), EIxyNm2: eixy,
 		GJNm2:                 loadMoment / tor.twist,
