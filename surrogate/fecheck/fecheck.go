@@ -55,8 +55,9 @@ type Options struct {
 	CCX string
 	// Threads for ccx (default 1).
 	Threads int
-	// Dir keeps the decks and ccx's output there; "" uses a temporary
-	// directory that is removed afterwards.
+	// Dir keeps the decks and ccx's output there, one subdirectory per
+	// mesh (coarse, fine, draft); "" uses a temporary directory that is
+	// removed afterwards.
 	Dir string
 }
 
