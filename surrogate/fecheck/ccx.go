@@ -1,0 +1,99 @@
+package fecheck
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"fmt"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"time"
+)
+
+// Package names the Debian package that provides ccx.
+const Package = "calculix-ccx"
+
+// ErrNoCCX is returned (wrapped) when the ccx executable is not found.
+var ErrNoCCX = errors.New("CalculiX (ccx) is not on PATH: install the Debian package " + Package)
+
+// findCCX returns the path of the executable exe (default "ccx").
+func findCCX(exe string) (string, error) {
+	if exe == "" {
+		exe = "ccx"
+	}
+	p, err := exec.LookPath(exe)
+	if err != nil {
+		if exe == "ccx" {
+			return "", ErrNoCCX
+		}
+		return "", fmt.Errorf("%w (looked for %q)", ErrNoCCX, exe)
+	}
+	return p, nil
+}
+
+// HaveCCX reports whether the ccx executable exe (default "ccx") is on
+// PATH.
+func HaveCCX(exe string) bool { _, err := findCCX(exe); return err == nil }
+
+// runCCX runs `ccx -i job` in dir with the given thread count, writes its
+// combined output to job.log in dir and returns the run time. Cancelling
+// ctx kills ccx. A failure is a one-line error with the first *ERROR line
+// of ccx's output (and the line after it) or its exit status.
+func runCCX(ctx context.Context, exe, dir, job string, threads int) (time.Duration, error) {
+	path, err := findCCX(exe)
+	if err != nil {
+		return 0, err
+	}
+	if threads < 1 {
+		threads = 1
+	}
+	var out bytes.Buffer
+	cmd := exec.CommandContext(ctx, path, "-i", job)
+	cmd.Dir = dir
+	cmd.Stdout, cmd.Stderr = &out, &out
+	n := fmt.Sprint(threads)
+	cmd.Env = append(os.Environ(), "OMP_NUM_THREADS="+n, "CCX_NPROC_EQUATION_SOLVER="+n, "CCX_NPROC_STIFFNESS="+n)
+	cmd.WaitDelay = 2 * time.Second
+	start := time.Now()
+	runErr := cmd.Run()
+	dur := time.Since(start)
+	logErr := os.WriteFile(filepath.Join(dir, job+".log"), out.Bytes(), 0o644)
+	if ctx.Err() != nil {
+		return dur, fmt.Errorf("ccx %s: %w", job, ctx.Err())
+	}
+	if reason := ccxError(out.String()); reason != "" {
+		return dur, fmt.Errorf("ccx %s failed: %s", job, reason)
+	}
+	if runErr != nil {
+		return dur, fmt.Errorf("ccx %s failed: %v", job, runErr)
+	}
+	if _, err := os.Stat(filepath.Join(dir, job+".dat")); err != nil {
+		return dur, fmt.Errorf("ccx %s wrote no results (%s.dat missing)", job, job)
+	}
+	return dur, logErr
+}
+
+// ccxError returns the first error message in ccx's output on one line,
+// or "".
+func ccxError(out string) string {
+	lines := strings.Split(out, "\n")
+	for i, l := range lines {
+		l = strings.TrimSpace(l)
+		if !strings.HasPrefix(l, "*ERROR") {
+			continue
+		}
+		msg := strings.Join(strings.Fields(l), " ")
+		for _, next := range lines[i+1:] {
+			if next = strings.TrimSpace(next); next != "" {
+				if !strings.HasPrefix(next, "*") {
+					msg += " " + strings.Join(strings.Fields(next), " ")
+				}
+				break
+			}
+		}
+		return msg
+	}
+	return ""
+}

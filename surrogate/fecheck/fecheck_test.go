@@ -1,0 +1,200 @@
+package fecheck
+
+import (
+	"context"
+	"errors"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+
+	"plica/surrogate"
+)
+
+// needCCX skips a test when ccx is not on PATH, or fails it when
+// PLICA_REQUIRE_CCX=1; -short skips it too (these tests run CalculiX).
+func needCCX(t *testing.T) {
+	t.Helper()
+	if testing.Short() {
+		t.Skip("runs CalculiX; skipped with -short")
+	}
+	if !HaveCCX("") {
+		if os.Getenv("PLICA_REQUIRE_CCX") == "1" {
+			t.Fatal("ccx is not on PATH and PLICA_REQUIRE_CCX=1: install the Debian package " + Package)
+		}
+		t.Skip("ccx is not on PATH (Debian package " + Package + "); set PLICA_REQUIRE_CCX=1 to make this a failure")
+	}
+}
+
+func resin() surrogate.Material {
+	m, ok := surrogate.LookupMaterial("resin")
+	if !ok {
+		panic("no resin")
+	}
+	return m
+}
+
+func TestMeridianGeometry(t *testing.T) {
+	// U-profile with semicircular crowns (rm = q/4): developed length of
+	// one pitch 2w + (2π − 4)·rm (elementary geometry: two flanks of
+	// w − 2rm and four quarter arcs; common practice).
+	g := surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.004, Pitch: 0.005, Wall: 0.0004, Profile: surrogate.UShape}
+	w := bellowsWall(g)
+	var dev float64
+	for i := range w.pieces {
+		dev += w.pieces[i].length()
+	}
+	rm := g.Pitch / 4
+	assert.InDelta(t, 2*g.Depth+(2*math.Pi-4)*rm, dev, 1e-12)
+	for _, prof := range []surrogate.Profile{surrogate.Sinusoid, surrogate.UShape, surrogate.Trapezoid} {
+		g.Profile, g.FlatFraction = prof, 0.4
+		w := bellowsWall(g)
+		p := w.points(24)
+		rMin, rMax := math.Inf(1), math.Inf(-1)
+		for i, q := range p {
+			rMin, rMax = math.Min(rMin, q.r), math.Max(rMax, q.r)
+			assert.InDelta(t, 1, math.Hypot(q.tr, q.tz), 1e-12, "%s: unit tangent", prof)
+			if i > 0 {
+				// consecutive mesh points are close (no jumps between pieces)
+				d := math.Hypot(q.r-p[i-1].r, q.z-p[i-1].z)
+				assert.Less(t, d, 0.25*g.Pitch, "%s: point %d", prof, i)
+			}
+		}
+		// root and crown centrelines at Rm ∓ w/2 (surrogate.Geometry's
+		// convention), periodic over the pitch
+		assert.InDelta(t, g.MeanRadius()-g.Depth/2, rMin, 1e-12, "%s", prof)
+		assert.InDelta(t, g.MeanRadius()+g.Depth/2, rMax, 1e-12, "%s", prof)
+		assert.InDelta(t, p[0].r, p[len(p)-1].r, 1e-15)
+		assert.InDelta(t, p[0].z+g.Pitch, p[len(p)-1].z, 1e-15)
+	}
+}
+
+func TestShellMeshHelicalSeam(t *testing.T) {
+	// A helical wall is one strip wound round: every element edge at the
+	// seam is shared, so each node is used by 1…4 elements and the rings
+	// hold one node per grid column.
+	g := surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.004, Pitch: 0.006, Wall: 0.0004, Profile: surrogate.Sinusoid, Helical: true}
+	b := surrogate.Bellows{Geometry: g, Material: resin()}
+	s := shellFor(&b, Coarse)
+	m := s.build()
+	uses := map[int]int{}
+	for _, e := range m.elems {
+		for _, n := range e[:4] {
+			uses[n]++
+		}
+	}
+	for n, k := range uses {
+		assert.LessOrEqual(t, k, 4, "node %d", n)
+	}
+	assert.Len(t, m.ringA, 2*s.around)
+	assert.Len(t, m.ringB, 2*s.around)
+	// the helix rises one pitch per turn
+	first, last := m.node(m.ringA[0]), m.node(m.ringA[len(m.ringA)-1])
+	assert.InDelta(t, g.Pitch*float64(2*s.around-1)/float64(2*s.around), last.z-first.z, 1e-12)
+}
+
+func TestReaders(t *testing.T) {
+	dat := `
+ displacements (vx,vy,vz) for set RINGS and time  0.1000000E+01
+
+       513 -3.047769E-08  2.280382E-20  1.011483E-07
+       514 -2.989223E-08 -5.945934E-09  1.011483E-07
+
+ forces (fx,fy,fz) for set END1 and time  0.1000000E+01
+
+         1  1.0E+00  2.0E+00 -3.0E+00
+`
+	b, err := readDat(strings.NewReader(dat))
+	require.NoError(t, err)
+	require.Len(t, b, 2)
+	assert.Equal(t, "displacements", b[0].kind)
+	assert.Equal(t, "RINGS", b[0].set)
+	assert.Equal(t, []float64{514, -2.989223e-08, -5.945934e-09, 1.011483e-07}, b[0].rows[1])
+	assert.Equal(t, "END1", b[1].set)
+	assert.Equal(t, []float64{1, 1, 2, -3}, b[1].rows[0])
+
+	frd := "    2C                             2                                     1\n" +
+		" -1      2086 9.75000E-03-2.20446E-19 0.00000E+00\n" +
+		" -1      2087 1.00000E-02 0.00000E+00 1.50000E-03\n" +
+		" -3\n" +
+		"  100CL  101 1.000000000           2                     0    1           1\n" +
+		" -4  TOSTRAIN    6    1\n" +
+		" -5  EXX         1    4    1    1\n" +
+		" -1      2086 9.64274E-17 1.59480E-19-1.97596E-16 3.03914E-05 1.04192E-04-6.30840E-17\n" +
+		" -3\n"
+	f, err := readFrd(strings.NewReader(frd))
+	require.NoError(t, err)
+	assert.Equal(t, [3]float64{0.01, 0, 0.0015}, f.nodes[2087])
+	assert.Equal(t, [3]float64{9.75e-3, -2.20446e-19, 0}, f.nodes[2086])
+	require.Len(t, f.strains, 1)
+	assert.Equal(t, 1.04192e-04, f.strains[0][2086][4])
+}
+
+func TestWriteDecks(t *testing.T) {
+	dir := t.TempDir()
+	b := surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.004, Pitch: 0.006, Wall: 0.0004,
+		Profile: surrogate.Sinusoid, SpineWidth: 0.004}, Material: resin()}
+	b.Material.ModulusInLayer = 3.2e9 // orthotropic
+	files, err := WriteDecks(dir, b, Coarse)
+	require.NoError(t, err)
+	require.Len(t, files, 2)
+	shell, err := os.ReadFile(files[0])
+	require.NoError(t, err)
+	s := string(shell)
+	assert.Equal(t, 4, strings.Count(s, "*STEP\n"))
+	assert.Equal(t, 2, strings.Count(s, "*RIGID BODY"))
+	assert.Contains(t, s, "*ELEMENT, TYPE=S8R")
+	assert.Contains(t, s, "TYPE=ENGINEERING CONSTANTS")
+	assert.Contains(t, s, "SYSTEM=CYLINDRICAL")
+	solid, err := os.ReadFile(files[1])
+	require.NoError(t, err)
+	assert.Contains(t, string(solid), "*ELEMENT, TYPE=CAX8")
+	// nothing else left behind (atomic writes)
+	left, _ := os.ReadDir(dir)
+	assert.Len(t, left, 2)
+
+	b.Wall = 0.01 // invalid: wall ≥ depth/2
+	_, err = WriteDecks(t.TempDir(), b, Coarse)
+	var ie *surrogate.InputError
+	assert.ErrorAs(t, err, &ie)
+}
+
+func TestMissingCCX(t *testing.T) {
+	b := surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.004, Pitch: 0.006, Wall: 0.0004}, Material: resin()}
+	_, err := Run(context.Background(), b, Options{CCX: "plica-test-no-such-ccx"})
+	require.Error(t, err)
+	assert.True(t, errors.Is(err, ErrNoCCX))
+	assert.Contains(t, err.Error(), "calculix-ccx")
+}
+
+// fakeCCX puts an executable script named ccx-fake on PATH.
+func fakeCCX(t *testing.T, script string) {
+	dir := t.TempDir()
+	require.NoError(t, os.WriteFile(filepath.Join(dir, "ccx-fake"), []byte("#!/bin/sh\n"+script), 0o755))
+	t.Setenv("PATH", dir+string(os.PathListSeparator)+os.Getenv("PATH"))
+}
+
+func TestCCXFailureIsOneLine(t *testing.T) {
+	fakeCCX(t, "echo ' some banner'\necho ' *ERROR in e_c3d: nonpositive jacobian'\necho '        determinant in element  7'\nexit 201\n")
+	dir := t.TempDir()
+	_, err := runCCX(context.Background(), "ccx-fake", dir, "job", 1)
+	require.Error(t, err)
+	assert.Equal(t, "ccx job failed: *ERROR in e_c3d: nonpositive jacobian determinant in element 7", err.Error())
+	log, err := os.ReadFile(filepath.Join(dir, "job.log"))
+	require.NoError(t, err)
+	assert.Contains(t, string(log), "some banner")
+}
+
+func TestCCXCancel(t *testing.T) {
+	fakeCCX(t, "exec sleep 30\n")
+	ctx, cancel := context.WithTimeout(context.Background(), 200*time.Millisecond)
+	defer cancel()
+	_, err := runCCX(ctx, "ccx-fake", t.TempDir(), "job", 1)
+	require.Error(t, err)
+	assert.ErrorIs(t, err, context.DeadlineExceeded)
+}
