@@ -5,6 +5,8 @@ import (
 	"math"
 
 	"plica/objective/kinematics"
+
+	"plica/objective/statics"
 )
 
 // shape is one sampled actuation with everything the scores need from it.
@@ -225,7 +227,7 @@ func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
 		}
 		h := ll / float64(m)
 		step := kinematics.LinkTransform(l.U, h)
-		kinv, _ := kinematics.InvertSPD(l.K) // Links checked K
+		kinv, _ := statics.InvertSPD(l.K) // Links checked K
 		for j := 0; j < m; j++ {
 			nd := complianceNode{s: sPos, p: pose.P, w: h, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)}
 			if j == 0 {

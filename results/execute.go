@@ -190,11 +190,7 @@ func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 		var b strings.Builder
 		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, info.ProblemFile, info.Seed, r.Design.Index)
 		for i, o := range spec.Objectives {
-			v := r.Design.F[i]
-			if o.Maximize {
-				v = -v
-			}
-			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, v)
+			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, o.Natural(r.Design.F[i]))
 		}
 		b.WriteString("Check it with: plica check THIS_FILE\n")
 		b.WriteString(Caution)

@@ -1,7 +1,10 @@
 // Package results reads and writes run folders: the resolved problem, the
-// evaluation archive, the front as CSV and as design files, checkpoints,
-// front indicators, comparisons, merges and picks, plots, the HTML report
-// and the built-in verification cases.
+// evaluation archive, the front as CSV and as design files, checkpoints and
+// run.json. Execute runs a search into a folder with a progress bar; Merge
+// joins island runs, Compare measures fronts against each other and Pick
+// chooses designs of a front. Every file is written through WriteAtomic.
+// The report and its figures are package results/report, the built-in
+// verification cases package results/verify.
 //
 // A run folder holds:
 //

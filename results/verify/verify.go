@@ -1,4 +1,9 @@
-package results
+// Package verify holds plica's built-in verification cases: values that the
+// production code of kinematics, statics, surrogate, stability, calibration,
+// front indicators and search computes, each beside the published (or
+// derived) value it must match, its tolerance and its source. plica verify
+// prints them and TestVerificationCases runs them.
+package verify
 
 import (
 	"context"
@@ -11,6 +16,10 @@ import (
 	"plica/objective/kinematics"
 	"plica/search"
 	"plica/surrogate"
+
+	"plica/search/front"
+
+	"plica/objective/statics"
 )
 
 // Case is one built-in verification case: a value plica computes with its
@@ -50,9 +59,9 @@ type caseDef struct {
 	slow             bool
 }
 
-// Verify runs the built-in verification cases. With quick, the slow cases
+// Run runs the built-in verification cases. With quick, the slow cases
 // (a full NSGA-II run) are left out.
-func Verify(quick bool) []Case {
+func Run(quick bool) []Case {
 	var out []Case
 	for _, d := range caseDefs {
 		if quick && d.slow {
@@ -72,13 +81,13 @@ func isoTube(ls, lc, kappa, ei, gj float64) kinematics.Tube {
 
 // elastica solves a straight cantilever (EI = 1, L = 1) under a dead tip
 // load α perpendicular to it.
-func elastica(alpha float64) (*kinematics.Shape, error) {
+func elastica(alpha float64) (*statics.Shape, error) {
 	r := &kinematics.Robot{Tubes: []kinematics.Tube{isoTube(1, 0, 0, 1, 1)}}
 	links, err := r.Links(kinematics.Actuation{Theta: []float64{0}, Beta: []float64{0}}, nil)
 	if err != nil {
 		return nil, err
 	}
-	return kinematics.SolveStatics(links, kinematics.Load{TipForce: [3]float64{0, alpha, 0}}, nil)
+	return statics.Solve(links, statics.Load{TipForce: [3]float64{0, alpha, 0}}, nil)
 }
 
 var caseDefs = []caseDef{
@@ -211,17 +220,17 @@ var caseDefs = []caseDef{
 	{"indicators", "hypervolume {(1,3),(2,2),(3,1)} at (4,4)", "", 6, 1e-12, false,
 		"derived by strips 3·1 + 2·1 + 1·1; SEARCH.md §5.1",
 		func() (float64, error) {
-			return search.Hypervolume([][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4}), nil
+			return front.Hypervolume([][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4}), nil
 		}, false},
 	{"indicators", "hypervolume {(1,2,3),(2,3,1),(3,1,2),(2,2,2)} at (4,4,4)", "", 14, 1e-12, false,
 		"derived by inclusion–exclusion; SEARCH.md §5.1",
 		func() (float64, error) {
-			return search.Hypervolume([][]float64{{1, 2, 3}, {2, 3, 1}, {3, 1, 2}, {2, 2, 2}}, []float64{4, 4, 4}), nil
+			return front.Hypervolume([][]float64{{1, 2, 3}, {2, 3, 1}, {3, 1, 2}, {2, 2, 2}}, []float64{4, 4, 4}), nil
 		}, false},
 	{"indicators", "hypervolume {(1,2,3,4),(4,3,2,1),(2,2,2,2)} at (5,5,5,5) (WFG)", "", 93, 1e-12, false,
 		"derived by inclusion–exclusion; SEARCH.md §5.1",
 		func() (float64, error) {
-			return search.Hypervolume([][]float64{{1, 2, 3, 4}, {4, 3, 2, 1}, {2, 2, 2, 2}}, []float64{5, 5, 5, 5}), nil
+			return front.Hypervolume([][]float64{{1, 2, 3, 4}, {4, 3, 2, 1}, {2, 2, 2, 2}}, []float64{5, 5, 5, 5}), nil
 		}, false},
 	{"search", "Nelder–Mead on Rosenbrock from (−1.2, 1): distance to (1, 1)", "", 0, 1e-6, false,
 		"Rosenbrock's minimum (1, 1); gonum optimize v0.17.0 Nelder–Mead",
@@ -245,12 +254,12 @@ var caseDefs = []caseDef{
 			for _, d := range res.Front {
 				pts = append(pts, d.F)
 			}
-			return search.Hypervolume(pts, []float64{1, 1}), nil
+			return front.Hypervolume(pts, []float64{1, 1}), nil
 		}, true},
 }
 
-// FormatCase renders one case as a row of values for a table.
-func FormatCase(c Case) []string {
+// Row renders one case as a row of values for a table.
+func (c Case) Row() []string {
 	tol := fmt.Sprintf("±%.3g", c.Tolerance)
 	if c.Relative {
 		tol = fmt.Sprintf("±%.3g rel", c.Tolerance)

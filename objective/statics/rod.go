@@ -1,17 +1,19 @@
-package kinematics
+package statics
 
 import (
 	"errors"
 	"fmt"
 	"math"
+
+	"plica/objective/kinematics"
 )
 
 // Prepared rod, RK4 integration of (4.1), and the unloaded-shape passes
 // behind the initial guess and the linear estimate (PHYSICS.md §4).
 
-// stSeg is one integration piece: a link, or part of a link between point
+// segment is one integration piece: a link, or part of a link between point
 // forces. Loads and stiffness are constant on it.
-type stSeg struct {
+type segment struct {
 	a, b  float64       // arc-length interval, m
 	steps int           // RK4 steps
 	us    [3]float64    // precurvature u* (the link's U), 1/m
@@ -21,12 +23,12 @@ type stSeg struct {
 	jump  [3]float64    // Σ point forces applied at b (interior), N
 }
 
-// stRod is a validated rod with its (possibly scaled) load.
-type stRod struct {
-	links        []Link
+// rod is a validated rod with its (possibly scaled) load.
+type rod struct {
+	links        []kinematics.Link
 	load         Load
 	factor       float64 // load factor (continuation)
-	segs         []stSeg
+	segs         []segment
 	length       float64
 	tipF, tipM   [3]float64 // dead tip loads incl. point forces at s = L, base frame
 	folF, folM   [3]float64 // follower tip loads, tip body frame
@@ -35,9 +37,9 @@ type stRod struct {
 	integrations int
 }
 
-// newStRod validates links and load, scales the load by factor, and builds
+// newRod validates links and load, scales the load by factor, and builds
 // the integration grid (steps, when non-nil, overrides the step counts).
-func newStRod(links []Link, load Load, factor float64, cfg staticsConfig, steps []int) (*stRod, error) {
+func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig, steps []int) (*rod, error) {
 	if len(links) == 0 {
 		return nil, errors.New("kinematics: statics: no links")
 	}
@@ -49,29 +51,29 @@ func newStRod(links []Link, load Load, factor float64, cfg staticsConfig, steps 
 	if math.Abs(links[0].Start) > tol {
 		return nil, fmt.Errorf("kinematics: statics: first link starts at %g m (expected 0)", links[0].Start)
 	}
-	r := &stRod{links: links, load: load, factor: factor, length: L}
+	r := &rod{links: links, load: load, factor: factor, length: L}
 	vecs := [][3]float64{load.TipForce, load.TipMoment, load.Gravity, load.FollowerForce, load.FollowerMoment}
 	for _, v := range vecs {
-		if !stFinite(v) {
+		if !finite3(v) {
 			return nil, fmt.Errorf("kinematics: statics: load %v is not finite", v)
 		}
 	}
 	for k, pf := range load.PointForces {
-		if !stFinite(pf.Force) || math.IsNaN(pf.S) {
+		if !finite3(pf.Force) || math.IsNaN(pf.S) {
 			return nil, fmt.Errorf("kinematics: statics: point force %d is not finite", k+1)
 		}
 		if pf.S <= tol || pf.S > L+tol {
 			return nil, fmt.Errorf("kinematics: statics: point force %d at s = %g m (expected 0 < s ≤ %g m)", k+1, pf.S, L)
 		}
 	}
-	r.tipF = stScale(load.TipForce, factor)
-	r.tipM = stScale(load.TipMoment, factor)
-	r.folF = stScale(load.FollowerForce, factor)
-	r.folM = stScale(load.FollowerMoment, factor)
+	r.tipF = scale3(load.TipForce, factor)
+	r.tipM = scale3(load.TipMoment, factor)
+	r.folF = scale3(load.FollowerForce, factor)
+	r.folM = scale3(load.FollowerMoment, factor)
 	r.follower = load.FollowerForce != [3]float64{} || load.FollowerMoment != [3]float64{}
 
 	eiMin := math.Inf(1)
-	total := stNorm(r.tipF) + stNorm(r.folF) + (stNorm(r.tipM)+stNorm(r.folM))/L
+	total := norm3(r.tipF) + norm3(r.folF) + (norm3(r.tipM)+norm3(r.folM))/L
 	for j, lk := range links {
 		if j > 0 && math.Abs(lk.Start-links[j-1].End) > tol {
 			return nil, fmt.Errorf("kinematics: statics: link %d starts at %g m but link %d ends at %g m (expected contiguous links)", j+1, lk.Start, j, links[j-1].End)
@@ -80,26 +82,26 @@ func newStRod(links []Link, load Load, factor float64, cfg staticsConfig, steps 
 		if !(l > 0) {
 			return nil, fmt.Errorf("kinematics: statics: link %d has length %g m (expected > 0)", j+1, l)
 		}
-		kinv, ok := stInvSPD(lk.K)
-		if !ok || !stFinite(lk.U) || !(lk.MassPerLength >= 0) {
+		kinv, ok := invertSPD(lk.K)
+		if !ok || !finite3(lk.U) || !(lk.MassPerLength >= 0) {
 			return nil, fmt.Errorf("kinematics: statics: link %d: stiffness %v N·m² must be symmetric positive definite, U finite and MassPerLength ≥ 0", j+1, lk.K)
 		}
 		eiMin = math.Min(eiMin, math.Min(lk.K[0][0], lk.K[1][1]))
-		f := stScale(load.Gravity, lk.MassPerLength*factor)
-		total += stNorm(f) * l
+		f := scale3(load.Gravity, lk.MassPerLength*factor)
+		total += norm3(f) * l
 		// Split the link at interior point forces.
 		cuts := []float64{lk.Start}
 		for _, pf := range load.PointForces {
 			if pf.S > lk.Start+tol && pf.S < lk.End-tol {
-				cuts = stInsertSorted(cuts, pf.S)
+				cuts = insertSorted(cuts, pf.S)
 			}
 		}
 		cuts = append(cuts, lk.End)
 		for c := 0; c+1 < len(cuts); c++ {
-			sg := stSeg{a: cuts[c], b: cuts[c+1], us: lk.U, kinv: kinv, f: f}
+			sg := segment{a: cuts[c], b: cuts[c+1], us: lk.U, kinv: kinv, f: f}
 			ls := sg.b - sg.a
 			n := math.Max(math.Ceil(float64(cfg.minSteps)*ls/l), math.Ceil(float64(cfg.resolution)*ls/L))
-			n = math.Max(n, math.Ceil(ls*stNorm(lk.U)/cfg.maxAngle))
+			n = math.Max(n, math.Ceil(ls*norm3(lk.U)/cfg.maxAngle))
 			sg.steps = max(int(n), 1)
 			r.segs = append(r.segs, sg)
 		}
@@ -115,10 +117,10 @@ func newStRod(links []Link, load Load, factor float64, cfg staticsConfig, steps 
 	// Point forces: at s = L they join the tip force; inside they are jumps
 	// of n at the end of the segment they close.
 	for _, pf := range load.PointForces {
-		F := stScale(pf.Force, factor)
-		total += stNorm(F)
+		F := scale3(pf.Force, factor)
+		total += norm3(F)
 		if pf.S >= L-tol {
-			r.tipF = stAdd(r.tipF, F)
+			r.tipF = add(r.tipF, F)
 			continue
 		}
 		best, bestD := 0, math.Inf(1)
@@ -127,21 +129,21 @@ func newStRod(links []Link, load Load, factor float64, cfg staticsConfig, steps 
 				best, bestD = i, d
 			}
 		}
-		r.segs[best].jump = stAdd(r.segs[best].jump, F)
+		r.segs[best].jump = add(r.segs[best].jump, F)
 	}
 	// Dead-load internal force: n(s) = F_tip + Σ_{s_k > s} F_k + ∫_s^L f.
 	n := r.tipF
 	for i := len(r.segs) - 1; i >= 0; i-- {
 		sg := &r.segs[i]
-		n = stAdd(n, sg.jump)
+		n = add(n, sg.jump)
 		sg.nEnd = n
-		n = stAdd(n, stScale(sg.f, sg.b-sg.a))
+		n = add(n, scale3(sg.f, sg.b-sg.a))
 	}
 	r.fRef = math.Max(total, eiMin/(L*L))
 	return r, nil
 }
 
-func (r *stRod) steps() []int {
+func (r *rod) steps() []int {
 	s := make([]int, len(r.segs))
 	for i, sg := range r.segs {
 		s[i] = sg.steps
@@ -152,12 +154,12 @@ func (r *stRod) steps() []int {
 // ---------------------------------------------------------------------------
 // Integration.
 
-// stState is y = [p(3), R(9, row-major), n(3), m(3)].
-type stState [18]float64
+// state is y = [p(3), R(9, row-major), n(3), m(3)].
+type state [18]float64
 
 // deriv evaluates (4.1) on segment sg at arc length s. With dead set, n is
 // the explicit dead-load force and is not integrated.
-func (sg *stSeg) deriv(y, dy *stState, s float64, dead bool) {
+func (sg *segment) deriv(y, dy *state, s float64, dead bool) {
 	var n0, n1, n2 float64
 	if dead {
 		t := sg.b - s
@@ -194,10 +196,10 @@ func (sg *stSeg) deriv(y, dy *stState, s float64, dead bool) {
 	dy[17] = t1*n0 - t0*n1
 }
 
-// stOrthonormalize replaces R by the nearest rotation to second order in
+// orthonormalize replaces R by the nearest rotation to second order in
 // its departure from orthogonality: R ← R (3I − RᵀR)/2 (one Newton step of
 // the polar decomposition [derived; common practice]).
-func stOrthonormalize(y *stState) {
+func orthonormalize(y *state) {
 	var a [3][3]float64 // RᵀR
 	for i := range 3 {
 		for j := i; j < 3; j++ {
@@ -221,9 +223,9 @@ func stOrthonormalize(y *stState) {
 
 // integrate carries y from s = 0 to the tip. With rec set it appends every
 // node to *rec. It returns false if the state became non-finite.
-func (r *stRod) integrate(y *stState, dead bool, rec *[]ShapeSample) bool {
+func (r *rod) integrate(y *state, dead bool, rec *[]ShapeSample) bool {
 	r.integrations++
-	var k1, k2, k3, k4, yt stState
+	var k1, k2, k3, k4, yt state
 	for si := range r.segs {
 		sg := &r.segs[si]
 		h := (sg.b - sg.a) / float64(sg.steps)
@@ -248,7 +250,7 @@ func (r *stRod) integrate(y *stState, dead bool, rec *[]ShapeSample) bool {
 			for i := range y {
 				y[i] += h / 6 * (k1[i] + 2*(k2[i]+k3[i]) + k4[i])
 			}
-			stOrthonormalize(y)
+			orthonormalize(y)
 			s = sg.a + float64(k+1)*h
 			if rec != nil {
 				*rec = append(*rec, sg.sample(y, s))
@@ -268,8 +270,8 @@ func (r *stRod) integrate(y *stState, dead bool, rec *[]ShapeSample) bool {
 	return true
 }
 
-func (sg *stSeg) sample(y *stState, s float64) ShapeSample {
-	smp := ShapeSample{S: s, Pose: stPose(y)}
+func (sg *segment) sample(y *state, s float64) ShapeSample {
+	smp := ShapeSample{S: s, Pose: poseOf(y)}
 	m := [3]float64{y[15], y[16], y[17]}
 	for i := range 3 {
 		var bi float64
@@ -280,12 +282,12 @@ func (sg *stSeg) sample(y *stState, s float64) ShapeSample {
 			smp.U[j] += sg.kinv[j][i] * bi
 		}
 	}
-	smp.U = stAdd(smp.U, sg.us)
+	smp.U = add(smp.U, sg.us)
 	return smp
 }
 
-func stPose(y *stState) Pose {
-	var p Pose
+func poseOf(y *state) kinematics.Pose {
+	var p kinematics.Pose
 	p.P = [3]float64{y[0], y[1], y[2]}
 	for i := range 3 {
 		for j := range 3 {
@@ -295,8 +297,8 @@ func stPose(y *stState) Pose {
 	return p
 }
 
-func stInitial(n, m [3]float64) stState {
-	var y stState
+func initialState(n, m [3]float64) state {
+	var y state
 	y[3], y[7], y[11] = 1, 1, 1
 	copy(y[12:15], n[:])
 	copy(y[15:18], m[:])
@@ -305,7 +307,7 @@ func stInitial(n, m [3]float64) stState {
 
 // tipLoads returns the total tip force and moment, base frame, for tip
 // rotation R (row-major in y).
-func (r *stRod) tipLoads(y *stState) (F, M [3]float64) {
+func (r *rod) tipLoads(y *state) (F, M [3]float64) {
 	F, M = r.tipF, r.tipM
 	if r.follower {
 		for i := range 3 {
@@ -319,17 +321,17 @@ func (r *stRod) tipLoads(y *stState) (F, M [3]float64) {
 }
 
 // deadBaseForce is the explicit n(0) of the dead-load shortcut.
-func (r *stRod) deadBaseForce() [3]float64 {
+func (r *rod) deadBaseForce() [3]float64 {
 	sg := &r.segs[0]
-	return stAdd(sg.nEnd, stScale(sg.f, sg.b-sg.a))
+	return add(sg.nEnd, scale3(sg.f, sg.b-sg.a))
 }
 
 // residual integrates from the scaled unknowns x (dim 3: m(0)/(F_ref L);
 // dim 6: n(0)/F_ref and m(0)/(F_ref L)) and writes the scaled tip residual.
 // With rec set the nodes are recorded into *rec (reset first).
-func (r *stRod) residual(x *[6]float64, dim int, out *[6]float64, rec *[]ShapeSample) bool {
+func (r *rod) residual(x *[6]float64, dim int, out *[6]float64, rec *[]ShapeSample) bool {
 	n, m := r.unscale(x, dim)
-	y := stInitial(n, m)
+	y := initialState(n, m)
 	dead := dim == 3
 	if rec != nil {
 		*rec = (*rec)[:0]
@@ -352,7 +354,7 @@ func (r *stRod) residual(x *[6]float64, dim int, out *[6]float64, rec *[]ShapeSa
 	return true
 }
 
-func (r *stRod) unscale(x *[6]float64, dim int) (n, m [3]float64) {
+func (r *rod) unscale(x *[6]float64, dim int) (n, m [3]float64) {
 	ms := r.fRef * r.length
 	if dim == 3 {
 		return r.deadBaseForce(), [3]float64{x[0] * ms, x[1] * ms, x[2] * ms}
@@ -364,7 +366,7 @@ func (r *stRod) unscale(x *[6]float64, dim int) (n, m [3]float64) {
 	return n, m
 }
 
-func (r *stRod) scale(n, m [3]float64, dim int) (x [6]float64) {
+func (r *rod) scale(n, m [3]float64, dim int) (x [6]float64) {
 	ms := 1 / (r.fRef * r.length)
 	if dim == 3 {
 		for i := range 3 {
@@ -386,7 +388,7 @@ func (r *stRod) scale(n, m [3]float64, dim int) (x [6]float64) {
 // z[12:15] m(s) along the unloaded shape (m' = −p' × n, n dead and
 // explicit, plus nx), z[15:18] ∫ RΔu, z[18:21] ∫ (RΔu) × p, and
 // z[21:24] ∫ p × f. Δu = K⁻¹Rᵀm.
-func (sg *stSeg) linDeriv(z, dz *[24]float64, s float64, nx [3]float64) {
+func (sg *segment) linDeriv(z, dz *[24]float64, s float64, nx [3]float64) {
 	t := sg.b - s
 	n0 := sg.nEnd[0] + sg.f[0]*t + nx[0]
 	n1 := sg.nEnd[1] + sg.f[1]*t + nx[1]
@@ -428,7 +430,7 @@ func (sg *stSeg) linDeriv(z, dz *[24]float64, s float64, nx [3]float64) {
 // unloadedPass integrates the unloaded shape from m(0) = m0 with extra
 // dead force nx and returns the final extended state; point-force moments
 // Σ p(s_k) × F_k are added to z[21:24].
-func (r *stRod) unloadedPass(m0, nx [3]float64) [24]float64 {
+func (r *rod) unloadedPass(m0, nx [3]float64) [24]float64 {
 	r.integrations++
 	var z, k1, k2, k3, k4, zt [24]float64
 	z[3], z[7], z[11] = 1, 1, 1
@@ -454,13 +456,13 @@ func (r *stRod) unloadedPass(m0, nx [3]float64) [24]float64 {
 			for i := range z {
 				z[i] += h / 6 * (k1[i] + 2*(k2[i]+k3[i]) + k4[i])
 			}
-			var y stState
+			var y state
 			copy(y[:12], z[:12])
-			stOrthonormalize(&y)
+			orthonormalize(&y)
 			copy(z[:12], y[:12])
 			s = sg.a + float64(k+1)*h
 		}
-		c := stCross([3]float64{z[0], z[1], z[2]}, sg.jump)
+		c := cross([3]float64{z[0], z[1], z[2]}, sg.jump)
 		z[21] += c[0]
 		z[22] += c[1]
 		z[23] += c[2]
@@ -472,56 +474,56 @@ func (r *stRod) unloadedPass(m0, nx [3]float64) [24]float64 {
 // loads n(0), m(0) that balance every load applied to it (PHYSICS.md
 // §4.2), and the extra dead force standing for the follower force at the
 // unloaded tip orientation.
-func (r *stRod) rigidGuess() (n0, m0, nx [3]float64) {
+func (r *rod) rigidGuess() (n0, m0, nx [3]float64) {
 	z := r.unloadedPass([3]float64{}, [3]float64{})
-	var y stState
+	var y state
 	copy(y[:12], z[:12])
 	F, M := r.tipLoads(&y)
-	nx = stSub(F, r.tipF)
+	nx = sub(F, r.tipF)
 	pL := [3]float64{z[0], z[1], z[2]}
-	m0 = stAdd(stAdd(M, stCross(pL, F)), [3]float64{z[21], z[22], z[23]})
-	n0 = stAdd(r.deadBaseForce(), nx)
+	m0 = add(add(M, cross(pL, F)), [3]float64{z[21], z[22], z[23]})
+	n0 = add(r.deadBaseForce(), nx)
 	return n0, m0, nx
 }
 
 // quickGuess is rigidGuess on the closed-form unloaded shape (the link
 // transforms of PHYSICS.md §3.3), with ∫ p × f by Simpson's rule on each
 // piece: cheaper than an RK4 pass and accurate enough for a starting point.
-func (r *stRod) quickGuess() (n0, m0 [3]float64) {
-	T := Identity()
+func (r *rod) quickGuess() (n0, m0 [3]float64) {
+	T := kinematics.Identity()
 	var a [3]float64 // ∫ p × f ds + Σ p(s_k) × F_k
 	for i := range r.segs {
 		sg := &r.segs[i]
 		l := sg.b - sg.a
-		mid := T.Mul(LinkTransform(sg.us, l/2)).P
-		end := T.Mul(LinkTransform(sg.us, l))
+		mid := T.Mul(kinematics.LinkTransform(sg.us, l/2)).P
+		end := T.Mul(kinematics.LinkTransform(sg.us, l))
 		if sg.f != [3]float64{} {
 			var ps [3]float64
 			for j := range 3 {
 				ps[j] = l / 6 * (T.P[j] + 4*mid[j] + end.P[j])
 			}
-			a = stAdd(a, stCross(ps, sg.f))
+			a = add(a, cross(ps, sg.f))
 		}
-		a = stAdd(a, stCross(end.P, sg.jump))
+		a = add(a, cross(end.P, sg.jump))
 		T = end
 	}
-	var y stState
+	var y state
 	for i := range 3 {
 		for j := range 3 {
 			y[3+3*i+j] = T.R[i][j]
 		}
 	}
 	F, M := r.tipLoads(&y)
-	m0 = stAdd(stAdd(M, stCross(T.P, F)), a)
-	n0 = stAdd(r.deadBaseForce(), stSub(F, r.tipF))
+	m0 = add(add(M, cross(T.P, F)), a)
+	n0 = add(r.deadBaseForce(), sub(F, r.tipF))
 	return n0, m0
 }
 
-func (r *stRod) linear() (dp, dphi [3]float64) {
+func (r *rod) linear() (dp, dphi [3]float64) {
 	_, m0, nx := r.rigidGuess()
 	z := r.unloadedPass(m0, nx)
 	dphi = [3]float64{z[15], z[16], z[17]}
 	pL := [3]float64{z[0], z[1], z[2]}
-	dp = stSub(stCross(dphi, pL), [3]float64{z[18], z[19], z[20]})
+	dp = sub(cross(dphi, pL), [3]float64{z[18], z[19], z[20]})
 	return dp, dphi
 }

@@ -1,4 +1,4 @@
-package results
+package report
 
 // The cantilever bench-fit figure of "plica calibrate -plot", drawn with
 // gonum/plot like the run figures (plots.go).
@@ -18,6 +18,8 @@ import (
 	"gonum.org/v1/plot/vg/vgsvg"
 
 	"plica/surrogate"
+
+	"plica/results"
 )
 
 // CalibrationPanel is one bending axis of a cantilever bench fit to plot:
@@ -34,33 +36,33 @@ type CalibrationPanel struct {
 
 // Size of one panel and of the title strip above the panels.
 const (
-	calPanelW     = vg.Length(400) // points
-	calPanelH     = vg.Length(330)
-	calTitleH     = vg.Length(24)
-	calBandPoints = 41 // samples of each fitted line and band
+	panelW     = vg.Length(400) // points
+	panelH     = vg.Length(330)
+	titleH     = vg.Length(24)
+	bandPoints = 41 // samples of each fitted line and band
 )
 
-// calColors are the curve colours (one per free length or setup); the band
+// curveColors are the curve colours (one per free length or setup); the band
 // of a curve is its colour at 25 % opacity.
-var calColors = []color.NRGBA{
+var curveColors = []color.NRGBA{
 	{R: 0x1f, G: 0x77, B: 0xb4, A: 0xff}, {R: 0xd6, G: 0x27, B: 0x28, A: 0xff},
 	{R: 0x2c, G: 0xa0, B: 0x2c, A: 0xff}, {R: 0x94, G: 0x67, B: 0xbd, A: 0xff},
 	{R: 0xff, G: 0x7f, B: 0x0e, A: 0xff}, {R: 0x8c, G: 0x56, B: 0x4b, A: 0xff},
 	{R: 0x17, G: 0xbe, B: 0xcf, A: 0xff}, {R: 0x7f, G: 0x7f, B: 0x7f, A: 0xff},
 }
 
-// calCurve is one fitted line: a free length and, with an intercept, a
+// curve is one fitted line: a free length and, with an intercept, a
 // setup.
-type calCurve struct {
+type curve struct {
 	label  string
 	length float64
 	setup  int
 	pts    plotter.XYs // measured points, N and mm
 }
 
-func (p *CalibrationPanel) curves() []*calCurve {
-	var cs []*calCurve
-	index := map[[2]float64]*calCurve{}
+func (p *CalibrationPanel) curves() []*curve {
+	var cs []*curve
+	index := map[[2]float64]*curve{}
 	withOffsets := p.Fit.Offsets != nil
 	for _, pt := range p.Points {
 		key := [2]float64{pt.FreeLength, -1}
@@ -73,7 +75,7 @@ func (p *CalibrationPanel) curves() []*calCurve {
 		}
 		c, ok := index[key]
 		if !ok {
-			c = &calCurve{label: label, length: pt.FreeLength, setup: pt.Setup}
+			c = &curve{label: label, length: pt.FreeLength, setup: pt.Setup}
 			index[key] = c
 			cs = append(cs, c)
 		}
@@ -90,7 +92,7 @@ func (p *CalibrationPanel) plot() (*plot.Plot, error) {
 	f := p.Fit
 	pl := plot.New()
 	pl.Title.Text = fmt.Sprintf("%s\nEI = %s N·mm², 95 %% interval [%s, %s], R² = %.4f",
-		p.Title, calNum(f.EI*1e6), calNum(f.CI[0]*1e6), calNum(f.CI[1]*1e6), f.R2)
+		p.Title, stiffnessText(f.EI*1e6), stiffnessText(f.CI[0]*1e6), stiffnessText(f.CI[1]*1e6), f.R2)
 	pl.X.Label.Text = "tip load (N)"
 	pl.Y.Label.Text = "tip deflection (mm)"
 	pl.Add(plotter.NewGrid())
@@ -104,21 +106,21 @@ func (p *CalibrationPanel) plot() (*plot.Plot, error) {
 	}
 	pl.X.Min = 0
 	for k, c := range p.curves() {
-		col := calColors[k%len(calColors)]
+		col := curveColors[k%len(curveColors)]
 		band := col
 		band.A = 0x40
-		line := make(plotter.XYs, calBandPoints)
-		upper := make(plotter.XYs, calBandPoints)
-		lower := make(plotter.XYs, calBandPoints)
-		for j := range calBandPoints {
-			load := pMax * float64(j) / (calBandPoints - 1)
+		line := make(plotter.XYs, bandPoints)
+		upper := make(plotter.XYs, bandPoints)
+		lower := make(plotter.XYs, bandPoints)
+		for j := range bandPoints {
+			load := pMax * float64(j) / (bandPoints - 1)
 			mean, half := f.Band(load, c.length, c.setup)
 			if math.IsNaN(mean) || math.IsNaN(half) {
 				return nil, fmt.Errorf("calibration plot: %s: the fit has no coefficients", p.Title)
 			}
 			line[j] = plotter.XY{X: load, Y: mean * 1e3}
 			upper[j] = plotter.XY{X: load, Y: (mean + half) * 1e3}
-			lower[calBandPoints-1-j] = plotter.XY{X: load, Y: (mean - half) * 1e3}
+			lower[bandPoints-1-j] = plotter.XY{X: load, Y: (mean - half) * 1e3}
 		}
 		poly, err := plotter.NewPolygon(append(upper, lower...))
 		if err != nil {
@@ -160,14 +162,14 @@ func CalibrationSVG(w io.Writer, title string, panels []CalibrationPanel) error 
 		}
 		row[i] = p
 	}
-	width, height := calPanelW*vg.Length(len(panels)), calPanelH+calTitleH
+	width, height := panelW*vg.Length(len(panels)), panelH+titleH
 	c := vgsvg.New(width, height)
 	dc := draw.New(c)
 	ts := row[0].Title.TextStyle
 	ts.XAlign, ts.YAlign = draw.XCenter, draw.YCenter
 	ts.Font.Size = vg.Points(14)
-	dc.FillText(ts, vg.Point{X: width / 2, Y: height - calTitleH/2}, title)
-	body := draw.Crop(dc, 0, 0, 0, -calTitleH)
+	dc.FillText(ts, vg.Point{X: width / 2, Y: height - titleH/2}, title)
+	body := draw.Crop(dc, 0, 0, 0, -titleH)
 	tiles := draw.Tiles{Rows: 1, Cols: len(panels), PadX: vg.Points(12), PadTop: vg.Points(4), PadBottom: vg.Points(4),
 		PadLeft: vg.Points(4), PadRight: vg.Points(8)}
 	cs := plot.Align([][]*plot.Plot{row}, tiles, body)
@@ -190,12 +192,12 @@ func WriteCalibrationPlot(path, title string, panels []CalibrationPanel) error {
 	if err := CalibrationSVG(&b, title, panels); err != nil {
 		return err
 	}
-	return WriteAtomic(path, b.Bytes())
+	return results.WriteAtomic(path, b.Bytes())
 }
 
-// calNum prints a stiffness with at least five significant digits, "∞"
+// stiffnessText prints a stiffness with at least five significant digits, "∞"
 // for an interval the data leave open.
-func calNum(x float64) string {
+func stiffnessText(x float64) string {
 	if math.IsInf(x, 1) {
 		return "∞"
 	}

@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"bytes"
@@ -8,6 +8,8 @@ import (
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
 	"gonum.org/v1/plot/vg/vgsvg"
+
+	"plica/results"
 )
 
 // SVG renders a gonum plot as SVG bytes of the given size.
@@ -27,7 +29,7 @@ func SaveSVG(p *plot.Plot, w, h vg.Length, path string) error {
 	if err != nil {
 		return err
 	}
-	return WriteAtomic(path, b)
+	return results.WriteAtomic(path, b)
 }
 
 func drawCanvas(c *vgsvg.Canvas) draw.Canvas { return draw.New(c) }

@@ -1,25 +1,27 @@
-package kinematics_test
+package statics_test
 
 import (
 	"fmt"
 
 	"plica/objective/kinematics"
+
+	"plica/objective/statics"
 )
 
 // A straight cantilever (L = 0.3 m, EI = 0.02 N·m²) under a dead tip force
 // perpendicular to it with PL²/EI = 1: the large-deflection solution is the
 // elastica of Bisshopp & Drucker (1945), δ/L = 0.3017; the small-load linear
 // estimate PL³/3EI overshoots by about 10 %.
-func ExampleSolveStatics() {
+func ExampleSolve() {
 	const L, EI = 0.3, 0.02
 	links := []kinematics.Link{{Start: 0, End: L, K: [3][3]float64{{EI, 0, 0}, {0, EI, 0}, {0, 0, EI / 1.3}}}}
-	load := kinematics.Load{TipForce: [3]float64{EI / (L * L), 0, 0}}
-	shape, err := kinematics.SolveStatics(links, load, nil)
+	load := statics.Load{TipForce: [3]float64{EI / (L * L), 0, 0}}
+	shape, err := statics.Solve(links, load, nil)
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	dp, _, err := kinematics.LinearTipDeflection(links, load)
+	dp, _, err := statics.LinearTipDeflection(links, load)
 	if err != nil {
 		fmt.Println(err)
 		return
@@ -36,7 +38,7 @@ func ExampleSolveStatics() {
 // gravity acts along −x of the base frame. The rod pulls on the base with
 // the weight in front of the base plane, 9.81·(0.20·0.015 + 0.15·0.03) =
 // 0.0736 N.
-func ExampleRobot_TipSag() {
+func ExampleRobotTipSag() {
 	r := &kinematics.Robot{Tubes: []kinematics.Tube{
 		{StraightLength: 0.35, CurvedLength: 0.10, Precurvature: [2]float64{0, 10},
 			Bending: [2][2]float64{{0.004, 0}, {0, 0.004}}, Torsion: 0.003, LinearDensity: 0.015},
@@ -44,7 +46,7 @@ func ExampleRobot_TipSag() {
 			Bending: [2][2]float64{{0.012, 0}, {0, 0.008}}, Torsion: 0.009, LinearDensity: 0.03},
 	}}
 	a := kinematics.Actuation{Theta: []float64{0, 0}, Beta: []float64{-0.25, -0.10}}
-	sag, shape, err := r.TipSag(a, kinematics.Load{Gravity: [3]float64{-9.81, 0, 0}}, nil)
+	sag, shape, err := statics.RobotTipSag(r, a, statics.Load{Gravity: [3]float64{-9.81, 0, 0}}, nil)
 	if err != nil {
 		fmt.Println(err)
 		return

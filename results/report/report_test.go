@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"bytes"
@@ -15,6 +15,8 @@ import (
 	"github.com/stretchr/testify/require"
 
 	"plica/objective"
+
+	"plica/results"
 )
 
 // htmlElement is one element of the report.
@@ -92,15 +94,15 @@ func assertSelfContained(t *testing.T, page string, els []htmlElement) {
 
 func TestReport(t *testing.T) {
 	f := fixtureRun(t, 120)
-	r, err := LoadReportData(f)
+	r, err := Load(f)
 	require.NoError(t, err)
 	checkText := func(name string, res *objective.Result) string {
 		return "CHECK OUTPUT FOR " + name
 	}
-	rep, err := f.WriteReport("", ReportOptions{CheckText: checkText})
+	rep, err := Write(f, "", Options{CheckText: checkText})
 	require.NoError(t, err)
 	assert.Empty(t, rep.Problems, "every part of the report is built")
-	page := readFile(t, f.Path(ReportFile))
+	page := readFile(t, f.Path(File))
 	assert.Equal(t, string(rep.HTML), page, "written report")
 	els := parseReport(t, []byte(page))
 	assertSelfContained(t, page, els)
@@ -117,8 +119,8 @@ func TestReport(t *testing.T) {
 	assert.Equal(t, want, rep.Designs, "designs shown by default")
 
 	// cautions
-	assert.Contains(t, page, Caution, "caution")
-	for _, c := range ReportCautions {
+	assert.Contains(t, page, results.Caution, "caution")
+	for _, c := range Cautions {
 		assert.Contains(t, page, c, "report caution")
 	}
 
@@ -152,7 +154,7 @@ func TestReport(t *testing.T) {
 	// chosen designs: a check table with every check, and the full check output
 	for _, id := range rep.Designs {
 		assert.True(t, findID(els, fmt.Sprintf("design-%d", id)), "section of design %d", id)
-		assert.Contains(t, page, "CHECK OUTPUT FOR "+DesignFileName(id), "check output of design %d", id)
+		assert.Contains(t, page, "CHECK OUTPUT FOR "+results.DesignFileName(id), "check output of design %d", id)
 	}
 	tables := regexp.MustCompile(`(?s)<table class="checks">(.*?)</table>`).FindAllStringSubmatch(page, -1)
 	require.Len(t, tables, len(rep.Designs), "one check table per design")
@@ -164,11 +166,11 @@ func TestReport(t *testing.T) {
 
 func TestReportRequestedDesigns(t *testing.T) {
 	f := fixtureRun(t, 72)
-	r, err := LoadReportData(f)
+	r, err := Load(f)
 	require.NoError(t, err)
 	last := r.Front[len(r.Front)-1].ID
 	out := f.Path("elsewhere.html")
-	rep, err := f.WriteReport(out, ReportOptions{Designs: []int{last}})
+	rep, err := Write(f, out, Options{Designs: []int{last}})
 	require.NoError(t, err)
 	assert.Equal(t, []int{last}, rep.Designs)
 	page := readFile(t, out)
@@ -177,9 +179,9 @@ func TestReportRequestedDesigns(t *testing.T) {
 	assert.Equal(t, 1, strings.Count(page, `<section id="design-`), "only the requested design")
 	assert.Contains(t, page, "requested")
 	assert.FileExists(t, f.Path(fmt.Sprintf("%s/backbone-%03d.svg", PlotsDir, last)))
-	assert.NoFileExists(t, f.Path(ReportFile), "-o writes elsewhere")
+	assert.NoFileExists(t, f.Path(File), "-o writes elsewhere")
 
-	_, err = BuildReport(f, ReportOptions{Designs: []int{len(r.Front) + 1}})
+	_, err = Build(f, Options{Designs: []int{len(r.Front) + 1}})
 	var unknown *UnknownDesignError
 	require.True(t, errors.As(err, &unknown), "unknown id gives UnknownDesignError, got %v", err)
 	assert.ErrorContains(t, err, fmt.Sprintf("expected an id from 1 to %d", len(r.Front)))
@@ -187,7 +189,7 @@ func TestReportRequestedDesigns(t *testing.T) {
 
 func TestReportEmptyFront(t *testing.T) {
 	f := fixtureRun(t, 36, impossibleSag)
-	rep, err := BuildReport(f, ReportOptions{})
+	rep, err := Build(f, Options{})
 	require.NoError(t, err)
 	assert.Empty(t, rep.Designs, "nothing to show")
 	page := string(rep.HTML)
@@ -195,14 +197,14 @@ func TestReportEmptyFront(t *testing.T) {
 	assertSelfContained(t, page, els)
 	assert.Contains(t, page, "The front is empty")
 	assert.Contains(t, page, "No feasible design was found")
-	assert.Contains(t, page, Caution)
+	assert.Contains(t, page, results.Caution)
 	assert.Equal(t, len(rep.Figures), countElements(els, "svg"), "figures")
 }
 
 func TestReportMissingDesignFile(t *testing.T) {
 	f := fixtureRun(t, 36)
-	require.NoError(t, os.Remove(f.Path(DesignFileName(1))))
-	rep, err := BuildReport(f, ReportOptions{Designs: []int{1}})
+	require.NoError(t, os.Remove(f.Path(results.DesignFileName(1))))
+	rep, err := Build(f, Options{Designs: []int{1}})
 	require.NoError(t, err, "a missing design file does not stop the report")
 	require.Len(t, rep.Problems, 1)
 	assert.Contains(t, rep.Problems[0], "front-001.toml")
@@ -212,11 +214,18 @@ func TestReportMissingDesignFile(t *testing.T) {
 
 func TestReportBeforeFront(t *testing.T) {
 	f := fixtureRun(t, 36)
-	require.NoError(t, os.Remove(f.Path(FrontFile)))
-	rep, err := BuildReport(f, ReportOptions{})
+	require.NoError(t, os.Remove(f.Path(results.FrontFile)))
+	rep, err := Build(f, Options{})
 	require.NoError(t, err, "a run without front.csv still has a report")
 	page := string(rep.HTML)
 	parseReport(t, rep.HTML)
 	assert.Contains(t, page, "The run stopped before writing front.csv")
 	assert.NotContains(t, page, "no feasible design was found", "a missing front is not an empty one")
+}
+
+func readFile(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	require.NoError(t, err)
+	return string(b)
 }

@@ -1,4 +1,4 @@
-package results
+package verify
 
 import (
 	"testing"
@@ -9,7 +9,7 @@ import (
 // TestVerificationCases runs the same built-in cases that plica verify
 // prints; each carries its published value and source.
 func TestVerificationCases(t *testing.T) {
-	cases := Verify(testing.Short())
+	cases := Run(testing.Short())
 	assert.GreaterOrEqual(t, len(cases), 15)
 	for _, c := range cases {
 		assert.NoError(t, c.Err, "%s: %s", c.Area, c.Name)

@@ -1,4 +1,4 @@
-package results
+package report
 
 // The report: one self-contained HTML file per run (inline SVG and CSS, a
 // small inline self-check script; no network, no external files).
@@ -16,13 +16,15 @@ import (
 	"plica/objective"
 	"plica/problems"
 	"plica/search"
+
+	"plica/results"
 )
 
-// ReportFile is the report's default name inside a run folder.
-const ReportFile = "report.html"
+// File is the report's default name inside a run folder.
+const File = "report.html"
 
-// ReportOptions controls BuildReport.
-type ReportOptions struct {
+// Options controls Build.
+type Options struct {
 	// Designs lists the front ids whose checks, backbone and workspace the
 	// report shows; nil means the Representative designs.
 	Designs []int
@@ -43,59 +45,59 @@ type Report struct {
 	Problems []string
 }
 
-// ReportCautions are printed in every report, after Caution.
-var ReportCautions = []string{
+// Cautions are printed in every report, after Caution.
+var Cautions = []string{
 	"Every number in this report is a model estimate from the models listed with each design; verify a design on printed prototypes before relying on it.",
 	"Follow the standards that apply to the application, and have any design that carries payloads, works near people or is for medical use reviewed by a qualified engineer.",
 	"The front holds the best designs this search found within its budget, not proven optima: another seed or a larger budget may find better ones.",
 	"The backbone and workspace figures show unloaded shapes; the sag under gravity and payload is in the check tables.",
 }
 
-type repKV struct{ Key, Value string }
+type keyValue struct{ Key, Value string }
 
-type repFigure struct {
+type figureSection struct {
 	ID, Title, Caption, Name string
 	SVG                      template.HTML
 	Problem                  string
 }
 
-type repCheck struct {
+type checkRow struct {
 	Name, Value, Limit, Unit, Note string
 	Pass                           bool
 }
 
-type repDesign struct {
+type designSection struct {
 	ID                      int
 	Reason, File, Problem   string
 	Pass                    bool
-	Checks                  []repCheck
+	Checks                  []checkRow
 	Models, Warnings        []string
 	CheckText               string
-	Figures                 []repFigure
+	Figures                 []figureSection
 	FailedChecks, NumChecks int
-	Objectives              []repKV
-	Variables               []repKV
+	Objectives              []keyValue
+	Variables               []keyValue
 	HasResult               bool
 }
 
-type repPage struct {
+type htmlPage struct {
 	Title, Folder, ProblemText  string
 	NoFront                     string
 	Caution                     string
 	Cautions                    []string
 	Variables                   [][]string
 	Objectives                  [][]string
-	Requirements, Settings, Run []repKV
-	Reference                   []repKV
+	Requirements, Settings, Run []keyValue
+	Reference                   []keyValue
 	Checks, Constraints         []string
 	FrontHeader                 []string
-	FrontRows                   []repFrontRow
-	Figures                     []repFigure
-	Designs                     []repDesign
+	FrontRows                   []frontTableRow
+	Figures                     []figureSection
+	Designs                     []designSection
 	Problems                    []string
 }
 
-type repFrontRow struct {
+type frontTableRow struct {
 	Cells  []string
 	Chosen bool
 }
@@ -115,19 +117,19 @@ func inlineSVG(b []byte) template.HTML {
 	return template.HTML(strings.TrimSpace(s))
 }
 
-func repNum(x float64) string {
+func num(x float64) string {
 	if math.IsNaN(x) {
 		return "n/a"
 	}
 	return fmt.Sprintf("%.5g", x)
 }
 
-// BuildReport reads a run folder and builds its report and figures. Parts
+// Build reads a run folder and builds its report and figures. Parts
 // that cannot be built are reported in the page and in Report.Problems; an
 // error means the folder itself cannot be read (or a requested design id
 // is not on the front).
-func BuildReport(f *Folder, opt ReportOptions) (*Report, error) {
-	r, err := LoadReportData(f)
+func Build(f *results.Folder, opt Options) (*Report, error) {
+	r, err := Load(f)
 	if err != nil {
 		return nil, err
 	}
@@ -137,8 +139,8 @@ func BuildReport(f *Folder, opt ReportOptions) (*Report, error) {
 	}
 	rep := &Report{Designs: ids}
 	page := r.page(ids)
-	addFig := func(dst *[]repFigure, fig Figure, err error) {
-		rf := repFigure{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
+	addFig := func(dst *[]figureSection, fig Figure, err error) {
+		rf := figureSection{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
 		if err != nil {
 			rf.Problem = fmt.Sprintf("%s could not be drawn: %v", fig.Title, err)
 			rep.Problems = append(rep.Problems, rf.Problem)
@@ -161,16 +163,16 @@ func BuildReport(f *Folder, opt ReportOptions) (*Report, error) {
 	reasons := r.reasons(ids, opt.Designs != nil)
 	for _, id := range ids {
 		row, _ := r.FrontRow(id)
-		d := repDesign{ID: id, Reason: reasons[id], File: DesignFileName(id)}
+		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id)}
 		for i, o := range r.Spec.Objectives {
-			d.Objectives = append(d.Objectives, repKV{o.Score, repNum(row.F[i])})
+			d.Objectives = append(d.Objectives, keyValue{o.Score, num(row.F[i])})
 		}
-		for j, name := range NewColumns(r.Spec).Variables {
+		for j, name := range results.NewColumns(r.Spec).Variables {
 			cell := row.Cells[j]
 			if r.Spec.Variables[j].Options == nil {
-				cell = repNum(row.X[j])
+				cell = num(row.X[j])
 			}
-			d.Variables = append(d.Variables, repKV{name, cell})
+			d.Variables = append(d.Variables, keyValue{name, cell})
 		}
 		design, sc, err := problems.LoadDesign(f.Path(d.File))
 		var res *objective.Result
@@ -190,7 +192,7 @@ func BuildReport(f *Folder, opt ReportOptions) (*Report, error) {
 			if c.Max {
 				op = "≤ "
 			}
-			d.Checks = append(d.Checks, repCheck{Name: c.Name, Value: repNum(c.Value), Limit: op + repNum(c.Limit), Unit: c.Unit, Note: c.Note, Pass: c.Pass})
+			d.Checks = append(d.Checks, checkRow{Name: c.Name, Value: num(c.Value), Limit: op + num(c.Limit), Unit: c.Unit, Note: c.Note, Pass: c.Pass})
 			if !c.Pass {
 				d.FailedChecks++
 			}
@@ -222,25 +224,25 @@ func BuildReport(f *Folder, opt ReportOptions) (*Report, error) {
 // WriteReport builds the report of a run folder, writes its figures into
 // RUN/plots and the page to path (RUN/report.html when empty), each file
 // atomically, and returns the report.
-func (f *Folder) WriteReport(path string, opt ReportOptions) (*Report, error) {
-	rep, err := BuildReport(f, opt)
+func Write(f *results.Folder, path string, opt Options) (*Report, error) {
+	rep, err := Build(f, opt)
 	if err != nil {
 		return nil, err
 	}
-	if err := f.WritePlots(rep.Figures); err != nil {
+	if err := WritePlots(f, rep.Figures); err != nil {
 		return nil, err
 	}
 	if path == "" {
-		path = f.Path(ReportFile)
+		path = f.Path(File)
 	}
-	if err := WriteAtomic(path, rep.HTML); err != nil {
+	if err := results.WriteAtomic(path, rep.HTML); err != nil {
 		return nil, err
 	}
 	return rep, nil
 }
 
 // reasons says why each design is shown.
-func (r *ReportData) reasons(ids []int, requested bool) map[int]string {
+func (r *Data) reasons(ids []int, requested bool) map[int]string {
 	out := map[int]string{}
 	if requested {
 		for _, id := range ids {
@@ -279,7 +281,7 @@ func (r *ReportData) reasons(ids []int, requested bool) map[int]string {
 }
 
 // page fills everything but the figures and designs.
-func (r *ReportData) page(ids []int) *repPage {
+func (r *Data) page(ids []int) *htmlPage {
 	s, info := r.Spec, r.Info
 	name := info.ProblemName
 	if name == "" {
@@ -290,8 +292,8 @@ func (r *ReportData) page(ids []int) *repPage {
 			name = info.ProblemFile
 		}
 	}
-	p := &repPage{Title: "plica report: " + name, Folder: r.Folder.Dir, ProblemText: string(s.Text),
-		Caution: Caution, Checks: s.Checks, Constraints: s.ConstraintNames()[len(s.Checks):]}
+	p := &htmlPage{Title: "plica report: " + name, Folder: r.Folder.Dir, ProblemText: string(s.Text),
+		Caution: results.Caution, Checks: s.Checks, Constraints: s.ConstraintNames()[len(s.Checks):]}
 	for _, v := range s.Variables {
 		if v.Options != nil {
 			p.Variables = append(p.Variables, []string{v.Path(), "one of " + strings.Join(v.Options, ", "), ""})
@@ -308,7 +310,7 @@ func (r *ReportData) page(ids []int) *repPage {
 		if o.Maximize {
 			goal = "maximise"
 		}
-		_, unit := figScoreAxis(o.Score)
+		_, unit := scoreAxis(o.Score)
 		doc := ""
 		if sc, ok := objective.LookupScore(o.Score); ok {
 			doc = sc.Doc
@@ -318,8 +320,8 @@ func (r *ReportData) page(ids []int) *repPage {
 	var file map[string]any
 	if _, err := toml.Decode(string(s.Text), &file); err == nil {
 		if req, ok := file["requirements"].(map[string]any); ok {
-			for _, k := range repSortedKeys(req) {
-				p.Requirements = append(p.Requirements, repKV{k, fmt.Sprint(req[k])})
+			for _, k := range sortedKeys(req) {
+				p.Requirements = append(p.Requirements, keyValue{k, fmt.Sprint(req[k])})
 			}
 		}
 	}
@@ -334,7 +336,7 @@ func (r *ReportData) page(ids []int) *repPage {
 		return fmt.Sprint(v)
 	}
 	st := s.Search
-	p.Settings = []repKV{
+	p.Settings = []keyValue{
 		{"method", info.Method},
 		{"population", orDefault(st.Population, st.Population == 0)},
 		{"evaluation budget", orDefault(info.MaxEvaluations, info.MaxEvaluations == 0)},
@@ -345,14 +347,14 @@ func (r *ReportData) page(ids []int) *repPage {
 		{"stall tolerance", orDefault(st.StallTolerance, st.StallTolerance == 0)},
 		{"checkpoint every (generations)", orDefault(st.CheckpointEvery, st.CheckpointEvery == 0)},
 	}
-	p.Run = []repKV{
+	p.Run = []keyValue{
 		{"status", info.Status},
 		{"evaluations", fmt.Sprint(info.Evaluations)},
 		{"generations", fmt.Sprint(info.Generations)},
 		{"failed evaluations", fmt.Sprint(info.Failures)},
 		{"front size", fmt.Sprint(len(r.Front))},
 		{"runtime (s)", fmt.Sprintf("%.3g", info.RuntimeSec)},
-		{"hypervolume (" + r.hypervolumeUnit() + ")", repNum(info.Hypervolume)},
+		{"hypervolume (" + r.hypervolumeUnit() + ")", num(info.Hypervolume)},
 		{"plica version", info.Version},
 		{"problem file", info.ProblemFile + " (hash " + info.ProblemHash + ")"},
 		{"started (UTC)", info.Started.Format("2006-01-02 15:04:05")},
@@ -361,13 +363,13 @@ func (r *ReportData) page(ids []int) *repPage {
 		if i >= len(info.Reference) {
 			break
 		}
-		v := repNum(info.Reference[i])
+		v := num(info.Reference[i])
 		if o.Maximize {
-			v += " (maximised: negated, so " + o.Score + " = " + repNum(-info.Reference[i]) + ")"
+			v += " (maximised: negated, so " + o.Score + " = " + num(o.Natural(info.Reference[i])) + ")"
 		}
-		p.Reference = append(p.Reference, repKV{o.Score, v})
+		p.Reference = append(p.Reference, keyValue{o.Score, v})
 	}
-	c := NewColumns(s)
+	c := results.NewColumns(s)
 	p.FrontHeader = append([]string{"id"}, c.Objectives...)
 	p.FrontHeader = append(p.FrontHeader, c.Variables...)
 	p.FrontHeader = append(p.FrontHeader, "pass", "design file")
@@ -378,34 +380,34 @@ func (r *ReportData) page(ids []int) *repPage {
 	for _, row := range r.Front {
 		cells := []string{fmt.Sprint(row.ID)}
 		for _, f := range row.F {
-			cells = append(cells, repNum(f))
+			cells = append(cells, num(f))
 		}
 		for j, v := range s.Variables {
 			if v.Options != nil {
 				cells = append(cells, row.Cells[j])
 			} else {
-				cells = append(cells, repNum(row.X[j]))
+				cells = append(cells, num(row.X[j]))
 			}
 		}
 		pass := "no"
 		if row.Pass {
 			pass = "yes"
 		}
-		cells = append(cells, pass, DesignFileName(row.ID))
-		p.FrontRows = append(p.FrontRows, repFrontRow{Cells: cells, Chosen: shown[row.ID]})
+		cells = append(cells, pass, results.DesignFileName(row.ID))
+		p.FrontRows = append(p.FrontRows, frontTableRow{Cells: cells, Chosen: shown[row.ID]})
 	}
-	p.Cautions = append(p.Cautions, ReportCautions...)
+	p.Cautions = append(p.Cautions, Cautions...)
 	switch info.Status {
 	case search.EvaluationLimit.String(), search.RuntimeLimit.String(), search.Stalled.String(), search.Converged.String():
 	default:
 		p.Cautions = append(p.Cautions, fmt.Sprintf("The run did not finish (status %s): the front is that of the last complete generation; continue it with plica resume %s.", info.Status, r.Folder.Dir))
 	}
 	if info.Failures > 0 {
-		p.Cautions = append(p.Cautions, fmt.Sprintf("%d evaluations failed and count as infeasible; their messages are in the failure column of %s.", info.Failures, EvaluationsFile))
+		p.Cautions = append(p.Cautions, fmt.Sprintf("%d evaluations failed and count as infeasible; their messages are in the failure column of %s.", info.Failures, results.EvaluationsFile))
 	}
 	switch {
-	case !Exists(r.Folder.Path(FrontFile)):
-		p.NoFront = fmt.Sprintf("The run stopped before writing %s: continue it with plica resume %s.", FrontFile, r.Folder.Dir)
+	case !results.Exists(r.Folder.Path(results.FrontFile)):
+		p.NoFront = fmt.Sprintf("The run stopped before writing %s: continue it with plica resume %s.", results.FrontFile, r.Folder.Dir)
 		p.Cautions = append(p.Cautions, p.NoFront)
 	case len(r.Front) == 0:
 		p.NoFront = "The front is empty: no feasible design was found."

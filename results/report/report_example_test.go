@@ -1,9 +1,9 @@
-package results_test
+package report_test
 
 import (
 	"fmt"
 
-	"plica/results"
+	"plica/results/report"
 )
 
 // A two-objective front (both minimised): the report shows the best
@@ -17,7 +17,7 @@ func ExampleRepresentative() {
 		{6.0, 2.0},
 		{9.0, 1.0},
 	}
-	for _, i := range results.Representative(front) {
+	for _, i := range report.Representative(front) {
 		fmt.Printf("design %d: %v\n", i+1, front[i])
 	}
 	// Output:

@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"bytes"
@@ -40,9 +40,9 @@ func TestReportInBrowser(t *testing.T) {
 		t.Skip("no chromium binary on PATH (install the Debian package chromium, or set PLICA_REQUIRE_BROWSER=1 to make this a failure)")
 	}
 	f := fixtureRun(t, 72)
-	rep, err := f.WriteReport("", ReportOptions{})
+	rep, err := Write(f, "", Options{})
 	require.NoError(t, err)
-	path, err := filepath.Abs(f.Path(ReportFile))
+	path, err := filepath.Abs(f.Path(File))
 	require.NoError(t, err)
 
 	ctx, cancel := context.WithTimeout(context.Background(), 120*time.Second)

@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"fmt"
@@ -9,19 +9,23 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/plotutil"
 	"gonum.org/v1/plot/vg"
+
+	"plica/results"
+
+	"plica/search/front"
 )
 
 // OverlayPlot draws the fronts of several runs of one problem in one
 // scatter plot of the first two objectives, in the scores' own signs and
 // units, one colour and glyph per run, with the union front as a grey
 // staircase line. With one objective, the runs are drawn on separate rows.
-func OverlayPlot(fronts []*RunFront) (*plot.Plot, error) {
+func OverlayPlot(fronts []*results.RunFront) (*plot.Plot, error) {
 	if len(fronts) == 0 {
 		return nil, fmt.Errorf("no runs to plot")
 	}
 	spec := fronts[0].Spec
 	p := plot.New()
-	labels := ObjectiveLabels(spec)
+	labels := results.ObjectiveLabels(spec)
 	m := len(labels)
 	p.X.Label.Text = labels[0]
 	if m >= 2 {
@@ -61,7 +65,7 @@ func OverlayPlot(fronts []*RunFront) (*plot.Plot, error) {
 		p.Legend.Add(fmt.Sprintf("%s (%d)", f.Dir, len(xy)), sc)
 	}
 	if m == 2 {
-		idx := NonDominated(all)
+		idx := front.NonDominated(all)
 		if len(idx) > 1 {
 			pts := make([][]float64, len(idx))
 			for i, k := range idx {
@@ -71,9 +75,9 @@ func OverlayPlot(fronts []*RunFront) (*plot.Plot, error) {
 			// staircase of the minimised front, drawn in score signs
 			var line plotter.XYs
 			for i, q := range pts {
-				line = append(line, plotter.XY{X: scoreSign(spec.Objectives[0].Maximize, q[0]), Y: scoreSign(spec.Objectives[1].Maximize, q[1])})
+				line = append(line, plotter.XY{X: spec.Objectives[0].Natural(q[0]), Y: spec.Objectives[1].Natural(q[1])})
 				if i+1 < len(pts) {
-					line = append(line, plotter.XY{X: scoreSign(spec.Objectives[0].Maximize, pts[i+1][0]), Y: scoreSign(spec.Objectives[1].Maximize, q[1])})
+					line = append(line, plotter.XY{X: spec.Objectives[0].Natural(pts[i+1][0]), Y: spec.Objectives[1].Natural(q[1])})
 				}
 			}
 			l, err := plotter.NewLine(line)
@@ -91,15 +95,8 @@ func OverlayPlot(fronts []*RunFront) (*plot.Plot, error) {
 	return p, nil
 }
 
-func scoreSign(maximize bool, v float64) float64 {
-	if maximize {
-		return -v
-	}
-	return v
-}
-
 // WriteOverlaySVG draws OverlayPlot and writes it as SVG atomically.
-func WriteOverlaySVG(path string, fronts []*RunFront) error {
+func WriteOverlaySVG(path string, fronts []*results.RunFront) error {
 	p, err := OverlayPlot(fronts)
 	if err != nil {
 		return err

@@ -1,4 +1,4 @@
-package kinematics
+package statics
 
 import (
 	"errors"
@@ -8,6 +8,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/objective/kinematics"
 )
 
 // staticsK is the composite stiffness diag(EI_x, EI_y, GJ), N·m².
@@ -16,22 +18,22 @@ func staticsK(eix, eiy, gj float64) [3][3]float64 {
 }
 
 // staticsBeam is one straight link of length L.
-func staticsBeam(L, EI, GJ, mass float64) []Link {
-	return []Link{{Start: 0, End: L, K: staticsK(EI, EI, GJ), MassPerLength: mass}}
+func staticsBeam(L, EI, GJ, mass float64) []kinematics.Link {
+	return []kinematics.Link{{Start: 0, End: L, K: staticsK(EI, EI, GJ), MassPerLength: mass}}
 }
 
 // staticsPlanarAngle is the tip tangent angle in the x–z plane, measured
 // from +z toward +x, rad.
-func staticsPlanarAngle(p Pose) float64 { return math.Atan2(p.R[0][2], p.R[2][2]) }
+func staticsPlanarAngle(p kinematics.Pose) float64 { return math.Atan2(p.R[0][2], p.R[2][2]) }
 
-// Both solution paths of SolveStatics.
+// Both solution paths of Solve.
 var staticsPaths = []struct {
 	name string
-	set  StaticsSettings
+	set  Settings
 	dead bool
 }{
-	{"dead-load shortcut", StaticsSettings{}, true},
-	{"full shooting", StaticsSettings{Shooting: true}, false},
+	{"dead-load shortcut", Settings{}, true},
+	{"full shooting", Settings{Shooting: true}, false},
 }
 
 // LD-1: cantilever under a dead tip load perpendicular to the straight rod.
@@ -52,10 +54,10 @@ func TestElasticaLD1(t *testing.T) {
 			t.Run(fmt.Sprintf("%s/alpha=%g", path.name, row.alpha), func(t *testing.T) {
 				P := row.alpha * EI / (L * L)
 				set := path.set
-				sh, err := SolveStatics(links, Load{TipForce: [3]float64{P, 0, 0}}, &set)
+				sh, err := Solve(links, Load{TipForce: [3]float64{P, 0, 0}}, &set)
 				require.NoError(t, err, "elastica α=%g", row.alpha)
 				assert.Equal(t, path.dead, sh.DeadLoad, "path used for α=%g", row.alpha)
-				assert.Equal(t, StaticsConverged, sh.Status, "status for α=%g", row.alpha)
+				assert.Equal(t, Converged, sh.Status, "status for α=%g", row.alpha)
 				// The table gives six decimals: 1e-6 absolute is half a unit in
 				// the last place plus the RK4 error (100 steps); it is tighter
 				// than 1e-4 relative for every entry.
@@ -66,7 +68,7 @@ func TestElasticaLD1(t *testing.T) {
 				// Global equilibrium of the free body [derived]: n(0) = P,
 				// m(0) = p(L) × P.
 				assert.InDelta(t, P, sh.BaseForce[0], 1e-9*P, "base force at α=%g", row.alpha)
-				want := stCross(sh.Tip.P, [3]float64{P, 0, 0})
+				want := cross(sh.Tip.P, [3]float64{P, 0, 0})
 				assert.InDelta(t, want[1], sh.BaseMoment[1], 1e-8*P*L, "base moment at α=%g", row.alpha)
 			})
 		}
@@ -83,7 +85,7 @@ func TestElasticaLinearEstimateOvershoot(t *testing.T) {
 	assert.InEpsilon(t, 1.0/3, dp[0]/L, 1e-12, "linear δ/L at α=1 (PL³/3EI)")
 	assert.InEpsilon(t, 0.5, dphi[1], 1e-12, "linear tip rotation at α=1 (PL²/2EI)")
 	assert.InDelta(t, 0.105, (dp[0]/L)/0.301721-1, 5e-4, "linear overshoot at α=1 (PHYSICS.md §9.5: 10.5 %%)")
-	assert.Greater(t, stNorm(dp)/L, LinearDeflectionLimit, "α=1 must be flagged")
+	assert.Greater(t, norm3(dp)/L, LinearDeflectionLimit, "α=1 must be flagged")
 }
 
 // Straight cantilever, small loads: Roark's Formulas for Stress and Strain,
@@ -100,7 +102,7 @@ func TestCantileverSmallLoad(t *testing.T) {
 	f := m * g
 	rows := []struct {
 		name         string
-		links        []Link
+		links        []kinematics.Link
 		load         Load
 		delta, theta float64 // tip deflection along +x, tip rotation about +y; theta NaN if not checked
 	}{
@@ -128,7 +130,7 @@ func TestCantileverSmallLoad(t *testing.T) {
 			t.Run(row.name+"/"+path.name, func(t *testing.T) {
 				set := path.set
 				set.Tolerance = 1e-13
-				sh, err := SolveStatics(row.links, row.load, &set)
+				sh, err := Solve(row.links, row.load, &set)
 				require.NoError(t, err, row.name)
 				// 1e-6: the O(α²) geometric correction at α = 1e-3 plus the
 				// solver tolerance [derived].
@@ -154,7 +156,7 @@ func TestCantileverSmallLoad(t *testing.T) {
 // A point force at the joint (s = a) gives Pa³/(3EI1) + Pa²b/(2EI1) at the tip.
 func TestCantileverPiecewiseStiffness(t *testing.T) {
 	const a, b, EI1, EI2 = 0.12, 0.18, 0.05, 0.01
-	links := []Link{
+	links := []kinematics.Link{
 		{Start: 0, End: a, K: staticsK(EI1, EI1, EI1/1.3)},
 		{Start: a, End: a + b, K: staticsK(EI2, EI2, EI2/1.3)},
 	}
@@ -177,7 +179,7 @@ func TestCantileverPiecewiseStiffness(t *testing.T) {
 		for _, path := range staticsPaths {
 			set := path.set
 			set.Tolerance = 1e-13
-			sh, err := SolveStatics(links, row.load, &set)
+			sh, err := Solve(links, row.load, &set)
 			require.NoError(t, err, "%s, %s", row.name, path.name)
 			assert.InEpsilon(t, row.delta, sh.Tip.P[0], 1e-6, "%s, %s: δ", path.name, row.name)
 			assert.InEpsilon(t, row.theta, staticsPlanarAngle(sh.Tip), 1e-6, "%s, %s: θ", path.name, row.name)
@@ -207,7 +209,7 @@ func TestCantileverPiecewiseStiffness(t *testing.T) {
 func TestCastiglianoQuarterCircle(t *testing.T) {
 	const R, EI, GJ = 0.1, 0.02, 0.012
 	L := math.Pi * R / 2
-	links := []Link{{Start: 0, End: L, U: [3]float64{0, 1 / R, 0}, K: staticsK(EI, EI, GJ)}}
+	links := []kinematics.Link{{Start: 0, End: L, U: [3]float64{0, 1 / R, 0}, K: staticsK(EI, EI, GJ)}}
 	c := R * R * R / EI
 	rows := []struct {
 		name string
@@ -220,14 +222,14 @@ func TestCastiglianoQuarterCircle(t *testing.T) {
 			[3]float64{0, R * R * R * (math.Pi/(4*EI) + (3*math.Pi/4-2)/GJ), 0}},
 	}
 	P := 1e-4 * EI / (L * L)
-	unloaded, err := SolveStatics(links, Load{}, nil)
+	unloaded, err := Solve(links, Load{}, nil)
 	require.NoError(t, err)
 	require.InDelta(t, R, unloaded.Tip.P[0], 1e-9, "unloaded tip x")
 	require.InDelta(t, R, unloaded.Tip.P[2], 1e-9, "unloaded tip z")
 	for _, row := range rows {
 		t.Run(row.name, func(t *testing.T) {
-			scale := stNorm(row.want)
-			dp, _, err := LinearTipDeflection(links, Load{TipForce: stScale(row.dir, P)})
+			scale := norm3(row.want)
+			dp, _, err := LinearTipDeflection(links, Load{TipForce: scale3(row.dir, P)})
 			require.NoError(t, err, row.name)
 			for i := range 3 {
 				// 1e-9 of the largest component: PHYSICS.md §9 closed forms.
@@ -236,9 +238,9 @@ func TestCastiglianoQuarterCircle(t *testing.T) {
 			for _, path := range staticsPaths {
 				set := path.set
 				set.Tolerance = 1e-13
-				plus, err := SolveStatics(links, Load{TipForce: stScale(row.dir, P)}, &set)
+				plus, err := Solve(links, Load{TipForce: scale3(row.dir, P)}, &set)
 				require.NoError(t, err, "%s, %s", row.name, path.name)
-				minus, err := SolveStatics(links, Load{TipForce: stScale(row.dir, -P)}, &set)
+				minus, err := Solve(links, Load{TipForce: scale3(row.dir, -P)}, &set)
 				require.NoError(t, err, "%s, %s", row.name, path.name)
 				// Central difference in the load: the O(P²) terms cancel, so at
 				// PL²/EI = 1e-4 the nonlinear compliance matches to ~1e-8;
@@ -261,22 +263,22 @@ func TestCastiglianoQuarterCircle(t *testing.T) {
 func TestStaticsFollowerForceSmallLoad(t *testing.T) {
 	const R, EI, GJ = 0.1, 0.02, 0.012
 	L := math.Pi * R / 2
-	links := []Link{{Start: 0, End: L, U: [3]float64{0, 1 / R, 0}, K: staticsK(EI, EI, GJ)}}
+	links := []kinematics.Link{{Start: 0, End: L, U: [3]float64{0, 1 / R, 0}, K: staticsK(EI, EI, GJ)}}
 	c := R * R * R / EI
 	want := [3]float64{c / 2, 0, -math.Pi / 4 * c}
 	P := 1e-4 * EI / (L * L)
-	set := &StaticsSettings{Tolerance: 1e-13}
-	plus, err := SolveStatics(links, Load{FollowerForce: [3]float64{P, 0, 0}}, set)
+	set := &Settings{Tolerance: 1e-13}
+	plus, err := Solve(links, Load{FollowerForce: [3]float64{P, 0, 0}}, set)
 	require.NoError(t, err)
 	assert.False(t, plus.DeadLoad, "follower loads need the full shooting")
-	minus, err := SolveStatics(links, Load{FollowerForce: [3]float64{-P, 0, 0}}, set)
+	minus, err := Solve(links, Load{FollowerForce: [3]float64{-P, 0, 0}}, set)
 	require.NoError(t, err)
 	dp, _, err := LinearTipDeflection(links, Load{FollowerForce: [3]float64{P, 0, 0}})
 	require.NoError(t, err)
 	for i := range 3 {
 		got := (plus.Tip.P[i] - minus.Tip.P[i]) / (2 * P)
-		assert.InDelta(t, want[i], got, 1e-6*stNorm(want), "follower force, nonlinear, component %d", i)
-		assert.InDelta(t, want[i], dp[i]/P, 1e-9*stNorm(want), "follower force, linear estimate, component %d", i)
+		assert.InDelta(t, want[i], got, 1e-6*norm3(want), "follower force, nonlinear, component %d", i)
+		assert.InDelta(t, want[i], dp[i]/P, 1e-9*norm3(want), "follower force, linear estimate, component %d", i)
 	}
 }
 
@@ -289,7 +291,7 @@ func TestStaticsFollowerForceSmallLoad(t *testing.T) {
 func TestStaticsRK4Order(t *testing.T) {
 	// Two precurved anisotropic links under gravity and a tip force, with
 	// large loaded curvature so the error is well above the solver tolerance.
-	links := []Link{
+	links := []kinematics.Link{
 		{Start: 0, End: 0.1, U: [3]float64{-2, 5, 0}, K: [3][3]float64{{0.02, 0.004, 0}, {0.004, 0.03, 0}, {0, 0, 0.015}}, MassPerLength: 0.1},
 		{Start: 0.1, End: 0.25, U: [3]float64{0, 12, 1}, K: staticsK(0.008, 0.012, 0.006), MassPerLength: 0.05},
 	}
@@ -299,12 +301,12 @@ func TestStaticsRK4Order(t *testing.T) {
 		for _, res := range []int{10, 20, 40, 80, 160} {
 			set := path.set
 			set.Resolution, set.MinLinkSteps, set.MaxStepAngle, set.Tolerance = res, 1, -1, 1e-14
-			sh, err := SolveStatics(links, load, &set)
+			sh, err := Solve(links, load, &set)
 			require.NoError(t, err, "%s, resolution %d", path.name, res)
 			tips = append(tips, sh.Tip.P)
 		}
 		for k := 0; k+2 < len(tips); k++ {
-			ratio := stNorm(stSub(tips[k], tips[k+1])) / stNorm(stSub(tips[k+1], tips[k+2]))
+			ratio := norm3(sub(tips[k], tips[k+1])) / norm3(sub(tips[k+1], tips[k+2]))
 			t.Logf("%s: error ratio %.4g", path.name, ratio)
 			// PHYSICS.md §4.2: ≈ 16 per halving; (14, 18) tells fourth order
 			// from third (8) and fifth (32) and allows pre-asymptotic grids.
@@ -323,16 +325,16 @@ func TestStaticsRK4Order(t *testing.T) {
 func TestStaticsPureMoment(t *testing.T) {
 	const L, EI = 0.3, 0.02
 	straight := staticsBeam(L, EI, EI/1.3, 0)
-	curved := []Link{{Start: 0, End: L, U: [3]float64{0, 8, 0}, K: staticsK(EI, EI, EI/1.3)}}
+	curved := []kinematics.Link{{Start: 0, End: L, U: [3]float64{0, 8, 0}, K: staticsK(EI, EI, EI/1.3)}}
 	arc := func(k float64) [3]float64 {
 		return [3]float64{(1 - math.Cos(k*L)) / k, 0, math.Sin(k*L) / k}
 	}
 	const M = 2 * EI / L // κL = 2 rad
 	rows := []struct {
 		name  string
-		links []Link
+		links []kinematics.Link
 		load  Load
-		set   StaticsSettings
+		set   Settings
 		want  [3]float64
 		angle float64
 		dead  bool
@@ -341,17 +343,17 @@ func TestStaticsPureMoment(t *testing.T) {
 		// RK4 on R' = Rû with constant u errs by x⁵/120 per step, x = h|u|
 		// [derived from the Taylor series of exp]: κL = 2 in 100 steps
 		// gives ~3e-9 rad in all.
-		{"dead moment, dead-load shortcut", straight, Load{TipMoment: [3]float64{0, M, 0}}, StaticsSettings{}, arc(M / EI), 2, true, 1e-8},
-		{"dead moment, full shooting", straight, Load{TipMoment: [3]float64{0, M, 0}}, StaticsSettings{Shooting: true}, arc(M / EI), 2, false, 1e-8},
-		{"follower moment", straight, Load{FollowerMoment: [3]float64{0, M, 0}}, StaticsSettings{}, arc(M / EI), 2, false, 1e-8},
-		{"moment straightening a precurved rod", curved, Load{TipMoment: [3]float64{0, -8 * EI, 0}}, StaticsSettings{}, [3]float64{0, 0, L}, 0, true, 1e-8},
+		{"dead moment, dead-load shortcut", straight, Load{TipMoment: [3]float64{0, M, 0}}, Settings{}, arc(M / EI), 2, true, 1e-8},
+		{"dead moment, full shooting", straight, Load{TipMoment: [3]float64{0, M, 0}}, Settings{Shooting: true}, arc(M / EI), 2, false, 1e-8},
+		{"follower moment", straight, Load{FollowerMoment: [3]float64{0, M, 0}}, Settings{}, arc(M / EI), 2, false, 1e-8},
+		{"moment straightening a precurved rod", curved, Load{TipMoment: [3]float64{0, -8 * EI, 0}}, Settings{}, [3]float64{0, 0, L}, 0, true, 1e-8},
 		// κL = 30 with x ≤ 0.1: κL·x⁴/120 ≈ 2.5e-5 rad.
-		{"curvature 100/m, grid refined by the step-angle rule", straight, Load{TipMoment: [3]float64{0, 100 * EI, 0}}, StaticsSettings{}, arc(100), math.Remainder(100*L, 2*math.Pi), true, 3e-5},
+		{"curvature 100/m, grid refined by the step-angle rule", straight, Load{TipMoment: [3]float64{0, 100 * EI, 0}}, Settings{}, arc(100), math.Remainder(100*L, 2*math.Pi), true, 3e-5},
 	}
 	for _, row := range rows {
 		t.Run(row.name, func(t *testing.T) {
 			set := row.set
-			sh, err := SolveStatics(row.links, row.load, &set)
+			sh, err := Solve(row.links, row.load, &set)
 			require.NoError(t, err, row.name)
 			assert.Equal(t, row.dead, sh.DeadLoad, "path of %s", row.name)
 			for i := range 3 {
@@ -361,7 +363,7 @@ func TestStaticsPureMoment(t *testing.T) {
 			for k := 1; k < len(sh.Samples); k++ {
 				a, b := sh.Samples[k-1], sh.Samples[k]
 				h := b.S - a.S
-				assert.LessOrEqual(t, h*stNorm(b.U), 0.1*(1+1e-6), "%s: step %d breaks h|u| ≤ 0.1", row.name, k)
+				assert.LessOrEqual(t, h*norm3(b.U), 0.1*(1+1e-6), "%s: step %d breaks h|u| ≤ 0.1", row.name, k)
 			}
 		})
 	}
@@ -375,22 +377,22 @@ func TestStaticsNonConvergence(t *testing.T) {
 	rows := []struct {
 		name string
 		load Load
-		set  StaticsSettings
+		set  Settings
 	}{
-		{"dead-load shortcut, 1 iteration", absurd, StaticsSettings{MaxIterations: 1}},
-		{"full shooting, 1 iteration", absurd, StaticsSettings{MaxIterations: 1, Shooting: true}},
-		{"no continuation, 1 iteration", absurd, StaticsSettings{MaxIterations: 1, ContinuationSteps: -1}},
-		{"α = 5 with continuation disabled", Load{TipForce: [3]float64{5 * EI / (L * L), 0, 0}}, StaticsSettings{ContinuationSteps: -1, MaxIterations: 2}},
+		{"dead-load shortcut, 1 iteration", absurd, Settings{MaxIterations: 1}},
+		{"full shooting, 1 iteration", absurd, Settings{MaxIterations: 1, Shooting: true}},
+		{"no continuation, 1 iteration", absurd, Settings{MaxIterations: 1, ContinuationSteps: -1}},
+		{"α = 5 with continuation disabled", Load{TipForce: [3]float64{5 * EI / (L * L), 0, 0}}, Settings{ContinuationSteps: -1, MaxIterations: 2}},
 	}
 	for _, row := range rows {
 		set := row.set
-		sh, err := SolveStatics(links, row.load, &set)
+		sh, err := Solve(links, row.load, &set)
 		assert.Nil(t, sh, "%s: no shape on failure", row.name)
 		require.Error(t, err, row.name)
 		assert.ErrorIs(t, err, ErrNotConverged, row.name)
-		var se *StaticsError
+		var se *Error
 		require.ErrorAs(t, err, &se, row.name)
-		assert.NotEqual(t, StaticsConverged, se.Status, row.name)
+		assert.NotEqual(t, Converged, se.Status, row.name)
 		assert.Greater(t, se.Residual, 1e-10, "%s: residual", row.name)
 		_, _, err = TipSag(links, row.load, &set)
 		assert.ErrorIs(t, err, ErrNotConverged, "TipSag, %s", row.name)
@@ -402,7 +404,7 @@ func TestStaticsNonConvergence(t *testing.T) {
 // map. The result is still LD-1 (Bisshopp & Drucker 1945).
 func TestStaticsContinuation(t *testing.T) {
 	const L, EI = 0.3, 0.02
-	sh, err := SolveStatics(staticsBeam(L, EI, EI/1.3, 0), Load{TipForce: [3]float64{5 * EI / (L * L), 0, 0}}, nil)
+	sh, err := Solve(staticsBeam(L, EI, EI/1.3, 0), Load{TipForce: [3]float64{5 * EI / (L * L), 0, 0}}, nil)
 	require.NoError(t, err)
 	assert.Positive(t, sh.ContinuationSteps, "α=5 needs continuation from the rigid guess")
 	assert.InDelta(t, 0.713792, sh.Tip.P[0]/L, 1e-6, "δ_y/L at α=5")
@@ -412,23 +414,23 @@ func TestStaticsInvalidInput(t *testing.T) {
 	good := staticsBeam(0.3, 0.02, 0.015, 0.01)
 	rows := []struct {
 		name  string
-		links []Link
+		links []kinematics.Link
 		load  Load
 	}{
 		{"no links", nil, Load{}},
-		{"first link not at the base", []Link{{Start: 0.01, End: 0.3, K: staticsK(1, 1, 1)}}, Load{}},
-		{"gap between links", []Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1)}, {Start: 0.2, End: 0.3, K: staticsK(1, 1, 1)}}, Load{}},
-		{"empty link", []Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1)}, {Start: 0.1, End: 0.1, K: staticsK(1, 1, 1)}}, Load{}},
-		{"stiffness not positive definite", []Link{{Start: 0, End: 0.1, K: staticsK(1, 0, 1)}}, Load{}},
-		{"stiffness not symmetric", []Link{{Start: 0, End: 0.1, K: [3][3]float64{{1, 0.5, 0}, {0, 1, 0}, {0, 0, 1}}}}, Load{}},
-		{"negative mass", []Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1), MassPerLength: -1}}, Load{}},
+		{"first link not at the base", []kinematics.Link{{Start: 0.01, End: 0.3, K: staticsK(1, 1, 1)}}, Load{}},
+		{"gap between links", []kinematics.Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1)}, {Start: 0.2, End: 0.3, K: staticsK(1, 1, 1)}}, Load{}},
+		{"empty link", []kinematics.Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1)}, {Start: 0.1, End: 0.1, K: staticsK(1, 1, 1)}}, Load{}},
+		{"stiffness not positive definite", []kinematics.Link{{Start: 0, End: 0.1, K: staticsK(1, 0, 1)}}, Load{}},
+		{"stiffness not symmetric", []kinematics.Link{{Start: 0, End: 0.1, K: [3][3]float64{{1, 0.5, 0}, {0, 1, 0}, {0, 0, 1}}}}, Load{}},
+		{"negative mass", []kinematics.Link{{Start: 0, End: 0.1, K: staticsK(1, 1, 1), MassPerLength: -1}}, Load{}},
 		{"point force at the base", good, Load{PointForces: []PointForce{{S: 0, Force: [3]float64{1, 0, 0}}}}},
 		{"point force beyond the tip", good, Load{PointForces: []PointForce{{S: 0.31, Force: [3]float64{1, 0, 0}}}}},
 		{"NaN tip force", good, Load{TipForce: [3]float64{math.NaN(), 0, 0}}},
 		{"infinite gravity", good, Load{Gravity: [3]float64{0, math.Inf(-1), 0}}},
 	}
 	for _, row := range rows {
-		sh, err := SolveStatics(row.links, row.load, nil)
+		sh, err := Solve(row.links, row.load, nil)
 		assert.Nil(t, sh, row.name)
 		require.Error(t, err, row.name)
 		assert.NotErrorIs(t, err, ErrNotConverged, "%s is an input error", row.name)
@@ -445,7 +447,7 @@ func TestTipSag(t *testing.T) {
 	const L, EI, m = 0.3, 0.02, 0.05
 	g := 1e-3 * EI / (m * L * L * L)
 	beam := staticsBeam(L, EI, EI/1.3, m)
-	sag, sh, err := TipSag(beam, Load{Gravity: [3]float64{0, -g, 0}}, &StaticsSettings{Tolerance: 1e-13})
+	sag, sh, err := TipSag(beam, Load{Gravity: [3]float64{0, -g, 0}}, &Settings{Tolerance: 1e-13})
 	require.NoError(t, err)
 	require.NotNil(t, sh)
 	assert.InEpsilon(t, m*g*L*L*L*L/(8*EI), sag, 1e-6, "sag of a straight cantilever (fL⁴/8EI)")
@@ -455,13 +457,13 @@ func TestTipSag(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, 0.0, sag, "no gravity, no sag")
 
-	curved := []Link{
+	curved := []kinematics.Link{
 		{Start: 0, End: 0.1, K: staticsK(0.03, 0.03, 0.02), MassPerLength: 0.08},
 		{Start: 0.1, End: 0.25, U: [3]float64{0, 4, 0}, K: staticsK(0.01, 0.01, 0.008), MassPerLength: 0.04},
 	}
 	grav := [3]float64{-1e-3, 0, 0} // small, so second-order terms stay ~1e-3 relative
 	load := Load{Gravity: grav, TipForce: [3]float64{0, 1e-4, 0}}
-	sag, _, err = TipSag(curved, load, &StaticsSettings{Tolerance: 1e-13})
+	sag, _, err = TipSag(curved, load, &Settings{Tolerance: 1e-13})
 	require.NoError(t, err)
 	dp, _, err := LinearTipDeflection(curved, Load{Gravity: grav})
 	require.NoError(t, err)
@@ -471,11 +473,11 @@ func TestTipSag(t *testing.T) {
 // Samples run from the clamp to the tip, and with no load the curvature is
 // the link precurvature, the base loads vanish and no iteration is needed.
 func TestStaticsSamples(t *testing.T) {
-	links := []Link{
+	links := []kinematics.Link{
 		{Start: 0, End: 0.05, K: staticsK(0.03, 0.03, 0.02), MassPerLength: 0.08},
 		{Start: 0.05, End: 0.2, U: [3]float64{-3, 4, 0}, K: staticsK(0.01, 0.02, 0.008), MassPerLength: 0.04},
 	}
-	sh, err := SolveStatics(links, Load{}, nil)
+	sh, err := Solve(links, Load{}, nil)
 	require.NoError(t, err)
 	assert.Equal(t, 0, sh.Iterations, "unloaded: the rigid guess is exact")
 	assert.Equal(t, [3]float64{}, sh.BaseForce, "unloaded base force")
@@ -506,8 +508,8 @@ func TestStaticsSamples(t *testing.T) {
 func TestRobotStatics(t *testing.T) {
 	r := staticsTwoTubeRobot()
 	for _, th := range [][]float64{{0, 0}, {0, math.Pi}, {0.4, -1.1}} {
-		a := Actuation{Theta: th, Beta: []float64{-0.25, -0.10}}
-		sh, err := r.Statics(a, Load{}, nil)
+		a := kinematics.Actuation{Theta: th, Beta: []float64{-0.25, -0.10}}
+		sh, err := SolveRobot(r, a, Load{}, nil)
 		require.NoError(t, err, "θ=%v", th)
 		tip, err := r.Tip(a)
 		require.NoError(t, err, "θ=%v", th)
@@ -520,25 +522,25 @@ func TestRobotStatics(t *testing.T) {
 		load := Load{Gravity: [3]float64{-9.81, 0, 0}, TipForce: [3]float64{0, 0.05, 0}}
 		links, err := r.Links(a, nil)
 		require.NoError(t, err)
-		want, err := SolveStatics(links, load, nil)
+		want, err := Solve(links, load, nil)
 		require.NoError(t, err)
-		got, err := r.Statics(a, load, nil)
+		got, err := SolveRobot(r, a, load, nil)
 		require.NoError(t, err)
-		assert.Equal(t, want.Tip, got.Tip, "Robot.Statics = SolveStatics(Robot.Links) at θ=%v", th)
-		sag, _, err := r.TipSag(a, load, nil)
+		assert.Equal(t, want.Tip, got.Tip, "SolveRobot = Solve(Robot.Links) at θ=%v", th)
+		sag, _, err := RobotTipSag(r, a, load, nil)
 		require.NoError(t, err)
 		wantSag, _, err := TipSag(links, load, nil)
 		require.NoError(t, err)
-		assert.Equal(t, wantSag, sag, "Robot.TipSag = TipSag(Robot.Links) at θ=%v", th)
+		assert.Equal(t, wantSag, sag, "RobotTipSag = TipSag(Robot.Links) at θ=%v", th)
 	}
-	_, err := r.Statics(Actuation{Theta: []float64{0}, Beta: []float64{0}}, Load{}, nil)
+	_, err := SolveRobot(r, kinematics.Actuation{Theta: []float64{0}, Beta: []float64{0}}, Load{}, nil)
 	assert.Error(t, err, "actuation of the wrong length")
 }
 
 // staticsTwoTubeRobot is SEG-1's geometry (PHYSICS.md §9.3) with printed
 // bellows stiffness and mass (demo values).
-func staticsTwoTubeRobot() *Robot {
-	return &Robot{Tubes: []Tube{
+func staticsTwoTubeRobot() *kinematics.Robot {
+	return &kinematics.Robot{Tubes: []kinematics.Tube{
 		{StraightLength: 0.35, CurvedLength: 0.10, Precurvature: [2]float64{0, 10},
 			Bending: [2][2]float64{{0.004, 0}, {0, 0.004}}, Torsion: 0.003, LinearDensity: 0.015},
 		{StraightLength: 0.15, CurvedLength: 0.10, Precurvature: [2]float64{0, 5},
@@ -546,29 +548,29 @@ func staticsTwoTubeRobot() *Robot {
 	}}
 }
 
-// StaticsStatus strings name each outcome.
-func TestStaticsStatusString(t *testing.T) {
-	for s, want := range map[StaticsStatus]string{
-		StaticsConverged: "converged", StaticsIterationLimit: "iteration limit",
-		StaticsStalled: "stalled", StaticsNonFinite: "non-finite state", StaticsStatus(9): "StaticsStatus(9)",
+// Status strings name each outcome.
+func TestStatusString(t *testing.T) {
+	for s, want := range map[Status]string{
+		Converged: "converged", IterationLimit: "iteration limit",
+		Stalled: "stalled", NonFinite: "non-finite state", Status(9): "Status(9)",
 	} {
 		assert.Equal(t, want, s.String(), "status %d", int(s))
 	}
-	err := &StaticsError{Status: StaticsStalled, Iterations: 7, Residual: 0.25, LoadFactor: 1}
+	err := &Error{Status: Stalled, Iterations: 7, Residual: 0.25, LoadFactor: 1}
 	assert.Equal(t, "kinematics: statics did not converge: stalled after 7 iterations at 1 of the load (residual 0.25)", err.Error())
-	assert.True(t, errors.Is(err, ErrNotConverged), "StaticsError wraps ErrNotConverged")
+	assert.True(t, errors.Is(err, ErrNotConverged), "Error wraps ErrNotConverged")
 }
 
-// SolveStatics keeps no shared state: concurrent solves of the same input
+// Solve keeps no shared state: concurrent solves of the same input
 // give bit-identical shapes (STYLE.md §3.5: run cases concurrently).
 func TestStaticsConcurrent(t *testing.T) {
 	r := staticsTwoTubeRobot()
-	a := Actuation{Theta: []float64{0.4, -1.1}, Beta: []float64{-0.25, -0.10}}
+	a := kinematics.Actuation{Theta: []float64{0.4, -1.1}, Beta: []float64{-0.25, -0.10}}
 	links, err := r.Links(a, nil)
 	require.NoError(t, err)
 	load := Load{Gravity: [3]float64{-9.81, 0, 0}, TipForce: [3]float64{0, 0.2, 0.1},
 		PointForces: []PointForce{{S: 0.12, Force: [3]float64{0.05, 0, 0}}}}
-	want, err := SolveStatics(links, load, nil)
+	want, err := Solve(links, load, nil)
 	require.NoError(t, err)
 	const workers = 5
 	got := make([]*Shape, workers)
@@ -576,7 +578,7 @@ func TestStaticsConcurrent(t *testing.T) {
 	done := make(chan struct{})
 	for w := range workers {
 		go func() {
-			got[w], errs[w] = SolveStatics(links, load, nil)
+			got[w], errs[w] = Solve(links, load, nil)
 			done <- struct{}{}
 		}()
 	}

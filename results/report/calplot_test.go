@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"bytes"
@@ -18,17 +18,17 @@ import (
 	"plica/surrogate"
 )
 
-// calSVGPath is one <path> of the SVG: its vertices (M and L commands) and
+// svgPath is one <path> of the SVG: its vertices (M and L commands) and
 // style; circles (two arcs) give their centre as the only vertex.
-type calSVGPath struct {
+type svgPath struct {
 	pts    [][2]float64
 	circle bool
 	style  string
 }
 
-// calParseSVG decodes the SVG as XML (failing on malformed output) and
+// parsePaths decodes the SVG as XML (failing on malformed output) and
 // returns its paths and the text of its <text> elements.
-func calParseSVG(t *testing.T, data []byte) (root xml.StartElement, paths []calSVGPath, texts []string) {
+func parsePaths(t *testing.T, data []byte) (root xml.StartElement, paths []svgPath, texts []string) {
 	t.Helper()
 	dec := xml.NewDecoder(bytes.NewReader(data))
 	inText := false
@@ -54,7 +54,7 @@ func calParseSVG(t *testing.T, data []byte) (root xml.StartElement, paths []calS
 						style = a.Value
 					}
 				}
-				paths = append(paths, calParsePath(t, d, style))
+				paths = append(paths, parsePath(t, d, style))
 			case "text":
 				inText = true
 				texts = append(texts, "")
@@ -72,26 +72,26 @@ func calParseSVG(t *testing.T, data []byte) (root xml.StartElement, paths []calS
 	return root, paths, texts
 }
 
-func calParsePath(t *testing.T, d, style string) calSVGPath {
+func parsePath(t *testing.T, d, style string) svgPath {
 	t.Helper()
-	p := calSVGPath{style: style}
+	p := svgPath{style: style}
 	if strings.Contains(d, "A") {
 		// circle: M x0,y A r,r 0 1 1 x1,y A ... Z, centre ((x0+x1)/2, y)
 		f := strings.FieldsFunc(d, func(r rune) bool { return r == 'M' || r == 'A' || r == ' ' || r == ',' || r == 'Z' })
 		require.GreaterOrEqual(t, len(f), 9, "circle path %q", d)
-		x0, y0, x1 := calNumber(t, f[0]), calNumber(t, f[1]), calNumber(t, f[7])
+		x0, y0, x1 := number(t, f[0]), number(t, f[1]), number(t, f[7])
 		p.pts, p.circle = [][2]float64{{(x0 + x1) / 2, y0}}, true
 		return p
 	}
 	for _, seg := range strings.FieldsFunc(d, func(r rune) bool { return r == 'M' || r == 'L' || r == 'Z' }) {
 		xy := strings.Split(strings.TrimSpace(seg), ",")
 		require.Len(t, xy, 2, "vertex %q of %q", seg, d)
-		p.pts = append(p.pts, [2]float64{calNumber(t, xy[0]), calNumber(t, xy[1])})
+		p.pts = append(p.pts, [2]float64{number(t, xy[0]), number(t, xy[1])})
 	}
 	return p
 }
 
-func calNumber(t *testing.T, s string) float64 {
+func number(t *testing.T, s string) float64 {
 	t.Helper()
 	x, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
 	require.NoError(t, err, "number %q", s)
@@ -101,24 +101,24 @@ func calNumber(t *testing.T, s string) float64 {
 // kinds sorts the paths of a calibration figure: point circles, band
 // polygons (filled at partial opacity) and fitted lines (stroked, one
 // vertex per band sample).
-func calKinds(paths []calSVGPath) (circles, bands, lines []calSVGPath) {
+func pathKinds(paths []svgPath) (circles, bands, lines []svgPath) {
 	for _, p := range paths {
 		switch {
 		case p.circle:
 			circles = append(circles, p)
 		case strings.Contains(p.style, "fill-opacity"):
 			bands = append(bands, p)
-		case strings.Contains(p.style, "fill:none") && len(p.pts) == calBandPoints:
+		case strings.Contains(p.style, "fill:none") && len(p.pts) == bandPoints:
 			lines = append(lines, p)
 		}
 	}
 	return
 }
 
-// calNoiselessPanel is a cantilever test at two free lengths (δ = PL³/(3EI),
+// noiselessPanel is a cantilever test at two free lengths (δ = PL³/(3EI),
 // Roark Table 8.1 case 1a / Gere & Timoshenko Table G-1 case 4), with an
 // optional alternating error, fitted through the origin.
-func calNoiselessPanel(t *testing.T, noise float64) CalibrationPanel {
+func noiselessPanel(t *testing.T, noise float64) CalibrationPanel {
 	t.Helper()
 	var pts []surrogate.BenchPoint
 	i := 0
@@ -140,18 +140,18 @@ func calNoiselessPanel(t *testing.T, noise float64) CalibrationPanel {
 // and panel, titles and axis labels; points of a noiseless fit lie on their
 // line, and each band encloses its line.
 func TestCalibrationSVG(t *testing.T) {
-	exact := calNoiselessPanel(t, 0)
-	noisy := calNoiselessPanel(t, 2e-3)
+	exact := noiselessPanel(t, 0)
+	noisy := noiselessPanel(t, 2e-3)
 	noisy.Title = "bending about y"
 	var buf bytes.Buffer
 	require.NoError(t, CalibrationSVG(&buf, "bench <fit> & check", []CalibrationPanel{exact, noisy}))
-	root, paths, texts := calParseSVG(t, buf.Bytes())
+	root, paths, texts := parsePaths(t, buf.Bytes())
 	assert.Equal(t, "svg", root.Name.Local, "root element")
 	all := strings.Join(texts, "\n")
 	for _, want := range []string{"bench <fit> & check", "bending about x", "bending about y", "tip load (N)", "tip deflection (mm)", "L = 100 mm", "L = 150 mm", "95 % interval"} {
 		assert.Contains(t, all, want, "text of the figure")
 	}
-	circles, bands, lines := calKinds(paths)
+	circles, bands, lines := pathKinds(paths)
 	require.Len(t, circles, 16, "one circle per point")
 	require.Len(t, lines, 4, "one fitted line per free length and panel")
 	require.Len(t, bands, 4, "one band per free length and panel")
@@ -159,7 +159,7 @@ func TestCalibrationSVG(t *testing.T) {
 	// Noiseless panel: each circle lies on the line of its free length.
 	for i := range 8 {
 		c := circles[i].pts[0]
-		assert.InDelta(t, calInterp(lines[i/4].pts, c[0]), c[1], 0.05, "point %d (%g, %g) on its line (pt)", i, c[0], c[1])
+		assert.InDelta(t, interpolate(lines[i/4].pts, c[0]), c[1], 0.05, "point %d (%g, %g) on its line (pt)", i, c[0], c[1])
 	}
 	// Each band encloses its line (y grows upward inside the figure); the
 	// noisy panel's band has visible width.
@@ -178,7 +178,7 @@ func TestCalibrationSVG(t *testing.T) {
 	}
 }
 
-func calInterp(line [][2]float64, x float64) float64 {
+func interpolate(line [][2]float64, x float64) float64 {
 	for j := 1; j < len(line); j++ {
 		if x <= line[j][0]+1e-9 {
 			a, b := line[j-1], line[j]
@@ -201,8 +201,8 @@ func TestCalibrationSVGOffsets(t *testing.T) {
 	require.NoError(t, err)
 	var buf bytes.Buffer
 	require.NoError(t, CalibrationSVG(&buf, "offsets", []CalibrationPanel{{Title: "x", Points: pts, Setups: []string{"A, 100 mm", "B, 100 mm"}, Fit: &f}}))
-	_, paths, texts := calParseSVG(t, buf.Bytes())
-	_, _, lines := calKinds(paths)
+	_, paths, texts := parsePaths(t, buf.Bytes())
+	_, _, lines := pathKinds(paths)
 	assert.Len(t, lines, 2, "one line per setup")
 	assert.Contains(t, texts, "B, 100 mm", "legend names the setup")
 }
@@ -217,14 +217,14 @@ func TestCalibrationSVGErrors(t *testing.T) {
 func TestWriteCalibrationPlotAtomic(t *testing.T) {
 	dir := t.TempDir()
 	path := filepath.Join(dir, "fit.svg")
-	require.NoError(t, WriteCalibrationPlot(path, "fit", []CalibrationPanel{calNoiselessPanel(t, 1e-5)}))
+	require.NoError(t, WriteCalibrationPlot(path, "fit", []CalibrationPanel{noiselessPanel(t, 1e-5)}))
 	data, err := os.ReadFile(path)
 	require.NoError(t, err)
-	calParseSVG(t, data)
+	parsePaths(t, data)
 	entries, err := os.ReadDir(dir)
 	require.NoError(t, err)
 	assert.Len(t, entries, 1, "no temporary file left")
-	assert.Error(t, WriteCalibrationPlot(filepath.Join(dir, "no", "fit.svg"), "fit", []CalibrationPanel{calNoiselessPanel(t, 1e-5)}))
+	assert.Error(t, WriteCalibrationPlot(filepath.Join(dir, "no", "fit.svg"), "fit", []CalibrationPanel{noiselessPanel(t, 1e-5)}))
 	assert.Error(t, WriteCalibrationPlot(filepath.Join(dir, "empty.svg"), "fit", nil))
 	_, err = os.Stat(filepath.Join(dir, "empty.svg"))
 	assert.True(t, os.IsNotExist(err), "no file for a plot that cannot be drawn")

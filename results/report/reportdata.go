@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"fmt"
@@ -10,21 +10,23 @@ import (
 
 	"plica/problems"
 	"plica/search"
+
+	"plica/results"
 )
 
-// ReportData is what the plots and the report show, read back from a run
+// Data is what the plots and the report show, read back from a run
 // folder: run.json, problem.toml, front.csv, evaluations.csv and
 // history.csv. Everything is in file units, as the CSV files hold it.
-type ReportData struct {
-	Folder *Folder
-	Info   *RunInfo
+type Data struct {
+	Folder *results.Folder
+	Info   *results.RunInfo
 	Spec   *problems.Spec
 	// Front holds the rows of front.csv in file order (ids 1, 2, ...).
-	Front []ReportRow
+	Front []Row
 	// Evaluated holds the feasible evaluations of evaluations.csv, thinned
 	// evenly to at most MaxEvaluatedPoints rows, for context in the front
 	// figure.
-	Evaluated []ReportRow
+	Evaluated []Row
 	// History holds history.csv.
 	History []search.Stats
 }
@@ -33,8 +35,8 @@ type ReportData struct {
 // each is an SVG element, and a long run holds tens of thousands.
 const MaxEvaluatedPoints = 1500
 
-// ReportRow is one design of front.csv or evaluations.csv.
-type ReportRow struct {
+// Row is one design of front.csv or evaluations.csv.
+type Row struct {
 	ID    int   // front id (1-based); 0 for an evaluation
 	Index int64 // evaluation index
 	// X holds the variables in the problem's order, file units;
@@ -48,31 +50,31 @@ type ReportRow struct {
 	Pass bool
 }
 
-// LoadReportData reads a run folder for plots and the report. A run
+// Load reads a run folder for plots and the report. A run
 // without evaluations or history (stopped before its first generation)
 // loads with those parts empty.
-func LoadReportData(f *Folder) (*ReportData, error) {
+func Load(f *results.Folder) (*Data, error) {
 	info, err := f.ReadInfo()
 	if err != nil {
 		return nil, err
 	}
-	spec, err := problems.LoadProblem(f.Path(ProblemFile))
+	spec, err := problems.LoadProblem(f.Path(results.ProblemFile))
 	if err != nil {
 		return nil, err
 	}
-	r := &ReportData{Folder: f, Info: info, Spec: spec}
-	if Exists(f.Path(FrontFile)) {
-		if r.Front, err = r.readRows(FrontFile, true); err != nil {
+	r := &Data{Folder: f, Info: info, Spec: spec}
+	if results.Exists(f.Path(results.FrontFile)) {
+		if r.Front, err = r.readRows(results.FrontFile, true); err != nil {
 			return nil, err
 		}
 	}
-	if Exists(f.Path(EvaluationsFile)) {
-		if r.Evaluated, err = r.readRows(EvaluationsFile, false); err != nil {
+	if results.Exists(f.Path(results.EvaluationsFile)) {
+		if r.Evaluated, err = r.readRows(results.EvaluationsFile, false); err != nil {
 			return nil, err
 		}
-		r.Evaluated = repThin(r.Evaluated, MaxEvaluatedPoints)
+		r.Evaluated = thin(r.Evaluated, MaxEvaluatedPoints)
 	}
-	if Exists(f.Path(HistoryFile)) {
+	if results.Exists(f.Path(results.HistoryFile)) {
 		if r.History, err = r.readHistory(); err != nil {
 			return nil, err
 		}
@@ -80,8 +82,8 @@ func LoadReportData(f *Folder) (*ReportData, error) {
 	return r, nil
 }
 
-// repColumns maps each wanted column name to its position in header.
-func repColumns(file string, header, want []string) ([]int, error) {
+// columns maps each wanted column name to its position in header.
+func columns(file string, header, want []string) ([]int, error) {
 	idx := make([]int, len(want))
 	for j, c := range want {
 		idx[j] = -1
@@ -100,19 +102,19 @@ func repColumns(file string, header, want []string) ([]int, error) {
 
 // readRows reads front.csv (front = true) or the feasible rows of
 // evaluations.csv.
-func (r *ReportData) readRows(name string, front bool) ([]ReportRow, error) {
+func (r *Data) readRows(name string, front bool) ([]Row, error) {
 	header, recs, err := r.Folder.ReadCSV(name)
 	if err != nil {
 		return nil, err
 	}
 	path := r.Folder.Path(name)
 	s := r.Spec
-	c := NewColumns(s)
-	vi, err := repColumns(path, header, c.Variables)
+	c := results.NewColumns(s)
+	vi, err := columns(path, header, c.Variables)
 	if err != nil {
 		return nil, err
 	}
-	oi, err := repColumns(path, header, c.Objectives)
+	oi, err := columns(path, header, c.Objectives)
 	if err != nil {
 		return nil, err
 	}
@@ -120,11 +122,11 @@ func (r *ReportData) readRows(name string, front bool) ([]ReportRow, error) {
 	if front {
 		extra = []string{"index", "id", "pass"}
 	}
-	ei, err := repColumns(path, header, extra)
+	ei, err := columns(path, header, extra)
 	if err != nil {
 		return nil, err
 	}
-	var out []ReportRow
+	var out []Row
 	for line, rec := range recs {
 		at := func(k int) string {
 			if k < len(rec) {
@@ -136,7 +138,7 @@ func (r *ReportData) readRows(name string, front bool) ([]ReportRow, error) {
 		if !front && at(ei[1]) != "true" {
 			continue
 		}
-		row := ReportRow{Cells: make([]string, len(vi)), X: make([]float64, len(vi)), F: make([]float64, len(oi))}
+		row := Row{Cells: make([]string, len(vi)), X: make([]float64, len(vi)), F: make([]float64, len(oi))}
 		if row.Index, err = strconv.ParseInt(at(ei[0]), 10, 64); err != nil {
 			return nil, fmt.Errorf("%s: index %q is not a whole number", where, at(ei[0]))
 		}
@@ -175,13 +177,13 @@ func (r *ReportData) readRows(name string, front bool) ([]ReportRow, error) {
 	return out, nil
 }
 
-// repThin keeps at most n rows, evenly spread over the slice, first and last
+// thin keeps at most n rows, evenly spread over the slice, first and last
 // included.
-func repThin(rows []ReportRow, n int) []ReportRow {
+func thin(rows []Row, n int) []Row {
 	if len(rows) <= n || n < 2 {
 		return rows
 	}
-	out := make([]ReportRow, n)
+	out := make([]Row, n)
 	for k := range n {
 		out[k] = rows[k*(len(rows)-1)/(n-1)]
 	}
@@ -189,13 +191,13 @@ func repThin(rows []ReportRow, n int) []ReportRow {
 }
 
 // readHistory reads history.csv.
-func (r *ReportData) readHistory() ([]search.Stats, error) {
-	header, recs, err := r.Folder.ReadCSV(HistoryFile)
+func (r *Data) readHistory() ([]search.Stats, error) {
+	header, recs, err := r.Folder.ReadCSV(results.HistoryFile)
 	if err != nil {
 		return nil, err
 	}
-	path := r.Folder.Path(HistoryFile)
-	idx, err := repColumns(path, header, HistoryHeader)
+	path := r.Folder.Path(results.HistoryFile)
+	idx, err := columns(path, header, results.HistoryHeader)
 	if err != nil {
 		return nil, err
 	}
@@ -208,7 +210,7 @@ func (r *ReportData) readHistory() ([]search.Stats, error) {
 			}
 			x, err := strconv.ParseFloat(rec[i], 64)
 			if err != nil {
-				return nil, fmt.Errorf("%s: row %d: %s = %q is not a number", path, line+2, HistoryHeader[k], rec[i])
+				return nil, fmt.Errorf("%s: row %d: %s = %q is not a number", path, line+2, results.HistoryHeader[k], rec[i])
 			}
 			v[k] = x
 		}
@@ -220,25 +222,18 @@ func (r *ReportData) readHistory() ([]search.Stats, error) {
 
 // Minimised returns the objectives of a row as the search minimises them
 // (maximised objectives negated).
-func (r *ReportData) Minimised(row ReportRow) []float64 {
-	out := make([]float64, len(row.F))
-	for i, o := range r.Spec.Objectives {
-		out[i] = row.F[i]
-		if o.Maximize {
-			out[i] = -out[i]
-		}
-	}
-	return out
+func (r *Data) Minimised(row Row) []float64 {
+	return r.Spec.Minimised(row.F)
 }
 
 // FrontRow returns the front row with the given id.
-func (r *ReportData) FrontRow(id int) (ReportRow, bool) {
+func (r *Data) FrontRow(id int) (Row, bool) {
 	for _, row := range r.Front {
 		if row.ID == id {
 			return row, true
 		}
 	}
-	return ReportRow{}, false
+	return Row{}, false
 }
 
 // Representative returns the designs a report shows by default, as
@@ -338,7 +333,7 @@ func repKnee(f [][]float64, best []int) int {
 
 // chosenIDs returns the front ids a report shows: ids when given, checked
 // against the front, else the representative designs.
-func (r *ReportData) chosenIDs(ids []int) ([]int, error) {
+func (r *Data) chosenIDs(ids []int) ([]int, error) {
 	if len(ids) > 0 {
 		for _, id := range ids {
 			if _, ok := r.FrontRow(id); !ok {
@@ -372,8 +367,8 @@ func (e *UnknownDesignError) Error() string {
 	return fmt.Sprintf("the front of %s has no design %d (expected an id from 1 to %d)", e.Dir, e.ID, e.FrontSize)
 }
 
-// repSortedKeys returns the keys of a map in order.
-func repSortedKeys[V any](m map[string]V) []string {
+// sortedKeys returns the keys of a map in order.
+func sortedKeys[V any](m map[string]V) []string {
 	keys := make([]string, 0, len(m))
 	for k := range m {
 		keys = append(keys, k)

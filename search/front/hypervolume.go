@@ -1,4 +1,4 @@
-package search
+package front
 
 import (
 	"cmp"
@@ -26,7 +26,7 @@ func Hypervolume(points [][]float64, ref []float64) float64 {
 	in := make([][]float64, 0, len(points))
 	for _, p := range points {
 		if len(p) != m {
-			panic(fmt.Sprintf("search: hypervolume of a %d-objective point with a %d-objective reference", len(p), m))
+			panic(fmt.Sprintf("front: hypervolume of a %d-objective point with a %d-objective reference", len(p), m))
 		}
 		if strictlyBetter(p, ref) {
 			in = append(in, p)
@@ -175,7 +175,7 @@ func nondominated(pts [][]float64) [][]float64 {
 			if j == i {
 				continue
 			}
-			if dominates(q, p) || (j < i && slices.Equal(q, p)) {
+			if Dominates(q, p) || (j < i && slices.Equal(q, p)) {
 				keep = false
 				break
 			}

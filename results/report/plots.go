@@ -1,4 +1,4 @@
-package results
+package report
 
 // Figures of a run: drawn with gonum/plot, written as SVG into RUN/plots
 // and inlined into the report. gonum/plot has no parallel-coordinates or
@@ -23,6 +23,8 @@ import (
 
 	"plica/objective"
 	"plica/objective/kinematics"
+
+	"plica/results"
 )
 
 // PlotsDir is the folder of the figures inside a run folder.
@@ -39,13 +41,13 @@ type Figure struct {
 // Series colours. Each series of a figure has its own colour, so a reader
 // (and a test) can tell them apart in the SVG.
 var (
-	figFrontColor     = color.RGBA{R: 0x1f, G: 0x77, B: 0xb4, A: 0xff} // front designs
-	figEvaluatedColor = color.RGBA{R: 0xb4, G: 0xb4, B: 0xb4, A: 0xff} // feasible evaluations
-	figChosenColor    = color.RGBA{R: 0xd6, G: 0x27, B: 0x28, A: 0xff} // designs shown in the report
-	figAxisColor      = color.RGBA{R: 0x60, G: 0x60, B: 0x60, A: 0xff} // parallel-coordinate axes
-	figWorkspaceColor = color.RGBA{R: 0x2c, G: 0xa0, B: 0x2c, A: 0xff} // workspace tip points
-	figHistoryColor   = color.RGBA{R: 0x94, G: 0x67, B: 0xbd, A: 0xff} // hypervolume history
-	figBaseColor      = color.RGBA{R: 0x20, G: 0x20, B: 0x20, A: 0xff} // the base point
+	frontColor     = color.RGBA{R: 0x1f, G: 0x77, B: 0xb4, A: 0xff} // front designs
+	evaluatedColor = color.RGBA{R: 0xb4, G: 0xb4, B: 0xb4, A: 0xff} // feasible evaluations
+	chosenColor    = color.RGBA{R: 0xd6, G: 0x27, B: 0x28, A: 0xff} // designs shown in the report
+	axisColor      = color.RGBA{R: 0x60, G: 0x60, B: 0x60, A: 0xff} // parallel-coordinate axes
+	workspaceColor = color.RGBA{R: 0x2c, G: 0xa0, B: 0x2c, A: 0xff} // workspace tip points
+	historyColor   = color.RGBA{R: 0x94, G: 0x67, B: 0xbd, A: 0xff} // hypervolume history
+	baseColor      = color.RGBA{R: 0x20, G: 0x20, B: 0x20, A: 0xff} // the base point
 )
 
 // BackboneRotations is the number of relative rotations, over a full
@@ -55,12 +57,12 @@ const BackboneRotations = 12
 // MaxWorkspacePoints caps the tip points of a workspace figure panel.
 const MaxWorkspacePoints = 1024
 
-// figScoreAxis splits a score or variable key into a readable name and its
+// scoreAxis splits a score or variable key into a readable name and its
 // unit, from the unit suffix every key carries ("reach_mm" → "reach",
 // "mm"). A quantity without a unit suffix is a ratio: unit "1" (SI
 // Brochure, 9th ed., 2019, §2.3.3: the unit of a dimensionless quantity is
 // one).
-func figScoreAxis(key string) (name, unit string) {
+func scoreAxis(key string) (name, unit string) {
 	suffixes := []struct{ suffix, unit string }{
 		{"_mm2", "mm²"}, {"_mm3", "mm³"}, {"_mm", "mm"}, {"_deg", "deg"}, {"_g", "g"}, {"_per_m", "1/m"},
 	}
@@ -73,9 +75,9 @@ func figScoreAxis(key string) (name, unit string) {
 }
 
 // objectiveLabel is the axis label of objective i: name, unit and goal.
-func (r *ReportData) objectiveLabel(i int) string {
+func (r *Data) objectiveLabel(i int) string {
 	o := r.Spec.Objectives[i]
-	name, unit := figScoreAxis(o.Score)
+	name, unit := scoreAxis(o.Score)
 	goal := "minimise"
 	if o.Maximize {
 		goal = "maximise"
@@ -83,8 +85,8 @@ func (r *ReportData) objectiveLabel(i int) string {
 	return fmt.Sprintf("%s (%s), %s", name, unit, goal)
 }
 
-// figNewPlot is a plot with plica's common style.
-func figNewPlot(title, xlabel, ylabel string) *plot.Plot {
+// newPlot is a plot with plica's common style.
+func newPlot(title, xlabel, ylabel string) *plot.Plot {
 	p := plot.New()
 	p.Title.Text = title
 	p.X.Label.Text = xlabel
@@ -93,16 +95,16 @@ func figNewPlot(title, xlabel, ylabel string) *plot.Plot {
 	return p
 }
 
-func figFinite(x, y float64) bool {
+func finite(x, y float64) bool {
 	return !math.IsNaN(x) && !math.IsInf(x, 0) && !math.IsNaN(y) && !math.IsInf(y, 0)
 }
 
-// figScatter adds a scatter series of filled circles (skipping non-finite
+// scatter adds a scatter series of filled circles (skipping non-finite
 // points) and returns it, or nil when no point is finite.
-func figScatter(p *plot.Plot, pts plotter.XYs, c color.Color, radius vg.Length) (*plotter.Scatter, error) {
+func scatter(p *plot.Plot, pts plotter.XYs, c color.Color, radius vg.Length) (*plotter.Scatter, error) {
 	var keep plotter.XYs
 	for _, q := range pts {
-		if figFinite(q.X, q.Y) {
+		if finite(q.X, q.Y) {
 			keep = append(keep, q)
 		}
 	}
@@ -118,8 +120,8 @@ func figScatter(p *plot.Plot, pts plotter.XYs, c color.Color, radius vg.Length) 
 	return s, nil
 }
 
-// figLabels adds text labels at points.
-func figLabels(p *plot.Plot, pts plotter.XYs, text []string, c color.Color) (*plotter.Labels, error) {
+// pointLabels adds text labels at points.
+func pointLabels(p *plot.Plot, pts plotter.XYs, text []string, c color.Color) (*plotter.Labels, error) {
 	l, err := plotter.NewLabels(plotter.XYLabels{XYs: pts, Labels: text})
 	if err != nil {
 		return nil, err
@@ -133,10 +135,10 @@ func figLabels(p *plot.Plot, pts plotter.XYs, text []string, c color.Color) (*pl
 	return l, nil
 }
 
-// figRender renders drawing callbacks on one SVG canvas.
-func figRender(w, h vg.Length, paint func(draw.Canvas)) ([]byte, error) {
+// render renders drawing callbacks on one SVG canvas.
+func render(w, h vg.Length, paint func(draw.Canvas)) ([]byte, error) {
 	c := vgsvg.New(w, h)
-	paint(figCanvas(c))
+	paint(drawCanvas(c))
 	var b bytes.Buffer
 	if _, err := c.WriteTo(&b); err != nil {
 		return nil, fmt.Errorf("render svg: %w", err)
@@ -144,12 +146,10 @@ func figRender(w, h vg.Length, paint func(draw.Canvas)) ([]byte, error) {
 	return b.Bytes(), nil
 }
 
-func figCanvas(c *vgsvg.Canvas) draw.Canvas { return draw.New(c) }
-
-// figEqualAspect widens the x or the y range of p so that one data unit has
+// equalAspect widens the x or the y range of p so that one data unit has
 // the same length on both axes inside canvas c, keeping each range
 // centred. Tick labels change with the ranges, so it repeats a few times.
-func figEqualAspect(p *plot.Plot, c draw.Canvas) {
+func equalAspect(p *plot.Plot, c draw.Canvas) {
 	for range 3 {
 		da := p.DataCanvas(c)
 		w, h := float64(da.Max.X-da.Min.X), float64(da.Max.Y-da.Min.Y)
@@ -167,9 +167,9 @@ func figEqualAspect(p *plot.Plot, c draw.Canvas) {
 	}
 }
 
-// figPadRange makes sure a plot's ranges are not empty (a single point or a
+// padRange makes sure a plot's ranges are not empty (a single point or a
 // flat series), which gonum would draw as a degenerate axis.
-func figPadRange(p *plot.Plot) {
+func padRange(p *plot.Plot) {
 	for _, a := range []*plot.Axis{&p.X, &p.Y} {
 		if a.Max-a.Min <= 0 || math.IsInf(a.Min, 0) || math.IsInf(a.Max, 0) {
 			d := math.Max(math.Abs(a.Min)*0.05, 1e-9)
@@ -183,8 +183,8 @@ func figPadRange(p *plot.Plot) {
 
 // frontPanel plots objective i against objective j: feasible evaluations
 // (grey), the front (blue) and the chosen designs (red, labelled #id).
-func (r *ReportData) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot, error) {
-	p := figNewPlot("", r.objectiveLabel(i), r.objectiveLabel(j))
+func (r *Data) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot, error) {
+	p := newPlot("", r.objectiveLabel(i), r.objectiveLabel(j))
 	var ev, fr, ch plotter.XYs
 	var names []string
 	for _, row := range r.Evaluated {
@@ -199,20 +199,20 @@ func (r *ReportData) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot
 			names = append(names, fmt.Sprintf("#%d", id))
 		}
 	}
-	se, err := figScatter(p, ev, figEvaluatedColor, vg.Points(1.5))
+	se, err := scatter(p, ev, evaluatedColor, vg.Points(1.5))
 	if err != nil {
 		return nil, err
 	}
-	sf, err := figScatter(p, fr, figFrontColor, vg.Points(2.5))
+	sf, err := scatter(p, fr, frontColor, vg.Points(2.5))
 	if err != nil {
 		return nil, err
 	}
-	sc, err := figScatter(p, ch, figChosenColor, vg.Points(4))
+	sc, err := scatter(p, ch, chosenColor, vg.Points(4))
 	if err != nil {
 		return nil, err
 	}
 	if sc != nil {
-		if _, err := figLabels(p, ch, names, figChosenColor); err != nil {
+		if _, err := pointLabels(p, ch, names, chosenColor); err != nil {
 			return nil, err
 		}
 	}
@@ -228,7 +228,7 @@ func (r *ReportData) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot
 		}
 		p.Legend.Top = true
 	}
-	figPadRange(p)
+	padRange(p)
 	if legend {
 		// headroom for the legend, top right
 		p.Y.Max += 0.2 * (p.Y.Max - p.Y.Min)
@@ -240,13 +240,13 @@ func (r *ReportData) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot
 // evaluations: one scatter for two objectives, the pairs (lower triangle)
 // for three or more, and for one objective the objective against the
 // evaluation index.
-func (r *ReportData) FrontFigure(chosen []int) (Figure, error) {
+func (r *Data) FrontFigure(chosen []int) (Figure, error) {
 	m := len(r.Spec.Objectives)
 	fig := Figure{Name: "front.svg", Title: "Front"}
 	switch {
 	case m == 1:
 		fig.Caption = "Objective of every feasible evaluation (grey) against the evaluation index; the best design in blue, the designs shown below in red."
-		p := figNewPlot("", "evaluation index (count)", r.objectiveLabel(0))
+		p := newPlot("", "evaluation index (count)", r.objectiveLabel(0))
 		var ev, fr, ch plotter.XYs
 		var names []string
 		for _, row := range r.Evaluated {
@@ -265,17 +265,17 @@ func (r *ReportData) FrontFigure(chosen []int) (Figure, error) {
 			pts plotter.XYs
 			c   color.Color
 			rad vg.Length
-		}{{ev, figEvaluatedColor, 1.5}, {fr, figFrontColor, 2.5}, {ch, figChosenColor, 4}} {
-			if _, err := figScatter(p, s.pts, s.c, s.rad); err != nil {
+		}{{ev, evaluatedColor, 1.5}, {fr, frontColor, 2.5}, {ch, chosenColor, 4}} {
+			if _, err := scatter(p, s.pts, s.c, s.rad); err != nil {
 				return fig, err
 			}
 		}
 		if len(ch) > 0 {
-			if _, err := figLabels(p, ch, names, figChosenColor); err != nil {
+			if _, err := pointLabels(p, ch, names, chosenColor); err != nil {
 				return fig, err
 			}
 		}
-		figPadRange(p)
+		padRange(p)
 		b, err := SVG(p, 6*vg.Inch, 4*vg.Inch)
 		fig.SVG = b
 		return fig, err
@@ -311,7 +311,7 @@ func (r *ReportData) FrontFigure(chosen []int) (Figure, error) {
 		name string
 		c    color.Color
 		rad  vg.Length
-	}{{"feasible evaluations", figEvaluatedColor, 1.5}, {"front", figFrontColor, 2.5}, {"shown below", figChosenColor, 4}} {
+	}{{"feasible evaluations", evaluatedColor, 1.5}, {"front", frontColor, 2.5}, {"shown below", chosenColor, 4}} {
 		s, err := plotter.NewScatter(plotter.XYs{{}})
 		if err != nil {
 			return fig, err
@@ -321,7 +321,7 @@ func (r *ReportData) FrontFigure(chosen []int) (Figure, error) {
 	}
 	rows[0][m-2] = key
 	size := vg.Length(m-1) * 3 * vg.Inch
-	b, err := figRender(size, size, func(dc draw.Canvas) {
+	b, err := render(size, size, func(dc draw.Canvas) {
 		tiles := draw.Tiles{Rows: m - 1, Cols: m - 1, PadX: vg.Points(6), PadY: vg.Points(6)}
 		cs := plot.Align(rows, tiles, dc)
 		for a := range rows {
@@ -338,7 +338,7 @@ func (r *ReportData) FrontFigure(chosen []int) (Figure, error) {
 
 // normalised maps variable j of x to [0, 1] over its range (category
 // indices over the option list); a fixed range maps to 0.5.
-func (r *ReportData) normalised(j int, x float64) float64 {
+func (r *Data) normalised(j int, x float64) float64 {
 	v := r.Spec.Variables[j]
 	lo, hi := v.Lower, v.Upper
 	if v.Options != nil {
@@ -352,20 +352,20 @@ func (r *ReportData) normalised(j int, x float64) float64 {
 
 // variableTick is the label of variable j under its axis: key, bellows
 // and range with unit (options for a category).
-func (r *ReportData) variableTick(j int) string {
+func (r *Data) variableTick(j int) string {
 	v := r.Spec.Variables[j]
 	if v.Options != nil {
 		return fmt.Sprintf("%s\nbellows %d\n%s", v.Key, v.Table+1, strings.Join(v.Options, "|"))
 	}
-	_, unit := figScoreAxis(v.Key)
+	_, unit := scoreAxis(v.Key)
 	if v.Unit != "" {
 		unit = v.Unit
 	}
 	return fmt.Sprintf("%s\nbellows %d\n%.4g to %.4g %s", v.Key, v.Table+1, v.Lower, v.Upper, unit)
 }
 
-// figMix interpolates between two colours, t in [0, 1].
-func figMix(a, b color.RGBA, t float64) color.RGBA {
+// mix interpolates between two colours, t in [0, 1].
+func mix(a, b color.RGBA, t float64) color.RGBA {
 	t = math.Max(0, math.Min(1, t))
 	f := func(x, y uint8) uint8 { return uint8(math.Round(float64(x) + t*(float64(y)-float64(x)))) }
 	return color.RGBA{R: f(a.R, b.R), G: f(a.G, b.G), B: f(a.B, b.B), A: 0xff}
@@ -375,12 +375,12 @@ func figMix(a, b color.RGBA, t float64) color.RGBA {
 // one vertical axis per variable, normalised to its range, and one line
 // per front design, coloured from blue (best first objective) to orange
 // (worst); the designs shown in the report are drawn thick in red.
-func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
+func (r *Data) VariablesFigure(chosen []int) (Figure, error) {
 	n := len(r.Spec.Variables)
 	fig := Figure{Name: "variables.svg", Title: "Design variables of the front",
 		Caption: fmt.Sprintf("Parallel coordinates: one line per front design over the %d variables, each axis spanning its range (0 = lower bound, 1 = upper bound). Colour runs from blue (best %s) to orange (worst); the designs shown below are red.",
 			n, r.Spec.Objectives[0].Score)}
-	p := figNewPlot("", "", "position in range (1)")
+	p := newPlot("", "", "position in range (1)")
 	p.Y.Min, p.Y.Max = -0.05, 1.05
 	p.X.Min, p.X.Max = -0.3, float64(n-1)+0.3+0.15*float64(len(chosen))
 	if n == 1 {
@@ -393,7 +393,7 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 		if err != nil {
 			return fig, err
 		}
-		ax.LineStyle = draw.LineStyle{Color: figAxisColor, Width: vg.Points(1)}
+		ax.LineStyle = draw.LineStyle{Color: axisColor, Width: vg.Points(1)}
 		p.Add(ax)
 	}
 	p.X.Tick.Marker = plot.ConstantTicks(ticks)
@@ -404,8 +404,8 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 		f := r.Minimised(row)[0]
 		lo, hi = math.Min(lo, f), math.Max(hi, f)
 	}
-	blue, orange := figFrontColor, color.RGBA{R: 0xff, G: 0x7f, B: 0x0e, A: 0xff}
-	line := func(row ReportRow, c color.Color, width vg.Length) error {
+	blue, orange := frontColor, color.RGBA{R: 0xff, G: 0x7f, B: 0x0e, A: 0xff}
+	line := func(row Row, c color.Color, width vg.Length) error {
 		pts := make(plotter.XYs, n)
 		for j := range n {
 			pts[j] = plotter.XY{X: float64(j), Y: r.normalised(j, row.X[j])}
@@ -423,7 +423,7 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 		if hi > lo {
 			t = (r.Minimised(row)[0] - lo) / (hi - lo)
 		}
-		if err := line(row, figMix(blue, orange, t), vg.Points(1)); err != nil {
+		if err := line(row, mix(blue, orange, t), vg.Points(1)); err != nil {
 			return fig, err
 		}
 	}
@@ -434,7 +434,7 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 		if !ok {
 			continue
 		}
-		if err := line(row, figChosenColor, vg.Points(2.5)); err != nil {
+		if err := line(row, chosenColor, vg.Points(2.5)); err != nil {
 			return fig, err
 		}
 		ends = append(ends, plotter.XY{X: float64(n - 1), Y: r.normalised(n-1, row.X[n-1])})
@@ -442,7 +442,7 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 	}
 	for k := range ends {
 		// side by side, so labels of lines ending together stay legible
-		l, err := figLabels(p, ends[k:k+1], names[k:k+1], figChosenColor)
+		l, err := pointLabels(p, ends[k:k+1], names[k:k+1], chosenColor)
 		if err != nil {
 			return fig, err
 		}
@@ -456,10 +456,10 @@ func (r *ReportData) VariablesFigure(chosen []int) (Figure, error) {
 
 // hypervolumeUnit is the unit of the hypervolume: the product of the
 // objective units.
-func (r *ReportData) hypervolumeUnit() string {
+func (r *Data) hypervolumeUnit() string {
 	var units []string
 	for _, o := range r.Spec.Objectives {
-		_, u := figScoreAxis(o.Score)
+		_, u := scoreAxis(o.Score)
 		units = append(units, u)
 	}
 	return strings.Join(units, "·")
@@ -467,14 +467,14 @@ func (r *ReportData) hypervolumeUnit() string {
 
 // HypervolumeFigure plots the archive hypervolume against evaluations
 // from history.csv.
-func (r *ReportData) HypervolumeFigure() (Figure, error) {
+func (r *Data) HypervolumeFigure() (Figure, error) {
 	fig := Figure{Name: "hypervolume.svg", Title: "Hypervolume against evaluations",
 		Caption: fmt.Sprintf("Hypervolume of the archive after every generation, in the objectives as minimised (maximised ones negated), at the reference point %s. The reference point is set from the first feasible designs and kept for the run, so values are comparable within this run only.",
-			figVector(r.Info.Reference))}
+			vector(r.Info.Reference))}
 	if len(r.History) == 0 {
 		return fig, errors.New("history.csv holds no generation")
 	}
-	p := figNewPlot("", "evaluations (count)", fmt.Sprintf("hypervolume (%s)", r.hypervolumeUnit()))
+	p := newPlot("", "evaluations (count)", fmt.Sprintf("hypervolume (%s)", r.hypervolumeUnit()))
 	pts := make(plotter.XYs, len(r.History))
 	for k, s := range r.History {
 		pts[k] = plotter.XY{X: float64(s.Evaluations), Y: s.Hypervolume}
@@ -483,19 +483,19 @@ func (r *ReportData) HypervolumeFigure() (Figure, error) {
 	if err != nil {
 		return fig, err
 	}
-	l.LineStyle = draw.LineStyle{Color: figHistoryColor, Width: vg.Points(1.5)}
+	l.LineStyle = draw.LineStyle{Color: historyColor, Width: vg.Points(1.5)}
 	p.Add(l)
-	if _, err := figScatter(p, pts, figHistoryColor, vg.Points(2)); err != nil {
+	if _, err := scatter(p, pts, historyColor, vg.Points(2)); err != nil {
 		return fig, err
 	}
-	figPadRange(p)
+	padRange(p)
 	b, err := SVG(p, 6*vg.Inch, 3.5*vg.Inch)
 	fig.SVG = b
 	return fig, err
 }
 
-// figVector prints a vector with %.6g.
-func figVector(v []float64) string {
+// vector prints a vector with %.6g.
+func vector(v []float64) string {
 	parts := make([]string, len(v))
 	for i, x := range v {
 		parts[i] = fmt.Sprintf("%.6g", x)
@@ -514,9 +514,9 @@ func figBaseInsertion(n int, w objective.Workspace) []float64 {
 	return beta
 }
 
-// figHue is a colour on the hue circle (HSV with full saturation, value
+// hue is a colour on the hue circle (HSV with full saturation, value
 // 0.8), t in [0, 1).
-func figHue(t float64) color.RGBA {
+func hue(t float64) color.RGBA {
 	h := math.Mod(t, 1) * 6
 	x := 1 - math.Abs(math.Mod(h, 2)-1)
 	var r, g, b float64
@@ -551,8 +551,8 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	for _, t := range robot.Tubes {
 		total = math.Max(total, t.Length())
 	}
-	side := figNewPlot("side view", "z (mm)", "x (mm)")
-	top := figNewPlot("top view", "x (mm)", "y (mm)")
+	side := newPlot("side view", "z (mm)", "x (mm)")
+	top := newPlot("top view", "x (mm)", "y (mm)")
 	var tips plotter.XYs
 	var names []string
 	drawn := 0
@@ -573,7 +573,7 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 			xz[i] = plotter.XY{X: q.P[2] * 1e3, Y: q.P[0] * 1e3}
 			xy[i] = plotter.XY{X: q.P[0] * 1e3, Y: q.P[1] * 1e3}
 		}
-		c := figHue(float64(k) / BackboneRotations)
+		c := hue(float64(k) / BackboneRotations)
 		for _, s := range []struct {
 			p   *plot.Plot
 			pts plotter.XYs
@@ -592,7 +592,7 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	if drawn == 0 {
 		return fig, errors.New("no relative rotation satisfies the nesting rules")
 	}
-	if _, err := figLabels(top, tips, names, color.Black); err != nil {
+	if _, err := pointLabels(top, tips, names, color.Black); err != nil {
 		return fig, err
 	}
 	fig.Caption = fmt.Sprintf("Backbone at %d relative rotations of bellows 1 (every %d°, labelled at the tip in the top view; the other bellows at 0°), to scale. Unloaded shape: the sag under gravity and payload is not drawn.",
@@ -600,22 +600,22 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	if drawn < BackboneRotations {
 		fig.Caption += fmt.Sprintf(" %d rotations break the nesting rules and are left out.", BackboneRotations-drawn)
 	}
-	figPadRange(side)
-	figPadRange(top)
-	b, err := figTwoViews(side, top)
+	padRange(side)
+	padRange(top)
+	b, err := twoViews(side, top)
 	fig.SVG = b
 	return fig, err
 }
 
-// figTwoViews draws a side view (wide, left) and a top view (right), each to
+// twoViews draws a side view (wide, left) and a top view (right), each to
 // scale.
-func figTwoViews(side, top *plot.Plot) ([]byte, error) {
+func twoViews(side, top *plot.Plot) ([]byte, error) {
 	w, h := 9*vg.Inch, 3.6*vg.Inch
-	return figRender(w, h, func(dc draw.Canvas) {
+	return render(w, h, func(dc draw.Canvas) {
 		left := draw.Crop(dc, 0, -0.4*w, 0, 0)
 		right := draw.Crop(dc, 0.6*w, 0, 0, 0)
-		figEqualAspect(side, left)
-		figEqualAspect(top, right)
+		equalAspect(side, left)
+		equalAspect(top, right)
 		side.Draw(left)
 		top.Draw(right)
 	})
@@ -718,8 +718,8 @@ func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Wo
 	if err != nil {
 		return fig, err
 	}
-	side := figNewPlot("side view", "z (mm)", "x (mm)")
-	top := figNewPlot("top view", "x (mm)", "y (mm)")
+	side := newPlot("side view", "z (mm)", "x (mm)")
+	top := newPlot("top view", "x (mm)", "y (mm)")
 	xz := make(plotter.XYs, len(tips))
 	xy := make(plotter.XYs, len(tips))
 	for i, p := range tips {
@@ -727,31 +727,31 @@ func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Wo
 		xy[i] = plotter.XY{X: p[0] * 1e3, Y: p[1] * 1e3}
 	}
 	// the base, for scale
-	if _, err := figScatter(side, plotter.XYs{{}}, figBaseColor, vg.Points(3)); err != nil {
+	if _, err := scatter(side, plotter.XYs{{}}, baseColor, vg.Points(3)); err != nil {
 		return fig, err
 	}
-	if _, err := figScatter(side, xz, figWorkspaceColor, vg.Points(1.2)); err != nil {
+	if _, err := scatter(side, xz, workspaceColor, vg.Points(1.2)); err != nil {
 		return fig, err
 	}
-	if _, err := figScatter(top, xy, figWorkspaceColor, vg.Points(1.2)); err != nil {
+	if _, err := scatter(top, xy, workspaceColor, vg.Points(1.2)); err != nil {
 		return fig, err
 	}
 	fig.Caption = fmt.Sprintf("Tip positions over %d sampled actuations (relative rotations and insertion ranges on a grid, each turned by the common rotation), projected on the x–z plane (side view; the black dot is the base) and the x–y plane (top view), to scale. Unloaded shapes.", len(tips))
-	figPadRange(side)
-	figPadRange(top)
-	b, err := figTwoViews(side, top)
+	padRange(side)
+	padRange(top)
+	b, err := twoViews(side, top)
 	fig.SVG = b
 	return fig, err
 }
 
 // WritePlots writes figures into RUN/plots, each file atomically.
-func (f *Folder) WritePlots(figs []Figure) error {
+func WritePlots(f *results.Folder, figs []Figure) error {
 	dir := f.Path(PlotsDir)
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return fmt.Errorf("cannot create %s: %w", dir, err)
 	}
 	for _, fig := range figs {
-		if err := WriteAtomic(filepath.Join(dir, fig.Name), fig.SVG); err != nil {
+		if err := results.WriteAtomic(filepath.Join(dir, fig.Name), fig.SVG); err != nil {
 			return err
 		}
 	}

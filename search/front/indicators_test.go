@@ -1,4 +1,4 @@
-package results
+package front
 
 import (
 	"math"
@@ -8,8 +8,6 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
-
-	"plica/search"
 )
 
 // Hand-checkable sets of SEARCH.md §5.1–5.4; the values there are derived
@@ -20,28 +18,6 @@ var (
 	setA2 = [][]float64{{2, 8}, {4, 4}, {8, 2}}
 	setZ5 = [][]float64{{0, 10}, {1, 6}, {2, 2}, {6, 1}, {10, 0}}
 )
-
-// TestHypervolumeTable: rows of the SEARCH.md §5.1 table [derived there by
-// strips and inclusion–exclusion].
-func TestHypervolumeTable(t *testing.T) {
-	cases := []struct {
-		name string
-		pts  [][]float64
-		ref  []float64
-		want float64
-	}{
-		{"2-D staircase", [][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4}, 6},
-		{"2-D dominated and outside filtered", [][]float64{{1, 3}, {2, 2}, {3, 1}, {2.5, 2.5}, {5, 0}}, []float64{4, 4}, 6},
-		{"3-D inclusion-exclusion", [][]float64{{1, 1, 3}, {1, 3, 1}, {3, 1, 1}}, []float64{4, 4, 4}, 19},
-		{"3-D with negative coordinate", [][]float64{{1, 0, 1}, {1, 1, 0}, {-1, 2, 2}}, []float64{5, 5, 5}, 114},
-		{"4-D WFG", [][]float64{{1, 2, 3, 4}, {4, 3, 2, 1}, {2, 2, 2, 2}}, []float64{5, 5, 5, 5}, 93},
-	}
-	for _, c := range cases {
-		t.Run(c.name, func(t *testing.T) {
-			assert.InDelta(t, c.want, Hypervolume(c.pts, c.ref), 1e-12, "HV(%v; %v)", c.pts, c.ref)
-		})
-	}
-}
 
 // TestDistanceIndicators: the GD/IGD/IGD+ table of SEARCH.md §5.2
 // [derived there; hand check given beside the table]. Tolerance 1e-6: the
@@ -157,37 +133,44 @@ func TestNormalizationAndReference(t *testing.T) {
 	}
 }
 
+// item is a design as ParetoFront sees it: an index, objectives and
+// feasibility.
+type item struct {
+	Index    int64
+	F        []float64
+	Feasible bool
+}
+
+func itemPoint(d *item) ([]float64, bool) { return d.F, d.Feasible }
+
 // randomDesigns draws designs with random objectives on a coarse grid (so
 // that equal vectors and ties occur), a fifth of them infeasible.
-func randomDesigns(rng *rand.Rand, n, m int) []search.Design {
-	ds := make([]search.Design, n)
+func randomDesigns(rng *rand.Rand, n, m int) []item {
+	ds := make([]item, n)
 	for i := range ds {
 		f := make([]float64, m)
 		for k := range f {
 			f[k] = float64(rng.IntN(20))
 		}
-		ds[i] = search.Design{Index: int64(i), F: f}
-		if rng.IntN(5) == 0 {
-			ds[i].CV = 1
-		}
+		ds[i] = item{Index: int64(i), F: f, Feasible: rng.IntN(5) != 0}
 	}
 	return ds
 }
 
 // bruteFront is the feasible non-dominated set by the definition of
 // SEARCH.md §1, first of equal vectors kept, as a set of indices.
-func bruteFront(ds []search.Design) []int64 {
+func bruteFront(ds []item) []int64 {
 	var out []int64
 	for i, d := range ds {
-		if !d.Feasible() {
+		if !d.Feasible {
 			continue
 		}
 		keep := true
 		for j, q := range ds {
-			if j == i || !q.Feasible() {
+			if j == i || !q.Feasible {
 				continue
 			}
-			if search.Dominates(q.F, d.F) || (j < i && slices.Equal(q.F, d.F)) {
+			if Dominates(q.F, d.F) || (j < i && slices.Equal(q.F, d.F)) {
 				keep = false
 				break
 			}
@@ -199,7 +182,7 @@ func bruteFront(ds []search.Design) []int64 {
 	return out
 }
 
-func designIndices(ds []search.Design) []int64 {
+func designIndices(ds []item) []int64 {
 	out := make([]int64, len(ds))
 	for i, d := range ds {
 		out[i] = d.Index
@@ -218,22 +201,22 @@ func TestMergeSplitFronts(t *testing.T) {
 		for trial := range 20 {
 			ds := randomDesigns(rng, 60+rng.IntN(140), m)
 			want := bruteFront(ds)
-			require.Equal(t, want, designIndices(ParetoFront(ds)), "m=%d trial %d: ParetoFront equals the definition", m, trial)
+			require.Equal(t, want, designIndices(ParetoFront(ds, itemPoint)), "m=%d trial %d: ParetoFront equals the definition", m, trial)
 			parts := 2 + rng.IntN(4)
-			var merged []search.Design
+			var merged []item
 			for p := range parts {
-				var part []search.Design
+				var part []item
 				for i, d := range ds {
 					if i%parts == p {
 						part = append(part, d)
 					}
 				}
-				merged = append(merged, ParetoFront(part)...)
+				merged = append(merged, ParetoFront(part, itemPoint)...)
 			}
 			// the merge keeps the first of equal vectors in the order of the
 			// whole set, as Merge does with runs in order
-			slices.SortFunc(merged, func(a, b search.Design) int { return int(a.Index - b.Index) })
-			assert.Equal(t, want, designIndices(ParetoFront(merged)), "m=%d trial %d: front of %d merged part fronts", m, trial, parts)
+			slices.SortFunc(merged, func(a, b item) int { return int(a.Index - b.Index) })
+			assert.Equal(t, want, designIndices(ParetoFront(merged, itemPoint)), "m=%d trial %d: front of %d merged part fronts", m, trial, parts)
 		}
 	}
 }
@@ -324,7 +307,7 @@ func BenchmarkParetoFront(b *testing.B) {
 	} {
 		b.Run(c.name, func(b *testing.B) {
 			rng := rand.New(rand.NewPCG(1, 1))
-			ds := make([]search.Design, c.n)
+			ds := make([]item, c.n)
 			for i := range ds {
 				f := make([]float64, c.m)
 				for k := range f {
@@ -333,10 +316,10 @@ func BenchmarkParetoFront(b *testing.B) {
 				if c.onOne {
 					f[1] = 1 - f[0]
 				}
-				ds[i] = search.Design{Index: int64(i), F: f}
+				ds[i] = item{Index: int64(i), F: f, Feasible: true}
 			}
 			for b.Loop() {
-				ParetoFront(ds)
+				ParetoFront(ds, itemPoint)
 			}
 			b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N)/float64(c.n), "ns/design")
 		})

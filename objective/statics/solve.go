@@ -1,15 +1,17 @@
-package kinematics
+package statics
 
-import "math"
+import (
+	"math"
+)
 
 // Damped Newton shooting, continuation and grid refinement (PHYSICS.md
 // §4.2), and small dense helpers.
 
-type stResult struct {
+type result struct {
 	n, m    [3]float64
 	iters   int
 	resid   float64
-	status  StaticsStatus
+	status  Status
 	samples []ShapeSample // nodes of the integration at (n, m)
 }
 
@@ -25,11 +27,11 @@ type stResult struct {
 // Moré, Garbow & Hillstrom, User Guide for MINPACK-1, ANL-80-74, 1980]).
 // The iteration also stops as stalled when five consecutive steps each
 // reduce ‖r‖ by less than 10 %.
-func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
+func (r *rod) newton(n, m [3]float64, dim int, cfg solveConfig) result {
 	x := r.scale(n, m, dim)
 	var rv, rt, rj [6]float64
 	var J [6][6]float64
-	res := stResult{status: StaticsConverged}
+	res := result{status: Converged}
 	// The nodes of the current point and of the trial point are recorded,
 	// so the converged shape needs no extra pass.
 	nodes := 0
@@ -38,23 +40,23 @@ func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
 	}
 	cur, trial := make([]ShapeSample, 0, nodes), make([]ShapeSample, 0, nodes)
 	if !r.residual(&x, dim, &rv, &cur) {
-		res.status, res.resid = StaticsNonFinite, math.Inf(1)
+		res.status, res.resid = NonFinite, math.Inf(1)
 		return res
 	}
-	nr := stNormN(rv[:dim])
+	nr := normN(rv[:dim])
 	lambda := 1e-3
 	fresh := false // J is a difference Jacobian at the current x
 	haveJ := false
 	slow := 0
 	for nr >= cfg.tol {
 		if res.iters >= cfg.maxIter {
-			res.status = StaticsIterationLimit
+			res.status = IterationLimit
 			break
 		}
 		res.iters++
 		if !haveJ {
 			if !r.jacobian(&x, &rv, dim, &J, &rj) {
-				res.status = StaticsNonFinite
+				res.status = NonFinite
 				break
 			}
 			haveJ, fresh = true, true
@@ -86,13 +88,13 @@ func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
 			for i := 0; i < dim; i++ {
 				M[i][i] += lambda * math.Max(A[i][i], 1e-12*dmax)
 			}
-			if stSolve(&M, &d, dim) {
+			if solveLinear(&M, &d, dim) {
 				xt := x
 				for i := 0; i < dim; i++ {
 					xt[i] += d[i]
 				}
 				if r.residual(&xt, dim, &rt, &trial) {
-					if nt = stNormN(rt[:dim]); nt < nr {
+					if nt = normN(rt[:dim]); nt < nr {
 						accepted = true
 						break
 					}
@@ -108,7 +110,7 @@ func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
 		}
 		if !accepted {
 			if fresh {
-				res.status = StaticsStalled
+				res.status = Stalled
 				break
 			}
 			haveJ = false
@@ -145,7 +147,7 @@ func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
 		cur, trial = trial, cur
 		lambda = math.Max(lambda/10, 1e-12)
 		if slow >= 5 && nr >= cfg.tol {
-			res.status = StaticsStalled
+			res.status = Stalled
 			break
 		}
 	}
@@ -153,14 +155,14 @@ func (r *stRod) newton(n, m [3]float64, dim int, cfg staticsConfig) stResult {
 	res.resid = nr
 	res.samples = cur
 	if nr < cfg.tol {
-		res.status = StaticsConverged
+		res.status = Converged
 	}
 	return res
 }
 
 // jacobian fills J with forward differences of the residual at x (rv is
 // r(x)); a non-finite forward point is retried backward.
-func (r *stRod) jacobian(x, rv *[6]float64, dim int, J *[6][6]float64, rj *[6]float64) bool {
+func (r *rod) jacobian(x, rv *[6]float64, dim int, J *[6][6]float64, rj *[6]float64) bool {
 	for j := 0; j < dim; j++ {
 		hj := 1e-7 * math.Max(1, math.Abs(x[j]))
 		xj := *x
@@ -181,7 +183,7 @@ func (r *stRod) jacobian(x, rv *[6]float64, dim int, J *[6][6]float64, rj *[6]fl
 
 // solve runs the direct solve, continuation when it fails, and grid
 // refinement when the loaded curvature breaks the step-angle bound.
-func (r *stRod) solve(cfg staticsConfig) (*Shape, error) {
+func (r *rod) solve(cfg solveConfig) (*Shape, error) {
 	dim := 6
 	if !r.follower && !cfg.shooting {
 		dim = 3
@@ -195,9 +197,9 @@ func (r *stRod) solve(cfg staticsConfig) (*Shape, error) {
 	for refine := 0; ; refine++ {
 		res := r.newton(n0, m0, dim, cfg)
 		shape.Iterations += res.iters
-		if res.status != StaticsConverged {
+		if res.status != Converged {
 			if cfg.contSteps == 0 {
-				return nil, &StaticsError{Status: res.status, Iterations: shape.Iterations, Residual: res.resid, LoadFactor: r.factor}
+				return nil, &Error{Status: res.status, Iterations: shape.Iterations, Residual: res.resid, LoadFactor: r.factor}
 			}
 			var steps, ni int
 			var err error
@@ -220,7 +222,7 @@ func (r *stRod) solve(cfg staticsConfig) (*Shape, error) {
 			sg := &r.segs[i]
 			var umax float64
 			for _, smp := range res.samples[k : k+sg.steps+1] {
-				umax = math.Max(umax, stNorm(smp.U))
+				umax = math.Max(umax, norm3(smp.U))
 			}
 			k += sg.steps + 1
 			h := (sg.b - sg.a) / float64(sg.steps)
@@ -235,12 +237,12 @@ func (r *stRod) solve(cfg staticsConfig) (*Shape, error) {
 		n0, m0 = res.n, res.m
 	}
 	shape.Integrations = r.integrations + extra
-	shape.Status = StaticsConverged
+	shape.Status = Converged
 	return shape, nil
 }
 
 // unloaded reports whether the rod carries no load at all.
-func (r *stRod) unloaded() bool {
+func (r *rod) unloaded() bool {
 	if r.tipF != [3]float64{} || r.tipM != [3]float64{} || r.folF != [3]float64{} || r.folM != [3]float64{} {
 		return false
 	}
@@ -254,9 +256,9 @@ func (r *stRod) unloaded() bool {
 
 // continuation ramps the load in cfg.contSteps equal steps, each solution
 // (extrapolated linearly from the two before it) seeding the next.
-func (r *stRod) continuation(dim int, cfg staticsConfig, iters int) (stResult, int, int, error) {
+func (r *rod) continuation(dim int, cfg solveConfig, iters int) (result, int, int, error) {
 	var prevN, prevM, prev2N, prev2M [3]float64 // the zero-load solution is n = m = 0
-	var res stResult
+	var res result
 	integrations := 0
 	steps := r.steps()
 	for k := 1; k <= cfg.contSteps; k++ {
@@ -264,13 +266,13 @@ func (r *stRod) continuation(dim int, cfg staticsConfig, iters int) (stResult, i
 		rk := r
 		if k < cfg.contSteps {
 			var err error
-			rk, err = newStRod(r.links, r.load, factor, cfg, steps)
+			rk, err = newRod(r.links, r.load, factor, cfg, steps)
 			if err != nil {
 				return res, 0, 0, err
 			}
 		}
-		n := stSub(stScale(prevN, 2), prev2N)
-		m := stSub(stScale(prevM, 2), prev2M)
+		n := sub(scale3(prevN, 2), prev2N)
+		m := sub(scale3(prevM, 2), prev2M)
 		if k == 1 {
 			n, m = rk.quickGuess()
 		}
@@ -279,8 +281,8 @@ func (r *stRod) continuation(dim int, cfg staticsConfig, iters int) (stResult, i
 		if rk != r {
 			integrations += rk.integrations
 		}
-		if res.status != StaticsConverged {
-			return res, 0, 0, &StaticsError{Status: res.status, Iterations: iters, Residual: res.resid, LoadFactor: factor}
+		if res.status != Converged {
+			return res, 0, 0, &Error{Status: res.status, Iterations: iters, Residual: res.resid, LoadFactor: factor}
 		}
 		prev2N, prev2M = prevN, prevM
 		prevN, prevM = res.n, res.m
@@ -293,17 +295,17 @@ func (r *stRod) continuation(dim int, cfg staticsConfig, iters int) (stResult, i
 // Small vector and matrix helpers (prefixed to keep the package namespace
 // clear).
 
-func stAdd(a, b [3]float64) [3]float64 { return [3]float64{a[0] + b[0], a[1] + b[1], a[2] + b[2]} }
-func stSub(a, b [3]float64) [3]float64 { return [3]float64{a[0] - b[0], a[1] - b[1], a[2] - b[2]} }
-func stScale(a [3]float64, c float64) [3]float64 {
+func add(a, b [3]float64) [3]float64 { return [3]float64{a[0] + b[0], a[1] + b[1], a[2] + b[2]} }
+func sub(a, b [3]float64) [3]float64 { return [3]float64{a[0] - b[0], a[1] - b[1], a[2] - b[2]} }
+func scale3(a [3]float64, c float64) [3]float64 {
 	return [3]float64{a[0] * c, a[1] * c, a[2] * c}
 }
-func stCross(a, b [3]float64) [3]float64 {
+func cross(a, b [3]float64) [3]float64 {
 	return [3]float64{a[1]*b[2] - a[2]*b[1], a[2]*b[0] - a[0]*b[2], a[0]*b[1] - a[1]*b[0]}
 }
-func stNorm(a [3]float64) float64 { return math.Sqrt(a[0]*a[0] + a[1]*a[1] + a[2]*a[2]) }
+func norm3(a [3]float64) float64 { return math.Sqrt(a[0]*a[0] + a[1]*a[1] + a[2]*a[2]) }
 
-func stNormN(a []float64) float64 {
+func normN(a []float64) float64 {
 	var s float64
 	for _, v := range a {
 		s += v * v
@@ -311,7 +313,7 @@ func stNormN(a []float64) float64 {
 	return math.Sqrt(s)
 }
 
-func stFinite(a [3]float64) bool {
+func finite3(a [3]float64) bool {
 	for _, v := range a {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
 			return false
@@ -320,7 +322,7 @@ func stFinite(a [3]float64) bool {
 	return true
 }
 
-func stInsertSorted(s []float64, v float64) []float64 {
+func insertSorted(s []float64, v float64) []float64 {
 	i := len(s)
 	for i > 0 && s[i-1] > v {
 		i--
@@ -334,12 +336,12 @@ func stInsertSorted(s []float64, v float64) []float64 {
 // InvertSPD inverts a symmetric positive definite 3×3 matrix (such as a
 // link's composite stiffness K) by cofactors; it reports false if K is not
 // symmetric (to 1e-9 relative) or not positive definite.
-func InvertSPD(k [3][3]float64) ([3][3]float64, bool) { return stInvSPD(k) }
+func InvertSPD(k [3][3]float64) ([3][3]float64, bool) { return invertSPD(k) }
 
-// stInvSPD inverts a symmetric positive definite 3×3 matrix by cofactors;
+// invertSPD inverts a symmetric positive definite 3×3 matrix by cofactors;
 // it reports false if K is not symmetric (to 1e-9 relative) or not
 // positive definite (leading minors).
-func stInvSPD(k [3][3]float64) ([3][3]float64, bool) {
+func invertSPD(k [3][3]float64) ([3][3]float64, bool) {
 	var inv [3][3]float64
 	scale := math.Max(math.Abs(k[0][0]), math.Max(math.Abs(k[1][1]), math.Abs(k[2][2])))
 	for i := range 3 {
@@ -369,9 +371,9 @@ func stInvSPD(k [3][3]float64) ([3][3]float64, bool) {
 	return inv, true
 }
 
-// stSolve solves a·x = b in place (x returned in b) for the leading n×n
+// solveLinear solves a·x = b in place (x returned in b) for the leading n×n
 // block by Gaussian elimination with partial pivoting.
-func stSolve(a *[6][6]float64, b *[6]float64, n int) bool {
+func solveLinear(a *[6][6]float64, b *[6]float64, n int) bool {
 	for c := 0; c < n; c++ {
 		p := c
 		for i := c + 1; i < n; i++ {

@@ -1,4 +1,4 @@
-package results
+package report
 
 import (
 	"bytes"
@@ -23,6 +23,8 @@ import (
 
 	"plica/objective"
 	"plica/problems"
+
+	"plica/results"
 )
 
 // Problem-file edits for the fixtures.
@@ -35,9 +37,9 @@ var (
 // fixtureRun runs a tiny search (the shipped demo problem with a
 // population of 12 and a coarse workspace, as smallProblem) with the given
 // edits into a new run folder and returns the folder.
-func fixtureRun(t testing.TB, evals int64, edits ...[2]string) *Folder {
+func fixtureRun(t testing.TB, evals int64, edits ...[2]string) *results.Folder {
 	t.Helper()
-	text, err := os.ReadFile("../problems/examples/boom-search.toml")
+	text, err := os.ReadFile("../../problems/examples/boom-search.toml")
 	require.NoError(t, err)
 	s := string(text)
 	base := [][2]string{{"relative_steps = 32", "relative_steps = 12"}, {"base_steps = 32", "base_steps = 8"}, {"population = 60", "population = 12"}}
@@ -47,20 +49,20 @@ func fixtureRun(t testing.TB, evals int64, edits ...[2]string) *Folder {
 	}
 	spec, err := problems.ParseProblem([]byte(s), "small.toml")
 	require.NoError(t, err, "fixture problem")
-	f, err := Create(filepath.Join(t.TempDir(), "run"))
+	f, err := results.Create(filepath.Join(t.TempDir(), "run"))
 	require.NoError(t, err)
 	set := spec.Settings()
 	set.MaxEvaluations = evals
 	set.Workers = 2
-	_, err = Execute(context.Background(), spec, f, set, Options{Version: "test"})
+	_, err = results.Execute(context.Background(), spec, f, set, results.Options{Version: "test"})
 	require.NoError(t, err, "fixture search")
 	return f
 }
 
-func fixtureData(t *testing.T, evals int64, edits ...[2]string) *ReportData {
+func fixtureData(t *testing.T, evals int64, edits ...[2]string) *Data {
 	t.Helper()
-	r, err := LoadReportData(fixtureRun(t, evals, edits...))
-	require.NoError(t, err, "LoadReportData")
+	r, err := Load(fixtureRun(t, evals, edits...))
+	require.NoError(t, err, "Load")
 	return r
 }
 
@@ -152,7 +154,7 @@ func countTexts(els []svgElement, prefix string) int {
 	return n
 }
 
-func TestFigScoreAxis(t *testing.T) {
+func TestScoreAxis(t *testing.T) {
 	cases := []struct{ key, name, unit string }{
 		{"reach_mm", "reach", "mm"},
 		{"surface_area_mm2", "surface area", "mm²"},
@@ -165,14 +167,14 @@ func TestFigScoreAxis(t *testing.T) {
 	}
 	for _, c := range cases {
 		t.Run(c.key, func(t *testing.T) {
-			name, unit := figScoreAxis(c.key)
+			name, unit := scoreAxis(c.key)
 			assert.Equal(t, c.name, name, "name of %s", c.key)
 			assert.Equal(t, c.unit, unit, "unit of %s", c.key)
 		})
 	}
 	// every score plica knows has a unit the figures can print
 	for _, s := range objective.AllScores() {
-		_, unit := figScoreAxis(s.Name)
+		_, unit := scoreAxis(s.Name)
 		assert.NotEmpty(t, unit, "unit of score %s", s.Name)
 	}
 }
@@ -208,7 +210,7 @@ func TestRepresentative(t *testing.T) {
 	}
 }
 
-func TestLoadReportData(t *testing.T) {
+func TestLoad(t *testing.T) {
 	r := fixtureData(t, 120)
 	require.NotEmpty(t, r.Front, "the demo problem has feasible designs")
 	assert.Len(t, r.Front, r.Info.FrontSize, "front.csv rows against run.json")
@@ -227,18 +229,18 @@ func TestLoadReportData(t *testing.T) {
 	assert.Equal(t, []float64{-r.Front[0].F[0], r.Front[0].F[1]}, r.Minimised(r.Front[0]), "maximised reach is negated")
 }
 
-func TestRepThin(t *testing.T) {
-	rows := make([]ReportRow, 10)
+func TestThin(t *testing.T) {
+	rows := make([]Row, 10)
 	for i := range rows {
 		rows[i].Index = int64(i)
 	}
-	got := repThin(rows, 4)
+	got := thin(rows, 4)
 	var idx []int64
 	for _, r := range got {
 		idx = append(idx, r.Index)
 	}
 	assert.Equal(t, []int64{0, 3, 6, 9}, idx, "evenly spread, ends kept")
-	assert.Len(t, repThin(rows, 20), 10, "short lists are kept whole")
+	assert.Len(t, thin(rows, 20), 10, "short lists are kept whole")
 }
 
 func TestFrontFigure(t *testing.T) {
@@ -261,9 +263,9 @@ func TestFrontFigure(t *testing.T) {
 			fig, err := r.FrontFigure(chosen)
 			require.NoError(t, err)
 			els := parseSVG(t, fig.SVG)
-			assert.Equal(t, c.panels*len(r.Front)+c.legend, countGlyphs(els, figFrontColor), "front points")
-			assert.Equal(t, c.panels*len(r.Evaluated)+c.legend, countGlyphs(els, figEvaluatedColor), "feasible evaluations")
-			assert.Equal(t, c.panels*len(chosen)+c.legend, countGlyphs(els, figChosenColor), "chosen designs")
+			assert.Equal(t, c.panels*len(r.Front)+c.legend, countGlyphs(els, frontColor), "front points")
+			assert.Equal(t, c.panels*len(r.Evaluated)+c.legend, countGlyphs(els, evaluatedColor), "feasible evaluations")
+			assert.Equal(t, c.panels*len(chosen)+c.legend, countGlyphs(els, chosenColor), "chosen designs")
 			assert.Equal(t, c.panels*len(chosen), countTexts(els, "#"), "chosen designs are labelled")
 			for _, l := range c.labels {
 				assert.Contains(t, texts(els), l, "axis label")
@@ -286,7 +288,7 @@ func TestVariablesFigure(t *testing.T) {
 		}
 	}
 	for _, e := range els {
-		if e.Name == "path" && strings.Contains(strings.ToLower(e.Style), "stroke:"+hexColor(figAxisColor)) {
+		if e.Name == "path" && strings.Contains(strings.ToLower(e.Style), "stroke:"+hexColor(axisColor)) {
 			axes++
 		}
 	}
@@ -305,10 +307,10 @@ func TestHypervolumeFigure(t *testing.T) {
 	fig, err := r.HypervolumeFigure()
 	require.NoError(t, err)
 	els := parseSVG(t, fig.SVG)
-	assert.Equal(t, len(r.History), countGlyphs(els, figHistoryColor), "one point per history row")
+	assert.Equal(t, len(r.History), countGlyphs(els, historyColor), "one point per history row")
 	lines := 0
 	for _, e := range els {
-		if e.Name == "path" && strings.Contains(strings.ToLower(e.Style), "stroke:"+hexColor(figHistoryColor)) {
+		if e.Name == "path" && strings.Contains(strings.ToLower(e.Style), "stroke:"+hexColor(historyColor)) {
 			lines++
 			assert.Equal(t, len(r.History)-1, strings.Count(e.D, "L"), "hypervolume line segments")
 		}
@@ -316,7 +318,7 @@ func TestHypervolumeFigure(t *testing.T) {
 	assert.Equal(t, 1, lines, "one hypervolume line")
 	assert.Contains(t, texts(els), "hypervolume (mm·mm)", "y label with the objectives' units")
 	assert.Contains(t, texts(els), "evaluations (count)", "x label")
-	assert.Contains(t, fig.Caption, figVector(r.Info.Reference), "caption names the reference point")
+	assert.Contains(t, fig.Caption, vector(r.Info.Reference), "caption names the reference point")
 
 	r.History = nil
 	_, err = r.HypervolumeFigure()
@@ -325,7 +327,7 @@ func TestHypervolumeFigure(t *testing.T) {
 
 func loadRobot(t *testing.T, file string) (*objective.Design, *objective.Scenario) {
 	t.Helper()
-	d, sc, err := problems.LoadDesign("../problems/examples/" + file)
+	d, sc, err := problems.LoadDesign("../../problems/examples/" + file)
 	require.NoError(t, err, "load %s", file)
 	return d, sc
 }
@@ -414,8 +416,8 @@ func TestWorkspaceFigure(t *testing.T) {
 	tips, err := WorkspaceTips(robot, sc.Workspace, MaxWorkspacePoints)
 	require.NoError(t, err)
 	els := parseSVG(t, fig.SVG)
-	assert.Equal(t, 2*len(tips), countGlyphs(els, figWorkspaceColor), "every tip in both views")
-	assert.Equal(t, 1, countGlyphs(els, figBaseColor), "the base")
+	assert.Equal(t, 2*len(tips), countGlyphs(els, workspaceColor), "every tip in both views")
+	assert.Equal(t, 1, countGlyphs(els, baseColor), "the base")
 	for _, l := range []string{"z (mm)", "x (mm)", "y (mm)"} {
 		assert.Contains(t, texts(els), l, "axis label")
 	}
@@ -438,7 +440,7 @@ func TestFigEqualAspect(t *testing.T) {
 			require.NoError(t, err)
 			p.Add(l)
 			dc := draw.New(vgsvg.New(c.width, c.height))
-			figEqualAspect(p, dc)
+			equalAspect(p, dc)
 			da := p.DataCanvas(dc)
 			ux := (p.X.Max - p.X.Min) / float64(da.Max.X-da.Min.X)
 			uy := (p.Y.Max - p.Y.Min) / float64(da.Max.Y-da.Min.Y)
@@ -453,14 +455,14 @@ func TestFigEqualAspect(t *testing.T) {
 }
 
 func TestWritePlots(t *testing.T) {
-	f, err := Create(t.TempDir())
+	f, err := results.Create(t.TempDir())
 	require.NoError(t, err)
-	p := figNewPlot("t", "a (mm)", "b (mm)")
+	p := newPlot("t", "a (mm)", "b (mm)")
 	b, err := SVG(p, 3*vg.Inch, 2*vg.Inch)
 	require.NoError(t, err)
 	figs := []Figure{{Name: "a.svg", SVG: b}, {Name: "b.svg", SVG: b}}
-	require.NoError(t, f.WritePlots(figs))
-	require.NoError(t, f.WritePlots(figs), "writing again replaces the files")
+	require.NoError(t, WritePlots(f, figs))
+	require.NoError(t, WritePlots(f, figs), "writing again replaces the files")
 	entries, err := os.ReadDir(f.Path(PlotsDir))
 	require.NoError(t, err)
 	var names []string
@@ -479,7 +481,7 @@ func BenchmarkBuildReport(b *testing.B) {
 	var rep *Report
 	for b.Loop() {
 		var err error
-		rep, err = BuildReport(f, ReportOptions{})
+		rep, err = Build(f, Options{})
 		if err != nil {
 			b.Fatal(err)
 		}
@@ -491,7 +493,7 @@ func BenchmarkBuildReport(b *testing.B) {
 // BenchmarkWorkspaceFigure draws the workspace of the shipped geometry
 // example (64 relative rotations, capped at MaxWorkspacePoints tips).
 func BenchmarkWorkspaceFigure(b *testing.B) {
-	d, sc, err := problems.LoadDesign("../problems/examples/boom-geometry.toml")
+	d, sc, err := problems.LoadDesign("../../problems/examples/boom-geometry.toml")
 	if err != nil {
 		b.Fatal(err)
 	}

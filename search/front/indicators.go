@@ -1,17 +1,11 @@
-package results
+package front
 
 import (
 	"cmp"
 	"fmt"
 	"math"
 	"slices"
-
-	"plica/search"
 )
-
-// Quality indicators of fronts (SEARCH.md §5). Every function here takes
-// objective vectors with all objectives minimised (a maximised score
-// negated), as the search sees them. None modifies its arguments.
 
 // NonDominated returns the indices of the points that no other point weakly
 // dominates, keeping the first of equal points, in increasing index order.
@@ -31,7 +25,7 @@ func NonDominated(points [][]float64) []int {
 	for _, i := range order {
 		keep := true
 		for _, j := range front {
-			if search.WeaklyDominates(points[j], points[i]) {
+			if WeaklyDominates(points[j], points[i]) {
 				keep = false
 				break
 			}
@@ -53,30 +47,38 @@ func hasNaN(p []float64) bool {
 	return false
 }
 
-// ParetoFront returns the feasible designs of ds that no other feasible
-// design weakly dominates, one per objective vector (the first in the order
-// given, as the search archive keeps it), sorted by objectives
-// (lexicographic) as search.Result.Front is. Merging the fronts of several
-// runs and taking ParetoFront of the union gives the front of the union of
-// all their designs.
-func ParetoFront(ds []search.Design) []search.Design {
-	var feas []search.Design
-	for _, d := range ds {
-		if d.Feasible() {
-			feas = append(feas, d)
+// ParetoFront returns the feasible items of a set whose objective vectors no
+// other feasible item weakly dominates, one per objective vector (the first
+// in the order given, as the search archive keeps it), sorted by objectives
+// (lexicographic) as search.Result.Front is. point gives an item's
+// objective vector (all minimised) and whether it is feasible. Merging the
+// fronts of several runs and taking ParetoFront of the union gives the
+// front of the union of all their designs.
+func ParetoFront[T any](items []T, point func(*T) (f []float64, feasible bool)) []T {
+	var feas []T
+	var pts [][]float64
+	for i := range items {
+		if f, ok := point(&items[i]); ok {
+			feas = append(feas, items[i])
+			pts = append(pts, f)
 		}
 	}
-	pts := make([][]float64, len(feas))
-	for i, d := range feas {
-		pts[i] = d.F
-	}
 	idx := NonDominated(pts)
-	out := make([]search.Design, len(idx))
+	out := make([]T, len(idx))
+	outF := make([][]float64, len(idx))
 	for k, i := range idx {
-		out[k] = feas[i]
+		out[k], outF[k] = feas[i], pts[i]
 	}
-	slices.SortStableFunc(out, func(a, b search.Design) int { return slices.Compare(a.F, b.F) })
-	return out
+	order := make([]int, len(idx))
+	for k := range order {
+		order[k] = k
+	}
+	slices.SortStableFunc(order, func(a, b int) int { return slices.Compare(outF[a], outF[b]) })
+	sorted := make([]T, len(idx))
+	for k, i := range order {
+		sorted[k] = out[i]
+	}
+	return sorted
 }
 
 // Normalization maps objectives onto [0, 1] between an ideal and a nadir
@@ -161,12 +163,6 @@ func latticeSize(h, m int) float64 {
 		c = c * float64(h+i) / float64(i)
 	}
 	return c
-}
-
-// Hypervolume is the exact hypervolume of points at ref (search.Hypervolume:
-// the 2-D sweep, slicing in 3-D, WFG beyond; SEARCH.md §5.1).
-func Hypervolume(points [][]float64, ref []float64) float64 {
-	return search.Hypervolume(points, ref)
 }
 
 // GD is the generational distance of a to the reference set z with p = 1:
@@ -257,7 +253,7 @@ func Coverage(a, b [][]float64) float64 {
 	n := 0
 	for _, q := range b {
 		for _, p := range a {
-			if search.WeaklyDominates(p, q) {
+			if WeaklyDominates(p, q) {
 				n++
 				break
 			}

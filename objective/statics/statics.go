@@ -1,24 +1,12 @@
-package kinematics
+package statics
 
 import (
 	"errors"
 	"fmt"
 	"math"
-)
 
-// Loaded statics of the nested set acting as one Cosserat rod (PHYSICS.md
-// §4). With rigid torsion the set is one inextensible, unshearable rod with
-// link-wise constant composite stiffness K and precurvature u* (the link's
-// equilibrium curvature U):
-//
-//	p' = R e3,  R' = R û,  u = u* + K⁻¹ Rᵀ m,  n' = −f,  m' = −p' × n      (4.1)
-//
-// with p(0) = 0, R(0) = I, n(L) = F_tip, m(L) = M_tip [derived; the
-// externally loaded concentric-tube model with relative twists frozen, from
-// memory (verify): Rucker, Jones & Webster, IEEE T-RO 26(5), 2010; Rucker &
-// Webster, IEEE T-RO 27(6), 2011]. The boundary-value problem is solved by
-// shooting with classical RK4 and a Levenberg–Marquardt iteration on the
-// base loads (PHYSICS.md §4.2).
+	"plica/objective/kinematics"
+)
 
 // PointForce is a dead force applied to the backbone at one arc length.
 type PointForce struct {
@@ -47,9 +35,9 @@ type Load struct {
 	FollowerMoment [3]float64
 }
 
-// StaticsSettings controls SolveStatics. The zero value (or a nil pointer)
+// Settings controls Solve. The zero value (or a nil pointer)
 // gives the defaults of PHYSICS.md §4.2.
-type StaticsSettings struct {
+type Settings struct {
 	// Resolution is the number of RK4 steps per backbone length L: a piece
 	// of length l gets at least ceil(Resolution·l/L) steps.
 	// Zero means 100.
@@ -83,14 +71,14 @@ type StaticsSettings struct {
 	Shooting bool
 }
 
-type staticsConfig struct {
+type solveConfig struct {
 	resolution, minSteps, maxIter, contSteps int
 	maxAngle, tol                            float64
 	shooting                                 bool
 }
 
-func (s *StaticsSettings) config() staticsConfig {
-	c := staticsConfig{resolution: 100, minSteps: 10, maxIter: 50, contSteps: 8, maxAngle: 0.1, tol: 1e-10}
+func (s *Settings) config() solveConfig {
+	c := solveConfig{resolution: 100, minSteps: 10, maxIter: 50, contSteps: 8, maxAngle: 0.1, tol: 1e-10}
 	if s == nil {
 		return c
 	}
@@ -122,66 +110,66 @@ func (s *StaticsSettings) config() staticsConfig {
 	return c
 }
 
-// StaticsStatus says how a statics solve ended.
-type StaticsStatus int
+// Status says how a statics solve ended.
+type Status int
 
 const (
-	// StaticsConverged: the residual norm fell below the tolerance.
-	StaticsConverged StaticsStatus = iota
-	// StaticsIterationLimit: MaxIterations was reached.
-	StaticsIterationLimit
-	// StaticsStalled: the Levenberg–Marquardt damping grew past 1e10
+	// Converged: the residual norm fell below the tolerance.
+	Converged Status = iota
+	// IterationLimit: MaxIterations was reached.
+	IterationLimit
+	// Stalled: the Levenberg–Marquardt damping grew past 1e10
 	// without reducing the residual.
-	StaticsStalled
-	// StaticsNonFinite: the integration overflowed (NaN or Inf) and no
+	Stalled
+	// NonFinite: the integration overflowed (NaN or Inf) and no
 	// finite trial point remained.
-	StaticsNonFinite
+	NonFinite
 )
 
-func (s StaticsStatus) String() string {
+func (s Status) String() string {
 	switch s {
-	case StaticsConverged:
+	case Converged:
 		return "converged"
-	case StaticsIterationLimit:
+	case IterationLimit:
 		return "iteration limit"
-	case StaticsStalled:
+	case Stalled:
 		return "stalled"
-	case StaticsNonFinite:
+	case NonFinite:
 		return "non-finite state"
 	}
-	return fmt.Sprintf("StaticsStatus(%d)", int(s))
+	return fmt.Sprintf("Status(%d)", int(s))
 }
 
-// ErrNotConverged is wrapped by every *StaticsError.
+// ErrNotConverged is wrapped by every *Error.
 var ErrNotConverged = errors.New("statics did not converge")
 
-// StaticsError reports a statics solve that did not converge. No shape is
+// Error reports a statics solve that did not converge. No shape is
 // returned with it: an unconverged shape is never a result.
-type StaticsError struct {
-	Status     StaticsStatus
+type Error struct {
+	Status     Status
 	Iterations int     // Newton iterations spent, continuation included
 	Residual   float64 // scaled residual norm at the last load step tried
 	LoadFactor float64 // fraction of the load at which the solve failed
 }
 
-func (e *StaticsError) Error() string {
+func (e *Error) Error() string {
 	return fmt.Sprintf("kinematics: statics did not converge: %v after %d iterations at %.3g of the load (residual %.3g)",
 		e.Status, e.Iterations, e.LoadFactor, e.Residual)
 }
 
 // Unwrap returns ErrNotConverged.
-func (e *StaticsError) Unwrap() error { return ErrNotConverged }
+func (e *Error) Unwrap() error { return ErrNotConverged }
 
 // ShapeSample is the loaded backbone at one RK4 node.
 type ShapeSample struct {
-	S    float64    // arc length, m
-	Pose Pose       // body frame → base frame
-	U    [3]float64 // loaded body-frame curvature u = u* + K⁻¹Rᵀm, 1/m
+	S    float64         // arc length, m
+	Pose kinematics.Pose // body frame → base frame
+	U    [3]float64      // loaded body-frame curvature u = u* + K⁻¹Rᵀm, 1/m
 }
 
 // Shape is a converged loaded equilibrium.
 type Shape struct {
-	Tip Pose
+	Tip kinematics.Pose
 	// Samples holds every RK4 node from s = 0 to the tip. At a link (or
 	// point-force) boundary two samples share the same S: the first carries
 	// the curvature on the proximal side, the second on the distal side.
@@ -204,11 +192,11 @@ type Shape struct {
 	DeadLoad bool
 	// Residual is the final scaled residual norm.
 	Residual float64
-	// Status is StaticsConverged for every returned shape.
-	Status StaticsStatus
+	// Status is Converged for every returned shape.
+	Status Status
 }
 
-// SolveStatics computes the loaded equilibrium of the rod made of links
+// Solve computes the loaded equilibrium of the rod made of links
 // (contiguous from s = 0, as returned by Robot.Links) under load (4.1).
 //
 // Method (PHYSICS.md §4.2): RK4 with N_j = max(MinLinkSteps,
@@ -220,13 +208,13 @@ type Shape struct {
 // Newton (Levenberg–Marquardt, forward-difference Jacobian kept current by
 // Broyden updates, λ₀ = 1e-3, ×10 on rejection, ÷10 on acceptance) to
 // ‖r‖ < Tolerance. If it fails, the load is ramped in ContinuationSteps
-// steps. If that fails too the error is a *StaticsError (wrapping
+// steps. If that fails too the error is a *Error (wrapping
 // ErrNotConverged) and the shape is nil. Invalid links or loads give a
-// plain error. SolveStatics keeps no state and is safe for concurrent use;
+// plain error. Solve keeps no state and is safe for concurrent use;
 // the same input gives the same result.
-func SolveStatics(links []Link, load Load, set *StaticsSettings) (*Shape, error) {
+func Solve(links []kinematics.Link, load Load, set *Settings) (*Shape, error) {
 	cfg := set.config()
-	rod, err := newStRod(links, load, 1, cfg, nil)
+	rod, err := newRod(links, load, 1, cfg, nil)
 	if err != nil {
 		return nil, err
 	}
@@ -239,9 +227,9 @@ func SolveStatics(links []Link, load Load, set *StaticsSettings) (*Shape, error)
 // m (positive when the tip moves down). Both shapes are integrated on the
 // same grid. It also returns the loaded shape. With zero gravity the sag is
 // zero.
-func TipSag(links []Link, load Load, set *StaticsSettings) (float64, *Shape, error) {
+func TipSag(links []kinematics.Link, load Load, set *Settings) (float64, *Shape, error) {
 	cfg := set.config()
-	rod, err := newStRod(links, load, 1, cfg, nil)
+	rod, err := newRod(links, load, 1, cfg, nil)
 	if err != nil {
 		return 0, nil, err
 	}
@@ -249,13 +237,13 @@ func TipSag(links []Link, load Load, set *StaticsSettings) (float64, *Shape, err
 	if err != nil {
 		return 0, nil, err
 	}
-	gn := stNorm(load.Gravity)
+	gn := norm3(load.Gravity)
 	if gn == 0 {
 		return 0, loaded, nil
 	}
 	ref := load
 	ref.Gravity = [3]float64{}
-	refRod, err := newStRod(links, ref, 1, cfg, rod.steps())
+	refRod, err := newRod(links, ref, 1, cfg, rod.steps())
 	if err != nil {
 		return 0, nil, err
 	}
@@ -288,12 +276,12 @@ const LinearDeflectionLimit = 0.05
 // It is exact to first order in the load for any precurved, piecewise or
 // anisotropic unloaded shape; follower loads enter at the unloaded tip
 // orientation (the difference is second order). The integrals are carried
-// by RK4 on a grid four times finer than SolveStatics' default (400 steps
+// by RK4 on a grid four times finer than Solve' default (400 steps
 // per length, at least 20 per link, h|u*| ≤ 0.05). Flag the estimate when
 // |dp|/L exceeds LinearDeflectionLimit.
-func LinearTipDeflection(links []Link, load Load) (dp, dphi [3]float64, err error) {
-	cfg := (&StaticsSettings{Resolution: 400, MinLinkSteps: 20, MaxStepAngle: 0.05}).config()
-	rod, err := newStRod(links, load, 1, cfg, nil)
+func LinearTipDeflection(links []kinematics.Link, load Load) (dp, dphi [3]float64, err error) {
+	cfg := (&Settings{Resolution: 400, MinLinkSteps: 20, MaxStepAngle: 0.05}).config()
+	rod, err := newRod(links, load, 1, cfg, nil)
 	if err != nil {
 		return dp, dphi, err
 	}
@@ -301,34 +289,34 @@ func LinearTipDeflection(links []Link, load Load) (dp, dphi [3]float64, err erro
 	return dp, dphi, nil
 }
 
-// Statics solves the loaded equilibrium of the robot at actuation a: the
+// SolveRobot solves the loaded equilibrium of robot r at actuation a: the
 // links of Robot.Links (composite stiffness, precurvature and mass per
-// length of the tubes present) under load, by SolveStatics.
-func (r *Robot) Statics(a Actuation, load Load, set *StaticsSettings) (*Shape, error) {
-	links, err := r.staticsLinks(a)
+// length of the tubes present) under load, by Solve.
+func SolveRobot(r *kinematics.Robot, a kinematics.Actuation, load Load, set *Settings) (*Shape, error) {
+	links, err := robotLinks(r, a)
 	if err != nil {
 		return nil, err
 	}
-	return SolveStatics(links, load, set)
+	return Solve(links, load, set)
 }
 
-// TipSag returns the tip sag of the robot at actuation a under load, and
-// the loaded shape (see the package-level TipSag).
-func (r *Robot) TipSag(a Actuation, load Load, set *StaticsSettings) (float64, *Shape, error) {
-	links, err := r.staticsLinks(a)
+// RobotTipSag returns the tip sag of robot r at actuation a under load, and
+// the loaded shape (see TipSag).
+func RobotTipSag(r *kinematics.Robot, a kinematics.Actuation, load Load, set *Settings) (float64, *Shape, error) {
+	links, err := robotLinks(r, a)
 	if err != nil {
 		return 0, nil, err
 	}
 	return TipSag(links, load, set)
 }
 
-func (r *Robot) staticsLinks(a Actuation) ([]Link, error) {
+func robotLinks(r *kinematics.Robot, a kinematics.Actuation) ([]kinematics.Link, error) {
 	links, err := r.Links(a, nil)
 	if err != nil {
 		return nil, err
 	}
 	if len(links) == 0 {
-		return nil, errors.New("kinematics: statics: the innermost tube ends at the base plane (no backbone to load)")
+		return nil, errors.New("statics: the innermost tube ends at the base plane (no backbone to load)")
 	}
 	return links, nil
 }
