@@ -310,10 +310,10 @@ func (rf *RunFront) Pick(opt PickOptions) (*PickResult, error) {
 	case PickKnee:
 		res.Method = "knee: largest distance, towards the ideal point, from the hyperplane through the extreme designs in normalised objectives (Das 1999; Branke et al. 2004)"
 		res.ScoreName = "knee_distance"
-		var note string
-		score, note = front.KneeDistances(pts)
-		if note != "" && len(cand) > 0 {
-			res.Notes = append(res.Notes, note)
+		k := front.FindKnee(pts)
+		score = k.Distances
+		if k.Note != "" && len(cand) > 0 {
+			res.Notes = append(res.Notes, k.Note)
 		}
 		better = func(a, b float64) int { return cmp.Compare(b, a) } // larger first
 	case PickPseudoWeights:

@@ -18,6 +18,8 @@ import (
 	"plica/search"
 
 	"plica/results"
+
+	"plica/search/front"
 )
 
 // File is the report's default name inside a run folder.
@@ -257,21 +259,16 @@ func (r *Data) reasons(ids []int, requested bool) map[int]string {
 	for i, row := range r.Front {
 		f[i] = r.Minimised(row)
 	}
-	best := make([]int, len(r.Spec.Objectives))
+	best := bestOf(f)
 	for k, o := range r.Spec.Objectives {
-		for i := range f {
-			if f[i][k] < f[best[k]][k] {
-				best[k] = i
-			}
-		}
 		id := r.Front[best[k]].ID
 		if out[id] != "" {
 			out[id] += ", "
 		}
 		out[id] += "best " + o.Score
 	}
-	if k := repKnee(f, best); k >= 0 {
-		id := r.Front[k].ID
+	if k := front.FindKnee(f); k.Found {
+		id := r.Front[k.Index].ID
 		if out[id] != "" {
 			out[id] += ", "
 		}

@@ -6,12 +6,12 @@ import (
 	"sort"
 	"strconv"
 
-	"gonum.org/v1/gonum/mat"
-
 	"plica/problems"
 	"plica/search"
 
 	"plica/results"
+
+	"plica/search/front"
 )
 
 // Data is what the plots and the report show, read back from a run
@@ -238,23 +238,13 @@ func (r *Data) FrontRow(id int) (Row, bool) {
 
 // Representative returns the designs a report shows by default, as
 // indices into f (objective vectors, all minimised): the best design of
-// each objective in objective order, then the knee when the front has one
-// (see below), without repeats. Ties go to the lower index.
-//
-// The knee is the design farthest on the ideal side of the hyperplane
-// through the best designs of each objective, in objectives normalised to
-// [0, 1] over the front: the normal-boundary-intersection view of a knee
-// (Das, "On characterizing the 'knee' of the Pareto curve based on
-// Normal-Boundary Intersection", Struct. Optim. 18, 1999; Branke, Deb,
-// Dierolf & Osswald, "Finding knees in multi-objective optimization",
-// PPSN 2004 — both from memory (verify)). There is none when the front has
-// fewer than three designs, when those best designs do not span a
-// hyperplane, or when no design lies strictly on the ideal side.
+// each objective in objective order, then the knee of front.FindKnee when
+// the front has one (Knee.Found), without repeats. Ties go to the lower
+// index. plica pick -knee names the same knee.
 func Representative(f [][]float64) []int {
 	if len(f) == 0 {
 		return nil
 	}
-	m := len(f[0])
 	var out []int
 	seen := map[int]bool{}
 	add := func(i int) {
@@ -263,72 +253,27 @@ func Representative(f [][]float64) []int {
 			out = append(out, i)
 		}
 	}
-	best := make([]int, m)
-	for k := range m {
+	for _, i := range bestOf(f) {
+		add(i)
+	}
+	if k := front.FindKnee(f); k.Found {
+		add(k.Index)
+	}
+	return out
+}
+
+// bestOf returns, for each objective, the index of the best design (the
+// lowest index among equals).
+func bestOf(f [][]float64) []int {
+	best := make([]int, len(f[0]))
+	for k := range best {
 		for i := range f {
 			if f[i][k] < f[best[k]][k] {
 				best[k] = i
 			}
 		}
-		add(best[k])
 	}
-	if k := repKnee(f, best); k >= 0 {
-		add(k)
-	}
-	return out
-}
-
-// repKnee returns the knee of Representative, or −1.
-func repKnee(f [][]float64, best []int) int {
-	m := len(best)
-	if m < 2 || len(f) < 3 {
-		return -1
-	}
-	lo := make([]float64, m)
-	span := make([]float64, m)
-	for k := range m {
-		lo[k], span[k] = math.Inf(1), math.Inf(-1)
-		for _, p := range f {
-			lo[k] = math.Min(lo[k], p[k])
-			span[k] = math.Max(span[k], p[k])
-		}
-		span[k] -= lo[k]
-		if !(span[k] > 0) {
-			return -1
-		}
-	}
-	norm := func(p []float64) []float64 {
-		q := make([]float64, m)
-		for k := range m {
-			q[k] = (p[k] - lo[k]) / span[k]
-		}
-		return q
-	}
-	// hyperplane w·q = 1 through the normalised best designs
-	e := mat.NewDense(m, m, nil)
-	for r, i := range best {
-		e.SetRow(r, norm(f[i]))
-	}
-	ones := make([]float64, m)
-	for k := range ones {
-		ones[k] = 1
-	}
-	var w mat.VecDense
-	if err := w.SolveVec(e, mat.NewVecDense(m, ones)); err != nil {
-		return -1
-	}
-	wn := mat.Norm(&w, 2)
-	if !(wn > 0) || math.IsInf(wn, 0) {
-		return -1
-	}
-	bestI, bestD := -1, 1e-9
-	for i, p := range f {
-		q := mat.NewVecDense(m, norm(p))
-		if d := (1 - mat.Dot(&w, q)) / wn; d > bestD {
-			bestI, bestD = i, d
-		}
-	}
-	return bestI
+	return best
 }
 
 // chosenIDs returns the front ids a report shows: ids when given, checked

@@ -41,7 +41,12 @@ func normaliseSet(points [][]float64) ([][]float64, []int) {
 // 2014; from memory (verify)): the point best in every other objective.
 // With two objectives these are the points best in each objective (the
 // ends of the front); with more they stay distinct where a front has flat
-// edges (several points equally best in one objective). Guards for degenerate sets, each explained in note: one point, or no
+// edges (several points equally best in one objective). Where they span no
+// hyperplane (no point lies near an axis), the hyperplane runs through the
+// individual minima instead, the point best in each objective, as in
+// normal-boundary intersection (Das 1999).
+//
+// Guards for degenerate sets, each explained in note: one point, or no
 // objective with a range, gives distances 0; objectives without a range are
 // left out; with one objective left the distance is 1 − f̂ (the best point);
 // when the extreme points do not span a hyperplane (two objectives share an
@@ -140,8 +145,37 @@ func kneeDistances(points [][]float64) (dist []float64, note string, found bool)
 		return dist, joinNote(note, why+": picked the design closest to the ideal point instead"), false
 	}
 	// extreme points: for axis k, the design of least max_j f̂_j/w_j with
-	// w = e_k (zeros replaced by 1e-6), i.e. nearest the axis
-	a := mat.NewDense(m, m+1, nil)
+	// w = e_k (zeros replaced by 1e-6), i.e. nearest the axis; where these
+	// span no hyperplane, the best design of each objective
+	nrm, c, why := hyperplane(pts, asfExtremes(pts))
+	if why != "" {
+		if n2, c2, why2 := hyperplane(pts, individualMinima(pts)); why2 == "" {
+			nrm, c, why = n2, c2, ""
+		}
+	}
+	if why != "" {
+		return closest(why)
+	}
+	norm := 0.0
+	for _, v := range nrm {
+		norm += v * v
+	}
+	norm = math.Sqrt(norm)
+	for i, p := range pts {
+		s := c
+		for j := range m {
+			s += nrm[j] * p[j]
+		}
+		dist[i] = -s / norm
+	}
+	return dist, note, true
+}
+
+// asfExtremes returns, for each axis k, the index of the point of least
+// max_j f̂_j/w_j with w = e_k, zeros replaced by 1e-6 (the first of equals).
+func asfExtremes(pts [][]float64) []int {
+	m := len(pts[0])
+	ext := make([]int, m)
 	for k := range m {
 		best, bestV := 0, math.Inf(1)
 		for i, p := range pts {
@@ -157,23 +191,50 @@ func kneeDistances(points [][]float64) (dist []float64, note string, found bool)
 				best, bestV = i, v
 			}
 		}
+		ext[k] = best
+	}
+	return ext
+}
+
+// individualMinima returns, for each objective, the index of the point best
+// in it (the first of equals): the individual minima of normal-boundary
+// intersection (Das 1999).
+func individualMinima(pts [][]float64) []int {
+	ext := make([]int, len(pts[0]))
+	for k := range ext {
+		for i, p := range pts {
+			if p[k] < pts[ext[k]][k] {
+				ext[k] = i
+			}
+		}
+	}
+	return ext
+}
+
+// hyperplane returns the hyperplane n·f + c = 0 through the points ext of
+// pts, oriented so that the ideal point (0) is on its positive side (c < 0),
+// or why it has none.
+func hyperplane(pts [][]float64, ext []int) (nrm []float64, c float64, why string) {
+	m := len(ext)
+	a := mat.NewDense(m, m+1, nil)
+	for k, i := range ext {
 		for j := range m {
-			a.Set(k, j, pts[best][j])
+			a.Set(k, j, pts[i][j])
 		}
 		a.Set(k, m, 1)
 	}
-	// the hyperplane n·f + c = 0 through them is the null space of [E 1]
+	// the hyperplane is the null space of [E 1]
 	var svd mat.SVD
 	if !svd.Factorize(a, mat.SVDFull) {
-		return closest("the extreme designs do not define a hyperplane")
+		return nil, 0, "the extreme designs do not define a hyperplane"
 	}
 	sv := svd.Values(nil)
 	if sv[m-1] <= 1e-10*sv[0] {
-		return closest("the extreme designs do not span a hyperplane (one design is extreme on two axes)")
+		return nil, 0, "the extreme designs do not span a hyperplane (one design is extreme on two axes)"
 	}
 	var v mat.Dense
 	svd.VTo(&v)
-	nrm, c := make([]float64, m), v.At(m, m)
+	nrm, c = make([]float64, m), v.At(m, m)
 	norm := 0.0
 	for j := range m {
 		nrm[j] = v.At(j, m)
@@ -181,22 +242,15 @@ func kneeDistances(points [][]float64) (dist []float64, note string, found bool)
 	}
 	norm = math.Sqrt(norm)
 	if norm == 0 || math.Abs(c) <= 1e-12*norm {
-		return closest("the hyperplane through the extreme designs passes through the ideal point")
+		return nil, 0, "the hyperplane through the extreme designs passes through the ideal point"
 	}
-	if c > 0 { // orient so that the ideal point (0) is on the positive side
+	if c > 0 {
 		c = -c
 		for j := range nrm {
 			nrm[j] = -nrm[j]
 		}
 	}
-	for i, p := range pts {
-		s := c
-		for j := range m {
-			s += nrm[j] * p[j]
-		}
-		dist[i] = -s / norm
-	}
-	return dist, note, true
+	return nrm, c, ""
 }
 
 // PseudoWeights returns the pseudo-weight vector of each point (objectives
