@@ -503,17 +503,6 @@ func vector(v []float64) string {
 	return "(" + strings.Join(parts, ", ") + ")"
 }
 
-// figBaseInsertion is the insertion of every bellows with the workspace's
-// insertion ranges at their lower ends, as the workspace sampling holds
-// them when they are fixed.
-func figBaseInsertion(n int, w objective.Workspace) []float64 {
-	beta := make([]float64, n)
-	for i := 0; i < n && i < len(w.Insertion); i++ {
-		beta[i] = w.Insertion[i][0]
-	}
-	return beta
-}
-
 // hue is a colour on the hue circle (HSV with full saturation, value
 // 0.8), t in [0, 1).
 func hue(t float64) color.RGBA {
@@ -557,7 +546,7 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	var names []string
 	drawn := 0
 	for k := range BackboneRotations {
-		a := kinematics.Actuation{Theta: make([]float64, n), Beta: figBaseInsertion(n, w)}
+		a := kinematics.Actuation{Theta: make([]float64, n), Beta: objective.FixedInsertion(n, w)}
 		a.Theta[0] = 2 * math.Pi * float64(k) / BackboneRotations
 		_, poses, err := robot.Backbone(a, total/120)
 		if err != nil {
@@ -621,100 +610,23 @@ func twoViews(side, top *plot.Plot) ([]byte, error) {
 	})
 }
 
-// WorkspaceTips samples the tip positions over the actuation space, as
-// the workspace scores do for up to three bellows: a grid over the
-// relative rotations of the inner bellows (the outermost held at 0, a
-// full turn, 2π excluded) and over each insertion range (ends included),
-// each tip turned by the common rotation over a full turn. The grid is
-// coarsened so that at most maxPoints tips come out. Actuations the
-// nesting rules forbid are skipped. Positions are in the base frame, m.
-func WorkspaceTips(robot *kinematics.Robot, w objective.Workspace, maxPoints int) ([][3]float64, error) {
-	n := len(robot.Tubes)
-	steps := func(v, def int) int {
-		if v <= 0 {
-			return def
-		}
-		return v
+// figureTips returns the tips the workspace figure draws: the tips the
+// workspace scores use (objective.WorkspaceTips), thinned evenly to at most
+// maxPoints (first and last kept).
+func figureTips(robot *kinematics.Robot, w objective.Workspace, maxPoints int) ([][3]float64, error) {
+	tips, err := objective.WorkspaceTips(robot, w)
+	if err != nil {
+		return nil, err
 	}
-	rel, base, ins := steps(w.RelativeSteps, 64), steps(w.BaseSteps, 64), steps(w.InsertionSteps, 8)
-	type dim struct {
-		tube, size int
-		insertion  bool
-	}
-	var dims []dim
-	for i := 0; i+1 < n; i++ {
-		dims = append(dims, dim{tube: i, size: rel})
-	}
-	for i := 0; i < n && i < len(w.Insertion); i++ {
-		if w.Insertion[i][1] > w.Insertion[i][0] {
-			dims = append(dims, dim{tube: i, size: ins, insertion: true})
-		}
-	}
-	// shapes get at most a quarter of the points (at least 4 common
-	// rotations each); shrink the largest dimension first
-	maxShapes := max(1, maxPoints/4)
-	for {
-		total, big := 1, -1
-		for k, d := range dims {
-			total *= d.size
-			if d.size > 2 && (big < 0 || d.size > dims[big].size) {
-				big = k
-			}
-		}
-		if total <= maxShapes || big < 0 {
-			break
-		}
-		dims[big].size--
-	}
-	var tips [][3]float64
-	idx := make([]int, len(dims))
-	for {
-		a := kinematics.Actuation{Theta: make([]float64, n), Beta: figBaseInsertion(n, w)}
-		for k, d := range dims {
-			if d.insertion {
-				lo, hi := w.Insertion[d.tube][0], w.Insertion[d.tube][1]
-				a.Beta[d.tube] = lo + (hi-lo)*float64(idx[k])/float64(d.size-1)
-			} else {
-				a.Theta[d.tube] = 2 * math.Pi * float64(idx[k]) / float64(d.size)
-			}
-		}
-		tip, err := robot.Tip(a)
-		if err == nil {
-			tips = append(tips, tip.P)
-		} else if ae := (*kinematics.ActuationError)(nil); !errors.As(err, &ae) {
-			return nil, err
-		}
-		k := 0
-		for ; k < len(dims); k++ {
-			idx[k]++
-			if idx[k] < dims[k].size {
-				break
-			}
-			idx[k] = 0
-		}
-		if k == len(dims) {
-			break
-		}
-	}
-	if len(tips) == 0 {
-		return nil, errors.New("no sampled actuation satisfies the nesting rules")
-	}
-	base = max(1, min(base, maxPoints/len(tips)))
-	out := make([][3]float64, 0, len(tips)*base)
-	for _, p := range tips {
-		for j := range base {
-			s, c := math.Sincos(2 * math.Pi * float64(j) / float64(base))
-			out = append(out, [3]float64{c*p[0] - s*p[1], s*p[0] + c*p[1], p[2]})
-		}
-	}
-	return out, nil
+	return thin(tips, maxPoints), nil
 }
 
-// WorkspaceFigure draws the tip point cloud of WorkspaceTips projected on
-// the x–z plane (side view) and the x–y plane (top view), to scale.
+// WorkspaceFigure draws the tip point cloud the workspace scores use
+// (objective.WorkspaceTips, thinned evenly to MaxWorkspacePoints) projected
+// on the x–z plane (side view) and the x–y plane (top view), to scale.
 func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Workspace) (Figure, error) {
 	fig := Figure{Name: name, Title: title}
-	tips, err := WorkspaceTips(robot, w, MaxWorkspacePoints)
+	tips, err := figureTips(robot, w, MaxWorkspacePoints)
 	if err != nil {
 		return fig, err
 	}

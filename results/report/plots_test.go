@@ -354,57 +354,30 @@ func TestBackboneFigure(t *testing.T) {
 	}
 }
 
-// TestWorkspaceTips checks the tip sampling against the objective's own
-// workspace scores and a hand-checkable shape.
-func TestWorkspaceTips(t *testing.T) {
-	lateral := func(p [3]float64) float64 { return math.Hypot(p[0], p[1]) }
-	t.Run("reach equals the objective's", func(t *testing.T) {
-		// derived: the same grid as the workspace scores (relative
-		// rotations over a full turn, the common rotation does not change
-		// the lateral distance), so the largest lateral distance is
-		// Scores.Reach up to rounding
-		d, sc := loadRobot(t, "boom-geometry.toml")
-		robot, _, err := d.Robot()
-		require.NoError(t, err)
-		res, err := objective.Evaluate(d, sc)
-		require.NoError(t, err)
-		tips, err := WorkspaceTips(robot, sc.Workspace, 1<<16)
-		require.NoError(t, err)
-		assert.Len(t, tips, 64*64, "64 relative by 64 common rotations (the defaults)")
-		reach := 0.0
-		for _, p := range tips {
-			reach = math.Max(reach, lateral(p))
-		}
-		assert.InEpsilon(t, res.Scores.Reach, reach, 1e-9, "reach of boom-geometry.toml")
-	})
-	t.Run("balanced pair straightens at 180 degrees", func(t *testing.T) {
-		// PHYSICS §3.5: the measured example is a balanced pair
-		// (EI1·κ1 = EI2·κ2), straight at 180° relative rotation with the
-		// tip on the axis at the full length, 450 mm (as TestPoseJSONContract)
-		d, _ := loadRobot(t, "boom-measured.toml")
-		robot, _, err := d.Robot()
-		require.NoError(t, err)
-		tips, err := WorkspaceTips(robot, objective.Workspace{RelativeSteps: 12, BaseSteps: 4}, 1024)
-		require.NoError(t, err)
-		assert.Len(t, tips, 48, "12 relative by 4 common rotations")
-		best := tips[0]
-		for _, p := range tips {
-			if lateral(p) < lateral(best) {
-				best = p
-			}
-		}
-		assert.InDelta(t, 0, lateral(best), 1e-12, "straight: on the axis")
-		assert.InDelta(t, 0.45, best[2], 1e-12, "straight: z = full length")
-	})
-	t.Run("capped", func(t *testing.T) {
-		d, sc := loadRobot(t, "boom-geometry.toml")
-		robot, _, err := d.Robot()
-		require.NoError(t, err)
-		tips, err := WorkspaceTips(robot, sc.Workspace, 100)
-		require.NoError(t, err)
-		assert.LessOrEqual(t, len(tips), 100, "at most maxPoints tips")
-		assert.GreaterOrEqual(t, len(tips), 50, "the cap is used, not wasted")
-	})
+// TestFigureTipsAreScored: the workspace figure draws the tips the
+// workspace scores use (objective.WorkspaceTips), all of them when they fit
+// under the cap, else an even selection of them.
+func TestFigureTipsAreScored(t *testing.T) {
+	d, sc := loadRobot(t, "boom-geometry.toml")
+	robot, _, err := d.Robot()
+	require.NoError(t, err)
+	scored, err := objective.WorkspaceTips(robot, sc.Workspace)
+	require.NoError(t, err)
+	all, err := figureTips(robot, sc.Workspace, len(scored))
+	require.NoError(t, err)
+	assert.Equal(t, scored, all, "under the cap: every scored tip")
+	capped, err := figureTips(robot, sc.Workspace, 100)
+	require.NoError(t, err)
+	assert.Len(t, capped, 100, "at most (and here exactly) maxPoints tips")
+	seen := map[[3]float64]bool{}
+	for _, p := range scored {
+		seen[p] = true
+	}
+	for _, p := range capped {
+		assert.True(t, seen[p], "drawn tip %v is a scored tip", p)
+	}
+	assert.Equal(t, scored[0], capped[0], "first tip kept")
+	assert.Equal(t, scored[len(scored)-1], capped[len(capped)-1], "last tip kept")
 }
 
 func TestWorkspaceFigure(t *testing.T) {
@@ -413,7 +386,7 @@ func TestWorkspaceFigure(t *testing.T) {
 	require.NoError(t, err)
 	fig, err := WorkspaceFigure("workspace.svg", "Workspace", robot, sc.Workspace)
 	require.NoError(t, err)
-	tips, err := WorkspaceTips(robot, sc.Workspace, MaxWorkspacePoints)
+	tips, err := figureTips(robot, sc.Workspace, MaxWorkspacePoints)
 	require.NoError(t, err)
 	els := parseSVG(t, fig.SVG)
 	assert.Equal(t, 2*len(tips), countGlyphs(els, workspaceColor), "every tip in both views")

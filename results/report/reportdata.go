@@ -179,11 +179,11 @@ func (r *Data) readRows(name string, front bool) ([]Row, error) {
 
 // thin keeps at most n rows, evenly spread over the slice, first and last
 // included.
-func thin(rows []Row, n int) []Row {
+func thin[T any](rows []T, n int) []T {
 	if len(rows) <= n || n < 2 {
 		return rows
 	}
-	out := make([]Row, n)
+	out := make([]T, n)
 	for k := range n {
 		out[k] = rows[k*(len(rows)-1)/(n-1)]
 	}
