@@ -11,6 +11,8 @@ import (
 	"strings"
 
 	"plica/search/front"
+
+	"plica/problems"
 )
 
 // PickedDir is the folder of a run folder where pick writes its designs.
@@ -104,7 +106,7 @@ func (c Condition) bind(header []string, rows [][]string, file string) (boundCon
 	col := headerColumn(header, c.Column)
 	if col < 0 {
 		hint := ""
-		if near := nearest(c.Column, header); near != "" {
+		if near := problems.Nearest(c.Column, header); near != "" {
 			hint = fmt.Sprintf("did you mean %q? ", near)
 		}
 		return boundCondition{}, inputErrorf("-where %s: %s has no column %q (%sexpected a column of its header)", c, file, c.Column, hint)
@@ -147,44 +149,6 @@ func (b boundCondition) match(row []string) bool {
 		return v == b.num
 	}
 	return v != b.num
-}
-
-// nearest returns the first name of names that starts with s, else the
-// name closest to s (Levenshtein distance at most a third of its length),
-// or "".
-func nearest(s string, names []string) string {
-	for _, n := range names {
-		if strings.HasPrefix(n, s) {
-			return n
-		}
-	}
-	best, bestD := "", len(s)/3+1
-	for _, n := range names {
-		if d := levenshtein(s, n); d < bestD {
-			best, bestD = n, d
-		}
-	}
-	return best
-}
-
-func levenshtein(a, b string) int {
-	prev := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur := make([]int, len(b)+1)
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(b)]
 }
 
 // PickMethod says how Pick chooses among the designs that pass the filters.
