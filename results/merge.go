@@ -150,57 +150,43 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	}
 
 	// evaluations.csv, streamed to a temporary file and renamed at the end
-	tmp, err := os.CreateTemp(folder.Dir, "."+EvaluationsFile+".tmp-*")
-	if err != nil {
-		return nil, err
-	}
-	defer func() {
-		tmp.Close()
-		os.Remove(tmp.Name())
-	}()
-	w := csv.NewWriter(tmp)
 	header := EvaluationHeader(spec)
-	w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
 	var designs []search.Design
 	origins := map[int64]origin{}
 	perRun := make([][]search.Design, len(ins))
 	counts := make([]int64, len(ins))
 	var next, failures int64
-	for r, in := range ins {
-		err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
-			row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
-			row = append(row, srcRun, srcIndex)
-			if err := w.Write(row); err != nil {
+	err = WriteAtomicStream(folder.Path(EvaluationsFile), func(out io.Writer) error {
+		w := csv.NewWriter(out)
+		w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
+		for r, in := range ins {
+			err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
+				row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
+				row = append(row, srcRun, srcIndex)
+				if err := w.Write(row); err != nil {
+					return err
+				}
+				d.Index = next
+				origins[next] = origin{run: r, srcRun: srcRun, index: srcIndex}
+				if d.Failed != "" {
+					failures++
+				}
+				if d.Feasible() {
+					designs = append(designs, d)
+					perRun[r] = append(perRun[r], d)
+				}
+				next++
+				counts[r]++
+				return nil
+			}, &res.Skipped)
+			if err != nil {
 				return err
 			}
-			d.Index = next
-			origins[next] = origin{run: r, srcRun: srcRun, index: srcIndex}
-			if d.Failed != "" {
-				failures++
-			}
-			if d.Feasible() {
-				designs = append(designs, d)
-				perRun[r] = append(perRun[r], d)
-			}
-			next++
-			counts[r]++
-			return nil
-		}, &res.Skipped)
-		if err != nil {
-			return nil, err
 		}
-	}
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return nil, err
-	}
-	if err := tmp.Sync(); err != nil {
-		return nil, err
-	}
-	if err := tmp.Close(); err != nil {
-		return nil, err
-	}
-	if err := os.Rename(tmp.Name(), folder.Path(EvaluationsFile)); err != nil {
+		w.Flush()
+		return w.Error()
+	})
+	if err != nil {
 		return nil, err
 	}
 

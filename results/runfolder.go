@@ -28,7 +28,6 @@ import (
 	"path/filepath"
 	"time"
 
-	"plica/problems"
 	"plica/search"
 )
 
@@ -131,10 +130,6 @@ func (f *Folder) Path(name string) string { return filepath.Join(f.Dir, name) }
 func (f *Folder) WriteFile(name string, data []byte) error {
 	return WriteAtomic(f.Path(name), data)
 }
-
-// WriteAtomic writes path atomically (temporary file + rename), so a
-// reader never sees a half-written file and a crash leaves the old one.
-func WriteAtomic(path string, data []byte) error { return problems.WriteAtomic(path, data) }
 
 // WriteInfo writes run.json.
 func (f *Folder) WriteInfo(info *RunInfo) error {

@@ -128,7 +128,7 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 		fmt.Fprintf(stderr, "plica: wrote %s\n", o.plot)
 	}
 	if o.out != "" {
-		if err := problems.WriteCalibration(o.out, cal); err != nil {
+		if err := results.WriteAtomic(o.out, cal.Format()); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "plica: wrote %s\n", o.out)
