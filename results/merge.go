@@ -31,11 +31,11 @@ const (
 
 // MergedRun describes one run of a merge in run.json.
 type MergedRun struct {
-	Run         string `json:"run"`
-	Seed        uint64 `json:"seed"`
-	ProblemHash string `json:"problem_hash"`
-	Method      string `json:"method"`
-	Status      string `json:"status"`
+	Run         string    `json:"run"`
+	Seed        uint64    `json:"seed"`
+	ProblemHash string    `json:"problem_hash"`
+	Method      string    `json:"method"`
+	Status      RunStatus `json:"status"`
 	// Evaluations counts the rows of its evaluations.csv merged.
 	Evaluations int64 `json:"evaluations"`
 	// FrontSize is the size of the front of its own evaluations.
@@ -117,7 +117,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 				return nil, err
 			}
 		}
-		if info.Status == "running" {
+		if info.Status == StatusRunning {
 			res.Notes = append(res.Notes, fmt.Sprintf("%s says it is still running (or was killed): merging the evaluations it has written", d))
 		}
 		ins = append(ins, mergeInput{dir: d, info: info, spec: spec})
@@ -193,7 +193,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	merged := front.ParetoFront(designs, (*search.Design).Point)
 	res.Front = FrontRows(spec, merged)
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
-		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: "merged", Evaluations: next,
+		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
 		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints

@@ -15,7 +15,6 @@ import (
 
 	"plica/objective"
 	"plica/problems"
-	"plica/search"
 
 	"plica/results"
 
@@ -322,8 +321,8 @@ func (r *Data) page(ids []int) *htmlPage {
 			}
 		}
 	}
-	timeBudget := info.TimeBudget
-	if timeBudget == "" || timeBudget == "0s" {
+	timeBudget := info.TimeBudget.String()
+	if info.TimeBudget == 0 {
 		timeBudget = "none"
 	}
 	orDefault := func(v any, zero bool) string {
@@ -345,7 +344,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		{"checkpoint every (generations)", orDefault(st.CheckpointEvery, st.CheckpointEvery == 0)},
 	}
 	p.Run = []keyValue{
-		{"status", info.Status},
+		{"status", info.Status.String()},
 		{"evaluations", fmt.Sprint(info.Evaluations)},
 		{"generations", fmt.Sprint(info.Generations)},
 		{"failed evaluations", fmt.Sprint(info.Failures)},
@@ -394,9 +393,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.FrontRows = append(p.FrontRows, frontTableRow{Cells: cells, Chosen: shown[row.ID]})
 	}
 	p.Cautions = append(p.Cautions, Cautions...)
-	switch info.Status {
-	case search.EvaluationLimit.String(), search.RuntimeLimit.String(), search.Stalled.String(), search.Converged.String():
-	default:
+	if !info.Status.Finished() {
 		p.Cautions = append(p.Cautions, fmt.Sprintf("The run did not finish (status %s): the front is that of the last complete generation; continue it with plica resume %s.", info.Status, r.Folder.Dir))
 	}
 	if info.Failures > 0 {
