@@ -502,7 +502,7 @@ func TestStaticsSamples(t *testing.T) {
 	}
 }
 
-// Robot.Statics runs on the links of Robot.Links; unloaded, its tip matches
+// SolveRobot runs on the links of Robot.Links; unloaded, its tip matches
 // the closed-form chain of link transforms (Robot.Tip) to the RK4 error.
 // Geometry SEG-1 (PHYSICS.md §9.3), stiffness scaled to bellows values.
 func TestRobotStatics(t *testing.T) {

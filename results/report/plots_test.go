@@ -446,10 +446,10 @@ func TestWritePlots(t *testing.T) {
 	assert.Equal(t, []string{"a.svg", "b.svg"}, names, "no temporary files left behind")
 }
 
-// BenchmarkBuildReport builds the report of a tiny run (72 evaluations,
+// BenchmarkBuild builds the report of a tiny run (72 evaluations,
 // two objectives): reading the folder, checking the designs shown and
 // drawing every figure.
-func BenchmarkBuildReport(b *testing.B) {
+func BenchmarkBuild(b *testing.B) {
 	f := fixtureRun(b, 72)
 	var rep *Report
 	for b.Loop() {
