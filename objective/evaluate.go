@@ -367,10 +367,8 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 			return 0, err
 		}
 		for j := 0; j < baseSteps; j++ {
-			s, c := math.Sincos(2 * math.Pi * float64(j) / float64(baseSteps))
-			p := sh.tip.P
-			x, y := c*p[0]-s*p[1], s*p[0]+c*p[1]
-			key := [3]int32{int32(math.Floor(x / h)), int32(math.Floor(y / h)), int32(math.Floor(p[2] / h))}
+			p := turned(sh.tip.P, j, baseSteps)
+			key := [3]int32{int32(math.Floor(p[0] / h)), int32(math.Floor(p[1] / h)), int32(math.Floor(p[2] / h))}
 			occupied[key] = struct{}{}
 		}
 	}

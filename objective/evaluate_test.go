@@ -10,6 +10,8 @@ import (
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
+
+	"plica/objective/statics"
 )
 
 // measuredBellows is a bellows with isotropic measured stiffness.
@@ -149,7 +151,7 @@ func TestComplianceMatchesLinearEstimate(t *testing.T) {
 	links, err := robot.Links(a, nil)
 	require.NoError(t, err)
 	for _, g := range [][3]float64{{0, -9.81, 0}, {9.81, 0, 0}, {0, 0, 9.81}} {
-		dp, _, err := kinematics.LinearTipDeflection(links, kinematics.Load{Gravity: g, TipForce: [3]float64{0.05 * g[0], 0.05 * g[1], 0.05 * g[2]}})
+		dp, _, err := statics.LinearTipDeflection(links, statics.Load{Gravity: g, TipForce: [3]float64{0.05 * g[0], 0.05 * g[1], 0.05 * g[2]}})
 		require.NoError(t, err)
 		for i := range 3 {
 			got := sh.comp[i][0]*g[0] + sh.comp[i][1]*g[1] + sh.comp[i][2]*g[2]

@@ -7,6 +7,8 @@ import (
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
+
+	"plica/objective/statics"
 )
 
 // sag finds the worst tip sag over the sampled workspace. The linear
@@ -63,27 +65,27 @@ func (e *evaluator) sag(res *Result) error {
 		return err
 	}
 	ld := e.sc.Load
-	load := kinematics.Load{Gravity: g, TipMoment: ld.TipMoment}
+	load := statics.Load{Gravity: g, TipMoment: ld.TipMoment}
 	for i := range 3 {
 		load.TipForce[i] = ld.PayloadMass*g[i] + ld.TipForce[i]
 	}
 	// The reference shape keeps only the loads that are not weight.
-	ref := kinematics.Load{TipForce: ld.TipForce, TipMoment: ld.TipMoment}
-	loaded, err := kinematics.SolveStatics(links, load, nil)
+	ref := statics.Load{TipForce: ld.TipForce, TipMoment: ld.TipMoment}
+	loaded, err := statics.Solve(links, load, nil)
 	if err != nil {
 		return fmt.Errorf("tip sag at angles %s: %w", degList(act.Theta), err)
 	}
 	// Without extra tip loads the reference is the unloaded shape, whose
 	// tip the closed-form link transforms give exactly.
-	var free *kinematics.Shape
+	var free *statics.Shape
 	if ref.TipForce == ([3]float64{}) && ref.TipMoment == ([3]float64{}) {
 		tip := kinematics.Identity()
 		for _, l := range links {
 			tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
 		}
-		free = &kinematics.Shape{Tip: tip}
+		free = &statics.Shape{Tip: tip}
 	} else {
-		free, err = kinematics.SolveStatics(links, ref, nil)
+		free, err = statics.Solve(links, ref, nil)
 		if err != nil {
 			return fmt.Errorf("tip sag at angles %s (no gravity): %w", degList(act.Theta), err)
 		}
@@ -115,9 +117,9 @@ func (e *evaluator) sag(res *Result) error {
 		return nonFinite("the linear tip sag estimate at angles " + degList(act.Theta))
 	}
 	L := links[len(links)-1].End
-	if math.Sqrt(dp[0]*dp[0]+dp[1]*dp[1]+dp[2]*dp[2])/L > kinematics.LinearDeflectionLimit {
+	if math.Sqrt(dp[0]*dp[0]+dp[1]*dp[1]+dp[2]*dp[2])/L > statics.LinearDeflectionLimit {
 		res.Warnings = append(res.Warnings, fmt.Sprintf("tip deflection under load exceeds %.0f %% of the length: the linear sag estimate is unreliable; the reported sag is from the geometrically exact model",
-			100*kinematics.LinearDeflectionLimit))
+			100*statics.LinearDeflectionLimit))
 	}
 	return nil
 }

@@ -6,6 +6,8 @@ import (
 	"math"
 
 	"plica/objective/kinematics"
+
+	"plica/objective/statics"
 )
 
 // shape is one sampled actuation with everything the scores need from it.
@@ -78,10 +80,7 @@ func plan(n int, w Workspace) samplePlan {
 	}
 	p := samplePlan{dof: len(dims) + 1}
 	p.grid2 = n == 2 && len(dims) == 1
-	fixedBeta := make([]float64, n)
-	for i := 0; i < n && i < len(w.Insertion); i++ {
-		fixedBeta[i] = w.Insertion[i][0]
-	}
+	fixedBeta := FixedInsertion(n, w)
 	total := 1
 	for _, d := range dims {
 		total *= d
@@ -138,6 +137,53 @@ func plan(n int, w Workspace) samplePlan {
 		p.acts = append(p.acts, build(coords))
 	}
 	return p
+}
+
+// FixedInsertion returns the insertion of each of n bellows at the lower
+// end of its workspace range, where the workspace sampling holds the
+// bellows whose range is fixed (and the figures draw the backbone).
+func FixedInsertion(n int, w Workspace) []float64 {
+	beta := make([]float64, n)
+	for i := 0; i < n && i < len(w.Insertion); i++ {
+		beta[i] = w.Insertion[i][0]
+	}
+	return beta
+}
+
+// WorkspaceTips returns the tip positions the workspace scores are computed
+// from, base frame, m: every sampled actuation of the workspace (the grid
+// or the Halton set of Workspace, with its defaults) that the nesting rules
+// allow, each turned by the BaseSteps common rotations, in that order
+// (actuation by actuation, the common rotation innermost). Evaluate samples
+// exactly these.
+func WorkspaceTips(robot *kinematics.Robot, w Workspace) ([][3]float64, error) {
+	w = defaults(w)
+	n := len(robot.Tubes)
+	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n)}
+	var tips [][3]float64
+	for _, a := range plan(n, w).acts {
+		sh, err := e.evalShape(a)
+		if err != nil {
+			return nil, err
+		}
+		if sh == nil {
+			continue
+		}
+		for j := range w.BaseSteps {
+			tips = append(tips, turned(sh.tip.P, j, w.BaseSteps))
+		}
+	}
+	if len(tips) == 0 {
+		return nil, errors.New("no sampled actuation satisfies the nesting rules")
+	}
+	return tips, nil
+}
+
+// turned is p turned about the base z axis by the j-th of steps common
+// rotations over a full turn.
+func turned(p [3]float64, j, steps int) [3]float64 {
+	s, c := math.Sincos(2 * math.Pi * float64(j) / float64(steps))
+	return [3]float64{c*p[0] - s*p[1], s*p[0] + c*p[1], p[2]}
 }
 
 var primes = []int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53}
@@ -255,7 +301,7 @@ func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
 		}
 		h := ll / float64(m)
 		step := kinematics.LinkTransform(l.U, h)
-		kinv, _ := kinematics.InvertSPD(l.K) // Links checked K
+		kinv, _ := statics.InvertSPD(l.K) // Links checked K
 		for j := 0; j < m; j++ {
 			nd := complianceNode{s: sPos, p: pose.P, w: h, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)}
 			if j == 0 {

@@ -217,7 +217,7 @@ func (b *Bench) readHeader(rec []string, line int, add addFunc) {
 // suggest names a header cell close to a missing column.
 func suggest(unknown []string, missing ...string) string {
 	for _, u := range unknown {
-		if m := nearest(u, missing); m != "" {
+		if m := Nearest(u, missing); m != "" {
 			return fmt.Sprintf("; found %q, did you mean %q?", u, m)
 		}
 	}

@@ -154,46 +154,6 @@ func tomlQuote(s string) string {
 	return b.String()
 }
 
-// WriteCalibration writes the calibration file atomically: a temporary file
-// in the same directory, synced, then renamed over path, so a reader never
-// sees half a file.
-func WriteCalibration(path string, c *Calibration) error {
-	return WriteAtomic(path, c.Format())
-}
-
-// WriteAtomic writes data to path through a temporary file in the same
-// directory, synced, then renamed over path: a reader never sees half a
-// file and a crash leaves the old one. On failure path is untouched.
-func WriteAtomic(path string, data []byte) (err error) {
-	dir, base := filepath.Split(path)
-	if dir == "" {
-		dir = "."
-	}
-	tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
-	if err != nil {
-		return err
-	}
-	defer func() {
-		if err != nil {
-			tmp.Close()
-			os.Remove(tmp.Name())
-		}
-	}()
-	if _, err = tmp.Write(data); err != nil {
-		return err
-	}
-	if err = tmp.Sync(); err != nil {
-		return err
-	}
-	if err = tmp.Chmod(0o644); err != nil {
-		return err
-	}
-	if err = tmp.Close(); err != nil {
-		return err
-	}
-	return os.Rename(tmp.Name(), path)
-}
-
 // LoadCalibration reads and checks a calibration file.
 func LoadCalibration(path string) (*Calibration, error) {
 	data, err := os.ReadFile(path)

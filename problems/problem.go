@@ -267,7 +267,7 @@ func (s *Spec) readObjectives(root *table) {
 
 func unknownScore(name string) string {
 	msg := fmt.Sprintf("%q is not a score", name)
-	if n := nearest(name, objective.ScoreNames()); n != "" {
+	if n := Nearest(name, objective.ScoreNames()); n != "" {
 		msg += fmt.Sprintf(" (did you mean %q?)", n)
 	}
 	return msg + " (expected one of: " + strings.Join(objective.ScoreNames(), "|") + ")"

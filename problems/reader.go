@@ -291,50 +291,11 @@ func (t *table) finish(known []string) {
 	}
 	for _, k := range unknown {
 		msg := fmt.Sprintf("unknown key %q %s", k, where)
-		if s := nearest(k, known); s != "" {
+		if s := Nearest(k, known); s != "" {
 			msg += fmt.Sprintf(" (did you mean %q?)", s)
 		}
 		t.r.errorf(t.key(k), "%s", msg)
 	}
-}
-
-// nearest returns the known key closest to k by edit distance, or a known
-// key that extends k with a unit suffix; "" when nothing is close.
-func nearest(k string, known []string) string {
-	best, bestD := "", 1<<30
-	for _, c := range known {
-		if strings.HasPrefix(c, k+"_") {
-			return c
-		}
-		d := editDistance(k, c)
-		if d < bestD {
-			best, bestD = c, d
-		}
-	}
-	if bestD <= 3 || bestD*3 <= len(k) {
-		return best
-	}
-	return ""
-}
-
-func editDistance(a, b string) int {
-	prev := make([]int, len(b)+1)
-	cur := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			c := 1
-			if a[i-1] == b[j-1] {
-				c = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+c)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(b)]
 }
 
 func fmtNum(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }

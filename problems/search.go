@@ -103,10 +103,7 @@ func (s *Spec) Fill(res *objective.Result, f, g []float64) error {
 		if math.IsNaN(v) {
 			return fmt.Errorf("score %s is not available for this design", o.Score)
 		}
-		if o.Maximize {
-			v = -v
-		}
-		f[i] = v
+		f[i] = o.Minimised(v)
 	}
 	if len(res.Checks) != len(s.Checks) {
 		return fmt.Errorf("the design has %d checks, the problem %d", len(res.Checks), len(s.Checks))

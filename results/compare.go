@@ -11,7 +11,9 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 
-	"plica/search"
+	"plica/search/front"
+
+	"plica/problems"
 )
 
 // jsonNum is a float that encodes NaN and ±Inf (an indicator without a
@@ -155,7 +157,7 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 		sets = append(sets, f.F)
 		largest = max(largest, len(f.F))
 	}
-	norm, err := NewNormalization(sets...)
+	norm, err := front.NewNormalization(sets...)
 	if err != nil {
 		return nil, fmt.Errorf("no run has a feasible front design: nothing to compare")
 	}
@@ -164,9 +166,9 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 		c.Problem = fronts[0].Info.ProblemFile
 	}
 	for k, o := range spec.Objectives {
-		co := ComparedObjective{Score: o.Score, Goal: "minimize", Ideal: norm.Ideal[k], Nadir: norm.Nadir[k]}
+		co := ComparedObjective{Score: o.Score, Goal: "minimize", Ideal: o.Natural(norm.Ideal[k]), Nadir: o.Natural(norm.Nadir[k])}
 		if o.Maximize {
-			co.Goal, co.Ideal, co.Nadir = "maximize", -co.Ideal, -co.Nadir
+			co.Goal = "maximize"
 		}
 		c.Objectives = append(c.Objectives, co)
 	}
@@ -180,7 +182,7 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 			owner = append(owner, r)
 		}
 	}
-	ufIdx := NonDominated(union)
+	ufIdx := front.NonDominated(union)
 	z := make([][]float64, len(ufIdx))
 	for i, k := range ufIdx {
 		z[i] = union[k]
@@ -189,7 +191,7 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	c.Normalization = fmt.Sprintf("each objective mapped to [0, 1] between the ideal and the nadir point of the non-dominated set of the union of the %d fronts (%d points), the same for every run; maximised scores are negated first", len(fronts), len(z))
 	ref := opt.Reference
 	if ref == 0 {
-		h := ReferenceDivisions(largest, m)
+		h := front.ReferenceDivisions(largest, m)
 		ref = 1 + 1/float64(h)
 		c.ReferenceReason = fmt.Sprintf("1 + 1/H with H = %d: the largest front (%d points) fills a %d-objective simplex lattice of H = %d divisions (Ishibuchi et al., Evol. Comput. 26(3), 2018)", h, largest, m, h)
 	} else {
@@ -199,16 +201,16 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	for k := range c.Reference {
 		c.Reference[k] = ref
 	}
-	c.UnionHypervolume = jsonNum(Hypervolume(z, c.Reference))
+	c.UnionHypervolume = jsonNum(front.Hypervolume(z, c.Reference))
 	for r, f := range fronts {
 		cr := ComparedRun{Run: f.Dir, Seed: f.Info.Seed, Method: f.Info.Method, Evaluations: f.Info.Evaluations, FrontSize: len(f.F)}
-		cr.Hypervolume = jsonNum(Hypervolume(nf[r], c.Reference))
-		cr.IGD = jsonNum(IGD(nf[r], z))
-		cr.IGDPlus = jsonNum(IGDPlus(nf[r], z))
+		cr.Hypervolume = jsonNum(front.Hypervolume(nf[r], c.Reference))
+		cr.IGD = jsonNum(front.IGD(nf[r], z))
+		cr.IGDPlus = jsonNum(front.IGDPlus(nf[r], z))
 		for _, q := range nf[r] {
 			on := true
 			for _, p := range z {
-				if search.Dominates(p, q) {
+				if front.Dominates(p, q) {
 					on = false
 					break
 				}
@@ -225,13 +227,13 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	for a := range fronts {
 		for b := a + 1; b < len(fronts); b++ {
 			p := ComparedPair{A: fronts[a].Dir, B: fronts[b].Dir,
-				EpsAB: jsonNum(EpsilonAdditive(nf[a], nf[b])), EpsBA: jsonNum(EpsilonAdditive(nf[b], nf[a])),
-				CAB: jsonNum(Coverage(nf[a], nf[b])), CBA: jsonNum(Coverage(nf[b], nf[a]))}
+				EpsAB: jsonNum(front.EpsilonAdditive(nf[a], nf[b])), EpsBA: jsonNum(front.EpsilonAdditive(nf[b], nf[a])),
+				CAB: jsonNum(front.Coverage(nf[a], nf[b])), CBA: jsonNum(front.Coverage(nf[b], nf[a]))}
 			p.Sentence = pairSentence(p, len(nf[a]), len(nf[b]))
 			c.Pairs = append(c.Pairs, p)
 		}
 	}
-	c.Regions = frontRegions(fronts, nf, z, spec.Objectives[0].Maximize, norm)
+	c.Regions = frontRegions(fronts, nf, z, spec.Objectives[0], norm)
 	c.Verdict = verdict(c)
 	if opt.Groups != nil {
 		c.Groups, c.GroupTests = groupStats(c.Runs, opt.Groups)
@@ -269,7 +271,7 @@ func pairSentence(p ComparedPair, na, nb int) string {
 // frontRegions labels each union-front point with the runs that hold it
 // (an equal objective vector) and joins neighbours along the first
 // objective with the same label.
-func frontRegions(fronts []*RunFront, nf [][][]float64, z [][]float64, maximize bool, norm Normalization) []FrontRegion {
+func frontRegions(fronts []*RunFront, nf [][][]float64, z [][]float64, first problems.Objective, norm front.Normalization) []FrontRegion {
 	pts := slices.Clone(z)
 	slices.SortStableFunc(pts, func(a, b []float64) int { return slices.Compare(a, b) })
 	var out []FrontRegion
@@ -283,10 +285,7 @@ func frontRegions(fronts []*RunFront, nf [][][]float64, z [][]float64, maximize 
 				}
 			}
 		}
-		v := norm.Ideal[0] + p[0]*norm.Span(0)
-		if maximize {
-			v = -v
-		}
+		v := first.Natural(norm.Ideal[0] + p[0]*norm.Span(0))
 		if n := len(out); n > 0 && slices.Equal(out[n-1].Runs, runs) {
 			out[n-1].To = v
 			out[n-1].Points++
@@ -362,7 +361,7 @@ func groupStats(runs []ComparedRun, labels []string) ([]GroupStats, []GroupTest)
 				name string
 				v    map[string][]float64
 			}{{"hypervolume", hv}, {"igd_plus", igd}} {
-				u, p := MannWhitney(ind.v[order[a]], ind.v[order[b]])
+				u, p := front.MannWhitney(ind.v[order[a]], ind.v[order[b]])
 				ma, _ := medianIQR(ind.v[order[a]])
 				mb, _ := medianIQR(ind.v[order[b]])
 				better := order[a]

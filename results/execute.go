@@ -83,10 +83,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
 	}
 	info.Method = methodName(method)
-	info.Status = "running"
+	info.Status = StatusRunning
 	info.Workers = set.Workers
 	info.MaxEvaluations = set.MaxEvaluations
-	info.TimeBudget = set.Runtime.String()
+	info.TimeBudget = set.Runtime
 	info.Updated = time.Now().UTC()
 	if err := f.WriteInfo(info); err != nil {
 		return nil, err
@@ -150,7 +150,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	if err := f.WriteFront(spec, FrontRows(spec, res.Front), frontComment(spec, info)); err != nil {
 		return res, err
 	}
-	info.Status = res.Status.String()
+	info.Status = StatusOf(res.Status)
 	info.Generations, info.Evaluations, info.Failures = res.Generation, res.Evaluations, res.Failures
 	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
 	info.RuntimeSec = res.Runtime.Seconds()
@@ -190,11 +190,7 @@ func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 		var b strings.Builder
 		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, info.ProblemFile, info.Seed, r.Design.Index)
 		for i, o := range spec.Objectives {
-			v := r.Design.F[i]
-			if o.Maximize {
-				v = -v
-			}
-			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, v)
+			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, o.Natural(r.Design.F[i]))
 		}
 		b.WriteString("Check it with: plica check THIS_FILE\n")
 		b.WriteString(Caution)

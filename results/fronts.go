@@ -93,10 +93,7 @@ func LoadRunFront(dir string) (*RunFront, error) {
 				ok = false
 				break
 			}
-			if spec.Objectives[i].Maximize {
-				v = -v
-			}
-			fv[i] = v
+			fv[i] = spec.Objectives[i].Minimised(v)
 		}
 		if !ok {
 			rf.Skipped++
@@ -133,14 +130,7 @@ func headerColumn(header []string, name string) int {
 // Scores returns objective vector i in the scores' own signs and units, as
 // front.csv shows them.
 func (rf *RunFront) Scores(i int) []float64 {
-	out := make([]float64, len(rf.F[i]))
-	for k, v := range rf.F[i] {
-		if rf.Spec.Objectives[k].Maximize {
-			v = -v
-		}
-		out[k] = v
-	}
-	return out
+	return rf.Spec.Natural(rf.F[i])
 }
 
 // ObjectiveLabels names the objectives with their goals, e.g.

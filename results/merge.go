@@ -16,6 +16,8 @@ import (
 
 	"plica/problems"
 	"plica/search"
+
+	"plica/search/front"
 )
 
 // Columns that merge adds to evaluations.csv: the run folder each row
@@ -29,11 +31,11 @@ const (
 
 // MergedRun describes one run of a merge in run.json.
 type MergedRun struct {
-	Run         string `json:"run"`
-	Seed        uint64 `json:"seed"`
-	ProblemHash string `json:"problem_hash"`
-	Method      string `json:"method"`
-	Status      string `json:"status"`
+	Run         string    `json:"run"`
+	Seed        uint64    `json:"seed"`
+	ProblemHash string    `json:"problem_hash"`
+	Method      string    `json:"method"`
+	Status      RunStatus `json:"status"`
 	// Evaluations counts the rows of its evaluations.csv merged.
 	Evaluations int64 `json:"evaluations"`
 	// FrontSize is the size of the front of its own evaluations.
@@ -115,7 +117,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 				return nil, err
 			}
 		}
-		if info.Status == "running" {
+		if info.Status == StatusRunning {
 			res.Notes = append(res.Notes, fmt.Sprintf("%s says it is still running (or was killed): merging the evaluations it has written", d))
 		}
 		ins = append(ins, mergeInput{dir: d, info: info, spec: spec})
@@ -148,74 +150,60 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	}
 
 	// evaluations.csv, streamed to a temporary file and renamed at the end
-	tmp, err := os.CreateTemp(folder.Dir, "."+EvaluationsFile+".tmp-*")
-	if err != nil {
-		return nil, err
-	}
-	defer func() {
-		tmp.Close()
-		os.Remove(tmp.Name())
-	}()
-	w := csv.NewWriter(tmp)
 	header := EvaluationHeader(spec)
-	w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
 	var designs []search.Design
 	origins := map[int64]origin{}
 	perRun := make([][]search.Design, len(ins))
 	counts := make([]int64, len(ins))
 	var next, failures int64
-	for r, in := range ins {
-		err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
-			row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
-			row = append(row, srcRun, srcIndex)
-			if err := w.Write(row); err != nil {
+	err = WriteAtomicStream(folder.Path(EvaluationsFile), func(out io.Writer) error {
+		w := csv.NewWriter(out)
+		w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
+		for r, in := range ins {
+			err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
+				row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
+				row = append(row, srcRun, srcIndex)
+				if err := w.Write(row); err != nil {
+					return err
+				}
+				d.Index = next
+				origins[next] = origin{run: r, srcRun: srcRun, index: srcIndex}
+				if d.Failed != "" {
+					failures++
+				}
+				if d.Feasible() {
+					designs = append(designs, d)
+					perRun[r] = append(perRun[r], d)
+				}
+				next++
+				counts[r]++
+				return nil
+			}, &res.Skipped)
+			if err != nil {
 				return err
 			}
-			d.Index = next
-			origins[next] = origin{run: r, srcRun: srcRun, index: srcIndex}
-			if d.Failed != "" {
-				failures++
-			}
-			if d.Feasible() {
-				designs = append(designs, d)
-				perRun[r] = append(perRun[r], d)
-			}
-			next++
-			counts[r]++
-			return nil
-		}, &res.Skipped)
-		if err != nil {
-			return nil, err
 		}
-	}
-	w.Flush()
-	if err := w.Error(); err != nil {
-		return nil, err
-	}
-	if err := tmp.Sync(); err != nil {
-		return nil, err
-	}
-	if err := tmp.Close(); err != nil {
-		return nil, err
-	}
-	if err := os.Rename(tmp.Name(), folder.Path(EvaluationsFile)); err != nil {
+		w.Flush()
+		return w.Error()
+	})
+	if err != nil {
 		return nil, err
 	}
 
-	front := ParetoFront(designs)
-	res.Front = FrontRows(spec, front)
+	merged := front.ParetoFront(designs, (*search.Design).Point)
+	res.Front = FrontRows(spec, merged)
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
-		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: "merged", Evaluations: next,
-		Failures: failures, FrontSize: len(front), Caution: Caution}
+		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
+		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
-	info.Reference, res.ReferenceReason = mergeReference(ins, front, len(spec.Objectives))
-	info.Hypervolume = finiteOr0(hypervolumeOf(front, info.Reference))
+	info.Reference, res.ReferenceReason = mergeReference(ins, merged, len(spec.Objectives))
+	info.Hypervolume = finiteOr0(hypervolumeOf(merged, info.Reference))
 	for r, in := range ins {
-		own := ParetoFront(perRun[r])
+		own := front.ParetoFront(perRun[r], (*search.Design).Point)
 		src := MergedRun{Run: in.dir, Seed: in.info.Seed, ProblemHash: in.info.ProblemHash, Method: in.info.Method, Status: in.info.Status,
 			Evaluations: counts[r], FrontSize: len(own), Hypervolume: finiteOr0(hypervolumeOf(own, info.Reference))}
-		for _, d := range front {
+		for _, d := range merged {
 			if origins[d.Index].run == r {
 				src.UnionFront++
 			}
@@ -236,7 +224,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 		fmt.Fprintf(&b, "plica design %d of the front merged from %d runs of %s: run %s%s, evaluation %s.\n",
 			fr.ID, len(ins), src.info.ProblemFile, o.srcRun, seed, o.index)
 		for i, ob := range spec.Objectives {
-			fmt.Fprintf(&b, "%s = %.6g\n", ob.Score, scoreSign(ob.Maximize, fr.Design.F[i]))
+			fmt.Fprintf(&b, "%s = %.6g\n", ob.Score, ob.Natural(fr.Design.F[i]))
 		}
 		b.WriteString("Check it with: plica check THIS_FILE\n")
 		b.WriteString(Caution)
@@ -259,7 +247,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 // points, so that every run's front and the merged front are measured at
 // one point; when a run has none, the worst point of the merged front
 // plus a tenth of its range (as the search chooses one).
-func mergeReference(ins []mergeInput, front []search.Design, m int) ([]float64, string) {
+func mergeReference(ins []mergeInput, merged []search.Design, m int) ([]float64, string) {
 	ref := make([]float64, m)
 	for k := range ref {
 		ref[k] = math.Inf(-1)
@@ -277,12 +265,12 @@ func mergeReference(ins []mergeInput, front []search.Design, m int) ([]float64, 
 	if ok {
 		return ref, "the worst of the runs' reference points, objectives as minimised"
 	}
-	if len(front) == 0 {
+	if len(merged) == 0 {
 		return nil, "none: no feasible design"
 	}
 	for k := range ref {
 		lo, hi := math.Inf(1), math.Inf(-1)
-		for _, d := range front {
+		for _, d := range merged {
 			lo, hi = min(lo, d.F[k]), max(hi, d.F[k])
 		}
 		span := hi - lo
@@ -302,7 +290,7 @@ func hypervolumeOf(ds []search.Design, ref []float64) float64 {
 	for i, d := range ds {
 		pts[i] = d.F
 	}
-	return Hypervolume(pts, ref)
+	return front.Hypervolume(pts, ref)
 }
 
 // readEvaluations reads evaluations.csv of a run folder and calls add for
@@ -378,7 +366,7 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 			if err != nil {
 				return bad(fmt.Sprintf("%s = %q is not a number", header[1+nv+i], cells[1+nv+i]))
 			}
-			d.F[i] = scoreSign(o.Maximize, v)
+			d.F[i] = o.Minimised(v)
 		}
 		for k := range ng {
 			v, err := strconv.ParseFloat(cells[1+nv+no+k], 64)

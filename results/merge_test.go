@@ -15,6 +15,8 @@ import (
 
 	"plica/problems"
 	"plica/search"
+
+	"plica/search/front"
 )
 
 // islandRun runs a small search with the given seed into dir.
@@ -65,7 +67,7 @@ func TestMergeArchives(t *testing.T) {
 		}, &n)
 		require.NoError(t, err)
 	}
-	want := ParetoFront(all)
+	want := front.ParetoFront(all, (*search.Design).Point)
 	require.NotEmpty(t, want, "the islands found feasible designs")
 	require.Len(t, res.Front, len(want), "merged front size")
 	for i, r := range res.Front {

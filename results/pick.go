@@ -10,7 +10,9 @@ import (
 	"strconv"
 	"strings"
 
-	"gonum.org/v1/gonum/mat"
+	"plica/search/front"
+
+	"plica/problems"
 )
 
 // PickedDir is the folder of a run folder where pick writes its designs.
@@ -104,7 +106,7 @@ func (c Condition) bind(header []string, rows [][]string, file string) (boundCon
 	col := headerColumn(header, c.Column)
 	if col < 0 {
 		hint := ""
-		if near := nearest(c.Column, header); near != "" {
+		if near := problems.Nearest(c.Column, header); near != "" {
 			hint = fmt.Sprintf("did you mean %q? ", near)
 		}
 		return boundCondition{}, inputErrorf("-where %s: %s has no column %q (%sexpected a column of its header)", c, file, c.Column, hint)
@@ -147,44 +149,6 @@ func (b boundCondition) match(row []string) bool {
 		return v == b.num
 	}
 	return v != b.num
-}
-
-// nearest returns the first name of names that starts with s, else the
-// name closest to s (Levenshtein distance at most a third of its length),
-// or "".
-func nearest(s string, names []string) string {
-	for _, n := range names {
-		if strings.HasPrefix(n, s) {
-			return n
-		}
-	}
-	best, bestD := "", len(s)/3+1
-	for _, n := range names {
-		if d := levenshtein(s, n); d < bestD {
-			best, bestD = n, d
-		}
-	}
-	return best
-}
-
-func levenshtein(a, b string) int {
-	prev := make([]int, len(b)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(a); i++ {
-		cur := make([]int, len(b)+1)
-		cur[0] = i
-		for j := 1; j <= len(b); j++ {
-			cost := 1
-			if a[i-1] == b[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev = cur
-	}
-	return prev[len(b)]
 }
 
 // PickMethod says how Pick chooses among the designs that pass the filters.
@@ -310,16 +274,16 @@ func (rf *RunFront) Pick(opt PickOptions) (*PickResult, error) {
 	case PickKnee:
 		res.Method = "knee: largest distance, towards the ideal point, from the hyperplane through the extreme designs in normalised objectives (Das 1999; Branke et al. 2004)"
 		res.ScoreName = "knee_distance"
-		var note string
-		score, note = KneeDistances(pts)
-		if note != "" && len(cand) > 0 {
-			res.Notes = append(res.Notes, note)
+		k := front.FindKnee(pts)
+		score = k.Distances
+		if k.Note != "" && len(cand) > 0 {
+			res.Notes = append(res.Notes, k.Note)
 		}
 		better = func(a, b float64) int { return cmp.Compare(b, a) } // larger first
 	case PickPseudoWeights:
 		res.Method = fmt.Sprintf("pseudo-weights closest (L1) to %s (Deb 2001)", weightsText(opt.Weights))
 		res.ScoreName = "weights_distance"
-		pw = PseudoWeights(pts)
+		pw = front.PseudoWeights(pts)
 		w := scaled(opt.Weights)
 		for k, p := range pw {
 			d := 0.0
@@ -331,7 +295,7 @@ func (rf *RunFront) Pick(opt PickOptions) (*PickResult, error) {
 	case PickCompromise:
 		res.Method = fmt.Sprintf("compromise: least weighted Chebyshev distance to the ideal point in normalised objectives, weights %s", weightsText(opt.Weights))
 		res.ScoreName = "compromise_value"
-		score = CompromiseValues(pts, scaled(opt.Weights))
+		score = front.CompromiseValues(pts, scaled(opt.Weights))
 	default:
 		return nil, fmt.Errorf("results: unknown pick method %d", opt.Method)
 	}
@@ -376,206 +340,6 @@ func scaled(w []float64) []float64 {
 	out := make([]float64, len(w))
 	for i, v := range w {
 		out[i] = v / sum
-	}
-	return out
-}
-
-// normaliseSet maps points onto [0, 1] between their own ideal and nadir
-// points and lists the objectives with a range (the others map to 0).
-func normaliseSet(points [][]float64) ([][]float64, []int) {
-	if len(points) == 0 {
-		return nil, nil
-	}
-	m := len(points[0])
-	n := Normalization{Ideal: make([]float64, m), Nadir: make([]float64, m)}
-	for k := range m {
-		n.Ideal[k], n.Nadir[k] = math.Inf(1), math.Inf(-1)
-		for _, p := range points {
-			n.Ideal[k], n.Nadir[k] = min(n.Ideal[k], p[k]), max(n.Nadir[k], p[k])
-		}
-	}
-	var varying []int
-	for k := range m {
-		if n.Nadir[k] > n.Ideal[k] {
-			varying = append(varying, k)
-		}
-	}
-	return n.Apply(points), varying
-}
-
-// KneeDistances returns, for each point (objectives minimised), its
-// distance from the hyperplane through the extreme points, measured in
-// objectives normalised over the set and positive on the side of the ideal
-// point: the knee is the point of largest distance (Das, Struct. Optim.
-// 18:107–115, 1999; Branke, Deb, Dierolf and Osswald, PPSN 2004; from
-// memory (verify); SEARCH.md §9 item 7). The extreme point of axis k is
-// the point of least max_j f̂_j/w_j with w = e_k, zeros replaced by 1e-6,
-// as NSGA-III finds its extreme points (Deb and Jain, IEEE TEC 18(4),
-// 2014; from memory (verify)): the point best in every other objective.
-// With two objectives these are the points best in each objective (the
-// ends of the front); with more they stay distinct where a front has flat
-// edges (several points equally best in one objective). Guards for degenerate sets, each explained in note: one point, or no
-// objective with a range, gives distances 0; objectives without a range are
-// left out; with one objective left the distance is 1 − f̂ (the best point);
-// when the extreme points do not span a hyperplane (two objectives share an
-// extreme point) the distance is −‖f̂‖, so the pick is the point closest to
-// the ideal point.
-func KneeDistances(points [][]float64) (dist []float64, note string) {
-	dist = make([]float64, len(points))
-	if len(points) <= 1 {
-		return dist, "one design: it is the pick"
-	}
-	all, varying := normaliseSet(points)
-	if len(varying) == 0 {
-		return dist, "every design has the same objectives: the first is the pick"
-	}
-	pts := make([][]float64, len(all))
-	for i, p := range all {
-		q := make([]float64, len(varying))
-		for j, k := range varying {
-			q[j] = p[k]
-		}
-		pts[i] = q
-	}
-	m := len(varying)
-	if len(varying) < len(points[0]) {
-		note = fmt.Sprintf("%d of %d objectives have no range over these designs and are left out", len(points[0])-m, len(points[0]))
-	}
-	joinNote := func(s string) {
-		if note != "" {
-			note += "; "
-		}
-		note += s
-	}
-	if m == 1 {
-		for i, p := range pts {
-			dist[i] = 1 - p[0]
-		}
-		joinNote("one objective varies: the knee is the best design in it")
-		return dist, note
-	}
-	closest := func(why string) ([]float64, string) {
-		for i, p := range pts {
-			s := 0.0
-			for _, v := range p {
-				s += v * v
-			}
-			dist[i] = -math.Sqrt(s)
-		}
-		joinNote(why + ": picked the design closest to the ideal point instead")
-		return dist, note
-	}
-	// extreme points: for axis k, the design of least max_j f̂_j/w_j with
-	// w = e_k (zeros replaced by 1e-6), i.e. nearest the axis
-	a := mat.NewDense(m, m+1, nil)
-	for k := range m {
-		best, bestV := 0, math.Inf(1)
-		for i, p := range pts {
-			v := 0.0
-			for j, x := range p {
-				w := 1e-6
-				if j == k {
-					w = 1
-				}
-				v = max(v, x/w)
-			}
-			if v < bestV {
-				best, bestV = i, v
-			}
-		}
-		for j := range m {
-			a.Set(k, j, pts[best][j])
-		}
-		a.Set(k, m, 1)
-	}
-	// the hyperplane n·f + c = 0 through them is the null space of [E 1]
-	var svd mat.SVD
-	if !svd.Factorize(a, mat.SVDFull) {
-		return closest("the extreme designs do not define a hyperplane")
-	}
-	sv := svd.Values(nil)
-	if sv[m-1] <= 1e-10*sv[0] {
-		return closest("the extreme designs do not span a hyperplane (one design is extreme on two axes)")
-	}
-	var v mat.Dense
-	svd.VTo(&v)
-	nrm, c := make([]float64, m), v.At(m, m)
-	norm := 0.0
-	for j := range m {
-		nrm[j] = v.At(j, m)
-		norm += nrm[j] * nrm[j]
-	}
-	norm = math.Sqrt(norm)
-	if norm == 0 || math.Abs(c) <= 1e-12*norm {
-		return closest("the hyperplane through the extreme designs passes through the ideal point")
-	}
-	if c > 0 { // orient so that the ideal point (0) is on the positive side
-		c = -c
-		for j := range nrm {
-			nrm[j] = -nrm[j]
-		}
-	}
-	maxD := math.Inf(-1)
-	for i, p := range pts {
-		s := c
-		for j := range m {
-			s += nrm[j] * p[j]
-		}
-		dist[i] = -s / norm
-		maxD = max(maxD, dist[i])
-	}
-	if maxD <= 1e-12 {
-		joinNote("no design lies on the ideal side of the hyperplane through the extreme designs (a linear or concave front has no knee); the pick is the design nearest to it")
-	}
-	return dist, note
-}
-
-// PseudoWeights returns the pseudo-weight vector of each point (objectives
-// minimised): w_i = ((f_i^max − f_i)/(f_i^max − f_i^min)) / Σ_j (…), where
-// the extremes are over the set (Deb, Multi-Objective Optimization using
-// Evolutionary Algorithms, 2001; from memory (verify); SEARCH.md §9 item
-// 7). w_i near 1 means the point is near the best in objective i. An
-// objective without a range contributes 0; a point with every term 0 gets
-// equal weights.
-func PseudoWeights(points [][]float64) [][]float64 {
-	all, varying := normaliseSet(points)
-	out := make([][]float64, len(points))
-	for i, p := range all {
-		w := make([]float64, len(p))
-		s := 0.0
-		for _, k := range varying {
-			w[k] = 1 - p[k] // (f_max − f)/(f_max − f_min)
-			s += w[k]
-		}
-		for k := range w {
-			if s > 0 {
-				w[k] /= s
-			} else {
-				w[k] = 1 / float64(len(w))
-			}
-		}
-		out[i] = w
-	}
-	return out
-}
-
-// CompromiseValues returns, for each point (objectives minimised),
-// max_i w_i·f̂_i + ρ Σ_i f̂_i with f̂ normalised over the set and
-// ρ = 1e-4: an augmented weighted Chebyshev distance to the ideal point
-// (Steuer and Choo, Math. Program. 26:326–344, 1983; Wierzbicki 1980; from
-// memory (verify); SEARCH.md §9 item 7). The weights multiply, so a larger
-// weight makes that objective matter more; the least value is the pick.
-func CompromiseValues(points [][]float64, weights []float64) []float64 {
-	const rho = 1e-4
-	all, _ := normaliseSet(points)
-	out := make([]float64, len(points))
-	for i, p := range all {
-		worst, s := 0.0, 0.0
-		for k, v := range p {
-			worst = max(worst, weights[k]*v)
-			s += v
-		}
-		out[i] = worst + rho*s
 	}
 	return out
 }

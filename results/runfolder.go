@@ -1,7 +1,10 @@
 // Package results reads and writes run folders: the resolved problem, the
-// evaluation archive, the front as CSV and as design files, checkpoints,
-// front indicators, comparisons, merges and picks, plots, the HTML report
-// and the built-in verification cases.
+// evaluation archive, the front as CSV and as design files, checkpoints and
+// run.json. Execute runs a search into a folder with a progress bar; Merge
+// joins island runs, Compare measures fronts against each other and Pick
+// chooses designs of a front. Every file is written through WriteAtomic.
+// The report and its figures are package results/report, the built-in
+// verification cases package results/verify.
 //
 // A run folder holds:
 //
@@ -25,7 +28,6 @@ import (
 	"path/filepath"
 	"time"
 
-	"plica/problems"
 	"plica/search"
 )
 
@@ -52,7 +54,7 @@ type RunInfo struct {
 	Seed        uint64    `json:"seed"`
 	Started     time.Time `json:"started"`
 	Updated     time.Time `json:"updated"`
-	Status      string    `json:"status"`
+	Status      RunStatus `json:"status"`
 	Generations int       `json:"generations"`
 	Evaluations int64     `json:"evaluations"`
 	Failures    int64     `json:"failures"`
@@ -68,12 +70,130 @@ type RunInfo struct {
 	Workers     int       `json:"workers"`
 	// MaxEvaluations and TimeBudget are the budgets of the latest
 	// (possibly resumed) run.
-	MaxEvaluations int64  `json:"max_evaluations"`
-	TimeBudget     string `json:"time_budget"`
-	Caution        string `json:"caution"`
+	// TimeBudget is written as Go duration text ("10m0s"; "0s" for
+	// none); an empty text reads as none.
+	MaxEvaluations int64         `json:"max_evaluations"`
+	TimeBudget     time.Duration `json:"-"`
+	Caution        string        `json:"caution"`
 	// MergedFrom lists the runs of a merged run (method "merge"); see
 	// Merge.
 	MergedFrom []MergedRun `json:"merged_from,omitempty"`
+}
+
+// runInfoJSON is run.json on disk: RunInfo with the time budget as text.
+type runInfoJSON struct {
+	plainRunInfo
+	TimeBudget string `json:"time_budget"`
+}
+
+type plainRunInfo RunInfo
+
+// MarshalJSON writes run.json, the time budget as duration text.
+func (r RunInfo) MarshalJSON() ([]byte, error) {
+	return json.Marshal(runInfoJSON{plainRunInfo(r), r.TimeBudget.String()})
+}
+
+// UnmarshalJSON reads run.json; a time budget that is not a duration is an
+// error.
+func (r *RunInfo) UnmarshalJSON(b []byte) error {
+	var j runInfoJSON
+	if err := json.Unmarshal(b, &j); err != nil {
+		return err
+	}
+	*r = RunInfo(j.plainRunInfo)
+	if j.TimeBudget != "" {
+		d, err := time.ParseDuration(j.TimeBudget)
+		if err != nil {
+			return fmt.Errorf("time_budget %q: %v", j.TimeBudget, err)
+		}
+		r.TimeBudget = d
+	}
+	return nil
+}
+
+// RunStatus is the status of run.json: StatusRunning while a search writes
+// the folder, StatusMerged for a merged run, else why the search stopped
+// (the names of search.Status).
+type RunStatus int
+
+const (
+	StatusRunning RunStatus = iota
+	StatusNotTerminated
+	StatusEvaluationLimit
+	StatusRuntimeLimit
+	StatusStalled
+	StatusInterrupted
+	StatusConverged
+	StatusFailure
+	StatusMerged
+)
+
+var runStatusNames = [...]string{
+	StatusRunning:         "running",
+	StatusNotTerminated:   search.NotTerminated.String(),
+	StatusEvaluationLimit: search.EvaluationLimit.String(),
+	StatusRuntimeLimit:    search.RuntimeLimit.String(),
+	StatusStalled:         search.Stalled.String(),
+	StatusInterrupted:     search.Interrupted.String(),
+	StatusConverged:       search.Converged.String(),
+	StatusFailure:         search.Failure.String(),
+	StatusMerged:          "merged",
+}
+
+// StatusOf is the run status of a search that stopped with s.
+func StatusOf(s search.Status) RunStatus {
+	switch s {
+	case search.NotTerminated:
+		return StatusNotTerminated
+	case search.EvaluationLimit:
+		return StatusEvaluationLimit
+	case search.RuntimeLimit:
+		return StatusRuntimeLimit
+	case search.Stalled:
+		return StatusStalled
+	case search.Interrupted:
+		return StatusInterrupted
+	case search.Converged:
+		return StatusConverged
+	}
+	return StatusFailure
+}
+
+func (s RunStatus) String() string {
+	if s >= 0 && int(s) < len(runStatusNames) {
+		return runStatusNames[s]
+	}
+	return fmt.Sprintf("RunStatus(%d)", int(s))
+}
+
+// Finished reports whether the search ran to one of its stopping rules
+// (a budget, stagnation or convergence); merged runs are not searches.
+func (s RunStatus) Finished() bool {
+	switch s {
+	case StatusEvaluationLimit, StatusRuntimeLimit, StatusStalled, StatusConverged:
+		return true
+	}
+	return false
+}
+
+// MarshalText writes the status name.
+func (s RunStatus) MarshalText() ([]byte, error) {
+	if s < 0 || int(s) >= len(runStatusNames) {
+		return nil, fmt.Errorf("results: unknown run status %d", int(s))
+	}
+	return []byte(runStatusNames[s]), nil
+}
+
+// UnmarshalText reads a status name.
+func (s *RunStatus) UnmarshalText(b []byte) error {
+	for i, n := range runStatusNames {
+		if string(b) == n {
+			*s = RunStatus(i)
+			return nil
+		}
+	}
+	return fmt.Errorf("unknown run status %q (expected one of running, merged, %s, %s, %s, %s, %s, %s, %s)", b,
+		runStatusNames[1], runStatusNames[2], runStatusNames[3], runStatusNames[4], runStatusNames[5], runStatusNames[6], runStatusNames[7])
 }
 
 // Folder is one run folder.
@@ -128,10 +248,6 @@ func (f *Folder) Path(name string) string { return filepath.Join(f.Dir, name) }
 func (f *Folder) WriteFile(name string, data []byte) error {
 	return WriteAtomic(f.Path(name), data)
 }
-
-// WriteAtomic writes path atomically (temporary file + rename), so a
-// reader never sees a half-written file and a crash leaves the old one.
-func WriteAtomic(path string, data []byte) error { return problems.WriteAtomic(path, data) }
 
 // WriteInfo writes run.json.
 func (f *Folder) WriteInfo(info *RunInfo) error {

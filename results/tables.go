@@ -64,11 +64,7 @@ func variableCells(s *problems.Spec, x []float64) []string {
 func objectiveCells(s *problems.Spec, f []float64) []string {
 	out := make([]string, len(f))
 	for i, o := range s.Objectives {
-		v := f[i]
-		if o.Maximize {
-			v = -v
-		}
-		out[i] = formatFloat(v)
+		out[i] = formatFloat(o.Natural(f[i]))
 	}
 	return out
 }

@@ -5,6 +5,8 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"plica/search/front"
 )
 
 // archive is the external archive: the feasible, mutually non-dominated designs seen so far, at
@@ -31,11 +33,11 @@ func (a *archive) add(d *Design) {
 		return
 	}
 	for _, q := range a.items {
-		if weaklyDominates(q.F, d.F) {
+		if front.WeaklyDominates(q.F, d.F) {
 			return
 		}
 	}
-	a.items = slices.DeleteFunc(a.items, func(q *Design) bool { return dominates(d.F, q.F) })
+	a.items = slices.DeleteFunc(a.items, func(q *Design) bool { return front.Dominates(d.F, q.F) })
 	a.items = append(a.items, d)
 }
 

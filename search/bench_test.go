@@ -2,7 +2,6 @@ package search
 
 import (
 	"context"
-	"math"
 	"strconv"
 	"testing"
 	"time"
@@ -58,41 +57,4 @@ func BenchmarkWorkers1ms(b *testing.B) {
 			b.ReportMetric(float64(evals)/b.Elapsed().Seconds(), "evals/s")
 		})
 	}
-}
-
-// BenchmarkHypervolume measures the exact hypervolume of points on the unit sphere's positive
-// orthant (a non-dominated set) with 2, 3 and 4 objectives.
-func BenchmarkHypervolume(b *testing.B) {
-	for _, c := range []struct{ m, n int }{{2, 200}, {3, 200}, {4, 100}} {
-		b.Run("M="+strconv.Itoa(c.m)+"/n="+strconv.Itoa(c.n), func(b *testing.B) {
-			pts := spherePoints(c.m, c.n)
-			ref := make([]float64, c.m)
-			for i := range ref {
-				ref[i] = 1.1
-			}
-			for b.Loop() {
-				Hypervolume(pts, ref)
-			}
-		})
-	}
-}
-
-// spherePoints returns n deterministic points with Σ f_i² = 1, f_i ≥ 0.
-func spherePoints(m, n int) [][]float64 {
-	pts := make([][]float64, n)
-	state := uint64(12345)
-	for i := range pts {
-		p := make([]float64, m)
-		var s float64
-		for k := range p {
-			state = state*6364136223846793005 + 1442695040888963407
-			p[k] = float64(state>>11)/(1<<53) + 1e-3
-			s += p[k] * p[k]
-		}
-		for k := range p {
-			p[k] /= math.Sqrt(s)
-		}
-		pts[i] = p
-	}
-	return pts
 }

@@ -9,6 +9,8 @@ import (
 	"math/rand/v2"
 	"slices"
 	"time"
+
+	"plica/search/front"
 )
 
 // engine is the state of a population run (NSGA2 or GA). It is driven by a host, which calls
@@ -250,7 +252,7 @@ func archiveHypervolume(items []*Design, ref []float64) float64 {
 	for i, d := range items {
 		pts[i] = d.F
 	}
-	return Hypervolume(pts, ref)
+	return front.Hypervolume(pts, ref)
 }
 
 // autoReference is the automatic hypervolume reference point of Settings.Reference.

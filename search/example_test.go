@@ -5,6 +5,8 @@ import (
 	"fmt"
 
 	"plica/search"
+
+	"plica/search/front"
 )
 
 // ExampleRun minimises the constrained two-objective BNH problem (Binh and Korn 1997) with NSGA-II
@@ -25,7 +27,7 @@ func ExampleRun() {
 	}
 	first, last := res.Front[0], res.Front[len(res.Front)-1]
 	fmt.Printf("%v after %d evaluations (%d generations)\n", res.Status, res.Evaluations, res.Generation)
-	fmt.Printf("front: %d designs, hypervolume %.4g\n", len(res.Front), search.Hypervolume(pts, []float64{140, 50}))
+	fmt.Printf("front: %d designs, hypervolume %.4g\n", len(res.Front), front.Hypervolume(pts, []float64{140, 50}))
 	fmt.Printf("least f1 at f2 = %.4g; least f2 = %.4g at f1 = %.4g\n", first.F[1], last.F[1], last.F[0])
 	// Output:
 	// EvaluationLimit after 4000 evaluations (99 generations)
@@ -35,7 +37,7 @@ func ExampleRun() {
 
 // ExampleHypervolume computes the area dominated by three points of a staircase.
 func ExampleHypervolume() {
-	hv := search.Hypervolume([][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4})
+	hv := front.Hypervolume([][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4})
 	fmt.Printf("%.4g\n", hv)
 	// Output: 6
 }

@@ -147,6 +147,10 @@ type Design struct {
 // Feasible reports whether d satisfies every constraint and was evaluated without failure.
 func (d *Design) Feasible() bool { return d.CV == 0 && d.Failed == "" }
 
+// Point returns the objectives and the feasibility of d, as front.ParetoFront
+// takes them.
+func (d *Design) Point() (f []float64, feasible bool) { return d.F, d.Feasible() }
+
 // newDesign allocates a design for p with X, F and G carved from one backing array.
 func newDesign(p *Problem) *Design {
 	n, m, c := p.Dim, p.NumObjectives, p.NumConstraints

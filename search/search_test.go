@@ -11,6 +11,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/search/front"
 )
 
 func frontPoints(ds []Design) [][]float64 {
@@ -98,7 +100,7 @@ func TestNSGA2ReferenceProblems(t *testing.T) {
 			assert.EqualValues(t, 25000, res.Evaluations, "%s evaluations", c.name)
 			assert.Equal(t, 249, res.Generation, "%s generations after the initial population", c.name)
 			require.Len(t, res.Front, 200, "%s archive size", c.name)
-			hv := Hypervolume(frontPoints(res.Front), c.ref)
+			hv := front.Hypervolume(frontPoints(res.Front), c.ref)
 			assert.InEpsilon(t, c.hv, hv, c.tol, "%s hypervolume at %v", c.name, c.ref)
 			sample := sampledFront(c.lo, c.hi, c.front)
 			worst := 0.0
@@ -596,7 +598,7 @@ func TestAutomaticReference(t *testing.T) {
 	for i := 1; i < len(res.History); i++ {
 		assert.GreaterOrEqual(t, res.History[i].Hypervolume, 0.99*res.History[i-1].Hypervolume, "history %d", i)
 	}
-	assert.InDelta(t, Hypervolume(frontPoints(res.Front), res.Reference), res.Hypervolume, 1e-9, "final hypervolume")
+	assert.InDelta(t, front.Hypervolume(frontPoints(res.Front), res.Reference), res.Hypervolume, 1e-9, "final hypervolume")
 }
 
 // TestEvaluationTimeout: the per-evaluation deadline reaches Evaluate through its context, and the

@@ -5,40 +5,9 @@ import (
 	"math"
 	"slices"
 	"sort"
+
+	"plica/search/front"
 )
-
-// dominates reports whether a Pareto-dominates b (minimisation): a_k ≤ b_k for all k and
-// a_k < b_k for some k.
-func dominates(a, b []float64) bool {
-	strict := false
-	for k := range a {
-		if a[k] > b[k] {
-			return false
-		}
-		if a[k] < b[k] {
-			strict = true
-		}
-	}
-	return strict
-}
-
-// WeaklyDominates reports whether a weakly dominates b (minimisation):
-// a_k ≤ b_k for all k (SEARCH.md §1).
-func WeaklyDominates(a, b []float64) bool { return weaklyDominates(a, b) }
-
-// Dominates reports whether a Pareto-dominates b (minimisation): a_k ≤ b_k
-// for all k and a_k < b_k for some k.
-func Dominates(a, b []float64) bool { return dominates(a, b) }
-
-// weaklyDominates reports whether a_k ≤ b_k for all k.
-func weaklyDominates(a, b []float64) bool {
-	for k := range a {
-		if a[k] > b[k] {
-			return false
-		}
-	}
-	return true
-}
 
 // constrainedDominates reports whether a constrained-dominates b (Deb et al. 2002, Sec. VI): a is
 // feasible and b is not; both are infeasible and CV_a < CV_b; or both are feasible and a ≺ b.
@@ -46,7 +15,7 @@ func constrainedDominates(a, b *Design) bool {
 	af, bf := a.CV == 0, b.CV == 0
 	switch {
 	case af && bf:
-		return dominates(a.F, b.F)
+		return front.Dominates(a.F, b.F)
 	case af:
 		return true
 	case bf:

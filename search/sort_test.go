@@ -10,6 +10,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/search/front"
 )
 
 // randomDesigns draws n designs with m objectives on a coarse integer grid (many ties and exact
@@ -298,7 +300,7 @@ func TestArchiveAdd(t *testing.T) {
 			}
 			covered := false
 			for _, q := range one.items {
-				if weaklyDominates(q.F, d.F) {
+				if front.WeaklyDominates(q.F, d.F) {
 					covered = true
 					assert.False(t, slices.Equal(q.F, d.F) && q.Index > d.Index, "trial %d: later duplicate %d kept over %d", trial, q.Index, d.Index)
 				}
@@ -308,7 +310,7 @@ func TestArchiveAdd(t *testing.T) {
 		for _, p := range one.items {
 			assert.True(t, p.Feasible(), "trial %d: infeasible member %d", trial, p.Index)
 			for _, q := range one.items {
-				assert.False(t, dominates(q.F, p.F), "trial %d: member %d dominated by %d", trial, p.Index, q.Index)
+				assert.False(t, front.Dominates(q.F, p.F), "trial %d: member %d dominated by %d", trial, p.Index, q.Index)
 			}
 		}
 	}

@@ -17,6 +17,8 @@ import (
 	"plica/objective"
 	"plica/problems"
 	"plica/results"
+
+	"plica/results/report"
 )
 
 func init() {
@@ -105,7 +107,7 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 	// Everything is computed; now render, then write files.
 	var plot bytes.Buffer
 	if o.plot != "" {
-		if err := results.CalibrationSVG(&plot, "cantilever bench fit: "+filepath.Base(bench.File), plotPanels(fits)); err != nil {
+		if err := report.CalibrationSVG(&plot, "cantilever bench fit: "+filepath.Base(bench.File), plotPanels(fits)); err != nil {
 			return err
 		}
 	}
@@ -126,7 +128,7 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 		fmt.Fprintf(stderr, "plica: wrote %s\n", o.plot)
 	}
 	if o.out != "" {
-		if err := problems.WriteCalibration(o.out, cal); err != nil {
+		if err := results.WriteAtomic(o.out, cal.Format()); err != nil {
 			return err
 		}
 		fmt.Fprintf(stderr, "plica: wrote %s\n", o.out)
@@ -205,13 +207,13 @@ func pickBellows(d *objective.Design, n int) (int, error) {
 	return n - 1, nil
 }
 
-func plotPanels(fits [2]*problems.BenchFit) []results.CalibrationPanel {
-	var ps []results.CalibrationPanel
+func plotPanels(fits [2]*problems.BenchFit) []report.CalibrationPanel {
+	var ps []report.CalibrationPanel
 	for axis, f := range fits {
 		if f == nil {
 			continue
 		}
-		ps = append(ps, results.CalibrationPanel{Title: "bending about " + problems.AxisName(axis) + " (" + f.Model() + ")",
+		ps = append(ps, report.CalibrationPanel{Title: "bending about " + problems.AxisName(axis) + " (" + f.Model() + ")",
 			Points: f.Points, Setups: f.Setups, Fit: &f.Fit})
 	}
 	return ps

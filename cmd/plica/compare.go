@@ -10,6 +10,8 @@ import (
 	"strings"
 
 	"plica/results"
+
+	"plica/results/report"
 )
 
 func init() {
@@ -68,7 +70,7 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 		c.Notes = append([]string{note}, c.Notes...)
 	}
 	if *plotPath != "" {
-		if err := results.WriteOverlaySVG(*plotPath, fronts); err != nil {
+		if err := report.WriteOverlaySVG(*plotPath, fronts); err != nil {
 			return fmt.Errorf("plot: %w", err)
 		}
 		c.Notes = append(c.Notes, "overlay plot written to "+*plotPath)

@@ -17,13 +17,17 @@ func TestLayering(t *testing.T) {
 		"plica/surrogate/convolution":      {"plica/surrogate/shell"},
 		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell"},
 		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell"},
-		"plica/objective/kinematics":       {},
-		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics"},
-		"plica/search":                     {},
-		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/search"},
-		"plica/results":                    {"plica/search", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics"},
 		"plica/surrogate/solid":            {},
 		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell"},
+		"plica/objective/kinematics":       {},
+		"plica/objective/statics":          {"plica/objective/kinematics"},
+		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/search/front":               {},
+		"plica/search":                     {"plica/search/front"},
+		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics", "plica/search", "plica/search/front"},
+		"plica/results":                    {"plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/results/report":             {"plica/results", "plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/results/verify":             {"plica/search", "plica/search/front", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
 	}
 	for pkg, ok := range allowed {
 		out, err := exec.Command("go", "list", "-deps", pkg).Output()
@@ -38,7 +42,9 @@ func TestLayering(t *testing.T) {
 			assert.Contains(t, ok, dep, "%s must not import %s (see DEVELOPERS.md, layout)", pkg, dep)
 		}
 	}
-	out, err := exec.Command("go", "list", "-deps", "plica/search").Output()
-	require.NoError(t, err)
-	assert.NotContains(t, string(out), "github.com/BurntSushi/toml", "search knows nothing of files")
+	for _, pkg := range []string{"plica/search", "plica/search/front"} {
+		out, err := exec.Command("go", "list", "-deps", pkg).Output()
+		require.NoError(t, err)
+		assert.NotContains(t, string(out), "github.com/BurntSushi/toml", "%s knows nothing of files", pkg)
+	}
 }

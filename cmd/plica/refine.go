@@ -88,11 +88,7 @@ func runRefine(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "objective\tfront design\trefined")
 	for i, o := range spec.Objectives {
-		a, b := f0[i], best.F[i]
-		if o.Maximize {
-			a, b = -a, -b
-		}
-		fmt.Fprintf(tw, "%s\t%.6g\t%.6g\n", o.Score, a, b)
+		fmt.Fprintf(tw, "%s\t%.6g\t%.6g\n", o.Score, o.Natural(f0[i]), o.Natural(best.F[i]))
 	}
 	tw.Flush()
 	fmt.Fprintf(stdout, "feasible: %v -> %v; %d evaluations (%s)\nwrote %s\n", cvOf(g0) == 0, best.Feasible(), res.Evaluations, res.Status, folder.Path(name))

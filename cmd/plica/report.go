@@ -12,6 +12,8 @@ import (
 
 	"plica/objective"
 	"plica/results"
+
+	"plica/results/report"
 )
 
 func init() {
@@ -52,8 +54,8 @@ func runReport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 
 // writeReport writes a run's report and plots and says where.
 func writeReport(folder *results.Folder, path string, ids []int, stdout, stderr io.Writer) error {
-	rep, err := folder.WriteReport(path, reportOptions(ids))
-	var unknown *results.UnknownDesignError
+	rep, err := report.Write(folder, path, reportOptions(ids))
+	var unknown *report.UnknownDesignError
 	if errors.As(err, &unknown) {
 		return usagef("-designs: %v", err)
 	}
@@ -64,15 +66,15 @@ func writeReport(folder *results.Folder, path string, ids []int, stdout, stderr 
 		fmt.Fprintf(stderr, "plica: warning: %s\n", p)
 	}
 	if path == "" {
-		path = folder.Path(results.ReportFile)
+		path = folder.Path(report.File)
 	}
-	fmt.Fprintf(stdout, "report: %s (plots in %s)\n", path, folder.Path(results.PlotsDir))
+	fmt.Fprintf(stdout, "report: %s (plots in %s)\n", path, folder.Path(report.PlotsDir))
 	return nil
 }
 
 // reportOptions shows the given designs with the check verb's full output.
-func reportOptions(ids []int) results.ReportOptions {
-	return results.ReportOptions{Designs: ids, CheckText: func(name string, res *objective.Result) string {
+func reportOptions(ids []int) report.Options {
+	return report.Options{Designs: ids, CheckText: func(name string, res *objective.Result) string {
 		var b bytes.Buffer
 		writeCheck(&b, name, res)
 		return b.String()

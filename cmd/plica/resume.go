@@ -53,9 +53,7 @@ func runResume(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	set.Seed = info.Seed
 	set.Workers = info.Workers
 	set.MaxEvaluations = info.MaxEvaluations
-	if err := setTimeBudget(&set, info.TimeBudget); err != nil {
-		return err
-	}
+	set.Runtime = info.TimeBudget
 	if err := b.apply(&set); err != nil {
 		return err
 	}

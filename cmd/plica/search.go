@@ -144,19 +144,6 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 	fmt.Fprintf(w, "caution: %s\n", results.Caution)
 }
 
-// setTimeBudget restores a wall-clock budget saved in run.json.
-func setTimeBudget(set *search.Settings, s string) error {
-	if s == "" {
-		return nil
-	}
-	d, err := time.ParseDuration(s)
-	if err != nil {
-		return fmt.Errorf("run.json: time_budget %q: %v", s, err)
-	}
-	set.Runtime = d
-	return nil
-}
-
 // stiffnessSources says where each bellows' stiffness comes from (strip,
 // shell, measured or calibrated), for the design at the middle of the
 // ranges; "" if that design cannot be built.

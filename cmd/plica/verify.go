@@ -8,7 +8,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
-	"plica/results"
+	"plica/results/verify"
 )
 
 func init() {
@@ -32,12 +32,12 @@ func runVerify(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if len(pos) != 0 {
 		return usagef("verify: expected no arguments, got %d", len(pos))
 	}
-	cases := results.Verify(*quick)
+	cases := verify.Run(*quick)
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "area\tcase\tcomputed\tpublished\ttolerance\tunit\tresult\tsource")
 	failed := 0
 	for _, c := range cases {
-		fmt.Fprintln(tw, strings.Join(results.FormatCase(c), "\t"))
+		fmt.Fprintln(tw, strings.Join(c.Row(), "\t"))
 		if !c.Pass() {
 			failed++
 		}

@@ -136,3 +136,22 @@ func BenchmarkTipThreeTubeMultiLink(b *testing.B) {
 	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "tips/s")
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(b.N), "ns/tip")
 }
+
+// BenchmarkStability times one pair test with an anisotropic c_eff.
+func BenchmarkStability(b *testing.B) {
+	in := Tube{Precurvature: [2]float64{1, 7}, Bending: [2][2]float64{{0.01, 0.002}, {0.002, 0.012}}, Torsion: 0.3}
+	out := Tube{Precurvature: [2]float64{0, 5}, Bending: [2][2]float64{{0.02, 0}, {0, 0.025}}, Torsion: 0.5}
+	n := 0
+	var ps PairStability
+	for b.Loop() {
+		var err error
+		if ps, err = TwoTubeStability(in, out, 0.1, [2]float64{0.2, 0.1}); err != nil {
+			b.Fatal(err)
+		}
+		n++
+	}
+	if math.IsNaN(ps.Margin) {
+		b.Fatal("NaN margin")
+	}
+	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/1e3/float64(n), "us/test")
+}

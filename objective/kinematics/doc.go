@@ -16,5 +16,7 @@
 // (3.2) of a link's SE(3) exponential and ArcPose the polar map of Webster &
 // Jones (2010); Robot.Tip and Robot.Backbone chain the links. These are the
 // reference path. A Solver evaluates the same model without allocating, for
-// sweeps over many actuations.
+// sweeps over many actuations. TwoTubeStability and Robot.SnapStability
+// test pre-curved pairs for snap-through. The loaded shape under gravity and
+// payload is package objective/statics.
 package kinematics

@@ -247,7 +247,7 @@ func stabilityMapMonotone(c, beta, L float64) bool {
 // [0.10, 0.15] (L = 0.05 m) and the transmission lengths run from the
 // actuators at β = −0.25, −0.10 to s = 0.10: 0.35 and 0.20 m [derived].
 func TestRobotSnapStability(t *testing.T) {
-	r := staticsTwoTubeRobot()
+	r := segOneRobot()
 	a := Actuation{Theta: []float64{0, 0}, Beta: []float64{-0.25, -0.10}}
 	got, err := r.SnapStability(a, 0)
 	require.NoError(t, err)
@@ -286,4 +286,14 @@ func TestTwoTubeStabilityInvalid(t *testing.T) {
 		_, err := TwoTubeStability(row.inner, row.outer, row.overlap, row.tr)
 		assert.Error(t, err, row.name)
 	}
+}
+
+// segOneRobot is the two-tube set of SEG-1 (PHYSICS.md §9.3).
+func segOneRobot() *Robot {
+	return &Robot{Tubes: []Tube{
+		{StraightLength: 0.35, CurvedLength: 0.10, Precurvature: [2]float64{0, 10},
+			Bending: [2][2]float64{{0.004, 0}, {0, 0.004}}, Torsion: 0.003, LinearDensity: 0.015},
+		{StraightLength: 0.15, CurvedLength: 0.10, Precurvature: [2]float64{0, 5},
+			Bending: [2][2]float64{{0.012, 0}, {0, 0.008}}, Torsion: 0.009, LinearDensity: 0.03},
+	}}
 }

@@ -1,0 +1,526 @@
+package report
+
+// The report: one self-contained HTML file per run (inline SVG and CSS, a
+// small inline self-check script; no network, no external files).
+
+import (
+	"bytes"
+	"fmt"
+	"html/template"
+	"math"
+	"regexp"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"plica/objective"
+	"plica/problems"
+
+	"plica/results"
+
+	"plica/search/front"
+)
+
+// File is the report's default name inside a run folder.
+const File = "report.html"
+
+// Options controls Build.
+type Options struct {
+	// Designs lists the front ids whose checks, backbone and workspace the
+	// report shows; nil means the Representative designs.
+	Designs []int
+	// CheckText renders the full check output of a design (as the check
+	// verb prints it), shown below its check table; nil leaves it out.
+	CheckText func(name string, res *objective.Result) string
+}
+
+// Report is a built report.
+type Report struct {
+	HTML    []byte
+	Figures []Figure
+	// Designs are the front ids shown.
+	Designs []int
+	// Problems lists parts that could not be built (a design file that
+	// does not load, a figure that cannot be drawn); the report says so
+	// where the part would be.
+	Problems []string
+}
+
+// Cautions are printed in every report, after Caution.
+var Cautions = []string{
+	"Every number in this report is a model estimate from the models listed with each design; verify a design on printed prototypes before relying on it.",
+	"Follow the standards that apply to the application, and have any design that carries payloads, works near people or is for medical use reviewed by a qualified engineer.",
+	"The front holds the best designs this search found within its budget, not proven optima: another seed or a larger budget may find better ones.",
+	"The backbone and workspace figures show unloaded shapes; the sag under gravity and payload is in the check tables.",
+}
+
+type keyValue struct{ Key, Value string }
+
+type figureSection struct {
+	ID, Title, Caption, Name string
+	SVG                      template.HTML
+	Problem                  string
+}
+
+type checkRow struct {
+	Name, Value, Limit, Unit, Note string
+	Pass                           bool
+}
+
+type designSection struct {
+	ID                      int
+	Reason, File, Problem   string
+	Pass                    bool
+	Checks                  []checkRow
+	Models, Warnings        []string
+	CheckText               string
+	Figures                 []figureSection
+	FailedChecks, NumChecks int
+	Objectives              []keyValue
+	Variables               []keyValue
+	HasResult               bool
+}
+
+type htmlPage struct {
+	Title, Folder, ProblemText  string
+	NoFront                     string
+	Caution                     string
+	Cautions                    []string
+	Variables                   [][]string
+	Objectives                  [][]string
+	Requirements, Settings, Run []keyValue
+	Reference                   []keyValue
+	Checks, Constraints         []string
+	FrontHeader                 []string
+	FrontRows                   []frontTableRow
+	Figures                     []figureSection
+	Designs                     []designSection
+	Problems                    []string
+}
+
+type frontTableRow struct {
+	Cells  []string
+	Chosen bool
+}
+
+// inlineSVG prepares an SVG document for inlining into HTML: the XML
+// prolog and comments go, and the namespace attributes too (HTML puts
+// <svg> in the SVG namespace by itself), so the page names no URL at all.
+var (
+	svgProlog = regexp.MustCompile(`(?s)<\?xml.*?\?>|<!--.*?-->`)
+	svgXMLNS  = regexp.MustCompile(`\s+xmlns(:\w+)?="[^"]*"`)
+)
+
+func inlineSVG(b []byte) template.HTML {
+	s := svgProlog.ReplaceAllString(string(b), "")
+	s = svgXMLNS.ReplaceAllString(s, "")
+	s = strings.Replace(s, "<svg ", `<svg class="figure" role="img" `, 1)
+	return template.HTML(strings.TrimSpace(s))
+}
+
+func num(x float64) string {
+	if math.IsNaN(x) {
+		return "n/a"
+	}
+	return fmt.Sprintf("%.5g", x)
+}
+
+// Build reads a run folder and builds its report and figures. Parts
+// that cannot be built are reported in the page and in Report.Problems; an
+// error means the folder itself cannot be read (or a requested design id
+// is not on the front).
+func Build(f *results.Folder, opt Options) (*Report, error) {
+	r, err := Load(f)
+	if err != nil {
+		return nil, err
+	}
+	ids, err := r.chosenIDs(opt.Designs)
+	if err != nil {
+		return nil, err
+	}
+	rep := &Report{Designs: ids}
+	page := r.page(ids)
+	addFig := func(dst *[]figureSection, fig Figure, err error) {
+		rf := figureSection{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
+		if err != nil {
+			rf.Problem = fmt.Sprintf("%s could not be drawn: %v", fig.Title, err)
+			rep.Problems = append(rep.Problems, rf.Problem)
+		} else {
+			rf.SVG = inlineSVG(fig.SVG)
+			rep.Figures = append(rep.Figures, fig)
+		}
+		*dst = append(*dst, rf)
+	}
+	if len(r.Front) > 0 {
+		fig, err := r.FrontFigure(ids)
+		addFig(&page.Figures, fig, err)
+		fig, err = r.VariablesFigure(ids)
+		addFig(&page.Figures, fig, err)
+	}
+	if len(r.History) > 0 {
+		fig, err := r.HypervolumeFigure()
+		addFig(&page.Figures, fig, err)
+	}
+	reasons := r.reasons(ids, opt.Designs != nil)
+	for _, id := range ids {
+		row, _ := r.FrontRow(id)
+		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id)}
+		for i, o := range r.Spec.Objectives {
+			d.Objectives = append(d.Objectives, keyValue{o.Score, num(row.F[i])})
+		}
+		for j, name := range results.NewColumns(r.Spec).Variables {
+			cell := row.Cells[j]
+			if r.Spec.Variables[j].Options == nil {
+				cell = num(row.X[j])
+			}
+			d.Variables = append(d.Variables, keyValue{name, cell})
+		}
+		design, sc, err := problems.LoadDesign(f.Path(d.File))
+		var res *objective.Result
+		if err == nil {
+			res, err = objective.Evaluate(design, sc)
+		}
+		if err != nil {
+			d.Problem = fmt.Sprintf("design %d (%s) could not be checked: %v", id, d.File, err)
+			rep.Problems = append(rep.Problems, d.Problem)
+			page.Designs = append(page.Designs, d)
+			continue
+		}
+		d.HasResult, d.Pass, d.Models, d.Warnings = true, res.Pass, res.Models, res.Warnings
+		d.NumChecks = len(res.Checks)
+		for _, c := range res.Checks {
+			op := "≥ "
+			if c.Max {
+				op = "≤ "
+			}
+			d.Checks = append(d.Checks, checkRow{Name: c.Name, Value: num(c.Value), Limit: op + num(c.Limit), Unit: c.Unit, Note: c.Note, Pass: c.Pass})
+			if !c.Pass {
+				d.FailedChecks++
+			}
+		}
+		if opt.CheckText != nil {
+			d.CheckText = opt.CheckText(fmt.Sprintf("%s (front design %d)", d.File, id), res)
+		}
+		robot, _, err := design.Robot()
+		if err != nil {
+			d.Problem = fmt.Sprintf("design %d: %v", id, err)
+			rep.Problems = append(rep.Problems, d.Problem)
+		} else {
+			fig, err := BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
+			addFig(&d.Figures, fig, err)
+			fig, err = WorkspaceFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace)
+			addFig(&d.Figures, fig, err)
+		}
+		page.Designs = append(page.Designs, d)
+	}
+	page.Problems = rep.Problems
+	var b bytes.Buffer
+	if err := reportTemplate.Execute(&b, page); err != nil {
+		return nil, err
+	}
+	rep.HTML = b.Bytes()
+	return rep, nil
+}
+
+// WriteReport builds the report of a run folder, writes its figures into
+// RUN/plots and the page to path (RUN/report.html when empty), each file
+// atomically, and returns the report.
+func Write(f *results.Folder, path string, opt Options) (*Report, error) {
+	rep, err := Build(f, opt)
+	if err != nil {
+		return nil, err
+	}
+	if err := WritePlots(f, rep.Figures); err != nil {
+		return nil, err
+	}
+	if path == "" {
+		path = f.Path(File)
+	}
+	if err := results.WriteAtomic(path, rep.HTML); err != nil {
+		return nil, err
+	}
+	return rep, nil
+}
+
+// reasons says why each design is shown.
+func (r *Data) reasons(ids []int, requested bool) map[int]string {
+	out := map[int]string{}
+	if requested {
+		for _, id := range ids {
+			out[id] = "requested"
+		}
+		return out
+	}
+	if len(r.Front) == 0 {
+		return out
+	}
+	f := make([][]float64, len(r.Front))
+	for i, row := range r.Front {
+		f[i] = r.Minimised(row)
+	}
+	best := bestOf(f)
+	for k, o := range r.Spec.Objectives {
+		id := r.Front[best[k]].ID
+		if out[id] != "" {
+			out[id] += ", "
+		}
+		out[id] += "best " + o.Score
+	}
+	if k := front.FindKnee(f); k.Found {
+		id := r.Front[k.Index].ID
+		if out[id] != "" {
+			out[id] += ", "
+		}
+		out[id] += "knee of the front"
+	}
+	return out
+}
+
+// page fills everything but the figures and designs.
+func (r *Data) page(ids []int) *htmlPage {
+	s, info := r.Spec, r.Info
+	name := info.ProblemName
+	if name == "" {
+		// the design at mid-range carries the file's name key
+		if d, _, err := s.Design(s.Midpoint()); err == nil && d.Name != "" {
+			name = d.Name
+		} else {
+			name = info.ProblemFile
+		}
+	}
+	p := &htmlPage{Title: "plica report: " + name, Folder: r.Folder.Dir, ProblemText: string(s.Text),
+		Caution: results.Caution, Checks: s.Checks, Constraints: s.ConstraintNames()[len(s.Checks):]}
+	for _, v := range s.Variables {
+		if v.Options != nil {
+			p.Variables = append(p.Variables, []string{v.Path(), "one of " + strings.Join(v.Options, ", "), ""})
+			continue
+		}
+		unit := v.Unit
+		if unit == "" {
+			unit = "1"
+		}
+		p.Variables = append(p.Variables, []string{v.Path(), fmt.Sprintf("%.6g to %.6g", v.Lower, v.Upper), unit})
+	}
+	for _, o := range s.Objectives {
+		goal := "minimise"
+		if o.Maximize {
+			goal = "maximise"
+		}
+		_, unit := scoreAxis(o.Score)
+		doc := ""
+		if sc, ok := objective.LookupScore(o.Score); ok {
+			doc = sc.Doc
+		}
+		p.Objectives = append(p.Objectives, []string{o.Score, goal, unit, doc})
+	}
+	var file map[string]any
+	if _, err := toml.Decode(string(s.Text), &file); err == nil {
+		if req, ok := file["requirements"].(map[string]any); ok {
+			for _, k := range sortedKeys(req) {
+				p.Requirements = append(p.Requirements, keyValue{k, fmt.Sprint(req[k])})
+			}
+		}
+	}
+	timeBudget := info.TimeBudget.String()
+	if info.TimeBudget == 0 {
+		timeBudget = "none"
+	}
+	orDefault := func(v any, zero bool) string {
+		if zero {
+			return "default"
+		}
+		return fmt.Sprint(v)
+	}
+	st := s.Search
+	p.Settings = []keyValue{
+		{"method", info.Method},
+		{"population", orDefault(st.Population, st.Population == 0)},
+		{"evaluation budget", orDefault(info.MaxEvaluations, info.MaxEvaluations == 0)},
+		{"time budget", timeBudget},
+		{"seed", fmt.Sprint(info.Seed)},
+		{"workers", orDefault(info.Workers, info.Workers == 0)},
+		{"stall generations", orDefault(st.StallGenerations, st.StallGenerations == 0)},
+		{"stall tolerance", orDefault(st.StallTolerance, st.StallTolerance == 0)},
+		{"checkpoint every (generations)", orDefault(st.CheckpointEvery, st.CheckpointEvery == 0)},
+	}
+	p.Run = []keyValue{
+		{"status", info.Status.String()},
+		{"evaluations", fmt.Sprint(info.Evaluations)},
+		{"generations", fmt.Sprint(info.Generations)},
+		{"failed evaluations", fmt.Sprint(info.Failures)},
+		{"front size", fmt.Sprint(len(r.Front))},
+		{"runtime (s)", fmt.Sprintf("%.3g", info.RuntimeSec)},
+		{"hypervolume (" + r.hypervolumeUnit() + ")", num(info.Hypervolume)},
+		{"plica version", info.Version},
+		{"problem file", info.ProblemFile + " (hash " + info.ProblemHash + ")"},
+		{"started (UTC)", info.Started.Format("2006-01-02 15:04:05")},
+	}
+	for i, o := range s.Objectives {
+		if i >= len(info.Reference) {
+			break
+		}
+		v := num(info.Reference[i])
+		if o.Maximize {
+			v += " (maximised: negated, so " + o.Score + " = " + num(o.Natural(info.Reference[i])) + ")"
+		}
+		p.Reference = append(p.Reference, keyValue{o.Score, v})
+	}
+	c := results.NewColumns(s)
+	p.FrontHeader = append([]string{"id"}, c.Objectives...)
+	p.FrontHeader = append(p.FrontHeader, c.Variables...)
+	p.FrontHeader = append(p.FrontHeader, "pass", "design file")
+	shown := map[int]bool{}
+	for _, id := range ids {
+		shown[id] = true
+	}
+	for _, row := range r.Front {
+		cells := []string{fmt.Sprint(row.ID)}
+		for _, f := range row.F {
+			cells = append(cells, num(f))
+		}
+		for j, v := range s.Variables {
+			if v.Options != nil {
+				cells = append(cells, row.Cells[j])
+			} else {
+				cells = append(cells, num(row.X[j]))
+			}
+		}
+		pass := "no"
+		if row.Pass {
+			pass = "yes"
+		}
+		cells = append(cells, pass, results.DesignFileName(row.ID))
+		p.FrontRows = append(p.FrontRows, frontTableRow{Cells: cells, Chosen: shown[row.ID]})
+	}
+	p.Cautions = append(p.Cautions, Cautions...)
+	if !info.Status.Finished() {
+		p.Cautions = append(p.Cautions, fmt.Sprintf("The run did not finish (status %s): the front is that of the last complete generation; continue it with plica resume %s.", info.Status, r.Folder.Dir))
+	}
+	if info.Failures > 0 {
+		p.Cautions = append(p.Cautions, fmt.Sprintf("%d evaluations failed and count as infeasible; their messages are in the failure column of %s.", info.Failures, results.EvaluationsFile))
+	}
+	switch {
+	case !results.Exists(r.Folder.Path(results.FrontFile)):
+		p.NoFront = fmt.Sprintf("The run stopped before writing %s: continue it with plica resume %s.", results.FrontFile, r.Folder.Dir)
+		p.Cautions = append(p.Cautions, p.NoFront)
+	case len(r.Front) == 0:
+		p.NoFront = "The front is empty: no feasible design was found."
+		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
+	}
+	return p
+}
+
+var reportTemplate = template.Must(template.New("report").Parse(`<!DOCTYPE html>
+<html lang="en">
+<head>
+<meta charset="utf-8"/>
+<meta name="viewport" content="width=device-width, initial-scale=1"/>
+<title>{{.Title}}</title>
+<script>var plicaErrors = 0; window.onerror = function () { plicaErrors++; };</script>
+<style>
+body { font-family: sans-serif; max-width: 72rem; margin: 1rem auto; padding: 0 1rem; color: #222; line-height: 1.4; }
+h1 { font-size: 1.6rem; } h2 { border-bottom: 1px solid #ccc; padding-bottom: .2rem; margin-top: 2rem; }
+table { border-collapse: collapse; margin: .5rem 0 1rem; font-size: .9rem; }
+th, td { border: 1px solid #ccc; padding: .2rem .5rem; text-align: left; vertical-align: top; }
+th { background: #f2f2f2; }
+td.num { text-align: right; font-variant-numeric: tabular-nums; }
+tr.chosen td { background: #fdecea; }
+.wide { overflow-x: auto; }
+.caution { border: 2px solid #d62728; background: #fff5f5; padding: .5rem 1rem; }
+.pass { color: #1a7f37; font-weight: bold; } .fail { color: #d62728; font-weight: bold; }
+.problem { color: #d62728; }
+figure { margin: 1rem 0 2rem; } figcaption { font-size: .9rem; color: #444; max-width: 60rem; }
+svg.figure { display: block; max-width: 100%; height: auto; }
+pre { background: #f7f7f7; padding: .5rem; overflow-x: auto; font-size: .8rem; }
+nav a { margin-right: 1rem; }
+</style>
+</head>
+<body>
+<h1>{{.Title}}</h1>
+<p>Run folder <code>{{.Folder}}</code>.</p>
+<p class="caution"><strong>Caution.</strong> {{.Caution}}</p>
+<nav><a href="#summary">summary</a><a href="#front">front</a><a href="#figures">figures</a><a href="#designs">designs</a><a href="#cautions">cautions</a><a href="#problem">problem file</a></nav>
+{{if .Problems}}<div class="problem"><p>Parts of this report could not be built:</p><ul>{{range .Problems}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+
+<h2 id="summary">Problem and run</h2>
+<h3>Design variables</h3>
+<table><tr><th>variable</th><th>range</th><th>unit</th></tr>
+{{range .Variables}}<tr><td><code>{{index . 0}}</code></td><td>{{index . 1}}</td><td>{{index . 2}}</td></tr>
+{{end}}</table>
+<h3>Objectives</h3>
+<table><tr><th>score</th><th>goal</th><th>unit</th><th>meaning</th></tr>
+{{range .Objectives}}<tr><td><code>{{index . 0}}</code></td><td>{{index . 1}}</td><td>{{index . 2}}</td><td>{{index . 3}}</td></tr>
+{{end}}</table>
+<h3>Requirements</h3>
+{{if .Requirements}}<table><tr><th>key in [requirements]</th><th>value</th></tr>
+{{range .Requirements}}<tr><td><code>{{.Key}}</code></td><td>{{.Value}}</td></tr>
+{{end}}</table>{{else}}<p>No [requirements] table: only the checks with defaults apply.</p>{{end}}
+<p>Checks every candidate must pass (constraints of the search): {{range $i, $c := .Checks}}{{if $i}}, {{end}}<code>{{$c}}</code>{{end}}{{if .Constraints}}; extra constraints: {{range $i, $c := .Constraints}}{{if $i}}, {{end}}<code>{{$c}}</code>{{end}}{{end}}.</p>
+<h3>Search</h3>
+<table>{{range .Settings}}<tr><th>{{.Key}}</th><td>{{.Value}}</td></tr>
+{{end}}</table>
+<h3>Run</h3>
+<table>{{range .Run}}<tr><th>{{.Key}}</th><td>{{.Value}}</td></tr>
+{{end}}</table>
+{{if .Reference}}<p>The hypervolume is measured in the objectives as the search minimises them (maximised objectives negated) against the reference point:</p>
+<table><tr><th>objective</th><th>reference</th></tr>{{range .Reference}}<tr><td><code>{{.Key}}</code></td><td>{{.Value}}</td></tr>{{end}}</table>{{end}}
+
+<h2 id="front">Front</h2>
+{{if .FrontRows}}<p>{{len .FrontRows}} designs; objectives in each score's own sign. Highlighted rows are shown in detail below. Each design is a design file in the run folder that <code>plica check</code> and <code>plica pose</code> accept.</p>
+<div class="wide"><table id="front-table"><tr>{{range .FrontHeader}}<th>{{.}}</th>{{end}}</tr>
+{{range .FrontRows}}<tr{{if .Chosen}} class="chosen"{{end}}>{{range .Cells}}<td>{{.}}</td>{{end}}</tr>
+{{end}}</table></div>{{else}}<p class="fail">{{.NoFront}}</p>{{end}}
+
+<h2 id="figures">Figures</h2>
+{{range .Figures}}{{template "figure" .}}{{end}}
+
+<h2 id="designs">Designs</h2>
+{{if not .Designs}}<p>No design to show.</p>{{end}}
+{{range .Designs}}<section id="design-{{.ID}}">
+<h3>Design {{.ID}}{{if .Reason}}: {{.Reason}}{{end}}</h3>
+<p>Design file <code>{{.File}}</code>.
+{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}.</p>
+<p>Variables: {{range $i, $v := .Variables}}{{if $i}}, {{end}}<code>{{$v.Key}}</code> = {{$v.Value}}{{end}}.</p>
+{{if .Problem}}<p class="problem">{{.Problem}}</p>{{end}}
+{{if .HasResult}}
+<p>Result: {{if .Pass}}<span class="pass">PASS</span> ({{.NumChecks}} checks){{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}} checks failed){{end}}</p>
+<table class="checks"><tr><th>check</th><th>value</th><th>limit</th><th>unit</th><th>result</th><th>note</th></tr>
+{{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
+{{end}}</table>
+<ul>{{range .Models}}<li>model: {{.}}</li>{{end}}{{range .Warnings}}<li class="problem">warning: {{.}}</li>{{end}}</ul>
+{{if .CheckText}}<details><summary>full check output (as <code>plica check {{.File}}</code> prints it)</summary><pre>{{.CheckText}}</pre></details>{{end}}
+{{end}}
+{{range .Figures}}{{template "figure" .}}{{end}}
+</section>
+{{end}}
+
+<h2 id="cautions">Cautions</h2>
+<ul class="caution"><li>{{.Caution}}</li>{{range .Cautions}}<li>{{.}}</li>{{end}}</ul>
+
+<h2 id="problem">Problem file</h2>
+<details><summary>problem.toml as given</summary><pre>{{.ProblemText}}</pre></details>
+
+<pre id="plica-selfcheck" hidden="hidden"></pre>
+<script>
+(function () {
+  function check() {
+    var figs = document.querySelectorAll("svg"), zero = 0;
+    for (var i = 0; figs.length > i; i++) {
+      var r = figs[i].getBoundingClientRect();
+      figs[i].setAttribute("data-size", Math.round(r.width) + "x" + Math.round(r.height));
+      if (!(r.width > 0) || !(r.height > 0)) { zero++; }
+    }
+    document.getElementById("plica-selfcheck").textContent =
+      "figures=" + figs.length + " zero=" + zero + " errors=" + plicaErrors;
+  }
+  check();
+  window.addEventListener("load", check);
+})();
+</script>
+</body>
+</html>
+{{define "figure"}}<figure id="{{.ID}}">
+{{if .Problem}}<p class="problem">{{.Problem}}</p>{{else}}{{.SVG}}
+<figcaption><strong>{{.Title}}.</strong> {{.Caption}} (<code>plots/{{.Name}}</code>)</figcaption>{{end}}
+</figure>
+{{end}}`))
