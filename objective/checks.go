@@ -107,7 +107,7 @@ func (e *evaluator) checks(res *Result) {
 }
 
 // printability checks each bellows with geometry against the printer
-// (PHYSICS §8, common practice).
+// (surrogate/REFERENCE.md §3.1, common practice).
 func (e *evaluator) printability(res *Result, add func(string, float64, float64, string, bool, string)) {
 	p := e.sc.Printer
 	process := p.Process

@@ -23,7 +23,7 @@ func measuredBellows(ls, lc, kappa, ei, gj, mpl float64) Bellows {
 // TestSingleArcSweep: one bellows, all of it curved, swept about its base
 // axis. The tip of a planar arc of curvature κ and length L lies at
 // ρ = (1 − cos κL)/κ from the axis and its tangent makes the angle κL with
-// it (PHYSICS §3.3, planar case; derived from the stated equations).
+// it (objective/kinematics/REFERENCE.md §3.3, planar case; derived from the stated equations).
 func TestSingleArcSweep(t *testing.T) {
 	const kappa, L = 10.0, 0.1
 	d := &Design{Bellows: []Bellows{measuredBellows(0, L, kappa, 1, 50, 0.01)}}
@@ -40,7 +40,7 @@ func TestSingleArcSweep(t *testing.T) {
 
 // TestBalancedPairSurface: two equal bellows with equal pre-curvature κ
 // overlapping over their whole length. The link curvature is κ|cos(Δ/2)|
-// (PHYSICS §3.1 isotropic closed form with k1 = k2: |u| = κ sqrt((1 + cos Δ)/2)),
+// (objective/kinematics/REFERENCE.md §3.1 isotropic closed form with k1 = k2: |u| = κ sqrt((1 + cos Δ)/2)),
 // so the tip runs along the family of arcs of curvature k ∈ [0, κ], from
 // straight to fully bent. Revolved about the base axis, that curve sweeps
 // the area A = 2π ∫ ρ ds (Pappus' centroid theorem) with
@@ -136,7 +136,7 @@ func TestComplianceCantilever(t *testing.T) {
 
 // TestComplianceMatchesLinearEstimate compares the closed-matrix
 // compliance with the kinematics package's independent linear estimate
-// (PHYSICS §4.3) on a curved, two-bellows, piecewise shape.
+// (objective/statics/REFERENCE.md §3) on a curved, two-bellows, piecewise shape.
 func TestComplianceMatchesLinearEstimate(t *testing.T) {
 	d := &Design{Bellows: []Bellows{
 		measuredBellows(0.15, 0.11, 9, 0.6, 30, 0.02),

@@ -8,10 +8,10 @@ import (
 
 // ExampleEvaluate scores the balanced pair of measured bellows of the
 // shipped demo (problems/examples/boom-measured.toml; invented numbers).
-// EI1·κ1 = EI2·κ2, so anti-aligned the pair is straight (PHYSICS §3.5);
+// EI1·κ1 = EI2·κ2, so anti-aligned the pair is straight (objective/kinematics/REFERENCE.md §3.5);
 // aligned, the 100 mm curved overlap bends at (k1κ1 + k2κ2)/(k1 + k2) =
 // 20/3 1/m, so the tip of the 350 mm straight part plus that arc lies
-// (1 − cos(2/3))/(20/3) m = 32.12 mm off the axis (PHYSICS §3.3, planar
+// (1 − cos(2/3))/(20/3) m = 32.12 mm off the axis (objective/kinematics/REFERENCE.md §3.3, planar
 // case); the mass is (0.05 + 0.08) kg/m · 0.45 m = 58.5 g. All derived.
 func ExampleEvaluate() {
 	d := &objective.Design{Bellows: []objective.Bellows{

@@ -14,7 +14,7 @@ import (
 // sag finds the worst tip sag over the sampled workspace. The linear
 // compliance of every sampled shape gives the sag at every common rotation
 // φ in closed form, ĝᵀ R_z(φ) C R_z(φ)ᵀ g; the worst configuration is then
-// solved with the geometrically exact rod model (PHYSICS §4), which is the
+// solved with the geometrically exact rod model (objective/statics/REFERENCE.md §1), which is the
 // reported value; the linear estimate at the same configuration is
 // reported beside it.
 func (e *evaluator) sag(res *Result) error {
@@ -105,7 +105,7 @@ func (e *evaluator) sag(res *Result) error {
 	sc.TipSag = sag
 	sc.SagIterations = loaded.Iterations + free.Iterations
 	// Linear estimate at the same configuration: the compliance on a fine
-	// grid (PHYSICS §4.3).
+	// grid (objective/statics/REFERENCE.md §3).
 	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 200}
 	C := fine.compliance(links)
 	var dp [3]float64
@@ -242,7 +242,7 @@ func (e *evaluator) stability(res *Result) error {
 }
 
 // pairMargin runs the two-tube snap test for bellows i and i+1 at one
-// actuation (PHYSICS §5); false when their curved parts do not overlap.
+// actuation (objective/kinematics/REFERENCE.md §4); false when their curved parts do not overlap.
 func (e *evaluator) pairMargin(i int, a kinematics.Actuation) (PairMargin, bool) {
 	ps, err := e.robot.SnapStability(a, i)
 	if err != nil || ps.Overlap <= 0 {
@@ -252,7 +252,7 @@ func (e *evaluator) pairMargin(i int, a kinematics.Actuation) (PairMargin, bool)
 }
 
 // overhang returns the steepest wall angle from the print (vertical) axis
-// of a bellows profile, rad (PHYSICS §8: sinusoid atan(πw/q); trapezoid and
+// of a bellows profile, rad (surrogate/REFERENCE.md §3.1: sinusoid atan(πw/q); trapezoid and
 // U flanks from their geometry).
 func overhang(g surrogate.Geometry) float64 {
 	switch g.Profile {

@@ -17,7 +17,7 @@ type shape struct {
 	act kinematics.Actuation
 	tip kinematics.Pose
 	// comp is the linear tip compliance to a unit gravity vector: the tip
-	// displacement under self-weight plus payload is comp·g (PHYSICS §4.3).
+	// displacement under self-weight plus payload is comp·g (objective/statics/REFERENCE.md §3).
 	comp [3][3]float64
 	// kmax is the largest curvature magnitude over the nested section
 	// (links where two or more bellows are present; all links for a
@@ -229,7 +229,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 			sh.kmax = math.Max(sh.kmax, math.Hypot(l.U[0], l.U[1]))
 		}
 		// Wall strain: each present bellows is bent from its own
-		// pre-curvature to the link curvature (PHYSICS §3.6, §6.9).
+		// pre-curvature to the link curvature (objective/kinematics/REFERENCE.md §3.6, surrogate/REFERENCE.md §2.9).
 		for i, t := range e.robot.Tubes {
 			if l.Present&(1<<uint(i)) == 0 {
 				continue
@@ -280,7 +280,7 @@ func (sh *shape) nonFinite() string {
 
 // compliance returns the linear tip compliance matrix C of a shape to a
 // unit gravity vector g: δp_tip = C g for self-weight plus the payload
-// (PHYSICS §4.3, derived). With a(s) = m_p (p_L − p(s)) + ∫_s^L m'(σ)(p(σ) −
+// (objective/statics/REFERENCE.md §3, derived). With a(s) = m_p (p_L − p(s)) + ∫_s^L m'(σ)(p(σ) −
 // p(s)) dσ the bending moment is M(s) = a(s) × g, the curvature change is
 // Δu = K⁻¹ Rᵀ M, and δp_tip = ∫ (R Δu) × (p_L − p(s)) ds, so
 // C = −∫ [c]× R K⁻¹ Rᵀ [a]× ds with c = p_L − p(s). Trapezoid rule on

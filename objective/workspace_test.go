@@ -40,7 +40,7 @@ func TestWorkspaceTips(t *testing.T) {
 		}
 	})
 	t.Run("balanced pair straightens at 180 degrees", func(t *testing.T) {
-		// PHYSICS §3.5: the measured example is a balanced pair
+		// objective/kinematics/REFERENCE.md §3.5: the measured example is a balanced pair
 		// (EI1·κ1 = EI2·κ2), straight at 180° relative rotation with the
 		// tip on the axis at the full length, 450 mm (as TestPoseJSONContract)
 		d, _, err := problems.LoadDesign("../problems/examples/boom-measured.toml")

@@ -45,7 +45,7 @@ type BenchRow struct {
 }
 
 // Bench is a cantilever bench-test file: tip loads and deflections of a
-// printed bellows clamped at one end (PHYSICS §7.1).
+// printed bellows clamped at one end (surrogate/REFERENCE.md §4.2).
 type Bench struct {
 	File string
 	Rows []BenchRow // file order
@@ -442,7 +442,7 @@ func (b *Bench) Fit(axis int, intercept, clamp Term) (*BenchFit, error) {
 			d -= fit.Offsets[f.Points[i].Setup]
 		}
 		if ratio := math.Abs(d) / r.FreeLength; ratio > surrogate.SmallDeflectionLimit {
-			f.Warnings = append(f.Warnings, fmt.Sprintf("%s:%d: deflection/free length %.3g exceeds %g: beyond the small-deflection range of the linear cantilever formula, where EI reads high (PHYSICS §7); use smaller loads or drop the row",
+			f.Warnings = append(f.Warnings, fmt.Sprintf("%s:%d: deflection/free length %.3g exceeds %g: beyond the small-deflection range of the linear cantilever formula, where EI reads high (surrogate/REFERENCE.md §4.1); use smaller loads or drop the row",
 				b.File, r.Line, ratio, surrogate.SmallDeflectionLimit))
 		}
 	}

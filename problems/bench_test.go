@@ -85,8 +85,8 @@ func TestBenchUnits(t *testing.T) {
 	assert.Equal(t, []int{0, 1}, b.Axes())
 }
 
-// TestBenchFitVector98 runs the §9.8 vector (PHYSICS §9.8, derived from
-// §7.1) through the file reader and the fit: EI = 41 084.6 N·mm² with
+// TestBenchFitVector98 runs the surrogate/REFERENCE.md §5.4 vector (surrogate/REFERENCE.md §5.4, derived from
+// §4.2) through the file reader and the fit: EI = 41 084.6 N·mm² with
 // 95 % interval [40 387, 41 807] N·mm².
 func TestBenchFitVector98(t *testing.T) {
 	b, err := LoadBench("testdata/bench/vector98.csv")
@@ -94,9 +94,9 @@ func TestBenchFitVector98(t *testing.T) {
 	f, err := b.Fit(0, TermAuto, TermAuto)
 	require.NoError(t, err)
 	assert.Equal(t, "through origin", f.Model(), "zeroed gauge, one length")
-	assert.InEpsilon(t, 41084.6, f.Fit.EI*1e6, 1e-5, "EI, N·mm² (PHYSICS §9.8)")
-	assert.InEpsilon(t, 40387, f.Fit.CI[0]*1e6, 1e-4, "interval low (PHYSICS §9.8)")
-	assert.InEpsilon(t, 41807, f.Fit.CI[1]*1e6, 1e-4, "interval high (PHYSICS §9.8)")
+	assert.InEpsilon(t, 41084.6, f.Fit.EI*1e6, 1e-5, "EI, N·mm² (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 40387, f.Fit.CI[0]*1e6, 1e-4, "interval low (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 41807, f.Fit.CI[1]*1e6, 1e-4, "interval high (surrogate/REFERENCE.md §5.4)")
 	assert.Equal(t, []string{"100 mm"}, f.Setups)
 	assert.Empty(t, f.Warnings)
 
@@ -155,7 +155,7 @@ func TestBenchLargeDeflectionWarning(t *testing.T) {
 	require.NoError(t, err)
 	f, err := b.Fit(0, TermAuto, TermAuto)
 	require.NoError(t, err)
-	require.Len(t, f.Warnings, 1, "δ/L = 0.16 > 0.1 (PHYSICS §7)")
+	require.Len(t, f.Warnings, 1, "δ/L = 0.16 > 0.1 (surrogate/REFERENCE.md §4.1)")
 	assert.True(t, strings.HasPrefix(f.Warnings[0], "b.csv:4: "), "warning names file and line: %s", f.Warnings[0])
 }
 

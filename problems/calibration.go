@@ -15,7 +15,7 @@ import (
 )
 
 // Calibration is a bench calibration of the bending stiffness of printed
-// bellows of one material, printer and profile (PHYSICS §6.10): per own
+// bellows of one material, printer and profile (surrogate/REFERENCE.md §2.10): per own
 // bending axis, the factor c = EI fitted on the bench / EI the surrogate
 // predicts without calibration, with its uncertainty. A design bellows
 // names the file with calibration_file; its factors then multiply the

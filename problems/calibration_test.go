@@ -39,7 +39,7 @@ func exampleCalibration(t *testing.T) *Calibration {
 // TestCalibrationReproducesBench checks the point of the factor: with it
 // applied, the stiffness a cantilever test sees in the surrogate equals the
 // fitted EI (surrogate.CantileverEI and the calibration scaling,
-// derived from PHYSICS §6.8 and §7).
+// derived from surrogate/REFERENCE.md §2.8 and §4.1).
 func TestCalibrationReproducesBench(t *testing.T) {
 	c := exampleCalibration(t)
 	d, _, err := LoadDesign("examples/boom-geometry.toml")
@@ -259,7 +259,7 @@ func TestShippedCalibration(t *testing.T) {
 	}
 }
 
-// ExampleBench_Fit reads a bench file with the PHYSICS §9.8 vector and fits
+// ExampleBench_Fit reads a bench file with the surrogate/REFERENCE.md §5.4 vector and fits
 // EI through the origin.
 func ExampleBench_Fit() {
 	b, err := LoadBench("testdata/bench/vector98.csv")

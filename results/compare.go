@@ -38,7 +38,7 @@ type CompareOptions struct {
 	// settings of a batch of seeds; runs with one label form a group.
 	// With two or more groups, Compare adds the median and interquartile
 	// range of each indicator per group and Mann–Whitney U tests between
-	// groups (SEARCH.md §5.5). Nil means no groups.
+	// groups (search/front/REFERENCE.md §2). Nil means no groups.
 	Groups []string
 }
 
@@ -134,7 +134,7 @@ type GroupTest struct {
 }
 
 // Compare computes, for runs of one problem (check them with
-// SameObjectives first), the indicators of SEARCH.md §5.5 on one
+// SameObjectives first), the indicators of search/front/REFERENCE.md §2 on one
 // normalisation: the ideal and nadir points of the non-dominated set of
 // the union of the fronts. Each run gets its normalised hypervolume at the
 // common reference point, IGD and IGD+ to the union front, and the number

@@ -23,7 +23,7 @@ func handFront(t *testing.T, dir string, pts [][2]float64) *RunFront {
 }
 
 // TestCompareHandChecked: two fronts whose indicators follow by hand from
-// the definitions of SEARCH.md §5.1–5.5 [derived]. A = {(20, 3), (10, 1)},
+// the definitions of search/front/REFERENCE.md §1 and §2 [derived]. A = {(20, 3), (10, 1)},
 // B = {(15, 1.5), (20, 4)} as (reach, sag); union front (20, 3), (15, 1.5),
 // (10, 1): ideal (reach 20, sag 1), nadir (10, 3). Normalised (maximised
 // reach negated): A = {(0, 1), (1, 0)}, B = {(0.5, 0.25), (0, 1.5)}. The

@@ -34,7 +34,7 @@ func islandRun(t *testing.T, dir string, seed uint64) {
 }
 
 // TestMergeArchives: the merged front is ParetoFront of every evaluation
-// of the runs (definition of Pareto dominance, SEARCH.md §1), a torn last
+// of the runs (definition of Pareto dominance, search/REFERENCE.md §1.3), a torn last
 // line of a killed run is left out and counted, and merging a merge keeps
 // the original source runs.
 func TestMergeArchives(t *testing.T) {

@@ -7,8 +7,8 @@ import (
 	"time"
 )
 
-// BenchmarkNSGA2Overhead measures the cost of NSGA-II itself per evaluation (SEARCH.md §2.3: about
-// 0.6 ms per generation at N = 100 with the O(MN²) sort): N = 100, two objectives, ZDT1 with 10
+// BenchmarkNSGA2Overhead measures the cost of NSGA-II itself per evaluation (search/REFERENCE.md §2.3: about
+// a few milliseconds per generation at N = 100 with the O(MN²) sort): N = 100, two objectives, ZDT1 with 10
 // or 30 variables as a trivial evaluator (tens of nanoseconds), one worker, 20 000 evaluations
 // per run. Target: ≤ 1 µs per evaluation.
 func BenchmarkNSGA2Overhead(b *testing.B) {

@@ -1,6 +1,6 @@
 package search
 
-// This file is the only one that imports eaopt (unmaintained since 2020, SEARCH.md §3.4 P13).
+// This file is the only one that imports eaopt (v0.4.2 of November 2020, no longer developed as far as we know; search/REFERENCE.md §3.4 P13).
 // Replacing it by a plain loop means: `for !e.stopping() { if _, err := e.step(e.pop); err != nil
 // { return err } }`.
 
@@ -15,7 +15,7 @@ import (
 )
 
 // host runs the generations of e on eaopt v0.4.2 with a custom Model that performs one whole
-// generation (SEARCH.md §3.2), working around the pitfalls of §3.4:
+// generation (search/REFERENCE.md §3.2), working around the pitfalls of §3.4:
 //
 //   - one population, no migrator or speciator, and a TryLock guard against concurrent Apply (P8);
 //   - the initial population is built, evaluated and ranked by the engine and handed out in

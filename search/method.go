@@ -106,7 +106,7 @@ type Scalarization struct {
 	// Rho is the augmentation ρ of Achievement. Zero means 1e-6.
 	Rho float64
 	// Penalty multiplies CV in NelderMead's objective, s(x) + Penalty·CV(x). Zero means 1e6
-	// (SEARCH.md §7).
+	// (search/REFERENCE.md §6).
 	Penalty float64
 }
 

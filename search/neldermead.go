@@ -18,7 +18,7 @@ import (
 // evaluation counts as +Inf.
 //
 // Bounds are handled by the sine transform x_i = l_i + (u_i − l_i)(1 + sin z_i)/2, started at
-// z_i = asin(2(x_i − l_i)/(u_i − l_i) − 1), so every trial point lies in the box (SEARCH.md §7). A
+// z_i = asin(2(x_i − l_i)/(u_i − l_i) − 1), so every trial point lies in the box (search/REFERENCE.md §6). A
 // variable with both bounds infinite is optimised directly; one-sided bounds are refused.
 // Categorical and fixed (l_i = u_i) variables keep their initial values.
 //

@@ -18,7 +18,7 @@ func unbounded(n int) (lo, hi []float64) {
 	return lo, hi
 }
 
-// TestNelderMeadRosenbrock checks the rows of SEARCH.md §7 (gonum v0.17.0 check values; X and F
+// TestNelderMeadRosenbrock checks the rows of search/REFERENCE.md §6 (gonum v0.17.0 check values; X and F
 // with tolerances, evaluation counts only against gonum itself).
 func TestNelderMeadRosenbrock(t *testing.T) {
 	lo2, hi2 := unbounded(2)

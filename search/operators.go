@@ -6,7 +6,7 @@ import (
 )
 
 // Variation holds the parameters of the variation operators of NSGA2 and GA. The zero value gives
-// plica's defaults (SEARCH.md §2.9): p_c = 0.9, η_c = 15, p_m = 1/n, η_m = 20; Deb et al. (2002)
+// plica's defaults (search/REFERENCE.md §2.9): p_c = 0.9, η_c = 15, p_m = 1/n, η_m = 20; Deb et al. (2002)
 // used η_c = 20, equally good on the ZDT problems.
 type Variation struct {
 	// CrossoverProbability is the probability that a pair of parents is recombined; otherwise
@@ -78,7 +78,7 @@ func crossover(rng *rand.Rand, p *Problem, v *Variation, p1, p2, c1, c2 []float6
 
 // sbx is bounded simulated binary crossover of one variable with parents y1 < y2 in [yl, yu],
 // distribution index eta and uniform number u (Deb and Agrawal, Complex Systems 9(2), 1995; bounded
-// form of Deb's NSGA-II reference code `realcross`, SEARCH.md §2.7). It returns the lower and
+// form of Deb's NSGA-II reference code `realcross`, search/REFERENCE.md §2.7). It returns the lower and
 // upper child, clipped to the bounds.
 func sbx(y1, y2, yl, yu, eta, u float64) (c1, c2 float64) {
 	d := y2 - y1
@@ -159,7 +159,7 @@ func mutate(rng *rand.Rand, p *Problem, v *Variation, x []float64) {
 
 // polynomialMutation mutates y in [yl, yu] (yl < yu) with distribution index eta and uniform
 // number u: the bounded "highly disruptive" form of Deb and Goyal (1996) in Deb's NSGA-II
-// reference code `real_mutate_ind` (SEARCH.md §2.8). The result is clipped to the bounds.
+// reference code `real_mutate_ind` (search/REFERENCE.md §2.8). The result is clipped to the bounds.
 func polynomialMutation(y, yl, yu, eta, u float64) float64 {
 	d1 := (y - yl) / (yu - yl)
 	d2 := (yu - y) / (yu - yl)

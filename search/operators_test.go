@@ -9,7 +9,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// TestSBXLimits checks bounded SBX (SEARCH.md §2.7, reference code `realcross`) at values derived
+// TestSBXLimits checks bounded SBX (search/REFERENCE.md §2.7, reference code `realcross`) at values derived
 // from its formulas: u = 0 gives β_q = 0, both children at the parents' mean; u → 1 gives
 // β_q → β, the children at the bounds; with bounds far away α → 2 and the unbounded form of Deb
 // and Agrawal (1995), β_q = (2u)^{1/(η+1)} for u ≤ 0.5 and (1/(2(1−u)))^{1/(η+1)} otherwise.
@@ -54,7 +54,7 @@ func TestSBXStaysInBounds(t *testing.T) {
 	}
 }
 
-// TestPolynomialMutationValues checks bounded polynomial mutation (SEARCH.md §2.8, reference code
+// TestPolynomialMutationValues checks bounded polynomial mutation (search/REFERENCE.md §2.8, reference code
 // `real_mutate_ind`) at values derived from its formulas.
 func TestPolynomialMutationValues(t *testing.T) {
 	const eta = 20

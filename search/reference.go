@@ -40,7 +40,7 @@ func ZDT1(n int) Problem {
 // evolution strategy for constrained optimization problems", 1997: x1 ∈ [0, 5], x2 ∈ [0, 3],
 // f1 = 4x1² + 4x2², f2 = (x1 − 5)² + (x2 − 5)², subject to (x1 − 5)² + x2² ≤ 25 and
 // (x1 − 8)² + (x2 + 3)² ≥ 7.7. The front is x1 = x2 ∈ [0, 3], then x2 = 3, x1 ∈ [3, 5]; its
-// hypervolume at (140, 50) is 15856/3 (SEARCH.md §6.2, derived).
+// hypervolume at (140, 50) is 15856/3 (search/REFERENCE.md §5.2, derived).
 func BNH() Problem {
 	return Problem{
 		Dim: 2, Lower: []float64{0, 0}, Upper: []float64{5, 3}, NumObjectives: 2, NumConstraints: 2,
@@ -58,7 +58,7 @@ func BNH() Problem {
 // Evolutionary Algorithms", Wiley, 2001, used by Deb et al. (2002): x1 ∈ [0.1, 1], x2 ∈ [0, 5],
 // f1 = x1, f2 = (1 + x2)/x1, subject to x2 + 9x1 ≥ 6 and −x2 + 9x1 ≥ 1. The front is
 // f2 = 7/f1 − 9 for f1 ∈ [7/18, 2/3] and f2 = 1/f1 for f1 ∈ [2/3, 1]; its hypervolume at (1, 9)
-// is 8 − 7 ln(12/7) − ln(3/2) (SEARCH.md §6.3, derived).
+// is 8 − 7 ln(12/7) − ln(3/2) (search/REFERENCE.md §5.3, derived).
 func CONSTR() Problem {
 	return Problem{
 		Dim: 2, Lower: []float64{0.1, 0}, Upper: []float64{1, 5}, NumObjectives: 2, NumConstraints: 2,

@@ -23,7 +23,7 @@ func frontPoints(ds []Design) [][]float64 {
 	return pts
 }
 
-// bnhFront is the least f2 of BNH's Pareto front at f1 (SEARCH.md §6.2, derived): x1 = x2 = t,
+// bnhFront is the least f2 of BNH's Pareto front at f1 (search/REFERENCE.md §5.2, derived): x1 = x2 = t,
 // f1 = 8t², f2 = 2(t − 5)² for f1 ≤ 72; then x2 = 3, f1 = 4x1² + 36, f2 = (x1 − 5)² + 4.
 func bnhFront(f1 float64) float64 {
 	if f1 <= 72 {
@@ -34,7 +34,7 @@ func bnhFront(f1 float64) float64 {
 	return (x1-5)*(x1-5) + 4
 }
 
-// constrFront is the least f2 of CONSTR's front at f1 (SEARCH.md §6.3, derived).
+// constrFront is the least f2 of CONSTR's front at f1 (search/REFERENCE.md §5.3, derived).
 func constrFront(f1 float64) float64 {
 	if f1 <= 2.0/3 {
 		return 7/f1 - 9
@@ -70,8 +70,8 @@ func frontDistance(f []float64, front [][]float64) float64 {
 
 // TestNSGA2ReferenceProblems runs NSGA2 with the defaults (N = 100, 25 000 evaluations, i.e. 250
 // generations as in Deb et al. 2002; seed 1) and compares the archive hypervolume with the exact
-// values of SEARCH.md §6 (derived). Tolerances: the 200-point archive cannot exceed 0.664081 on
-// ZDT1 at (1, 1) (SEARCH.md §6.1), 0.4 % below 2/3, so 1 % leaves room for convergence; BNH and
+// values of search/REFERENCE.md §5 (derived). Tolerances: the 200-point archive cannot exceed 0.664081 on
+// ZDT1 at (1, 1) (search/REFERENCE.md §5.1), 0.4 % below 2/3, so 1 % leaves room for convergence; BNH and
 // CONSTR get 0.5 %. Measured over seeds 1–10: ZDT1 0.56–0.65 %, BNH 0.25–0.26 %, CONSTR
 // 0.37–0.41 % below the exact values, normalised distances at most 0.0063. Every front point must be
 // feasible, on or above the true front (a point below it would mean a wrong problem or
@@ -152,7 +152,7 @@ func sameResult(a, b *Result) bool {
 }
 
 // TestDeterminismAcrossWorkers: the same seed gives a bit-identical result with 1, 2 and 4
-// workers and on a repeated run (SEARCH.md §2.11).
+// workers and on a repeated run (search/REFERENCE.md §2.11).
 func TestDeterminismAcrossWorkers(t *testing.T) {
 	for _, c := range []struct {
 		name string
@@ -180,7 +180,7 @@ func TestDeterminismAcrossWorkers(t *testing.T) {
 }
 
 // TestResumeIsBitIdentical: stopping on a budget, writing the final checkpoint to JSON, and
-// resuming with the full budget reaches exactly the uninterrupted result (SEARCH.md §4).
+// resuming with the full budget reaches exactly the uninterrupted result (search/REFERENCE.md §4).
 func TestResumeIsBitIdentical(t *testing.T) {
 	for _, c := range []struct {
 		name string
@@ -374,7 +374,7 @@ func TestCheckpointJSONRoundTrip(t *testing.T) {
 }
 
 // TestFailedEvaluations: errors, panics, NaN, ±Inf and unset values make the design infeasible
-// with its reason, are counted and reported, and the run goes on (SEARCH.md §3.4 P11).
+// with its reason, are counted and reported, and the run goes on (search/REFERENCE.md §3.4 P11).
 func TestFailedEvaluations(t *testing.T) {
 	inner := ZDT1(5).Evaluate
 	p := ZDT1(5)
@@ -459,7 +459,7 @@ func TestStallAndRuntimeStop(t *testing.T) {
 	assert.Equal(t, RuntimeLimit, res.Status, "status of a run with only a time budget")
 }
 
-// TestWarmStart: initial designs enter the initial population as given (SEARCH.md §4).
+// TestWarmStart: initial designs enter the initial population as given (search/REFERENCE.md §4).
 func TestWarmStart(t *testing.T) {
 	seed := [][]float64{{0.5, 0, 0, 0}, {1, 0, 0, 0}}
 	var first []*Design
@@ -578,7 +578,7 @@ func TestDefaults(t *testing.T) {
 	assert.Equal(t, 100, c.Population, "population (Deb et al. 2002)")
 	assert.EqualValues(t, 25000, c.maxEvals, "evaluations (N = 100, 250 generations)")
 	assert.Equal(t, 200, c.ArchiveSize, "archive size")
-	assert.Equal(t, Variation{CrossoverProbability: 0.9, CrossoverEta: 15, MutationProbability: 0.25, MutationEta: 20}, c.Variation, "operators (SEARCH.md §2.9)")
+	assert.Equal(t, Variation{CrossoverProbability: 0.9, CrossoverEta: 15, MutationProbability: 0.25, MutationEta: 20}, c.Variation, "operators (search/REFERENCE.md §2.9)")
 	assert.Positive(t, c.Workers, "workers")
 	assert.EqualValues(t, -1, resolve(&Settings{Runtime: 1}, 4).maxEvals, "a time budget alone has no evaluation limit")
 	assert.EqualValues(t, -1, resolve(&Settings{MaxEvaluations: -5}, 4).maxEvals, "negative means no limit")
@@ -622,7 +622,7 @@ func TestEvaluationTimeout(t *testing.T) {
 	assert.EqualValues(t, reasons[context.DeadlineExceeded.Error()], res.Failures, "failures")
 }
 
-// TestConcurrentApplyRefused: the model refuses a concurrent Apply (SEARCH.md §3.4 P8).
+// TestConcurrentApplyRefused: the model refuses a concurrent Apply (search/REFERENCE.md §3.4 P8).
 func TestConcurrentApplyRefused(t *testing.T) {
 	m := &eaoptModel{}
 	m.mu.Lock()

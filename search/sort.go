@@ -92,7 +92,7 @@ func (s *scratch) nondominatedSort(ds []*Design, m int) []int {
 }
 
 // nondominatedSort2 is the O(N log N) non-dominated sort for two objectives (after Jensen, IEEE
-// Trans. Evol. Comput. 7(5), 2003; sweep of SEARCH.md §2.3, derived). Feasible designs are sorted
+// Trans. Evol. Comput. 7(5), 2003; sweep of search/REFERENCE.md §2.3, derived). Feasible designs are sorted
 // by (f1, f2); last[k] is the f2 of the latest design put in front k, non-decreasing in k, and a
 // design joins the first front whose last f2 exceeds its own. Exact duplicates share a front.
 // Infeasible designs follow all feasible fronts in groups of equal CV, ascending. Feasible
@@ -156,7 +156,7 @@ func (s *scratch) nondominatedSort2(ds []*Design) []int {
 // crowdingDistance writes into dist the crowding distance of each design of one front (Deb et
 // al. 2002, Sec. III-B): per objective, the front is sorted by f_m (stable, ties by position in
 // front); the two ends get +Inf and each interior design adds (f_m[next] − f_m[prev]) /
-// (f_m^max − f_m^min), extremes taken over the front. Edge cases (SEARCH.md §2.4): a front of at
+// (f_m^max − f_m^min), extremes taken over the front. Edge cases (search/REFERENCE.md §2.4): a front of at
 // most two designs is all +Inf; an objective with zero range is skipped; a front holding a
 // non-finite objective (failed evaluations) gets all zeros.
 func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []float64) {

@@ -91,7 +91,7 @@ func TestFastSortHandCase(t *testing.T) {
 }
 
 // crowdingOracle is the crowding distance of Deb et al. (2002, Sec. III-B) written directly from
-// the definition, with the edge cases of SEARCH.md §2.4.
+// the definition, with the edge cases of search/REFERENCE.md §2.4.
 func crowdingOracle(fs [][]float64) []float64 {
 	l := len(fs)
 	d := make([]float64, l)

@@ -8,7 +8,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// Bench calibration of the bending stiffness (PHYSICS §6.10, §7, §7.1).
+// Bench calibration of the bending stiffness (surrogate/REFERENCE.md §2.10, §4.1, §4.2).
 //
 // A printed bellows is clamped at one end as a cantilever and loaded at the
 // free end; the tip deflection along the load is read for a few loads. The
@@ -20,7 +20,7 @@ import (
 
 // SmallDeflectionLimit is the largest tip deflection per free length for
 // which the linear cantilever formula is trusted (δ/L ≲ 0.1, error ≲ 1–2 %,
-// PHYSICS §7, from memory (verify)). Beyond it the linear formula
+// surrogate/REFERENCE.md §4.1, from memory (verify)). Beyond it the linear formula
 // overestimates the deflection along the load, so a fit reads EI high.
 const SmallDeflectionLimit = 0.1
 
@@ -60,7 +60,7 @@ type FitOptions struct {
 // method SE(EI) ≈ EI²·SE(1/EI), and the interval of EI is the exact image
 // of the Student-t interval of 1/EI,
 // [1/(b + t·SE_b), 1/(b − t·SE_b)] with b = 1/EI, t = t_{(1+Level)/2, n−p}
-// (PHYSICS §7.1). The upper bound is +Inf when b − t·SE_b ≤ 0: the data do
+// (surrogate/REFERENCE.md §4.2). The upper bound is +Inf when b − t·SE_b ≤ 0: the data do
 // not bound EI from above.
 type Fit struct {
 	EI float64    // bending stiffness, N·m²
@@ -103,10 +103,10 @@ type Fit struct {
 }
 
 // FitCantilever fits EI to tip-load measurements by linear least squares
-// (PHYSICS §7.1 and its variants). The regressors are x₁ = P·L³/3 (for
+// (surrogate/REFERENCE.md §4.2 and its variants). The regressors are x₁ = P·L³/3 (for
 // b = 1/EI), x₂ = P·L² (for 1/k_θ, with ClampCompliance) and one
 // indicator per setup (with Intercept). With one free length and neither
-// option this is exactly §7.1: ĉ = ΣPδ/ΣP², s² = Σ(δ − ĉP)²/(n − 1),
+// option this is exactly surrogate/REFERENCE.md §4.2: ĉ = ΣPδ/ΣP², s² = Σ(δ − ĉP)²/(n − 1),
 // SE(ĉ) = s/√ΣP², EI = L³/(3ĉ).
 //
 // Without Intercept, points with zero load and zero deflection are the
@@ -303,7 +303,7 @@ func FitCantilever(points []BenchPoint, opts FitOptions) (Fit, error) {
 		ratio := math.Abs(d) / pt.FreeLength
 		f.MaxDeflectionRatio = max(f.MaxDeflectionRatio, ratio)
 		if ratio > SmallDeflectionLimit {
-			f.Warnings = append(f.Warnings, fmt.Sprintf("point %d: deflection/length %.3g exceeds %g, beyond the small-deflection range of the linear cantilever formula (PHYSICS §7); EI reads high there, drop the point or use smaller loads",
+			f.Warnings = append(f.Warnings, fmt.Sprintf("point %d: deflection/length %.3g exceeds %g, beyond the small-deflection range of the linear cantilever formula (surrogate/REFERENCE.md §4.1); EI reads high there, drop the point or use smaller loads",
 				i+1, ratio, SmallDeflectionLimit))
 		}
 	}
@@ -346,7 +346,7 @@ func (f *Fit) Band(load, length float64, setup int) (mean, half float64) {
 }
 
 // Factor is a multiplicative calibration factor: fitted EI over the EI the
-// surrogate predicts without calibration (PHYSICS §6.10).
+// surrogate predicts without calibration (surrogate/REFERENCE.md §2.10).
 type Factor struct {
 	Value float64    // c = EI_fit/EI_pred
 	SE    float64    // SE(EI_fit)/EI_pred
@@ -373,7 +373,7 @@ func CalibrationFactor(f Fit, predicted float64) (Factor, error) {
 // that bends the bellows about x alone (its tip free to move sideways)
 // deflects along the load by P·L³/3·(EI⁻¹)_xx, so the test sees
 // 1/(EI⁻¹)_xx = det(EI)/EI_yy, and likewise det(EI)/EI_xx about y
-// [derived from §6.8 and §7]. Without coupling (EI_xy = 0) these are the
+// [derived from surrogate/REFERENCE.md §2.8 and §4.1]. Without coupling (EI_xy = 0) these are the
 // diagonal entries. Because calibration scales the tensor as
 // EI'_ij = √(c_i·c_j)·EI_ij (Bellows.Calibration), the test value about x
 // scales by c_x alone, so c_x = EI_fit,x/CantileverEI(EI)[0] reproduces the

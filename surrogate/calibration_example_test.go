@@ -7,7 +7,7 @@ import (
 )
 
 // ExampleFitCantilever fits EI to the synthetic cantilever test of
-// PHYSICS §9.8 (L = 100 mm, four tip loads, deflection zeroed at no load)
+// surrogate/REFERENCE.md §5.4 (L = 100 mm, four tip loads, deflection zeroed at no load)
 // and turns it into a calibration factor against a predicted EI of
 // 45 000 N·mm² (a demo value).
 func ExampleFitCantilever() {

@@ -13,8 +13,8 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-// benchVector98 is the synthetic cantilever-fit vector of PHYSICS §9.8
-// (derived from the equations of §7.1): L = 100 mm,
+// benchVector98 is the synthetic cantilever-fit vector of surrogate/REFERENCE.md §5.4
+// (derived from the equations of §4.2): L = 100 mm,
 // P = [0.05, 0.10, 0.15, 0.20] N, δ = [0.40, 0.83, 1.21, 1.62] mm, in SI.
 func benchVector98() []BenchPoint {
 	loads := []float64{0.05, 0.10, 0.15, 0.20}
@@ -27,25 +27,25 @@ func benchVector98() []BenchPoint {
 }
 
 // TestCalibrationFitVector98 checks the fit through the origin against the
-// exact numbers of PHYSICS §9.8 (derived from §7.1). Tolerance 1e-4
+// exact numbers of surrogate/REFERENCE.md §5.4 (derived from §4.2). Tolerance 1e-4
 // relative where the reference gives 5–7 digits, 5e-4 where it gives four
-// (PHYSICS §9 preamble).
+// (surrogate/REFERENCE.md §5.1).
 func TestCalibrationFitVector98(t *testing.T) {
 	f, err := FitCantilever(benchVector98(), FitOptions{})
-	require.NoError(t, err, "§9.8 vector")
+	require.NoError(t, err, "surrogate/REFERENCE.md §5.4 vector")
 	l3 := 0.100 * 0.100 * 0.100 / 3   // L³/3, m³
 	cHat := l3 * f.Flexibility * 1e3  // ĉ = L³/(3EI), mm/N
 	seC := l3 * f.FlexibilitySE * 1e3 // SE(ĉ), mm/N
-	assert.InEpsilon(t, 8.113333, cHat, 1e-6, "ĉ, mm/N (PHYSICS §9.8)")
-	assert.InEpsilon(t, 0.012065, f.S*1e3, 1e-4, "s, mm (PHYSICS §9.8)")
-	assert.InEpsilon(t, 0.044054, seC, 1e-4, "SE(ĉ), mm/N (PHYSICS §9.8)")
-	assert.InEpsilon(t, 41084.6, f.EI*1e6, 1e-5, "EI, N·mm² (PHYSICS §9.8)")
-	assert.InEpsilon(t, 223.1, f.SE*1e6, 5e-4, "SE(EI), N·mm² (PHYSICS §9.8)")
-	assert.InEpsilon(t, 0.0054, f.SE/f.EI, 1e-2, "relative SE 0.54 % (PHYSICS §9.8, two digits)")
-	assert.InEpsilon(t, 3.182, f.T, 2e-4, "t_{0.975,3} (PHYSICS §9.8; Student t table value 3.182)")
-	assert.InEpsilon(t, 40387, f.CI[0]*1e6, 1e-4, "95 %% interval low, N·mm² (PHYSICS §9.8)")
-	assert.InEpsilon(t, 41807, f.CI[1]*1e6, 1e-4, "95 %% interval high, N·mm² (PHYSICS §9.8)")
-	assert.Equal(t, 3, f.DOF, "n − 1 for one parameter (PHYSICS §7.1)")
+	assert.InEpsilon(t, 8.113333, cHat, 1e-6, "ĉ, mm/N (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 0.012065, f.S*1e3, 1e-4, "s, mm (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 0.044054, seC, 1e-4, "SE(ĉ), mm/N (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 41084.6, f.EI*1e6, 1e-5, "EI, N·mm² (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 223.1, f.SE*1e6, 5e-4, "SE(EI), N·mm² (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 0.0054, f.SE/f.EI, 1e-2, "relative SE 0.54 % (surrogate/REFERENCE.md §5.4, two digits)")
+	assert.InEpsilon(t, 3.182, f.T, 2e-4, "t_{0.975,3} (surrogate/REFERENCE.md §5.4; Student t table value 3.182)")
+	assert.InEpsilon(t, 40387, f.CI[0]*1e6, 1e-4, "95 %% interval low, N·mm² (surrogate/REFERENCE.md §5.4)")
+	assert.InEpsilon(t, 41807, f.CI[1]*1e6, 1e-4, "95 %% interval high, N·mm² (surrogate/REFERENCE.md §5.4)")
+	assert.Equal(t, 3, f.DOF, "n − 1 for one parameter (surrogate/REFERENCE.md §4.2)")
 	assert.Equal(t, 4, f.Points)
 	assert.Len(t, f.Residuals, 4)
 	// Residuals by hand from ĉ: δ_i − ĉ·P_i [derived].
@@ -235,7 +235,7 @@ func TestCalibrationErrors(t *testing.T) {
 }
 
 // TestCalibrationSmallDeflectionWarning checks the δ/L > 0.1 warning
-// (PHYSICS §7, limit from memory (verify)).
+// (surrogate/REFERENCE.md §4.1, limit from memory (verify)).
 func TestCalibrationSmallDeflectionWarning(t *testing.T) {
 	pts := []BenchPoint{
 		{Load: 1, Deflection: 5e-3, FreeLength: 0.1},
@@ -350,8 +350,8 @@ func BenchmarkFitCantilever(b *testing.B) {
 }
 
 // TestCalibrationZeroReference checks that a zero-load point reading zero
-// is the zero reference, not a measurement: the §9.8 fit is unchanged
-// (same n − 1 = 3 degrees of freedom, PHYSICS §7.1), while a zero-load
+// is the zero reference, not a measurement: the surrogate/REFERENCE.md §5.4 fit is unchanged
+// (same n − 1 = 3 degrees of freedom, surrogate/REFERENCE.md §4.2), while a zero-load
 // point with a reading is a measurement with a residual.
 func TestCalibrationZeroReference(t *testing.T) {
 	ref, err := FitCantilever(benchVector98(), FitOptions{})

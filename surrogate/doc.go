@@ -7,7 +7,7 @@
 //
 // Geometry conventions: OuterDiameter is the outside diameter at the crown
 // outer surface, Depth w runs from the root centreline to the crown
-// centreline, so the mean radius is Rm = OD/2 − t/2 − w/2 (PHYSICS §1.2).
+// centreline, so the mean radius is Rm = OD/2 − t/2 − w/2 (surrogate/REFERENCE.md §1.1).
 // Printed walls are orthotropic: meridional bending (axial and bending
 // stiffness, strain) uses ModulusAcross (across layers in an upright
 // print), hoop action uses ModulusInLayer, and torsion the lower shear
@@ -29,11 +29,11 @@
 //
 // The beam analogy (EA, EI tensor with an optional axial spine, GJ by the
 // membrane formula, helical correction) follows the project's physics
-// reference §6; EJMA-style formulas for metal U-bellows are provided for
+// reference surrogate/REFERENCE.md §2; EJMA-style formulas for metal U-bellows are provided for
 // comparison with the literature (EJMAAxialRate and friends), and a small
 // table of generic printable materials (LookupMaterial).
 //
-// Limits (PHYSICS §6.10): linear elastic, small movement per convolution
+// Limits (surrogate/REFERENCE.md §2.10): linear elastic, small movement per convolution
 // (e ≲ 0.1·w), no convolution contact, unpressurised; the beam analogy
 // assumes N ≳ 5 convolutions, L ≳ Dm and Dm ≫ w; the orthotropic shell
 // (geometric-mean Poisson coupling) and the helical torsion correction

@@ -2,7 +2,7 @@ package surrogate
 
 import "math"
 
-// EJMA-style formulas for unreinforced U-bellows (PHYSICS §6.11), for
+// EJMA-style formulas for unreinforced U-bellows (surrogate/REFERENCE.md §2.11), for
 // comparison with the metal-bellows literature: Standards of the Expansion
 // Joint Manufacturers Association (EJMA), 9th/10th ed.; the same
 // coefficients appear in ASME BPVC Section VIII Div. 1, Mandatory

@@ -17,7 +17,7 @@ import (
 const ThinWall = convolution.ThinWall
 
 // ShapePoint locates a convolution shape on the hoop-stiffening grids
-// (PHYSICS §1.2, §6.2). Printed walls use tp = t.
+// (surrogate/REFERENCE.md §1.1, §2.2). Printed walls use tp = t.
 type ShapePoint struct {
 	Profile Profile
 	// C1 = 2·rm/w (UShape only; rm = q/4).

@@ -2,7 +2,7 @@ package surrogate
 
 import "sort"
 
-// materials holds generic printable materials (PHYSICS §8.1). Typical
+// materials holds generic printable materials (surrogate/REFERENCE.md §3.2). Typical
 // values, verify for your filament: printed properties depend on process,
 // orientation, humidity and strain rate. Z = across layers (meridional in
 // an upright print), XY = in the layer plane (hoop).

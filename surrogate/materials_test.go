@@ -8,7 +8,7 @@ import (
 )
 
 // TestMaterials checks the generic material table against the ranges of
-// PHYSICS §8.1 (published data sheets; ν from memory) and that every entry
+// surrogate/REFERENCE.md §3.2 (published data sheets; ν from memory) and that every entry
 // passes validation.
 func TestMaterials(t *testing.T) {
 	assert.Equal(t, []string{"pa12", "petg", "pla", "resin", "tpu"}, MaterialNames(), "sorted names")

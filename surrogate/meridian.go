@@ -6,7 +6,7 @@ import (
 )
 
 // MeanRadius returns Rm = OD/2 − t/2 − w/2, m: the crown centreline lies at
-// Rm + w/2 and the root centreline at Rm − w/2 (PHYSICS §1.2).
+// Rm + w/2 and the root centreline at Rm − w/2 (surrogate/REFERENCE.md §1.1).
 func (g Geometry) MeanRadius() float64 { return (g.OuterDiameter - g.Wall - g.Depth) / 2 }
 
 // crestRadius returns the U-profile crown/root radius rm (0 → q/4).

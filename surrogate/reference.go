@@ -7,7 +7,7 @@ import (
 )
 
 // The shell element on a straight cylinder, for verification against the
-// closed forms of cylindrical-shell theory (PHYSICS §9.7). Units are
+// closed forms of cylindrical-shell theory (surrogate/REFERENCE.md §5.3). Units are
 // consistent (any set); the cylinder is isotropic.
 
 func cylinderMesh(r, l float64, n int) (rs, zs []float64) {

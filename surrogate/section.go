@@ -6,20 +6,20 @@ import "math"
 // requested fidelity, after Validate.
 //
 // Axial rate per convolution k_conv:
-//   - Strip: the r-weighted strip model (PHYSICS §6.1) over the actual
+//   - Strip: the r-weighted strip model (surrogate/REFERENCE.md §2.1) over the actual
 //     meridian, times the hoop-stiffening factor H interpolated from the
-//     generated tables (§6.2) at the bellows' (C1, C2, t/rm, ν) for
+//     generated tables (surrogate/REFERENCE.md §2.2) at the bellows' (C1, C2, t/rm, ν) for
 //     U-profiles, (w/q, C2q, t/w, ν) for sinusoids and (flat fraction, w/q,
 //     C2q, t/w, ν) for trapezoids; the strain is multiplied by the
 //     generated strain factor likewise. The orthotropic wall enters the tables through an effective
 //     C2 scaled by (ModulusInLayer/ModulusAcross)^(1/4). Outside a table
 //     (grid, ν outside 0.30–0.49, a U-profile with rm < q/4) the shell
 //     model runs instead and Section.Fidelity reports Shell.
-//   - Shell: the axisymmetric shell model of half a convolution (§6.3)
+//   - Shell: the axisymmetric shell model of half a convolution (surrogate/REFERENCE.md §2.3)
 //     with DefaultShellElements elements per arc, flank or flat, meridional
 //     modulus ModulusAcross, hoop modulus ModulusInLayer.
 //
-// From k_conv (PHYSICS §6.5, §6.8, with k_a the axial stiffness per unit
+// From k_conv (surrogate/REFERENCE.md §2.5, §2.8, with k_a the axial stiffness per unit
 // arc, k_a = k_conv·q/(π·Dm) on the convolutions and E_across·t on the
 // spine, an axial strip of plain wall of arc width SpineWidth centred at
 // SpineAngle that replaces the convolutions there):
@@ -31,22 +31,22 @@ import "math"
 //	EI[0][1] = EI[1][0] = −∫ k_a (x−x̄)(y−ȳ) Rm dφ
 //
 // The minus sign makes EI the tensor that maps curvature (u_x, u_y) to
-// moment under the frame convention of PHYSICS §2 (u_y > 0 bends toward
+// moment under the frame convention of objective/kinematics/REFERENCE.md §2 (u_y > 0 bends toward
 // +x, so the strain at (x, y) is u_x·y − u_y·x) [derived]. A uniform bellows
 // gives EI = k_conv·q·Dm²/8·I. Calibration then scales the tensor in the
 // bellows' own axes: EI'[i][j] = sqrt(c_i·c_j)·EI[i][j] (c_i = 0 → 1), so
 // c_x alone multiplies EI_x, c_y alone EI_y, and c_x = c_y = c multiplies
 // the whole tensor. PrincipalEI and PrincipalAngle are those of EI'.
 //
-// GJ = 2π·G·t·q / ∫_pitch ds/r³ with G = E_across/(2(1+ν)) (§6.6); for
+// GJ = 2π·G·t·q / ∫_pitch ds/r³ with G = E_across/(2(1+ν)) (surrogate/REFERENCE.md §2.6); for
 // helical convolutions 1/GJ = cos²(2α)/GJ_rev + sin²(2α)/(2·EI_0),
-// α = atan(q/(π·Dm)), EI_0 = k_conv·q·Dm²/8 (§6.7). The spine is ignored
+// α = atan(q/(π·Dm)), EI_0 = k_conv·q·Dm²/8 (surrogate/REFERENCE.md §2.7). The spine is ignored
 // in GJ.
 //
 // MassPerLength = ρ·t·((2π − Δφ)/q·∫_pitch r ds + Rm·Δφ), Δφ = SpineWidth/Rm
-// (§6.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
+// (surrogate/REFERENCE.md §2.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
 // convolution farthest from the neutral axis per unit curvature change
-// (= q·Dm/2 without a spine, §6.9). StrainPerCurvature is the peak
+// (= q·Dm/2 without a spine, surrogate/REFERENCE.md §2.9). StrainPerCurvature is the peak
 // meridional surface strain at that opening: strip strain × generated
 // strain factor (Strip) or shell recovery (Shell).
 func (b Bellows) Section(f Fidelity) (Section, error) {
@@ -92,7 +92,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	q, t := g.Pitch, g.Wall
 	k := s.AxialRatePerConvolution
 
-	// EI tensor (PHYSICS §6.8), closed-form integrals over the spine arc.
+	// EI tensor (surrogate/REFERENCE.md §2.8), closed-form integrals over the spine arc.
 	kb := k * q / (math.Pi * dm)
 	ks := mtl.ModulusAcross * t
 	h := g.SpineWidth / rm / 2 // half the spine angle
@@ -135,7 +135,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	s.EI = ei
 	s.PrincipalEI, s.PrincipalAngle = principal(ei)
 
-	// Torsion (§6.6, §6.7).
+	// Torsion (surrogate/REFERENCE.md §2.6, §2.7).
 	gm := mtl.ModulusAcross / (2 * (1 + mtl.Poisson))
 	gj := 2 * math.Pi * gm * t * q / st.mom.Am3
 	if g.Helical {
@@ -146,7 +146,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	}
 	s.GJ = gj
 
-	// Mass (§6.8) and opening (§6.9).
+	// Mass (surrogate/REFERENCE.md §2.8) and opening (§2.9).
 	s.MassPerLength = mtl.Density * t * ((2*math.Pi-2*h)/q*st.mom.A2 + rm*2*h)
 	s.OpeningPerCurvature = q * (rm + math.Hypot(xb, yb))
 	s.StrainPerCurvature *= s.OpeningPerCurvature

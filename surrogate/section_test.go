@@ -10,7 +10,7 @@ import (
 
 // TestUniformBellowsIsotropic checks EI_xx = EI_yy = k_conv·q·Dm²/8,
 // EI_xy = 0, EA = k_conv·q and opening q·Dm/2 for a bellows without a
-// spine (PHYSICS §6.5, §6.8, §6.9; derived).
+// spine (surrogate/REFERENCE.md §2.5, §2.8, §2.9; derived).
 func TestUniformBellowsIsotropic(t *testing.T) {
 	for _, f := range []Fidelity{Strip, Shell} {
 		for _, p := range []Profile{Sinusoid, UShape, Trapezoid} {
@@ -36,7 +36,7 @@ func TestUniformBellowsIsotropic(t *testing.T) {
 	}
 }
 
-// spineTensor integrates the §6.8 integrals numerically (midpoint rule,
+// spineTensor integrates the surrogate/REFERENCE.md §2.8 integrals numerically (midpoint rule,
 // 200 000 points around the circumference): an independent check of the
 // closed forms in beam().
 func spineTensor(kb, ks, rm, width, angle float64) (ea float64, ei [2][2]float64, cx, cy float64) {
@@ -66,7 +66,7 @@ func spineTensor(kb, ks, rm, width, angle float64) (ea float64, ei [2][2]float64
 }
 
 // TestSpineAnisotropy checks the EI tensor of a bellows with an axial
-// spine against a numerical quadrature of PHYSICS §6.8 and the expected
+// spine against a numerical quadrature of surrogate/REFERENCE.md §2.8 and the expected
 // orientation [derived]: the spine stiffens bending about the axis
 // perpendicular to its position (a spine on +x raises EI_y, which resists
 // u_y, and the first principal axis is at SpineAngle + 90°), and turning
@@ -156,7 +156,7 @@ func TestCalibration(t *testing.T) {
 }
 
 // TestPlainTubeTorsion checks GJ against the straight-tube value
-// 2π·G·t·R³ as the depth goes to zero (PHYSICS §6.6) and against G times
+// 2π·G·t·R³ as the depth goes to zero (surrogate/REFERENCE.md §2.6) and against G times
 // the polar moment π(OD⁴ − ID⁴)/32 of a hollow circular section (common
 // practice), which differs from the thin-wall value by (t/R)²/4 [derived].
 func TestPlainTubeTorsion(t *testing.T) {
@@ -182,7 +182,7 @@ func TestPlainTubeTorsion(t *testing.T) {
 }
 
 // TestBellowsTorsionAndMass checks GJ and mass of real bellows against
-// the rules of PHYSICS §6.6/§6.8: U-profile flanks give
+// the rules of surrogate/REFERENCE.md §2.6/§2.8: U-profile flanks give
 // ∫ds/r³ = 1/r_a² − 1/r_b² (radial lines, exact) plus the arcs; mass
 // m' ≈ ρ t π Dm s_dev/q with s_dev = 2w + (2π − 4)·rm [derived].
 func TestBellowsTorsionAndMass(t *testing.T) {
@@ -209,7 +209,7 @@ func TestBellowsTorsionAndMass(t *testing.T) {
 	sdev := 2*w + (2*math.Pi-4)*rc
 	assert.InEpsilon(t, mat.Density*th*math.Pi*2*rm*sdev/q, s.MassPerLength, 1e-9, "U mass (∫r ds = Rm·s_dev by symmetry)")
 	// Rule of thumb GJ_bellows ≈ GJ_tube·(q/s_dev)·(0.8–0.9) [derived,
-	// PHYSICS §6.6]; loose bounds.
+	// surrogate/REFERENCE.md §2.6]; loose bounds.
 	tube := 2 * math.Pi * gm * th * rm * rm * rm
 	ratio := s.GJ / (tube * q / sdev)
 	assert.Greater(t, ratio, 0.6, "GJ vs rule of thumb")
@@ -217,7 +217,7 @@ func TestBellowsTorsionAndMass(t *testing.T) {
 }
 
 // TestHelicalTorsion checks 1/GJ_hel = cos²(2α)/GJ_rev + sin²(2α)/(2·EI),
-// α = atan(q/(π Dm)) (PHYSICS §6.7).
+// α = atan(q/(π Dm)) (surrogate/REFERENCE.md §2.7).
 func TestHelicalTorsion(t *testing.T) {
 	b := validBellows()
 	rev, err := b.Section(Strip)
@@ -235,7 +235,7 @@ func TestHelicalTorsion(t *testing.T) {
 }
 
 // TestStrainPerCurvature checks the straightening strain: the peak
-// meridional strain for e = OpeningPerCurvature (PHYSICS §6.9) equals the
+// meridional strain for e = OpeningPerCurvature (surrogate/REFERENCE.md §2.9) equals the
 // strip formula ε = 1.5·t·e/(w²·Cf_strip) for a thin U-bellows with little
 // hoop stiffening (C2 ≈ 0.3) within the strain factor (a few percent),
 // and Strip and Shell agree.

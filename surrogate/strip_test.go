@@ -12,7 +12,7 @@ import (
 
 // plainMoments integrates ∫ds, ∫ζ ds, ∫ζ² ds (ζ = r − Rm) over one pitch
 // along a fine polyline of the meridian (trapezoidal rule on chords): an
-// independent numerical form of the r ≈ Rm strip integrals of PHYSICS §6.1.
+// independent numerical form of the r ≈ Rm strip integrals of surrogate/REFERENCE.md §2.1.
 func plainIz(g Geometry, perSeg int) float64 {
 	m := g.halfMeridian()
 	r, z := m.Nodes(perSeg)
@@ -30,7 +30,7 @@ func plainIz(g Geometry, perSeg int) float64 {
 }
 
 // TestUCfStripClosedForm checks Cf_strip(0) = 1 and the closed-form
-// I_z = (4/3)a³ + 2π rm a² + 8 a rm² + π rm³ (PHYSICS §6.1, derived)
+// I_z = (4/3)a³ + 2π rm a² + 8 a rm² + π rm³ (surrogate/REFERENCE.md §2.1, derived)
 // against the numerical r ≈ Rm integral over the meridian.
 func TestUCfStripClosedForm(t *testing.T) {
 	assert.Equal(t, 1.0, UCfStrip(0), "Cf_strip(0)")
@@ -49,7 +49,7 @@ func TestUCfStripClosedForm(t *testing.T) {
 }
 
 // TestSinusoidShallowJ checks the shallow limit J → 1/8 of
-// I_z = J(w/q)·w²·q (PHYSICS §6.1): J = 1/8 + O((πw/q)²) [derived].
+// I_z = J(w/q)·w²·q (surrogate/REFERENCE.md §2.1): J = 1/8 + O((πw/q)²) [derived].
 func TestSinusoidShallowJ(t *testing.T) {
 	for _, wq := range []float64{1e-3, 1e-2} {
 		q := 10e-3
@@ -61,7 +61,7 @@ func TestSinusoidShallowJ(t *testing.T) {
 }
 
 // TestStripPlainLimit checks that the r-weighted strip model tends to the
-// plain closed forms when Dm ≫ w (PHYSICS §6.1: k_conv =
+// plain closed forms when Dm ≫ w (surrogate/REFERENCE.md §2.1: k_conv =
 // π Dm E t³/(2(1−ν²) w³ Cf_strip), ε_peak = 1.5 t e/(w² Cf_strip)); the
 // r-weighting changes them by O((w/Dm)²) [derived].
 func TestStripPlainLimit(t *testing.T) {
@@ -80,9 +80,9 @@ func TestStripPlainLimit(t *testing.T) {
 }
 
 // TestShellMatchesStripWithoutHoopStiffening checks the shell model
-// against the strip closed form where hoop action is negligible (PHYSICS
-// §6.2, derived): U-profile at C2 = 0.2 within 0.15 % of Cf_strip
-// (PHYSICS states 0.1 %; the mesh-converged shell value here is 0.09–0.12 %
+// against the strip closed form where hoop action is negligible (surrogate/REFERENCE.md
+// §2.2, derived): U-profile at C2 = 0.2 within 0.15 % of Cf_strip
+// (0.1 % would be too tight; the mesh-converged shell value here is 0.09–0.12 %
 // above Cf_strip for C1 = 0.5–0.9, the onset of hoop stiffening, so the
 // check allows 0.15 %); sinusoid at C2q = 0.1 within 2 % of the
 // r-weighted strip model.

@@ -381,7 +381,7 @@ func writeCalibrate(w io.Writer, o *calibrateOutput) {
 	for _, m := range o.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
 	}
-	fmt.Fprintf(w, "note: the fit assumes a linear, small-deflection cantilever (PHYSICS §7); the interval covers bench scatter only, not model error or print-to-print variation beyond the specimens tested.\n")
+	fmt.Fprintf(w, "note: the fit assumes a linear, small-deflection cantilever (surrogate/REFERENCE.md §4.1); the interval covers bench scatter only, not model error or print-to-print variation beyond the specimens tested.\n")
 }
 
 // fmtEI prints a stiffness with at least five significant digits and no

@@ -55,7 +55,7 @@ func TestREADMEExamples(t *testing.T) {
 
 // TestPoseJSONContract checks the fixed JSON shape of pose -json on both
 // shipped designs and a hand-checkable property: the measured example is a
-// balanced pair (EI1·κ1 = EI2·κ2, PHYSICS §3.5), so at 180° relative
+// balanced pair (EI1·κ1 = EI2·κ2, objective/kinematics/REFERENCE.md §3.5), so at 180° relative
 // rotation the whole backbone is straight and the tip sits on the axis at
 // the full length (450 mm).
 func TestPoseJSONContract(t *testing.T) {
@@ -85,7 +85,7 @@ func TestPoseJSONContract(t *testing.T) {
 	_, out, _ = runCLI(t, "pose", examples+"boom-measured.toml", "-angles-deg", "0,0", "-json")
 	require.NoError(t, json.Unmarshal([]byte(out), &p))
 	// aligned: both curved parts overlap over 100 mm with u = (k1κ1 + k2κ2)/(k1 + k2) = 20/3 /m
-	// (PHYSICS §3.5, isotropic pair); the tip of a 350 mm straight part plus a 100 mm arc.
+	// (objective/kinematics/REFERENCE.md §3.5, isotropic pair); the tip of a 350 mm straight part plus a 100 mm arc.
 	k, l := 20.0/3, 0.1
 	assert.InDelta(t, (1-math.Cos(k*l))/k*1e3, p.Tip.Position[0], 1e-9, "aligned pair: lateral tip offset")
 	assert.InDelta(t, (0.35+math.Sin(k*l)/k)*1e3, p.Tip.Position[2], 1e-9, "aligned pair: axial tip position")

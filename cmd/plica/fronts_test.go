@@ -71,7 +71,7 @@ func objectivesOf(t *testing.T, path string, feasibleOnly bool) [][]float64 {
 }
 
 // paretoByDefinition is the set of distinct non-dominated vectors of pts by
-// the definition of Pareto dominance (SEARCH.md §1), O(n²), sorted.
+// the definition of Pareto dominance (search/REFERENCE.md §1.3), O(n²), sorted.
 func paretoByDefinition(pts [][]float64) [][]float64 {
 	var out [][]float64
 	for i, p := range pts {
@@ -93,9 +93,9 @@ func paretoByDefinition(pts [][]float64) [][]float64 {
 // TestCompareMergePick drives compare, merge and pick on two tiny islands
 // of the demo problem: the merged front is the non-dominated feasible set
 // of the union of both evaluation archives (definition of Pareto
-// dominance, SEARCH.md §1, checked independently here); compare says the
+// dominance, search/REFERENCE.md §1.3, checked independently here); compare says the
 // merged run covers each island (C = 1, I_eps+ ≤ 0, by definition of the
-// indicators, SEARCH.md §5.3–5.4); picked designs round-trip into check
+// indicators, search/front/REFERENCE.md §1.3–1.4); picked designs round-trip into check
 // (same scores as front.csv, to the six significant digits check -json
 // prints), pose and refine.
 func TestCompareMergePick(t *testing.T) {

@@ -4,12 +4,12 @@
 // pre-curvatures is constant the shared backbone is a circular arc (a link).
 //
 // All quantities are SI: metres, radians, newtons, N·m², kg/m. Tube 1 (index
-// 0) is innermost. Conventions follow the project's physics reference: the
+// 0) is innermost. Conventions follow objective/kinematics/REFERENCE.md: the
 // base frame has z along insertion; body-frame curvature u_y > 0 bends the
 // backbone toward local +x; a planar tube "pre-curved by κ" has
 // u* = (0, κ, 0) in its own frame.
 //
-// The kinematics follow PHYSICS §3: EquilibriumCurvature solves the moment
+// The kinematics follow objective/kinematics/REFERENCE.md §3: EquilibriumCurvature solves the moment
 // balance (3.1) of one link; Robot.Links segments the backbone (§3.2) after
 // Robot.CheckActuation has checked the nesting inequalities (threads
 // applied, see Thread); LinkTransform is the singularity-free closed form

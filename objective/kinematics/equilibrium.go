@@ -6,7 +6,7 @@ import (
 )
 
 // LinkTube is one tube as it enters the equilibrium of a single link
-// (PHYSICS §3.1): its base angle, its stiffness in its own material frame
+// (objective/kinematics/REFERENCE.md §3.1): its base angle, its stiffness in its own material frame
 // and its precurvature in that link (zero where the tube is straight).
 type LinkTube struct {
 	// Theta is the tube angle θ_i about +z, rad.
@@ -30,7 +30,7 @@ type LinkTube struct {
 //	xx = m + d cos 2θ − q sin 2θ, yy = m − (d cos 2θ − q sin 2θ),
 //	xy = d sin 2θ + q cos 2θ,     d = (p − r)/2.
 //
-// For q = 0 this is PHYSICS (3.1): [[a c² + b s², (a − b) c s], …].
+// For q = 0 this is objective/kinematics/REFERENCE.md (3.1): [[a c² + b s², (a − b) c s], …].
 func rotatedBending(m, d, q, c, s float64) (xx, xy, yy float64) {
 	c2 := c*c - s*s
 	s2 := 2 * c * s
@@ -47,7 +47,7 @@ func bendingParts(b [2][2]float64) (m, d, q float64) {
 // EquilibriumCurvature returns the body-frame curvature u (1/m) of one link
 // and the composite stiffness K = Σ R_z(θ_i) K_i R_z(θ_i)ᵀ (N·m², z entry
 // Σ GJ_i) of the tubes present in it, from the moment balance (3.1) of
-// PHYSICS §3.1:
+// objective/kinematics/REFERENCE.md §3.1:
 //
 //	u = (Σ K̃_i)⁻¹ Σ K̃_i ũ_i,  K̃_i = R_z(θ_i) K_i R_z(θ_i)ᵀ,  ũ_i = R_z(θ_i) u*_i.
 //

@@ -17,10 +17,10 @@ func planarTube(theta float64, bending [2][2]float64, gj, kappa float64) LinkTub
 }
 
 func TestEquilibriumCurvatureCheckValues(t *testing.T) {
-	// PHYSICS §9.2 (TR-1, TR-2, TR-3), derived from (3.1); TR-1 and TR-2 also
+	// objective/kinematics/REFERENCE.md §5.3 (TR-1, TR-2, TR-3), derived from (3.1); TR-1 and TR-2 also
 	// agree with the isotropic closed form (from memory: Webster, Romano &
 	// Cowan 2009; Dupont et al. 2010). Tolerance: 1e-9 relative to |u|
-	// (closed forms, PHYSICS §9), 1e-12 absolute where u = 0.
+	// (closed forms, objective/kinematics/REFERENCE.md §5.1), 1e-12 absolute where u = 0.
 	cases := []struct {
 		name  string
 		tubes []LinkTube
@@ -55,7 +55,7 @@ func TestEquilibriumCurvatureCheckValues(t *testing.T) {
 }
 
 func TestEquilibriumCurvatureIsotropicClosedForm(t *testing.T) {
-	// Isotropic two-tube closed form, PHYSICS §3.1 (from memory: Webster,
+	// Isotropic two-tube closed form, objective/kinematics/REFERENCE.md §3.1 (from memory: Webster,
 	// Romano & Cowan 2009; Dupont et al. 2010):
 	// |u| = sqrt(k1²κ1² + k2²κ2² + 2 k1k2κ1κ2 cos Δ)/(k1 + k2).
 	rng := rand.New(rand.NewPCG(11, 12))

@@ -5,7 +5,7 @@ import (
 	"math"
 )
 
-// segmentBreakpoints fills dst with the link boundaries of PHYSICS §3.2,
+// segmentBreakpoints fills dst with the link boundaries of objective/kinematics/REFERENCE.md §3.2,
 // step 1: {0} ∪ {β_i + Ls_i, β_i + L_i}, values > 0 kept, sorted, and values
 // within tol of their predecessor merged. A merged cluster keeps its largest
 // value, except the cluster at 0, which stays 0, and the last, which is set
@@ -51,7 +51,7 @@ func segmentBreakpoints(beta, L, Ls []float64, tol float64, dst []float64) []flo
 	return dst[:m]
 }
 
-// Links splits the backbone into constant-curvature links (PHYSICS §3.2) and
+// Links splits the backbone into constant-curvature links (objective/kinematics/REFERENCE.md §3.2) and
 // appends them to dst[:0]:
 //
 //  1. breakpoints {0} ∪ {β_i + Ls_i, β_i + L_i} (threads applied), values > 0
@@ -112,7 +112,7 @@ func (r *Robot) Links(a Actuation, dst []Link) ([]Link, error) {
 }
 
 // Tip returns the tip pose T(s_m) = Π_j exp(ξ̂_j l_j) in the base frame
-// (PHYSICS §3.2, step 4), each factor from LinkTransform. With no links
+// (objective/kinematics/REFERENCE.md §3.2, step 4), each factor from LinkTransform. With no links
 // (innermost tube ending at the base plane) it is the identity.
 func (r *Robot) Tip(a Actuation) (Pose, error) {
 	links, err := r.Links(a, nil)

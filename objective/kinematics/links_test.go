@@ -9,9 +9,9 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// seg1Robot is SEG-1 of PHYSICS §9.3: tube 1 (inner) L = 0.45, Ls = 0.35,
+// seg1Robot is SEG-1 of objective/kinematics/REFERENCE.md §5.4: tube 1 (inner) L = 0.45, Ls = 0.35,
 // EI = 1, κ = 10; tube 2 (outer) L = 0.25, Ls = 0.15, EI = 2, κ = 5. GJ is
-// EI/(1+ν) with ν = 0.3 (plain tube, PHYSICS §1.1, derived); it does not
+// EI/(1+ν) with ν = 0.3 (plain tube, objective/kinematics/REFERENCE.md §1.2, derived); it does not
 // enter planar kinematics. Linear densities are demo values.
 func seg1Robot() *Robot {
 	return &Robot{Tubes: []Tube{
@@ -29,7 +29,7 @@ func rotZVec(theta, kappa float64) [3]float64 {
 }
 
 func TestLinksSEG1(t *testing.T) {
-	// SEG-1, PHYSICS §9.3, derived from (3.1)–(3.2): four links
+	// SEG-1, objective/kinematics/REFERENCE.md §5.4, derived from (3.1)–(3.2): four links
 	// [0, 0.05] both straight (u = 0), [0.05, 0.10] tube 2 curved and tube 1
 	// straight but present (u = R_z(θ2)(0, 10/3, 0)), [0.10, 0.15] both curved
 	// (u = (R_z(θ1)(0, 10, 0) + R_z(θ2)(0, 10, 0))/3), [0.15, 0.20] tube 1
@@ -73,7 +73,7 @@ func TestLinksSEG1(t *testing.T) {
 }
 
 func TestTipSEG1(t *testing.T) {
-	// SEG-1 tip, PHYSICS §9.3 table (derived): 10 significant digits, so
+	// SEG-1 tip, objective/kinematics/REFERENCE.md §5.4 table (derived): 10 significant digits, so
 	// tolerance 1e-10 m on p and 1e-9 on R.
 	cases := []struct {
 		name  string
@@ -122,7 +122,7 @@ func TestLinksEdgeCases(t *testing.T) {
 			r.Tubes[1].StraightLength, r.Tubes[1].CurvedLength = 0, 0.1
 			return r
 		}, []float64{0, 0}, [][2]float64{{0, 0.1}}},
-		// Breakpoints closer than 1e-12·max L merge (PHYSICS §3.2): the outer
+		// Breakpoints closer than 1e-12·max L merge (objective/kinematics/REFERENCE.md §3.2): the outer
 		// tube's curved part starts 1e-14 m after the inner tube's end of
 		// straight part; the tip stays exact.
 		{"merge", seg1Robot, []float64{-0.25, -0.1 - 1e-14}, [][2]float64{{0, 0.05}, {0.05, 0.1}, {0.1, 0.15}, {0.15, 0.2}}},
@@ -162,7 +162,7 @@ func TestLinksEdgeCases(t *testing.T) {
 	}
 }
 
-// rk4Backbone integrates R' = R û, p' = R e3 (PHYSICS §1.1) over the links
+// rk4Backbone integrates R' = R û, p' = R e3 (objective/kinematics/REFERENCE.md §1.1) over the links
 // with the classical fourth-order Runge–Kutta method, n steps per link, and
 // returns the tip pose: a check of the closed form that does not use it.
 func rk4Backbone(links []Link, n int) Pose {
@@ -210,7 +210,7 @@ func rk4Backbone(links []Link, n int) Pose {
 
 func TestTipMatchesRK4(t *testing.T) {
 	// The chained closed form against RK4 integration of R' = R û, p' = R e3
-	// (classical Runge–Kutta; PHYSICS §9: 1e-6 for ODE-based values with
+	// (classical Runge–Kutta; objective/kinematics/REFERENCE.md §5.1: 1e-6 for ODE-based values with
 	// ≥ 100 steps per link; 400 steps are used, so 1e-9 holds).
 	r := threeTubes()
 	r.Tubes[1].Bending = [2][2]float64{{2, 0.3}, {0.3, 1.2}}
@@ -280,7 +280,7 @@ func TestLinks64Tubes(t *testing.T) {
 	// MaxTubes = 64 tubes fill the 64-bit Present and Curved sets. Lengths
 	// shrink outward by 1 mm; every tube ends 50 mm beyond the base plane
 	// and is curved from 10 mm on, so there are two links [0, 10] and
-	// [10, 50] mm [derived from PHYSICS §3.2].
+	// [10, 50] mm [derived from objective/kinematics/REFERENCE.md §3.2].
 	r := &Robot{Tubes: make([]Tube, MaxTubes)}
 	a := Actuation{Theta: make([]float64, MaxTubes), Beta: make([]float64, MaxTubes)}
 	for i := range r.Tubes {

@@ -149,7 +149,7 @@ func (s *Solver) Tip(theta, beta []float64) (Pose, error) {
 	tol := s.tol
 	tip := b[0] + tubes[0].L
 	lo, hi := tol, tip-tol
-	// Nesting (PHYSICS §3.2) as in prepare; comparisons fail for NaN.
+	// Nesting (objective/kinematics/REFERENCE.md §3.2) as in prepare; comparisons fail for NaN.
 	ok := theta[0]-theta[0] == 0
 	single := true
 	cs, sn := s.c[:n], s.s[:n]
@@ -250,7 +250,7 @@ func (s *Solver) segment(theta, b []float64) []float64 {
 	return s.bp
 }
 
-// linkSums accumulates, over the tubes present on [lo, hi] (PHYSICS §3.2,
+// linkSums accumulates, over the tubes present on [lo, hi] (objective/kinematics/REFERENCE.md §3.2,
 // step 2), the composite stiffness, the moments Σ R_z(θ_i) K_i u*_i of the
 // curved ones, the mass per length and the tube sets. It needs segment's
 // cos θ_i, sin θ_i.

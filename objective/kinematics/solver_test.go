@@ -46,7 +46,7 @@ func randomRobot(rng *rand.Rand, n int, aniso, threads bool) *Robot {
 }
 
 // randomActuation returns a feasible actuation for r: effective insertions
-// drawn inside the nesting polytope of PHYSICS §3.2, then the thread
+// drawn inside the nesting polytope of objective/kinematics/REFERENCE.md §3.2, then the thread
 // advances removed. With single set, every tube ends at the same point and
 // is curved (or straight) along the whole robot, so there is one link.
 func randomActuation(rng *rand.Rand, r *Robot, single bool) Actuation {

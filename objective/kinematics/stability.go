@@ -6,12 +6,12 @@ import (
 	"math"
 )
 
-// Elastic stability (snap-through) of two nested tubes (PHYSICS.md §5).
+// Elastic stability (snap-through) of two nested tubes (objective/kinematics/REFERENCE.md §4).
 // Rigid-torsion kinematics hides snapping, so it is checked separately:
 // the relative twist ψ of two tubes whose curved sections overlap over a
-// length L obeys ψ″ = c sin ψ (5.1); linearised about the anti-aligned
+// length L obeys ψ″ = c sin ψ (4.1); linearised about the anti-aligned
 // state it first admits a neighbouring equilibrium at √c L = π/2, or at
-// √c β_eff tan(√c L) = 1 with torsionally compliant transmission (5.3)
+// √c β_eff tan(√c L) = 1 with torsionally compliant transmission (4.3)
 // [published (framework): Dupont, Lock, Itkowitz & Butler, IEEE T-RO
 // 26(2), 2010; Gilbert, Hendrick & Webster, Elastic Stability of
 // Concentric Tube Robots: A Stability Measure and Design Test, IEEE T-RO
@@ -20,22 +20,22 @@ import (
 
 // PairStability is the snap-through test of one pair of tubes.
 type PairStability struct {
-	// C is the twist coefficient c (5.1), or c_eff (§5.3) for anisotropic
+	// C is the twist coefficient c (4.1), or c_eff (objective/kinematics/REFERENCE.md §4.3) for anisotropic
 	// tubes, 1/m². Zero when the pair cannot snap (a straight tube, or an
 	// energy that does not depend on the relative angle).
 	C float64
-	// BetaEff is the effective transmission length β_eff (5.2), m.
+	// BetaEff is the effective transmission length β_eff (4.2), m.
 	BetaEff float64
 	// Overlap is the length L of the overlapped curved sections, m.
 	Overlap float64
 	// Lambda is λ = L√c.
 	Lambda float64
-	// LCrit is the critical overlap length from (5.3), m; +Inf when C = 0.
+	// LCrit is the critical overlap length from (4.3), m; +Inf when C = 0.
 	LCrit float64
 	// Margin is 1 − L/L_crit: positive when snap-free, 1 when C = 0.
 	Margin float64
 	// Measure is J = cos λ − √c β_eff sin λ, the stability measure
-	// ∂ψ'(L)/∂ψ'(0) at the anti-aligned actuator angle (PHYSICS.md §5.2
+	// ∂ψ'(L)/∂ψ'(0) at the anti-aligned actuator angle (objective/kinematics/REFERENCE.md §4.2
 	// [derived]); it is positive exactly while λ < π/2 and the pair is
 	// snap-free.
 	Measure float64
@@ -44,7 +44,7 @@ type PairStability struct {
 }
 
 // TwistCoefficient returns c of the relative-twist equation ψ″ = c sin ψ
-// for two tubes with isotropic bending tensors (5.1):
+// for two tubes with isotropic bending tensors (4.1):
 //
 //	c = κ1 κ2 · k1 k2/(k1 + k2) · (1/GJ1 + 1/GJ2),   κ_i = |u_i*|, k_i = EI_i
 //
@@ -69,7 +69,7 @@ func TwistCoefficient(inner, outer Tube) (float64, error) {
 }
 
 // EffectiveTwistCoefficient returns c_eff of two tubes with any bending
-// tensors and planar precurvatures (PHYSICS.md §5.3 [derived]). The bending
+// tensors and planar precurvatures (objective/kinematics/REFERENCE.md §4.3 [derived]). The bending
 // energy per length, minimised over the shared x–y curvature, is
 //
 //	V(Δ) = ½ Σ ũ_iᵀ K̃_i ũ_i − ½ bᵀ (Σ K̃_i)⁻¹ b,   b = Σ K̃_i ũ_i,   Δ = θ2 − θ1
@@ -78,7 +78,7 @@ func TwistCoefficient(inner, outer Tube) (float64, error) {
 // evaluated analytically. Δ0 is found by sampling V at 72 angles and
 // refining with Newton's method on V'. For isotropic or mildly anisotropic
 // pairs Δ0 is the anti-aligned state; strongly anisotropic pairs can peak
-// elsewhere (the pair TR-3 of PHYSICS.md §9.2 has a local minimum at Δ = π
+// elsewhere (the pair TR-3 of objective/kinematics/REFERENCE.md §5.3 has a local minimum at Δ = π
 // and maxima near ±2.04 rad). For isotropic tubes c_eff equals
 // TwistCoefficient. The second result is Δ0 ∈ [0, 2π), rad.
 func EffectiveTwistCoefficient(inner, outer Tube) (c, delta0 float64, err error) {
@@ -121,7 +121,7 @@ func EffectiveTwistCoefficient(inner, outer Tube) (c, delta0 float64, err error)
 	return c, math.Mod(d+2*math.Pi, 2*math.Pi), nil
 }
 
-// EffectiveTransmission returns β_eff (5.2), m, from the torsionally
+// EffectiveTransmission returns β_eff (4.2), m, from the torsionally
 // compliant lengths ℓ_t1, ℓ_t2 of the two tubes between their actuators and
 // the start of the overlapped curved region:
 //
@@ -132,7 +132,7 @@ func EffectiveTransmission(inner, outer Tube, transmission [2]float64) float64 {
 }
 
 // CriticalLength returns the overlap length at which a neighbouring
-// equilibrium of the anti-aligned pair first appears (5.3), m:
+// equilibrium of the anti-aligned pair first appears (4.3), m:
 //
 //	√c β_eff tan(√c L_crit) = 1,   i.e.   L_crit = atan2(1, √c β_eff)/√c ∈ (0, π/(2√c)]
 //
@@ -149,10 +149,10 @@ func CriticalLength(c, betaEff float64) float64 {
 	return math.Atan2(1, rc*betaEff) / rc
 }
 
-// TwoTubeStability runs the snap-free test of PHYSICS.md §5.2 for two tubes
+// TwoTubeStability runs the snap-free test of objective/kinematics/REFERENCE.md §4.2 for two tubes
 // whose curved sections overlap over overlap (m), with torsionally
 // compliant transmission lengths transmission = (ℓ_t1, ℓ_t2) (m, zero for
-// rigid transmission). c is EffectiveTwistCoefficient (equal to (5.1) for
+// rigid transmission). c is EffectiveTwistCoefficient (equal to (4.1) for
 // isotropic tubes); the pair is snap-free iff L < L_crit.
 func TwoTubeStability(inner, outer Tube, overlap float64, transmission [2]float64) (PairStability, error) {
 	if !(overlap >= 0) || math.IsInf(overlap, 0) {

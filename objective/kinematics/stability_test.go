@@ -17,17 +17,17 @@ func stabilityTube(kappa, EI, GJ float64) Tube {
 }
 
 // stabilityNitinol is a plain superelastic tube, E = 60 GPa, ν = 0.3:
-// EI = E π(OD⁴ − ID⁴)/64, GJ = EI/(1 + ν) (PHYSICS.md §1.1).
+// EI = E π(OD⁴ − ID⁴)/64, GJ = EI/(1 + ν) (objective/kinematics/REFERENCE.md §1.2).
 func stabilityNitinol(od, id, kappa float64) Tube {
 	const E, nu = 60e9, 0.3
 	EI := E * math.Pi * (math.Pow(od, 4) - math.Pow(id, 4)) / 64
 	return stabilityTube(kappa, EI, EI/(1+nu))
 }
 
-// ST-1 (PHYSICS.md §9.4): ν = 0.3, κ1 = κ2 = 10 /m → c = (1+ν)κ1κ2 = 130 /m²,
+// ST-1 (objective/kinematics/REFERENCE.md §5.5): ν = 0.3, κ1 = κ2 = 10 /m → c = (1+ν)κ1κ2 = 130 /m²,
 // independent of EI. Source: the form c = (1+ν)κ1κ2 is published (Dupont et
 // al. 2010; Gilbert, Hendrick & Webster 2016; from memory (verify)); the
-// numbers derived from (5.1).
+// numbers derived from (4.1).
 func TestTwistCoefficientST1(t *testing.T) {
 	rows := []struct {
 		name         string
@@ -37,21 +37,21 @@ func TestTwistCoefficientST1(t *testing.T) {
 		{"ST-1, equal tubes", stabilityTube(10, 1, 1/1.3), stabilityTube(10, 1, 1/1.3), 130},
 		{"ST-1, stiffness ratio 7", stabilityTube(10, 1, 1/1.3), stabilityTube(10, 7, 7/1.3), 130},
 		{"ST-1, nitinol OD/ID 1.0/0.8 and 1.4/1.1 mm", stabilityNitinol(1.0e-3, 0.8e-3, 10), stabilityNitinol(1.4e-3, 1.1e-3, 10), 130},
-		// (5.1) with different ν: c = κ1κ2((1+ν1)k2 + (1+ν2)k1)/(k1 + k2) [derived].
+		// (4.1) with different ν: c = κ1κ2((1+ν1)k2 + (1+ν2)k1)/(k1 + k2) [derived].
 		{"different ν (0.3, 0.45), k = 1, 3", stabilityTube(8, 1, 1/1.3), stabilityTube(5, 3, 3/1.45), 8 * 5 * (1.3*3 + 1.45*1) / 4},
-		// Bellows-like GJ unrelated to EI: (5.1) as written.
+		// Bellows-like GJ unrelated to EI: (4.1) as written.
 		{"bellows GJ", stabilityTube(6, 0.004, 0.02), stabilityTube(4, 0.01, 0.05), 24 * 0.004 * 0.01 / 0.014 * (1/0.02 + 1/0.05)},
 		{"straight tube: no snapping", stabilityTube(0, 1, 1), stabilityTube(10, 1, 1), 0},
 	}
 	for _, row := range rows {
 		c, err := TwistCoefficient(row.inner, row.outer)
 		require.NoError(t, err, row.name)
-		// PHYSICS.md §9: 1e-9 relative for closed forms.
-		assert.InDelta(t, row.want, c, 1e-9*math.Max(row.want, 1), "(5.1) for %s", row.name)
+		// objective/kinematics/REFERENCE.md §5.1: 1e-9 relative for closed forms.
+		assert.InDelta(t, row.want, c, 1e-9*math.Max(row.want, 1), "(4.1) for %s", row.name)
 		ce, d0, err := EffectiveTwistCoefficient(row.inner, row.outer)
 		require.NoError(t, err, row.name)
-		// §5.3 reduces exactly to (5.1) for isotropic tubes [derived].
-		assert.InDelta(t, row.want, ce, 1e-9*math.Max(row.want, 1), "c_eff (§5.3) for %s", row.name)
+		// objective/kinematics/REFERENCE.md §4.3 reduces exactly to (4.1) for isotropic tubes [derived].
+		assert.InDelta(t, row.want, ce, 1e-9*math.Max(row.want, 1), "c_eff (§4.3) for %s", row.name)
 		if row.want > 0 {
 			assert.InDelta(t, math.Pi, d0, 1e-9, "anti-aligned Δ0 for %s", row.name)
 		}
@@ -62,7 +62,7 @@ func TestTwistCoefficientST1(t *testing.T) {
 }
 
 // Isotropic tubes with precurvature in any direction of their own frame:
-// c_eff still equals (5.1) with κ = |u*|; the maximum of V moves to the
+// c_eff still equals (4.1) with κ = |u*|; the maximum of V moves to the
 // angle that anti-aligns the two precurvature vectors [derived].
 func TestEffectiveTwistCoefficientRotatedPrecurvature(t *testing.T) {
 	in := Tube{Precurvature: [2]float64{3, 4}, Bending: [2][2]float64{{2, 0}, {0, 2}}, Torsion: 1.5}
@@ -75,7 +75,7 @@ func TestEffectiveTwistCoefficientRotatedPrecurvature(t *testing.T) {
 	assert.InDelta(t, math.Atan2(4, 3), d0, 1e-9, "Δ0")
 }
 
-// Anisotropic pair TR-3 (PHYSICS.md §9.2, derived): the energy's inner
+// Anisotropic pair TR-3 (objective/kinematics/REFERENCE.md §5.3, derived): the energy's inner
 // minimiser S⁻¹b is the equilibrium curvature (3.1) in tube A's frame.
 func TestStabilityEnergyTR3(t *testing.T) {
 	a := Tube{Precurvature: [2]float64{0, 10}, Bending: [2][2]float64{{1, 0}, {0, 3}}, Torsion: 50}
@@ -97,7 +97,7 @@ func TestStabilityEnergyTR3(t *testing.T) {
 	}
 }
 
-// c_eff for anisotropic pairs (PHYSICS.md §5.3, derived): Δ0 is the
+// c_eff for anisotropic pairs (objective/kinematics/REFERENCE.md §4.3, derived): Δ0 is the
 // maximum of V on a fine grid, V′(Δ0) = 0, and the analytic V″ matches
 // central differences at 1e-4 rad. For the strongly anisotropic TR-3 pair
 // the anti-aligned state Δ = π is a local minimum of V and the maxima lie
@@ -148,7 +148,7 @@ func TestEffectiveTwistCoefficientAnisotropic(t *testing.T) {
 	}
 }
 
-// ST-1 and ST-2 (PHYSICS.md §9.4, derived from (5.3)): c = 130 /m²,
+// ST-1 and ST-2 (objective/kinematics/REFERENCE.md §5.5, derived from (4.3)): c = 130 /m²,
 // √c = 11.4017543, L_crit = π/(2√c) = 0.13776795 m; with β_eff = 0.05 m,
 // L_crit = 0.09232453 m. The table gives eight decimals: 1e-8 absolute.
 func TestCriticalLengthST1ST2(t *testing.T) {
@@ -163,7 +163,7 @@ func TestCriticalLengthST1ST2(t *testing.T) {
 	for _, row := range rows {
 		lc := CriticalLength(130, row.beta)
 		assert.InDelta(t, row.want, lc, 1e-8, row.name)
-		// The root satisfies (5.3).
+		// The root satisfies (4.3).
 		if row.beta > 0 {
 			rc := math.Sqrt(130)
 			assert.InDelta(t, 1, rc*row.beta*math.Tan(rc*lc), 1e-12, "%s: √c β tan(√c L) = 1", row.name)
@@ -180,7 +180,7 @@ func TestCriticalLengthST1ST2(t *testing.T) {
 // an independent test: the backward-shooting map from the tip angle ψ(L)
 // to the actuator angle ψ_a of ψ″ = c sin ψ, ψ′(L) = 0,
 // ψ(0) = ψ_a + β_eff ψ′(0), is monotone exactly when the pair is snap-free
-// and folds when it is not (PHYSICS.md §5.2, §9.4 ST-2, derived).
+// and folds when it is not (objective/kinematics/REFERENCE.md §4.2, §5.5 ST-2, derived).
 func TestTwoTubeStabilityST1ST2(t *testing.T) {
 	tube := stabilityNitinol(1.0e-3, 0.8e-3, 10)
 	outer := stabilityNitinol(1.4e-3, 1.1e-3, 10)
@@ -192,7 +192,7 @@ func TestTwoTubeStabilityST1ST2(t *testing.T) {
 		lcrit float64
 	}{
 		{"ST-1", [2]float64{0, 0}, 0, 0.13776795},
-		// Equal transmission lengths give β_eff = ℓ for any GJ (5.2).
+		// Equal transmission lengths give β_eff = ℓ for any GJ (4.2).
 		{"ST-2", [2]float64{0.05, 0.05}, 0.05, 0.09232453},
 		{"ST-2 from unequal lengths", [2]float64{0.05 * (1 + GJ1/GJ2), 0}, 0.05, 0.09232453},
 	} {
@@ -202,7 +202,7 @@ func TestTwoTubeStabilityST1ST2(t *testing.T) {
 				ps, err := TwoTubeStability(tube, outer, L, row.lt)
 				require.NoError(t, err, row.name)
 				assert.InDelta(t, 130, ps.C, 1e-9*130, "c")
-				assert.InDelta(t, row.beta, ps.BetaEff, 1e-12, "β_eff (5.2)")
+				assert.InDelta(t, row.beta, ps.BetaEff, 1e-12, "β_eff (4.2)")
 				assert.InDelta(t, row.lcrit, ps.LCrit, 1e-8, "L_crit")
 				assert.InDelta(t, 1-frac, ps.Margin, 1e-6, "margin 1 − L/L_crit")
 				assert.InDelta(t, L*math.Sqrt(130), ps.Lambda, 1e-12, "λ")
@@ -242,7 +242,7 @@ func stabilityMapMonotone(c, beta, L float64) bool {
 	return true
 }
 
-// Robot.SnapStability with SEG-1's geometry (PHYSICS.md §9.3): tube 1
+// Robot.SnapStability with SEG-1's geometry (objective/kinematics/REFERENCE.md §5.4): tube 1
 // curved on [0.10, 0.20], tube 2 on [0.05, 0.15], so the overlap is
 // [0.10, 0.15] (L = 0.05 m) and the transmission lengths run from the
 // actuators at β = −0.25, −0.10 to s = 0.10: 0.35 and 0.20 m [derived].
@@ -288,7 +288,7 @@ func TestTwoTubeStabilityInvalid(t *testing.T) {
 	}
 }
 
-// segOneRobot is the two-tube set of SEG-1 (PHYSICS.md §9.3).
+// segOneRobot is the two-tube set of SEG-1 (objective/kinematics/REFERENCE.md §5.4).
 func segOneRobot() *Robot {
 	return &Robot{Tubes: []Tube{
 		{StraightLength: 0.35, CurvedLength: 0.10, Precurvature: [2]float64{0, 10},

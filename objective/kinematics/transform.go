@@ -48,9 +48,9 @@ func (a Pose) Inverse() Pose {
 
 // Thresholds of the series branches in linkCoeffs. Below seriesX the
 // coefficients a and b of (3.2) use their Taylor series (truncation error
-// about 1e-16 relative at the threshold, derived in PHYSICS §3.3); c keeps
+// about 1e-16 relative at the threshold, derived in objective/kinematics/REFERENCE.md §3.3); c keeps
 // its series up to seriesXC with terms through x⁸ (the option named in
-// §3.3: truncation ≈ x¹⁰/13! ≈ 1.6e-20 relative at 0.1), because x − sin x
+// objective/kinematics/REFERENCE.md §3.3: truncation ≈ x¹⁰/13! ≈ 1.6e-20 relative at 0.1), because x − sin x
 // cancels to about 1e-11 relative just above 1e-2.
 const (
 	seriesX  = 1e-2
@@ -90,7 +90,7 @@ func linkCoeffs(k2, s float64) (a, b, c, cx float64) {
 		cx = 1 - 2*sh*sh
 		return a, b, c, cx
 	}
-	// PHYSICS (3.2) series, one more term each than listed there.
+	// Series of objective/kinematics/REFERENCE.md §3.3 (3.2).
 	a = s * (1 + x2*(-1.0/6+x2*(1.0/120+x2*(-1.0/5040+x2*(1.0/362880)))))
 	b = s2 * (0.5 + x2*(-1.0/24+x2*(1.0/720+x2*(-1.0/40320+x2*(1.0/3628800)))))
 	cx = 1 - b*k2
@@ -120,7 +120,7 @@ func linkPose(u [3]float64, s, a, b, c, cx float64) Pose {
 // LinkTransform returns the pose of the end of a link of constant body-frame
 // curvature/twist u (1/m) and arc length s (m) relative to its start: the
 // SE(3) exponential exp(ξ̂ s) with ξ̂ = [[û, e3], [0, 0]] in the closed form
-// (3.2) of PHYSICS §3.3 (Lynch & Park, Modern Robotics, 2017, Prop. 3.25,
+// (3.2) of objective/kinematics/REFERENCE.md §3.3 (Lynch & Park, Modern Robotics, 2017, Prop. 3.25,
 // specialised to unit tangent speed):
 //
 //	R = I + a û + b û²,  p = (s I + b û + c û²) e3,
@@ -137,7 +137,7 @@ func LinkTransform(u [3]float64, s float64) Pose {
 
 // ArcPose returns the constant-curvature arc transform T(κ, φ, ℓ) in the
 // polar form of Webster & Jones, "Design and Kinematic Modeling of Constant
-// Curvature Continuum Robots: A Review", IJRR 29(13), 2010 (PHYSICS §3.4):
+// Curvature Continuum Robots: A Review", IJRR 29(13), 2010 (objective/kinematics/REFERENCE.md §3.4):
 // curvature κ (1/m), bending-plane angle φ (rad, measured from +x about +z)
 // and arc length ℓ (m).
 //
@@ -166,7 +166,7 @@ func ArcPose(kappa, phi, ell float64) Pose {
 }
 
 // RotZ returns the pure rotation R_z(θ) = [[cos θ, −sin θ, 0], [sin θ,
-// cos θ, 0], [0, 0, 1]] (PHYSICS §1.1).
+// cos θ, 0], [0, 0, 1]] (objective/kinematics/REFERENCE.md §1.1).
 func RotZ(theta float64) Pose {
 	s, c := sincos(theta)
 	return Pose{R: [3][3]float64{{c, -s, 0}, {s, c, 0}, {0, 0, 1}}}

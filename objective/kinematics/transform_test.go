@@ -10,7 +10,7 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// closedFormTol is the PHYSICS §9 tolerance for closed forms (1e-9
+// closedFormTol is the objective/kinematics/REFERENCE.md §5.1 tolerance for closed forms (1e-9
 // relative); the values below are O(0.1 m) or O(1), so it is applied as an
 // absolute tolerance scaled by the magnitude of the expected value (floor
 // 1e-12 for zero entries).
@@ -43,7 +43,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 		tol  func(float64) float64
 	}{
 		{
-			// CC-1: PHYSICS §9.1, derived from (3.2): quarter circle of radius
+			// CC-1: objective/kinematics/REFERENCE.md §5.2, derived from (3.2): quarter circle of radius
 			// 0.1 m in the default convention (bends toward +x).
 			name: "CC-1 default convention",
 			u:    [3]float64{0, 10, 0}, s: math.Pi / 20,
@@ -51,7 +51,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 			tol:  closedFormTol,
 		},
 		{
-			// CC-2: PHYSICS §9.1, derived: the same arc with u = (κ, 0, 0), the
+			// CC-2: objective/kinematics/REFERENCE.md §5.2, derived: the same arc with u = (κ, 0, 0), the
 			// convention of much of the concentric-tube literature (bends
 			// toward −y).
 			name: "CC-2 literature convention",
@@ -60,7 +60,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 			tol:  closedFormTol,
 		},
 		{
-			// CC-5: PHYSICS §9.1, derived: a full circle returns to the identity
+			// CC-5: objective/kinematics/REFERENCE.md §5.2, derived: a full circle returns to the identity
 			// to 1e-15.
 			name: "CC-5 full circle",
 			u:    [3]float64{0, 10, 0}, s: 2 * math.Pi / 10,
@@ -68,7 +68,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 			tol:  withinAbs(1e-15),
 		},
 		{
-			// CC-4 third row: PHYSICS §9.1, derived: u = 0 is a straight segment.
+			// CC-4 third row: objective/kinematics/REFERENCE.md §5.2, derived: u = 0 is a straight segment.
 			name: "CC-4 u=0",
 			u:    [3]float64{0, 0, 0}, s: 0.1,
 			want: Pose{R: Identity().R, P: [3]float64{0, 0, 0.1}},
@@ -82,7 +82,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 			tol:  withinAbs(1e-15),
 		},
 		{
-			// Planar case of PHYSICS §3.3: p = ((1 − cos κs)/κ, 0, sin(κs)/κ),
+			// Planar case of objective/kinematics/REFERENCE.md §3.3: p = ((1 − cos κs)/κ, 0, sin(κs)/κ),
 			// R = R_y(κs); κs = 1.3 (trigonometric branch).
 			name: "planar arc",
 			u:    [3]float64{0, 2.6, 0}, s: 0.5,
@@ -99,13 +99,13 @@ func TestLinkTransformCheckValues(t *testing.T) {
 }
 
 // naiveLateralOffset is p_x of a planar link with b written as
-// (1 − cos x)/k², the form PHYSICS §3.3 warns against: p_x = (1 − cos ks)/k.
+// (1 − cos x)/k², the form objective/kinematics/REFERENCE.md §3.3 warns against: p_x = (1 − cos ks)/k.
 func naiveLateralOffset(k, s float64) float64 { return (1 - math.Cos(k*s)) / k }
 
 func TestLinkTransformNearZeroCurvature(t *testing.T) {
-	// CC-4: PHYSICS §9.1, derived from (3.2). p_x = 2 sin²(ks/2)/k = k s²/2
+	// CC-4: objective/kinematics/REFERENCE.md §5.2, derived from (3.2). p_x = 2 sin²(ks/2)/k = k s²/2
 	// (1 − (ks)²/12 + …), p_z = s − k² s³/6 + …; the relative tolerance is the
-	// §9 closed-form tolerance 1e-9.
+	// objective/kinematics/REFERENCE.md §5.1 closed-form tolerance 1e-9.
 	cases := []struct {
 		name      string
 		k, s      float64
@@ -114,7 +114,7 @@ func TestLinkTransformNearZeroCurvature(t *testing.T) {
 		zTol      float64
 		naiveFail bool
 	}{
-		// p_z = 0.1 − 1.6667e-16 (§9.1: "0.1 − 1.7e-16"); the tolerance is
+		// p_z = 0.1 − 1.6667e-16 (objective/kinematics/REFERENCE.md §5.2: "0.1 − 1.7e-16"); the tolerance is
 		// one ulp of 0.1 (1.4e-17), so the k² s³/6 term must be there.
 		{name: "k=1e-6", k: 1e-6, s: 0.1, wantX: 5.000000000e-9, wantZ: 0.1 - 1e-12*1e-3/6, zTol: 1.4e-17, naiveFail: true},
 		{name: "k=1e-9", k: 1e-9, s: 0.1, wantX: 5e-12, wantZ: 0.1, zTol: 1.4e-17, naiveFail: true},
@@ -128,7 +128,7 @@ func TestLinkTransformNearZeroCurvature(t *testing.T) {
 			// R = R_y(ks) to 1e-15.
 			assertPose(t, Pose{R: rotYMat(tc.k * tc.s), P: got.P}, got, withinAbs(1e-15), "LinkTransform(u=(0,%g,0), s=%g)", tc.k, tc.s)
 
-			// The cancelling form must fail the same check (§9.1: it gives
+			// The cancelling form must fail the same check (objective/kinematics/REFERENCE.md §5.2: it gives
 			// 4.996e-9 at k = 1e-6 and 0 at k = 1e-9 in IEEE double).
 			naive := naiveLateralOffset(tc.k, tc.s)
 			relErr := math.Abs(naive-tc.wantX) / tc.wantX
@@ -137,13 +137,13 @@ func TestLinkTransformNearZeroCurvature(t *testing.T) {
 			}
 		})
 	}
-	// The specific values quoted in PHYSICS §3.3 for the naive form.
-	assert.InDelta(t, 4.996e-9, naiveLateralOffset(1e-6, 0.1), 0.0005e-9, "naive form at k=1e-6 (PHYSICS §3.3)")
-	assert.Equal(t, 0.0, naiveLateralOffset(1e-9, 0.1), "naive form at k=1e-9 (PHYSICS §3.3)")
+	// The specific values quoted in objective/kinematics/REFERENCE.md §3.3 for the naive form.
+	assert.InDelta(t, 4.996e-9, naiveLateralOffset(1e-6, 0.1), 0.0005e-9, "naive form at k=1e-6 (objective/kinematics/REFERENCE.md §3.3)")
+	assert.Equal(t, 0.0, naiveLateralOffset(1e-9, 0.1), "naive form at k=1e-9 (objective/kinematics/REFERENCE.md §3.3)")
 }
 
 func TestArcPoseWebsterJones(t *testing.T) {
-	// CC-3: PHYSICS §9.1 — Webster & Jones, "Design and Kinematic Modeling of
+	// CC-3: objective/kinematics/REFERENCE.md §5.2 — Webster & Jones, "Design and Kinematic Modeling of
 	// Constant Curvature Continuum Robots: A Review", IJRR 29(13), 2010, polar
 	// map; values derived.
 	cases := []struct {
@@ -167,7 +167,7 @@ func TestArcPoseWebsterJones(t *testing.T) {
 }
 
 func TestArcPoseRelation(t *testing.T) {
-	// PHYSICS §3.4 relation [derived]: T_WJ(κ, φ, ℓ)·R_z(−φ) = exp(ξ̂ℓ) with
+	// objective/kinematics/REFERENCE.md §3.4 relation [derived]: T_WJ(κ, φ, ℓ)·R_z(−φ) = exp(ξ̂ℓ) with
 	// u = κ(−sin φ, cos φ, 0). Random arcs, including κ → 0 (series branches)
 	// and negative κ; tolerance 1e-14 (a few roundings of O(1) entries).
 	rng := rand.New(rand.NewPCG(3, 4))

@@ -97,7 +97,7 @@ func (r *Robot) Validate() error {
 
 // ActuationError reports an actuation that the robot cannot take: wrong
 // number of values, non-finite values, or tubes that violate the nesting
-// inequalities of PHYSICS §3.2. Callers that sweep actuations can treat it as
+// inequalities of objective/kinematics/REFERENCE.md §3.2. Callers that sweep actuations can treat it as
 // an infeasible point rather than a failure (errors.As).
 type ActuationError struct {
 	Tube int    // 0-based index of the first offending tube, −1 if none applies
@@ -164,7 +164,7 @@ func checkActuationValues(n int, theta, beta []float64) error {
 	return nil
 }
 
-// nestingError checks the nesting inequalities of PHYSICS §3.2 on the
+// nestingError checks the nesting inequalities of objective/kinematics/REFERENCE.md §3.2 on the
 // effective insertions beta (threads applied) and the tube lengths L, with
 // slack tol for rounding, and describes the first violation:
 //
@@ -207,7 +207,7 @@ func nestingError(beta, L []float64, threaded []float64, tol float64) error {
 	return nil
 }
 
-// lengthTol returns the merge and nesting slack 1e-12·max L_i (PHYSICS §3.2).
+// lengthTol returns the merge and nesting slack 1e-12·max L_i (objective/kinematics/REFERENCE.md §3.2).
 func lengthTol(L []float64) float64 {
 	m := 0.0
 	for _, l := range L {
@@ -217,7 +217,7 @@ func lengthTol(L []float64) float64 {
 }
 
 // CheckActuation checks that a fits the robot: one finite angle and
-// insertion per tube, and the nesting inequalities of PHYSICS §3.2 (tube 1
+// insertion per tube, and the nesting inequalities of objective/kinematics/REFERENCE.md §3.2 (tube 1
 // innermost) on the effective insertions, threads applied (see Thread):
 //
 //	β_1 ≤ β_2 ≤ … ≤ β_n ≤ 0,  0 ≤ β_n + L_n ≤ … ≤ β_1 + L_1,

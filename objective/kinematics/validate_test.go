@@ -64,7 +64,7 @@ func TestValidate(t *testing.T) {
 }
 
 func TestCheckActuationNesting(t *testing.T) {
-	// Nesting inequalities of PHYSICS §3.2 (derived from the geometry;
+	// Nesting inequalities of objective/kinematics/REFERENCE.md §3.2 (derived from the geometry;
 	// discussed in Grassmann, Senyk & Burgner-Kahrs, "On the Disentanglement
 	// of Tube Inequalities in Concentric Tube Continuum Robots", preprint,
 	// 2024). Lengths of threeTubes: 300, 200, 100 mm.

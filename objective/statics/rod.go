@@ -8,8 +8,8 @@ import (
 	"plica/objective/kinematics"
 )
 
-// Prepared rod, RK4 integration of (4.1), and the unloaded-shape passes
-// behind the initial guess and the linear estimate (PHYSICS.md §4).
+// Prepared rod, RK4 integration of (1.1), and the unloaded-shape passes
+// behind the initial guess and the linear estimate (objective/statics/REFERENCE.md §1).
 
 // segment is one integration piece: a link, or part of a link between point
 // forces. Loads and stiffness are constant on it.
@@ -157,7 +157,7 @@ func (r *rod) steps() []int {
 // state is y = [p(3), R(9, row-major), n(3), m(3)].
 type state [18]float64
 
-// deriv evaluates (4.1) on segment sg at arc length s. With dead set, n is
+// deriv evaluates (1.1) on segment sg at arc length s. With dead set, n is
 // the explicit dead-load force and is not integrated.
 func (sg *segment) deriv(y, dy *state, s float64, dead bool) {
 	var n0, n1, n2 float64
@@ -471,8 +471,8 @@ func (r *rod) unloadedPass(m0, nx [3]float64) [24]float64 {
 }
 
 // rigidGuess returns the rigid-body statics of the unloaded shape: the base
-// loads n(0), m(0) that balance every load applied to it (PHYSICS.md
-// §4.2), and the extra dead force standing for the follower force at the
+// loads n(0), m(0) that balance every load applied to it (objective/statics/REFERENCE.md
+// §2), and the extra dead force standing for the follower force at the
 // unloaded tip orientation.
 func (r *rod) rigidGuess() (n0, m0, nx [3]float64) {
 	z := r.unloadedPass([3]float64{}, [3]float64{})
@@ -487,7 +487,7 @@ func (r *rod) rigidGuess() (n0, m0, nx [3]float64) {
 }
 
 // quickGuess is rigidGuess on the closed-form unloaded shape (the link
-// transforms of PHYSICS.md §3.3), with ∫ p × f by Simpson's rule on each
+// transforms of objective/kinematics/REFERENCE.md §3.3), with ∫ p × f by Simpson's rule on each
 // piece: cheaper than an RK4 pass and accurate enough for a starting point.
 func (r *rod) quickGuess() (n0, m0 [3]float64) {
 	T := kinematics.Identity()

@@ -4,8 +4,8 @@ import (
 	"math"
 )
 
-// Damped Newton shooting, continuation and grid refinement (PHYSICS.md
-// §4.2), and small dense helpers.
+// Damped Newton shooting, continuation and grid refinement (objective/statics/REFERENCE.md
+// §2), and small dense helpers.
 
 type result struct {
 	n, m    [3]float64
@@ -15,7 +15,7 @@ type result struct {
 	samples []ShapeSample // nodes of the integration at (n, m)
 }
 
-// newton runs the damped Newton iteration of PHYSICS.md §4.2 from the
+// newton runs the damped Newton iteration of objective/statics/REFERENCE.md §2 from the
 // physical guess (n, m): Levenberg–Marquardt steps (JᵀJ + λ diag(JᵀJ)) Δx =
 // −Jᵀr with λ₀ = 1e-3, ×10 on a rejected step and ÷10 on an accepted one,
 // on a forward-difference Jacobian (h_j = 1e-7·max(1, |x_j|) in scaled

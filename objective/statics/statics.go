@@ -36,7 +36,7 @@ type Load struct {
 }
 
 // Settings controls Solve. The zero value (or a nil pointer)
-// gives the defaults of PHYSICS.md §4.2.
+// gives the defaults of objective/statics/REFERENCE.md §2.
 type Settings struct {
 	// Resolution is the number of RK4 steps per backbone length L: a piece
 	// of length l gets at least ceil(Resolution·l/L) steps.
@@ -55,7 +55,7 @@ type Settings struct {
 	// [(n(L) − F_tip)/F_ref; (m(L) − M_tip)/(F_ref L)], with
 	// F_ref = max(|F_tip| + Σ|F_k| + ∫|f| ds + |M_tip|/L, EI_min/L²)
 	// (follower loads counted with the tip loads; the |M_tip|/L term, added
-	// to PHYSICS.md §4.2's F_ref, scales moment-only loads).
+	// to objective/statics/REFERENCE.md §2's F_ref, scales moment-only loads).
 	// Zero means 1e-10.
 	Tolerance float64
 	// MaxIterations caps the Newton (Jacobian) iterations of one solve.
@@ -197,9 +197,9 @@ type Shape struct {
 }
 
 // Solve computes the loaded equilibrium of the rod made of links
-// (contiguous from s = 0, as returned by Robot.Links) under load (4.1).
+// (contiguous from s = 0, as returned by Robot.Links) under load (1.1).
 //
-// Method (PHYSICS.md §4.2): RK4 with N_j = max(MinLinkSteps,
+// Method (objective/statics/REFERENCE.md §2): RK4 with N_j = max(MinLinkSteps,
 // ceil(Resolution·l_j/L)) steps per link and h|u| ≤ MaxStepAngle, never
 // stepping across a link boundary or a point force, R re-orthonormalised
 // after each step. When all loads are dead loads, n(s) is explicit and only
@@ -262,12 +262,12 @@ func TipSag(links []kinematics.Link, load Load, set *Settings) (float64, *Shape,
 
 // LinearDeflectionLimit is the relative tip deflection |δp|/L above which
 // the small-load linear estimate should be flagged: at PL²/EI = 0.5
-// (|δp|/L ≈ 0.17) it is already about 3 % high (PHYSICS.md §4.3 [derived]).
+// (|δp|/L ≈ 0.17) it is already about 3 % high (objective/statics/REFERENCE.md §3 [derived]).
 const LinearDeflectionLimit = 0.05
 
 // LinearTipDeflection returns the small-load linear estimate of the tip
 // displacement dp (m) and rotation vector dphi (rad), base frame, for the
-// unloaded shape of links under load (PHYSICS.md §4.3 [derived]):
+// unloaded shape of links under load (objective/statics/REFERENCE.md §3 [derived]):
 //
 //	M(s)  = (p(L) − p(s)) × F_tip + M_tip + ∫_s^L (p(σ) − p(s)) × f dσ + Σ_{s_k>s} (p(s_k) − p(s)) × F_k
 //	Δu(s) = K⁻¹ Rᵀ M(s)

@@ -38,7 +38,7 @@ var staticsPaths = []struct {
 
 // LD-1: cantilever under a dead tip load perpendicular to the straight rod.
 // Source: Bisshopp & Drucker, Large Deflection of Cantilever Beams, Q. Appl.
-// Math. 3, 1945 (published closed form); values from PHYSICS.md §9.5.
+// Math. 3, 1945 (published closed form); values from objective/statics/REFERENCE.md §5.2.
 func TestElasticaLD1(t *testing.T) {
 	const L, EI = 0.3, 0.02
 	links := staticsBeam(L, EI, EI/1.35, 0)
@@ -75,7 +75,7 @@ func TestElasticaLD1(t *testing.T) {
 	}
 }
 
-// PHYSICS.md §9.5: the linear estimate at α = 1 gives δ/L = 1/3, 10.5 %
+// objective/statics/REFERENCE.md §5.2: the linear estimate at α = 1 gives δ/L = 1/3, 10.5 %
 // above the elastica value 0.301721 (Bisshopp & Drucker 1945).
 func TestElasticaLinearEstimateOvershoot(t *testing.T) {
 	const L, EI = 0.3, 0.02
@@ -84,14 +84,14 @@ func TestElasticaLinearEstimateOvershoot(t *testing.T) {
 	require.NoError(t, err)
 	assert.InEpsilon(t, 1.0/3, dp[0]/L, 1e-12, "linear δ/L at α=1 (PL³/3EI)")
 	assert.InEpsilon(t, 0.5, dphi[1], 1e-12, "linear tip rotation at α=1 (PL²/2EI)")
-	assert.InDelta(t, 0.105, (dp[0]/L)/0.301721-1, 5e-4, "linear overshoot at α=1 (PHYSICS.md §9.5: 10.5 %%)")
+	assert.InDelta(t, 0.105, (dp[0]/L)/0.301721-1, 5e-4, "linear overshoot at α=1 (objective/statics/REFERENCE.md §5.2: 10.5 %%)")
 	assert.Greater(t, norm3(dp)/L, LinearDeflectionLimit, "α=1 must be flagged")
 }
 
 // Straight cantilever, small loads: Roark's Formulas for Stress and Strain,
 // Table 8.1 cases 1a and 2a (Young & Budynas, 7th ed., 2002), and Gere &
 // Timoshenko, Mechanics of Materials, App. G, Table G-1 cases 1 and 4 (4th
-// ed., 1997); case numbers from memory (verify), formulas PHYSICS.md §7, §9.9.
+// ed., 1997); case numbers from memory (verify), formulas objective/REFERENCE.md §6, §7.1.
 func TestCantileverSmallLoad(t *testing.T) {
 	const L, EI, m = 0.3, 0.02, 0.05
 	const a = 0.3 * L // Roark 1a: load at distance a from the free end
@@ -118,7 +118,7 @@ func TestCantileverSmallLoad(t *testing.T) {
 		t.Run(row.name+"/linear estimate", func(t *testing.T) {
 			dp, dphi, err := LinearTipDeflection(row.links, row.load)
 			require.NoError(t, err, row.name)
-			// PHYSICS.md §9: 1e-9 for closed forms (the integrands are
+			// objective/statics/REFERENCE.md §5.1: 1e-9 for closed forms (the integrands are
 			// polynomials that RK4 integrates exactly).
 			assert.InEpsilon(t, row.delta, dp[0], 1e-9, "%s: δ", row.name)
 			if !math.IsNaN(row.theta) {
@@ -232,7 +232,7 @@ func TestCastiglianoQuarterCircle(t *testing.T) {
 			dp, _, err := LinearTipDeflection(links, Load{TipForce: scale3(row.dir, P)})
 			require.NoError(t, err, row.name)
 			for i := range 3 {
-				// 1e-9 of the largest component: PHYSICS.md §9 closed forms.
+				// 1e-9 of the largest component: objective/statics/REFERENCE.md §5.1 closed forms.
 				assert.InDelta(t, row.want[i], dp[i]/P, 1e-9*scale, "linear estimate %s, component %d", row.name, i)
 			}
 			for _, path := range staticsPaths {
@@ -308,7 +308,7 @@ func TestStaticsRK4Order(t *testing.T) {
 		for k := 0; k+2 < len(tips); k++ {
 			ratio := norm3(sub(tips[k], tips[k+1])) / norm3(sub(tips[k+1], tips[k+2]))
 			t.Logf("%s: error ratio %.4g", path.name, ratio)
-			// PHYSICS.md §4.2: ≈ 16 per halving; (14, 18) tells fourth order
+			// objective/statics/REFERENCE.md §2: ≈ 16 per halving; (14, 18) tells fourth order
 			// from third (8) and fifth (32) and allows pre-asymptotic grids.
 			assert.True(t, ratio > 14 && ratio < 18, "%s: error ratio %.3g between resolutions %d and %d (want ≈ 16)",
 				path.name, ratio, 10<<k, 20<<k)
@@ -318,7 +318,7 @@ func TestStaticsRK4Order(t *testing.T) {
 
 // A pure end moment bends a straight rod into a circle of curvature M/EI
 // (Euler–Bernoulli moment–curvature relation, common practice); the arc is
-// p = ((1 − cos κL)/κ, 0, sin κL/κ), R = R_y(κL) (PHYSICS.md §3.3, planar
+// p = ((1 − cos κL)/κ, 0, sin κL/κ), R = R_y(κL) (objective/kinematics/REFERENCE.md §3.3, planar
 // case). This is exact at any size, and the same for a follower moment about
 // the tip's d2 = e_y. A moment −EI κ* about y cancels a precurvature κ*
 // (u = u* + K⁻¹Rᵀm = 0), so the rod comes out straight.
@@ -369,7 +369,7 @@ func TestStaticsPureMoment(t *testing.T) {
 	}
 }
 
-// Non-convergence is reported, never returned as a shape (PHYSICS.md §4.2).
+// Non-convergence is reported, never returned as a shape (objective/statics/REFERENCE.md §2).
 func TestStaticsNonConvergence(t *testing.T) {
 	const L, EI = 0.3, 0.02
 	links := staticsBeam(L, EI, EI/1.3, 0)
@@ -399,7 +399,7 @@ func TestStaticsNonConvergence(t *testing.T) {
 	}
 }
 
-// Continuation rescues a direct solve that stalls (PHYSICS.md §4.2): at
+// Continuation rescues a direct solve that stalls (objective/statics/REFERENCE.md §2): at
 // α = 5 the rigid-body guess lies past the fold of the dead-load shooting
 // map. The result is still LD-1 (Bisshopp & Drucker 1945).
 func TestStaticsContinuation(t *testing.T) {
@@ -442,7 +442,7 @@ func TestStaticsInvalidInput(t *testing.T) {
 // Tip sag under self-weight: Gere & Timoshenko, Table G-1, case 1
 // (δ = fL⁴/8EI) at small load; zero without gravity; with an extra tip
 // force the sag still equals the gravity-only linear deflection to first
-// order (superposition, PHYSICS.md §7).
+// order (superposition, objective/REFERENCE.md §6).
 func TestTipSag(t *testing.T) {
 	const L, EI, m = 0.3, 0.02, 0.05
 	g := 1e-3 * EI / (m * L * L * L)
@@ -504,7 +504,7 @@ func TestStaticsSamples(t *testing.T) {
 
 // SolveRobot runs on the links of Robot.Links; unloaded, its tip matches
 // the closed-form chain of link transforms (Robot.Tip) to the RK4 error.
-// Geometry SEG-1 (PHYSICS.md §9.3), stiffness scaled to bellows values.
+// Geometry SEG-1 (objective/kinematics/REFERENCE.md §5.4), stiffness scaled to bellows values.
 func TestRobotStatics(t *testing.T) {
 	r := staticsTwoTubeRobot()
 	for _, th := range [][]float64{{0, 0}, {0, math.Pi}, {0.4, -1.1}} {
@@ -537,7 +537,7 @@ func TestRobotStatics(t *testing.T) {
 	assert.Error(t, err, "actuation of the wrong length")
 }
 
-// staticsTwoTubeRobot is SEG-1's geometry (PHYSICS.md §9.3) with printed
+// staticsTwoTubeRobot is SEG-1's geometry (objective/kinematics/REFERENCE.md §5.4) with printed
 // bellows stiffness and mass (demo values).
 func staticsTwoTubeRobot() *kinematics.Robot {
 	return &kinematics.Robot{Tubes: []kinematics.Tube{
@@ -562,7 +562,7 @@ func TestStatusString(t *testing.T) {
 }
 
 // Solve keeps no shared state: concurrent solves of the same input
-// give bit-identical shapes (STYLE.md §3.5: run cases concurrently).
+// give bit-identical shapes (the cases run concurrently).
 func TestStaticsConcurrent(t *testing.T) {
 	r := staticsTwoTubeRobot()
 	a := kinematics.Actuation{Theta: []float64{0.4, -1.1}, Beta: []float64{-0.25, -0.10}}

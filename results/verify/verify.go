@@ -92,13 +92,13 @@ func elastica(alpha float64) (*statics.Shape, error) {
 
 var caseDefs = []caseDef{
 	{"kinematics", "CC-1 quarter arc u=(0,10,0), s=π/20: tip x", "m", 0.1, 1e-12, false,
-		"derived from the SE(3) exponential (Lynch & Park, Modern Robotics, 2017); PHYSICS §9.1",
+		"derived from the SE(3) exponential (Lynch & Park, Modern Robotics, 2017); objective/kinematics/REFERENCE.md §5.2",
 		func() (float64, error) { return kinematics.LinkTransform([3]float64{0, 10, 0}, math.Pi/20).P[0], nil }, false},
 	{"kinematics", "CC-4 near-zero curvature u=(0,1e-6,0), s=0.1: tip x", "m", 5.000000000e-9, 1e-9, true,
-		"derived (the (1 − cos x)/k² form gives 4.996e-9); PHYSICS §9.1",
+		"derived (the (1 − cos x)/k² form gives 4.996e-9); objective/kinematics/REFERENCE.md §5.2",
 		func() (float64, error) { return kinematics.LinkTransform([3]float64{0, 1e-6, 0}, 0.1).P[0], nil }, false},
 	{"kinematics", "CC-5 full circle u=(0,10,0), s=2π/10: |T − I|", "", 0, 1e-15, false,
-		"derived; PHYSICS §9.1",
+		"derived; objective/kinematics/REFERENCE.md §5.2",
 		func() (float64, error) {
 			p := kinematics.LinkTransform([3]float64{0, 10, 0}, 2*math.Pi/10)
 			m := math.Abs(p.P[0]) + math.Abs(p.P[1]) + math.Abs(p.P[2])
@@ -135,7 +135,7 @@ var caseDefs = []caseDef{
 			return worst, nil
 		}, false},
 	{"kinematics", "TR-3 anisotropic pair (θA, θB) = (π/4, 0): u_y", "1/m", 8.848845590, 1e-9, true,
-		"derived from (3.1); PHYSICS §9.2",
+		"derived from (3.1); objective/kinematics/REFERENCE.md §5.3",
 		func() (float64, error) {
 			u, _, err := kinematics.EquilibriumCurvature([]kinematics.LinkTube{
 				{Theta: math.Pi / 4, Bending: [2][2]float64{{1, 0}, {0, 3}}, Torsion: 50, Precurvature: [3]float64{0, 10, 0}},
@@ -144,20 +144,20 @@ var caseDefs = []caseDef{
 			return u[1], err
 		}, false},
 	{"kinematics", "SEG-1 two tubes (θ1, θ2) = (0, 0): tip x", "m", 0.0541691566, 1e-9, true,
-		"derived from §3.2; PHYSICS §9.3",
+		"derived from objective/kinematics/REFERENCE.md §3.2; objective/kinematics/REFERENCE.md §5.4",
 		func() (float64, error) {
 			r := &kinematics.Robot{Tubes: []kinematics.Tube{isoTube(0.35, 0.10, 10, 1, 1), isoTube(0.15, 0.10, 5, 2, 2)}}
 			p, err := r.Tip(kinematics.Actuation{Theta: []float64{0, 0}, Beta: []float64{-0.25, -0.10}})
 			return p.P[0], err
 		}, false},
 	{"surrogate", "shell element: straight cylinder axial stiffness (R=10, t=0.1, L=5, E=1000)", "", 1256.6370614359173, 1e-9, true,
-		"membrane solution 2πREt/L (exact); PHYSICS §9.7",
+		"membrane solution 2πREt/L (exact); surrogate/REFERENCE.md §5.3",
 		func() (float64, error) { return surrogate.CylinderAxialStiffness(10, 0.1, 5, 1000, 0.3, 37) }, false},
 	{"surrogate", "shell element: semi-infinite cylinder radial edge stiffness 2β³D", "", 0.388982, 1e-5, true,
-		"Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells, 1959 (from memory); PHYSICS §9.7",
+		"Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells, 1959 (from memory); surrogate/REFERENCE.md §5.3",
 		func() (float64, error) { return surrogate.CylinderEdgeStiffness(10, 0.1, 1000, 0.3, 480) }, false},
 	{"surrogate", "EJMA worked example S1: axial rate per convolution f_iu", "N/m", 4.02982e6, 1e-3, true,
-		"EJMA Standards equations as applied in a published worked calculation; PHYSICS §9.6",
+		"EJMA Standards equations as applied in a published worked calculation; surrogate/REFERENCE.md §5.2",
 		func() (float64, error) {
 			const in = 0.0254
 			db, t, w := 38*in, 0.03*in, 1.095*in
@@ -166,10 +166,10 @@ var caseDefs = []caseDef{
 			return surrogate.EJMAAxialRate(dm, 29.0e6*6894.757293168, tp, 1, w, 1.65), nil
 		}, false},
 	{"surrogate", "strip model: U-profile Cf_strip(0) (flat flanks)", "", 1, 1e-12, false,
-		"derived, guided-cantilever flank; PHYSICS §6.1, §6.4",
+		"derived, guided-cantilever flank; surrogate/REFERENCE.md §2.1, §2.4",
 		func() (float64, error) { return surrogate.UCfStrip(0), nil }, false},
 	{"elastica", "LD-1 α = PL²/EI = 1: tip angle", "rad", 0.461352, 1e-4, true,
-		"Bisshopp & Drucker, Large Deflection of Cantilever Beams, Q. Appl. Math. 3, 1945; PHYSICS §9.5",
+		"Bisshopp & Drucker, Large Deflection of Cantilever Beams, Q. Appl. Math. 3, 1945; objective/statics/REFERENCE.md §5.2",
 		func() (float64, error) {
 			s, err := elastica(1)
 			if err != nil {
@@ -178,7 +178,7 @@ var caseDefs = []caseDef{
 			return math.Atan2(s.Tip.R[1][2], s.Tip.R[2][2]), nil
 		}, false},
 	{"elastica", "LD-1 α = 10: deflection along the load δ_y/L", "", 0.810609, 1e-4, true,
-		"Bisshopp & Drucker 1945; PHYSICS §9.5",
+		"Bisshopp & Drucker 1945; objective/statics/REFERENCE.md §5.2",
 		func() (float64, error) {
 			s, err := elastica(10)
 			if err != nil {
@@ -196,19 +196,19 @@ var caseDefs = []caseDef{
 			return s.Tip.P[1], nil
 		}, false},
 	{"stability", "ST-1 κ1 = κ2 = 10/m, ν = 0.3: critical overlap L_crit", "m", 0.13776795, 1e-7, true,
-		"c = (1+ν)κ1κ2 (Dupont et al. 2010; Gilbert, Hendrick & Webster 2016, from memory); numbers derived, PHYSICS §9.4",
+		"c = (1+ν)κ1κ2 (Dupont et al. 2010; Gilbert, Hendrick & Webster 2016, from memory); numbers derived, objective/kinematics/REFERENCE.md §5.5",
 		func() (float64, error) {
 			ps, err := kinematics.TwoTubeStability(isoTube(0, 0.1, 10, 1, 1/1.3), isoTube(0, 0.1, 10, 2, 2/1.3), 0.1, [2]float64{})
 			return ps.LCrit, err
 		}, false},
 	{"stability", "ST-2 with transmission β_eff = 0.05 m: L_crit", "m", 0.09232453, 1e-7, true,
-		"derived from √c β_eff tan(√c L) = 1; PHYSICS §9.4",
+		"derived from √c β_eff tan(√c L) = 1; objective/kinematics/REFERENCE.md §5.5",
 		func() (float64, error) {
 			ps, err := kinematics.TwoTubeStability(isoTube(0, 0.1, 10, 1, 1/1.3), isoTube(0, 0.1, 10, 1, 1/1.3), 0.1, [2]float64{0.05, 0.05})
 			return ps.LCrit, err
 		}, false},
 	{"calibration", "cantilever EI fit of the synthetic vector (L = 100 mm)", "N·mm²", 41084.6, 1e-5, true,
-		"derived least squares through the origin; PHYSICS §7.1, §9.8",
+		"derived least squares through the origin; surrogate/REFERENCE.md §4.2, §5.4",
 		func() (float64, error) {
 			var pts []surrogate.BenchPoint
 			for i, p := range []float64{0.05, 0.10, 0.15, 0.20} {
@@ -218,17 +218,17 @@ var caseDefs = []caseDef{
 			return f.EI * 1e6, err
 		}, false},
 	{"indicators", "hypervolume {(1,3),(2,2),(3,1)} at (4,4)", "", 6, 1e-12, false,
-		"derived by strips 3·1 + 2·1 + 1·1; SEARCH.md §5.1",
+		"derived by strips 3·1 + 2·1 + 1·1; search/front/REFERENCE.md §1.1",
 		func() (float64, error) {
 			return front.Hypervolume([][]float64{{1, 3}, {2, 2}, {3, 1}}, []float64{4, 4}), nil
 		}, false},
 	{"indicators", "hypervolume {(1,2,3),(2,3,1),(3,1,2),(2,2,2)} at (4,4,4)", "", 14, 1e-12, false,
-		"derived by inclusion–exclusion; SEARCH.md §5.1",
+		"derived by inclusion–exclusion; search/front/REFERENCE.md §1.1",
 		func() (float64, error) {
 			return front.Hypervolume([][]float64{{1, 2, 3}, {2, 3, 1}, {3, 1, 2}, {2, 2, 2}}, []float64{4, 4, 4}), nil
 		}, false},
 	{"indicators", "hypervolume {(1,2,3,4),(4,3,2,1),(2,2,2,2)} at (5,5,5,5) (WFG)", "", 93, 1e-12, false,
-		"derived by inclusion–exclusion; SEARCH.md §5.1",
+		"derived by inclusion–exclusion; search/front/REFERENCE.md §1.1",
 		func() (float64, error) {
 			return front.Hypervolume([][]float64{{1, 2, 3, 4}, {4, 3, 2, 1}, {2, 2, 2, 2}}, []float64{5, 5, 5, 5}), nil
 		}, false},

@@ -35,7 +35,7 @@ func normaliseSet(points [][]float64) ([][]float64, []int) {
 // objectives normalised over the set and positive on the side of the ideal
 // point: the knee is the point of largest distance (Das, Struct. Optim.
 // 18:107–115, 1999; Branke, Deb, Dierolf and Osswald, PPSN 2004; from
-// memory (verify); SEARCH.md §9 item 7). The extreme point of axis k is
+// memory (verify); search/front/REFERENCE.md §3). The extreme point of axis k is
 // the point of least max_j f̂_j/w_j with w = e_k, zeros replaced by 1e-6,
 // as NSGA-III finds its extreme points (Deb and Jain, IEEE TEC 18(4),
 // 2014; from memory (verify)): the point best in every other objective.
@@ -256,8 +256,8 @@ func hyperplane(pts [][]float64, ext []int) (nrm []float64, c float64, why strin
 // PseudoWeights returns the pseudo-weight vector of each point (objectives
 // minimised): w_i = ((f_i^max − f_i)/(f_i^max − f_i^min)) / Σ_j (…), where
 // the extremes are over the set (Deb, Multi-Objective Optimization using
-// Evolutionary Algorithms, 2001; from memory (verify); SEARCH.md §9 item
-// 7). w_i near 1 means the point is near the best in objective i. An
+// Evolutionary Algorithms, 2001; from memory (verify); search/front/REFERENCE.md §3.2).
+// w_i near 1 means the point is near the best in objective i. An
 // objective without a range contributes 0; a point with every term 0 gets
 // equal weights.
 func PseudoWeights(points [][]float64) [][]float64 {
@@ -286,7 +286,7 @@ func PseudoWeights(points [][]float64) [][]float64 {
 // max_i w_i·f̂_i + ρ Σ_i f̂_i with f̂ normalised over the set and
 // ρ = 1e-4: an augmented weighted Chebyshev distance to the ideal point
 // (Steuer and Choo, Math. Program. 26:326–344, 1983; Wierzbicki 1980; from
-// memory (verify); SEARCH.md §9 item 7). The weights multiply, so a larger
+// memory (verify); search/front/REFERENCE.md §3). The weights multiply, so a larger
 // weight makes that objective matter more; the least value is the pick.
 func CompromiseValues(points [][]float64, weights []float64) []float64 {
 	const rho = 1e-4

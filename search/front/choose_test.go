@@ -77,7 +77,7 @@ func TestKneeDistances(t *testing.T) {
 }
 
 // TestPseudoWeights: w_i = ((f_max − f_i)/(f_max − f_min)) / Σ_j (…)
-// (Deb 2001, SEARCH.md §9 item 7) [derived by hand for the points below].
+// (Deb 2001, search/front/REFERENCE.md §3) [derived by hand for the points below].
 func TestPseudoWeights(t *testing.T) {
 	pts := [][]float64{{0, 1}, {0.5, 0.5}, {1, 0}, {0.2, 0.6}}
 	want := [][]float64{{1, 0}, {0.5, 0.5}, {0, 1}, {0.8 / 1.2, 0.4 / 1.2}}

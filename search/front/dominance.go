@@ -16,7 +16,7 @@ func Dominates(a, b []float64) bool {
 }
 
 // WeaklyDominates reports whether a weakly dominates b (minimisation):
-// a_k ≤ b_k for all k (SEARCH.md §1).
+// a_k ≤ b_k for all k (search/REFERENCE.md §1.3).
 func WeaklyDominates(a, b []float64) bool {
 	for k := range a {
 		if a[k] > b[k] {

@@ -7,7 +7,7 @@ import (
 	"plica/search/front"
 )
 
-// Two fronts of SEARCH.md §5.2: A1 dominates A2, IGD ranks them the wrong
+// Two fronts of search/front/REFERENCE.md §1.2: A1 dominates A2, IGD ranks them the wrong
 // way round, IGD+ and the ε-indicator do not.
 func ExampleIGDPlus() {
 	a1 := [][]float64{{2, 4}, {3, 3}, {4, 2}}

@@ -11,7 +11,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// TestHypervolumeHandCases checks every hand-checkable case of SEARCH.md §5.1 (derived by hand;
+// TestHypervolumeHandCases checks every hand-checkable case of search/front/REFERENCE.md §1.1 (derived by hand;
 // the definition is Zitzler and Thiele, IEEE Trans. Evol. Comput. 3(4), 1999).
 func TestHypervolumeHandCases(t *testing.T) {
 	cases := []struct {
@@ -125,7 +125,7 @@ func TestHypervolumeAgainstGrid(t *testing.T) {
 	}
 }
 
-// TestHypervolumeZDT1Sample checks the finite-front values of SEARCH.md §6.1 (derived): 100
+// TestHypervolumeZDT1Sample checks the finite-front values of search/REFERENCE.md §5.1 (derived): 100
 // points f1 = i/99 on f2 = 1 − √f1 give 0.871409 at (1.1, 1.1) and 0.661409 at (1, 1).
 func TestHypervolumeZDT1Sample(t *testing.T) {
 	pts := make([][]float64, 100)

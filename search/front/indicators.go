@@ -83,7 +83,7 @@ func ParetoFront[T any](items []T, point func(*T) (f []float64, feasible bool)) 
 
 // Normalization maps objectives onto [0, 1] between an ideal and a nadir
 // point: f̂_k = (f_k − Ideal_k)/(Nadir_k − Ideal_k). Fronts that are compared
-// must share one normalisation (SEARCH.md §5.5), never per-run bounds.
+// must share one normalisation (search/front/REFERENCE.md §2), never per-run bounds.
 type Normalization struct {
 	Ideal, Nadir []float64
 }
@@ -143,7 +143,7 @@ func (n Normalization) Apply(points [][]float64) [][]float64 {
 // set has C(H+m−1, m−1) points; at least 1. Ishibuchi, Imada, Setoguchi and
 // Nojima (Evol. Comput. 26(3):411–440, 2018; from memory (verify)) specify
 // the hypervolume reference point as 1 + 1/H in the normalised space for a
-// front of n solutions (SEARCH.md §5.5).
+// front of n solutions (search/front/REFERENCE.md §2).
 func ReferenceDivisions(n, m int) int {
 	if m <= 1 {
 		return max(1, n-1)
@@ -167,12 +167,12 @@ func latticeSize(h, m int) float64 {
 
 // GD is the generational distance of a to the reference set z with p = 1:
 // the mean over a of the Euclidean distance to the nearest point of z (Van
-// Veldhuizen and Lamont 1998, from memory; SEARCH.md §5.2). NaN when a or z is empty.
+// Veldhuizen and Lamont 1998, from memory; search/front/REFERENCE.md §1.2). NaN when a or z is empty.
 func GD(a, z [][]float64) float64 { return meanMinDistance(a, z, euclid) }
 
 // IGD is the inverted generational distance with p = 1: the mean over the
 // reference set z of the Euclidean distance to the nearest point of a
-// (SEARCH.md §5.2). IGD is not Pareto-compliant: a set that dominates
+// (search/front/REFERENCE.md §1.2). IGD is not Pareto-compliant: a set that dominates
 // another can score worse. NaN when a or z is empty.
 func IGD(a, z [][]float64) float64 {
 	return meanMinDistance(z, a, func(zz, aa []float64) float64 { return euclid(aa, zz) })
@@ -180,7 +180,7 @@ func IGD(a, z [][]float64) float64 {
 
 // IGDPlus is IGD with the distance d⁺(z, a) = sqrt(Σ_i max(a_i − z_i, 0)²),
 // which counts only where a is worse than z; it is weakly Pareto-compliant
-// (Ishibuchi, Masuda, Tanigaki and Nojima, EMO 2015; SEARCH.md §5.2). NaN
+// (Ishibuchi, Masuda, Tanigaki and Nojima, EMO 2015; search/front/REFERENCE.md §1.2). NaN
 // when a or z is empty.
 func IGDPlus(a, z [][]float64) float64 {
 	return meanMinDistance(z, a, func(zz, aa []float64) float64 {
@@ -221,8 +221,8 @@ func meanMinDistance(from, to [][]float64, dist func(p, q []float64) float64) fl
 // EpsilonAdditive is the additive ε-indicator I_ε+(a, b) =
 // max_{q ∈ b} min_{p ∈ a} max_i (p_i − q_i): the smallest shift that makes a
 // weakly dominate b; ≤ 0 means it already does (Zitzler, Thiele, Laumanns,
-// Fonseca and Grunert da Fonseca, IEEE TEC 7(2):117–132, 2003; SEARCH.md
-// §5.3). NaN when a or b is empty.
+// Fonseca and Grunert da Fonseca, IEEE TEC 7(2):117–132, 2003; search/front/REFERENCE.md
+// §1.3). NaN when a or b is empty.
 func EpsilonAdditive(a, b [][]float64) float64 {
 	if len(a) == 0 || len(b) == 0 {
 		return math.NaN()
@@ -244,7 +244,7 @@ func EpsilonAdditive(a, b [][]float64) float64 {
 
 // Coverage is the C-metric C(a, b) = |{q ∈ b : ∃ p ∈ a, p ⪯ q}| / |b|, the
 // share of b weakly dominated by some point of a (Zitzler and Thiele, IEEE
-// TEC 3(4):257–271, 1999; SEARCH.md §5.4). It is not symmetric, and
+// TEC 3(4):257–271, 1999; search/front/REFERENCE.md §1.4). It is not symmetric, and
 // C(a, b) ≠ 1 − C(b, a) in general. NaN when b is empty.
 func Coverage(a, b [][]float64) float64 {
 	if len(b) == 0 {

@@ -10,7 +10,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// Hand-checkable sets of SEARCH.md §5.1–5.4; the values there are derived
+// Hand-checkable sets of search/front/REFERENCE.md §1; the values there are derived
 // from the indicators' definitions (Zitzler et al., IEEE TEC 7(2), 2003;
 // Ishibuchi et al., EMO 2015; Zitzler and Thiele, IEEE TEC 3(4), 1999).
 var (
@@ -19,7 +19,7 @@ var (
 	setZ5 = [][]float64{{0, 10}, {1, 6}, {2, 2}, {6, 1}, {10, 0}}
 )
 
-// TestDistanceIndicators: the GD/IGD/IGD+ table of SEARCH.md §5.2
+// TestDistanceIndicators: the GD/IGD/IGD+ table of search/front/REFERENCE.md §1.2
 // [derived there; hand check given beside the table]. Tolerance 1e-6: the
 // table prints six significant digits; the closed forms are checked to
 // 1e-12.
@@ -42,7 +42,7 @@ func TestDistanceIndicators(t *testing.T) {
 		t.Run(c.name, func(t *testing.T) {
 			tol := 1e-12
 			if !c.exact {
-				tol = 1e-4 // four decimals printed in SEARCH.md §5.2
+				tol = 1e-4 // four decimals printed in search/front/REFERENCE.md §1.2
 			}
 			if !math.IsNaN(c.gd) {
 				assert.InDelta(t, c.gd, GD(c.a, c.z), tol, "GD(%v; %v)", c.a, c.z)
@@ -51,15 +51,15 @@ func TestDistanceIndicators(t *testing.T) {
 			assert.InDelta(t, c.igdp, IGDPlus(c.a, c.z), tol, "IGD+(%v; %v)", c.a, c.z)
 		})
 	}
-	// GD of {(1,1),(2,2),(3,3)} to {(0,0),(1,1),(2,2)} = √2/3 (SEARCH.md §5.2)
+	// GD of {(1,1),(2,2),(3,3)} to {(0,0),(1,1),(2,2)} = √2/3 (search/front/REFERENCE.md §1.2)
 	assert.InDelta(t, math.Sqrt2/3, GD([][]float64{{1, 1}, {2, 2}, {3, 3}}, [][]float64{{0, 0}, {1, 1}, {2, 2}}), 1e-12, "GD of a shifted diagonal")
-	// A1 dominates A2, yet IGD ranks A2 first; IGD+ ranks them correctly (SEARCH.md §5.2)
+	// A1 dominates A2, yet IGD ranks A2 first; IGD+ ranks them correctly (search/front/REFERENCE.md §1.2)
 	assert.Greater(t, IGD(setA1, setZ5), IGD(setA2, setZ5), "IGD is not Pareto-compliant")
 	assert.Less(t, IGDPlus(setA1, setZ5), IGDPlus(setA2, setZ5), "IGD+ is weakly Pareto-compliant")
 	assert.True(t, math.IsNaN(IGD(nil, setZ5)), "IGD of an empty set has no value")
 }
 
-// TestEpsilonAndCoverage: the tables of SEARCH.md §5.3 and §5.4 [derived
+// TestEpsilonAndCoverage: the tables of search/front/REFERENCE.md §1.3 and §1.4 [derived
 // there from the definitions].
 func TestEpsilonAndCoverage(t *testing.T) {
 	b4 := [][]float64{{1.5, 4}, {2, 2}, {3, 3}, {5, 0.5}}
@@ -89,13 +89,13 @@ func TestEpsilonAndCoverage(t *testing.T) {
 			}
 		})
 	}
-	// A1 dominates A2, so I_eps+(A1, A2) ≤ 0 [definition, SEARCH.md §5.3]
+	// A1 dominates A2, so I_eps+(A1, A2) ≤ 0 [definition, search/front/REFERENCE.md §1.3]
 	assert.LessOrEqual(t, EpsilonAdditive(setA1, setA2), 0.0, "I_eps+(A1, A2)")
 }
 
 // TestNormalizationAndReference: the shared normalisation uses the ideal
 // and nadir of the union's non-dominated set, so a dominated outlier of one
-// run does not move it (SEARCH.md §5.5); an objective without range maps to
+// run does not move it (search/front/REFERENCE.md §2); an objective without range maps to
 // 0; H follows from the simplex-lattice size C(H+m−1, m−1) [derived; the
 // population sizes 91 (m = 3, H = 12) and 210 (m = 5, H = 6) are the usual
 // NSGA-III settings, Deb and Jain, IEEE TEC 18(4), 2014, from memory].
@@ -120,7 +120,7 @@ func TestNormalizationAndReference(t *testing.T) {
 	refs := []struct {
 		n, m, h int
 	}{
-		{11, 2, 10}, // 1 + 1/10 = 1.1, the two-objective example of SEARCH.md §5.5
+		{11, 2, 10}, // 1 + 1/10 = 1.1, the two-objective example of search/front/REFERENCE.md §2
 		{100, 2, 99},
 		{91, 3, 12},
 		{100, 3, 12},
@@ -158,7 +158,7 @@ func randomDesigns(rng *rand.Rand, n, m int) []item {
 }
 
 // bruteFront is the feasible non-dominated set by the definition of
-// SEARCH.md §1, first of equal vectors kept, as a set of indices.
+// search/REFERENCE.md §1.3, first of equal vectors kept, as a set of indices.
 func bruteFront(ds []item) []int64 {
 	var out []int64
 	for i, d := range ds {
@@ -193,7 +193,7 @@ func designIndices(ds []item) []int64 {
 
 // TestMergeSplitFronts: splitting a random set into parts (islands),
 // taking each part's front and the front of their union gives the front of
-// the whole set [definition of Pareto dominance, SEARCH.md §1; the oracle
+// the whole set [definition of Pareto dominance, search/REFERENCE.md §1.3; the oracle
 // is the O(n²) definition].
 func TestMergeSplitFronts(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 11))

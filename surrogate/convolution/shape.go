@@ -9,7 +9,7 @@ import (
 
 // ThinWall is the smallest wall ratio of the factor grids (t/rm for
 // U-profiles, t/w for sinusoids and trapezoids), which stands for the thin
-// limit of PHYSICS §6.2: at fixed shape parameters a vanishing wall ratio
+// limit of surrogate/REFERENCE.md §2.2: at fixed shape parameters a vanishing wall ratio
 // also sends w/Dm and t/Dm to zero, and the residual effects of finite
 // thickness (meridional stretching, finite crown curvature) vanish with
 // it. The grids extend the wall ratio to its validity limit (t/rm < 2,
@@ -23,7 +23,7 @@ const ThinWall = 0.005
 var ErrNoBore = errors.New("convolution: shape point has a non-positive root inner radius")
 
 // Shape is the isotropic (E = 1) convolution at Dm = 1 of a point of the
-// factor grids (PHYSICS §1.2, §6.2; printed walls use tp = t). With the
+// factor grids (surrogate/REFERENCE.md §1.1, §2.2; printed walls use tp = t). With the
 // wall ratio τ:
 //
 //	U (τ = t/rm):                  rm = Dm·τ·C2²/1.82², q = 4·rm, w = 2·rm/C1, t = τ·rm

@@ -5,11 +5,11 @@ import "plica/surrogate/shell"
 // DefaultElements is the default number of shell elements per arc, flank
 // or flat of half a convolution (five times as many on a half sinusoid):
 // 80 + 80 + 80 for a half U-convolution, 400 for a half sinusoid
-// (PHYSICS §6.3 reference resolution).
+// (surrogate/REFERENCE.md §2.3 reference resolution).
 const DefaultElements = 80
 
-// Shell runs the axisymmetric shell model on half a convolution (PHYSICS
-// §6.3) meshed by Meridian.Nodes(perSeg): root apex W = 0, χ = 0; crown
+// Shell runs the axisymmetric shell model on half a convolution (surrogate/REFERENCE.md
+// §2.3) meshed by Meridian.Nodes(perSeg): root apex W = 0, χ = 0; crown
 // apex W = δ, χ = 0; U free; k_conv = F_a/(2δ) (two half convolutions in
 // series, movement e = 2δ).
 func Shell(m *Meridian, wall shell.Wall, perSeg int) (Result, error) {

@@ -8,7 +8,7 @@ import (
 )
 
 // TestShellMeshConvergence checks that k_conv changes by less than 0.2 %
-// from 40 to 160 elements per arc/flank (PHYSICS §6.2, derived) and the
+// from 40 to 160 elements per arc/flank (surrogate/REFERENCE.md §2.2, derived) and the
 // peak strain by less than 1 % (κ_s converges one order slower).
 func TestShellMeshConvergence(t *testing.T) {
 	cases := []struct {

@@ -9,7 +9,7 @@ type Result struct {
 }
 
 // Strip is the r-weighted strip (curved-beam) model of one convolution
-// (PHYSICS §6.1): it cuts the wall into meridional strips of unit
+// (surrogate/REFERENCE.md §2.1): it cuts the wall into meridional strips of unit
 // circumferential width, neglects hoop action and meridional stretching,
 // and integrates over one pitch (r-weighted form; the approach of Turner &
 // Ford, Stress and deflection studies of flat-plate and toroidal expansion

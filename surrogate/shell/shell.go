@@ -37,7 +37,7 @@ var gauss5x, gauss5w = func() ([5]float64, [5]float64) {
 }()
 
 // elementStiffness returns the global 6×6 stiffness of the conical-frustum
-// element from (r1, z1) to (r2, z2) (PHYSICS §6.3): local DOFs per node
+// element from (r1, z1) to (r2, z2) (surrogate/REFERENCE.md §2.3): local DOFs per node
 // u (tangential, linear), w (normal, cubic Hermite with slopes ×ℓ),
 // χ = dw/ds; strains ε_s = du/ds, ε_θ = (u cφ − w sφ)/r, κ_s = −d²w/ds²,
 // κ_θ = −(cφ/r) dw/ds; K_e = 2π ∫ Bᵀ C B r ds by 5-point Gauss; global DOFs

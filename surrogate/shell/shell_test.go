@@ -10,7 +10,7 @@ import (
 
 // TestShellStraightCylinderAxial checks the element against the membrane
 // axial stiffness of a cylinder with radially free ends, k = 2π R E t / L
-// (PHYSICS §9.7: R = 10, t = 0.1, L = 5, E = 1000, ν = 0.3 → 1256.64; the
+// (surrogate/REFERENCE.md §5.3: R = 10, t = 0.1, L = 5, E = 1000, ν = 0.3 → 1256.64; the
 // element represents the exact solution, so agreement is to rounding;
 // derived from the membrane solution ε_s = δ/L, ε_θ = −ν ε_s).
 func TestShellStraightCylinderAxial(t *testing.T) {
@@ -34,14 +34,14 @@ func TestShellStraightCylinderAxial(t *testing.T) {
 // semi-infinite cylinder with a rotation-free edge (M = 0), per unit
 // circumference 2 β³ D with β⁴ = 3(1−ν²)/(R² t²) (Timoshenko &
 // Woinowsky-Krieger, Theory of Plates and Shells, 2nd ed., 1959, §114,
-// from memory; PHYSICS §9.7: 0.388982, element 0.388986, 1e-5 relative).
+// from memory; surrogate/REFERENCE.md §5.3: 0.388982, element 0.388986, 1e-5 relative).
 func TestShellSemiInfiniteCylinderEdge(t *testing.T) {
 	const r, th, e, nu = 10.0, 0.1, 1000.0, 0.3
 	beta := math.Pow(3*(1-nu*nu)/(r*r*th*th), 0.25)
 	d := e * th * th * th / (12 * (1 - nu*nu))
 	want := 2 * beta * beta * beta * d
 	assert.InEpsilon(t, 0.388982, want, 2e-6, "closed form 2β³D")
-	// Length 12/β (e^(−12) ≈ 6e-6 edge interaction; PHYSICS §9.7 asks for
+	// Length 12/β (e^(−12) ≈ 6e-6 edge interaction; surrogate/REFERENCE.md §5.3 asks for
 	// more than 10/β), 480 elements: β·ℓ = 0.025. The element converges as
 	// h² from above (linear u cannot cancel the cubic Poisson term of ε_θ).
 	rs, zs := cylinderMesh(r, 12/beta, 480)
@@ -56,7 +56,7 @@ func TestShellSemiInfiniteCylinderEdge(t *testing.T) {
 	require.NoError(t, err)
 	got := q0 / disp[0]
 	assert.InEpsilon(t, want, got, 1e-5, "semi-infinite cylinder edge stiffness, 480 elements over 12/β")
-	assert.InEpsilon(t, 0.388986, got, 1e-5, "PHYSICS §9.7 element value")
+	assert.InEpsilon(t, 0.388986, got, 1e-5, "surrogate/REFERENCE.md §5.3 element value")
 }
 
 // cylinderMesh returns n elements of a cylinder of radius r from z = 0 to z = l.

@@ -1,7 +1,7 @@
 // Command hoopgen writes surrogate/hoop_table_gen.go: the hoop-stiffening
 // factor H = k_shell/k_strip and the strain factor ε_shell/ε_strip of the
 // surrogate package as plain data, computed with convolution.Shape.Factors
-// (axisymmetric shell model vs r-weighted strip model, PHYSICS §6.2) on
+// (axisymmetric shell model vs r-weighted strip model, surrogate/REFERENCE.md §2.2) on
 // fixed grids. It does not import package surrogate.
 //
 // Run with `go generate ./surrogate` (about ten seconds), which runs it in
@@ -23,7 +23,7 @@ import (
 	"plica/surrogate/convolution"
 )
 
-// Grids (PHYSICS §6.2): U C1 0.1…0.9 (denser below 0.2, where w/Dm grows
+// Grids (surrogate/REFERENCE.md §2.2): U C1 0.1…0.9 (denser below 0.2, where w/Dm grows
 // as 1/C1) × C2 0.2…4.0 (denser below 1.5);
 // sinusoid w/q × C2q, extended below w/q = 0.25 and above C2q = 1 because
 // printable (fused-filament) sinusoids are shallow; trapezoid like the
