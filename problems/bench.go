@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
@@ -59,9 +58,9 @@ type Bench struct {
 
 // LoadBench reads and checks a bench CSV file.
 func LoadBench(path string) (*Bench, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "bench CSV")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseBench(data, path)
 }

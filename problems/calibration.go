@@ -196,9 +196,9 @@ func WriteAtomic(path string, data []byte) (err error) {
 
 // LoadCalibration reads and checks a calibration file.
 func LoadCalibration(path string) (*Calibration, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "calibration file")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseCalibration(data, path)
 }
@@ -210,7 +210,7 @@ func LoadCalibration(path string) (*Calibration, error) {
 // six written digits). Every problem is reported with file:line:col and
 // key.
 func ParseCalibration(data []byte, file string) (*Calibration, error) {
-	r, root, err := decode(data, file)
+	r, root, err := decode(data, file, "calibration file")
 	if err != nil {
 		return nil, err
 	}
@@ -398,7 +398,7 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 	}
 	f := &calibrationFile{}
 	cs[path] = f
-	data, err := readSmallFile(path)
+	data, err := readBounded(path, "calibration file") // a device or a huge file fails cleanly
 	if err != nil {
 		f.err = err
 		return nil, err
@@ -422,37 +422,13 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 	return c, nil
 }
 
-// maxCalibrationSize bounds a calibration file; the files plica writes are
-// about 1.5 kB.
-const maxCalibrationSize = 1 << 20
-
-// readSmallFile reads a regular file of at most maxCalibrationSize bytes,
-// so that a design naming a device or a huge file fails cleanly.
-func readSmallFile(path string) ([]byte, error) {
-	fi, err := os.Stat(path)
-	if err != nil {
-		return nil, errors.Unwrap(err)
-	}
-	if !fi.Mode().IsRegular() {
-		return nil, fmt.Errorf("not a regular file")
-	}
-	if fi.Size() > maxCalibrationSize {
-		return nil, fmt.Errorf("%d bytes is too large for a calibration file", fi.Size())
-	}
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, errors.Unwrap(err)
-	}
-	return data, nil
-}
-
 // CalibrationFiles lists the calibration files a design or problem file
 // names with calibration_file, as written (relative to the file) and in
 // file order without repeats; a syntax error is returned as *Error. A run
 // folder that keeps a copy of the file must keep these beside it, at the
 // same relative paths, for the copy to load.
 func CalibrationFiles(data []byte, file string) ([]string, error) {
-	_, root, err := decode(data, file)
+	_, root, err := decode(data, file, "TOML file")
 	if err != nil {
 		return nil, err
 	}

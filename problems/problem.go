@@ -1,10 +1,8 @@
 package problems
 
 import (
-	"errors"
 	"fmt"
 	"math"
-	"os"
 	"sort"
 	"strings"
 	"time"
@@ -157,9 +155,9 @@ type Spec struct {
 
 // LoadProblem reads and checks a problem file.
 func LoadProblem(path string) (*Spec, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "problem file")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseProblem(data, path)
 }
@@ -167,7 +165,7 @@ func LoadProblem(path string) (*Spec, error) {
 // ParseProblem decodes a problem file. Every problem found is reported at
 // once, each with file:line:col, key and what was expected.
 func ParseProblem(data []byte, file string) (*Spec, error) {
-	r, root, err := decode(data, file)
+	r, root, err := decode(data, file, "problem file")
 	if err != nil {
 		return nil, err
 	}
