@@ -10,6 +10,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/BurntSushi/toml"
+
 	"plica/objective"
 	"plica/surrogate"
 )
@@ -343,9 +345,17 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 	if !filepath.IsAbs(path) {
 		path = filepath.Join(filepath.Dir(t.r.file), rel)
 	}
+	if sameFile(path, t.r.file) {
+		t.r.errorf(t.key(k), "%s names this file itself (expected a calibration file written by plica calibrate -o, path relative to this file)", strconv.Quote(rel))
+		return
+	}
 	c, err := t.r.cals.read(path)
 	if err != nil {
 		var ce *calibrationError
+		if errors.As(err, &ce) && ce.design {
+			t.r.errorf(t.key(k), "%s is a design or problem file, not a calibration file (expected a calibration file written by plica calibrate -o)", strconv.Quote(rel))
+			return
+		}
 		if errors.As(err, &ce) {
 			t.r.errs = append(t.r.errs, ce.errs...)
 			t.r.errorf(t.key(k), "%s is not a valid calibration file (see its errors)", strconv.Quote(path))
@@ -376,7 +386,30 @@ type calibrationFile struct {
 
 // calibrationError is a calibration file that was read but is not valid;
 // its problems carry the calibration file's own positions.
-type calibrationError struct{ errs Errors }
+type calibrationError struct {
+	errs   Errors
+	design bool // the file has [[bellows]] tables: a design or problem file
+}
+
+// sameFile reports whether two paths name one file.
+func sameFile(a, b string) bool {
+	if filepath.Clean(a) == filepath.Clean(b) {
+		return true
+	}
+	fa, errA := os.Stat(a)
+	fb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(fa, fb)
+}
+
+// hasBellowsTables reports whether TOML text has [[bellows]] tables.
+func hasBellowsTables(data []byte) bool {
+	var top map[string]any
+	if _, err := toml.Decode(string(data), &top); err != nil {
+		return false
+	}
+	_, ok := top["bellows"].([]map[string]any)
+	return ok
+}
 
 func (e *calibrationError) Error() string { return e.errs.Error() }
 
@@ -410,9 +443,9 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 		var e *Error
 		switch {
 		case errors.As(err, &es):
-			f.err = &calibrationError{es}
+			f.err = &calibrationError{es, hasBellowsTables(data)}
 		case errors.As(err, &e):
-			f.err = &calibrationError{Errors{e}}
+			f.err = &calibrationError{Errors{e}, false} // not decoded: too large, too deep or a syntax error
 		default:
 			f.err = err
 		}
