@@ -151,7 +151,7 @@ func utf16Name(data []byte) string {
 func tooDeep(data []byte) (line, col int, key string, ok bool) {
 	type level struct {
 		inline bool // an inline table: its entries start with a key
-		depth  int
+		depth  int  // of the table itself; of the elements of an array
 	}
 	var stack []level
 	line, col = 1, 0
@@ -270,12 +270,17 @@ func tooDeep(data []byte) (line, col int, key string, ok bool) {
 				return line, col + 1, stmtKey, false
 			}
 		case !keyMode && (c == '{' || c == '['):
-			d := depth() + 1 + keyDots
-			if len(stack) == 0 || !stack[len(stack)-1].inline {
-				d = depth() + 1
-			}
-			if len(stack) == 0 {
+			var d int // the level of this table or array
+			switch {
+			case len(stack) == 0:
 				d = base + 1 + keyDots
+			case stack[len(stack)-1].inline:
+				d = depth() + 1 + keyDots
+			default:
+				d = depth() // an element of an array
+			}
+			if c == '[' {
+				d++ // the level of its elements
 			}
 			if d > MaxDepth {
 				return line, col + 1, stmtKey, false
