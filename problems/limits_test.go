@@ -138,7 +138,7 @@ func TestSyntaxMessages(t *testing.T) {
 	for in, want := range map[string]string{
 		"Key 'a.b' has already been defined.": "key a.b is defined twice (expected each key once in a table)",
 		"not a hexadecimal number: '0x\n'":    `not a hexadecimal number: '0x\n' (expected a number such as 12, -0.5 or 1e-3)`,
-		"expected value but found '\\n'":       `expected value but found '\n'`,
+		"expected value but found '\\n'":      `expected value but found '\n'`,
 		"something new":                       "something new (expected TOML: key = value lines, [table] and [[array of tables]] headers, # comments)",
 		"unexpected comma":                    "unexpected comma (expected a value or key between commas)",
 	} {
