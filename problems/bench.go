@@ -7,7 +7,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 
@@ -59,9 +58,9 @@ type Bench struct {
 
 // LoadBench reads and checks a bench CSV file.
 func LoadBench(path string) (*Bench, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "bench CSV")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseBench(data, path)
 }
@@ -86,7 +85,16 @@ func LoadBench(path string) (*Bench, error) {
 // field; the character column for CSV syntax errors) and the column name as
 // key.
 func ParseBench(data []byte, file string) (*Bench, error) {
+	if err := checkSize(data, file, "bench CSV"); err != nil {
+		return nil, err
+	}
+	if enc := utf16Name(data); enc != "" {
+		return nil, &Error{File: file, Line: 1, Col: 1, Msg: fmt.Sprintf("the file is %s encoded (expected UTF-8 or ASCII text; export the CSV as UTF-8)", enc)}
+	}
 	data = bytes.TrimPrefix(data, []byte("\uFEFF"))
+	if line, ok := tabSeparated(data); ok {
+		return nil, &Error{File: file, Line: line, Col: 1, Msg: "the header is separated by tabs (expected comma-separated columns, or semicolons; export the table as CSV)"}
+	}
 	cr := csv.NewReader(bytes.NewReader(data))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -153,6 +161,20 @@ func sniffComma(data []byte) rune {
 		return ','
 	}
 	return ','
+}
+
+// tabSeparated reports whether the header (the first line that is not a
+// comment or blank) holds tabs and neither commas nor semicolons: a
+// tab-separated export, whose header would read as one unknown column.
+func tabSeparated(data []byte) (int, bool) {
+	for i, line := range strings.Split(string(data), "\n") {
+		t := strings.TrimSpace(line)
+		if t == "" || strings.HasPrefix(t, "#") {
+			continue
+		}
+		return i + 1, strings.Contains(t, "\t") && !strings.ContainsAny(t, ",;")
+	}
+	return 0, false
 }
 
 func blankRecord(rec []string) bool {

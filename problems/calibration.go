@@ -10,6 +10,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/BurntSushi/toml"
+
 	"plica/objective"
 	"plica/surrogate"
 )
@@ -156,9 +158,9 @@ func tomlQuote(s string) string {
 
 // LoadCalibration reads and checks a calibration file.
 func LoadCalibration(path string) (*Calibration, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "calibration file")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseCalibration(data, path)
 }
@@ -170,7 +172,7 @@ func LoadCalibration(path string) (*Calibration, error) {
 // six written digits). Every problem is reported with file:line:col and
 // key.
 func ParseCalibration(data []byte, file string) (*Calibration, error) {
-	r, root, err := decode(data, file)
+	r, root, err := decode(data, file, "calibration file")
 	if err != nil {
 		return nil, err
 	}
@@ -303,9 +305,17 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 	if !filepath.IsAbs(path) {
 		path = filepath.Join(filepath.Dir(t.r.file), rel)
 	}
+	if sameFile(path, t.r.file) {
+		t.r.errorf(t.key(k), "%s names this file itself (expected a calibration file written by plica calibrate -o, path relative to this file)", strconv.Quote(rel))
+		return
+	}
 	c, err := t.r.cals.read(path)
 	if err != nil {
 		var ce *calibrationError
+		if errors.As(err, &ce) && ce.design {
+			t.r.errorf(t.key(k), "%s is a design or problem file, not a calibration file (expected a calibration file written by plica calibrate -o)", strconv.Quote(rel))
+			return
+		}
 		if errors.As(err, &ce) {
 			t.r.errs = append(t.r.errs, ce.errs...)
 			t.r.errorf(t.key(k), "%s is not a valid calibration file (see its errors)", strconv.Quote(path))
@@ -336,7 +346,30 @@ type calibrationFile struct {
 
 // calibrationError is a calibration file that was read but is not valid;
 // its problems carry the calibration file's own positions.
-type calibrationError struct{ errs Errors }
+type calibrationError struct {
+	errs   Errors
+	design bool // the file has [[bellows]] tables: a design or problem file
+}
+
+// sameFile reports whether two paths name one file.
+func sameFile(a, b string) bool {
+	if filepath.Clean(a) == filepath.Clean(b) {
+		return true
+	}
+	fa, errA := os.Stat(a)
+	fb, errB := os.Stat(b)
+	return errA == nil && errB == nil && os.SameFile(fa, fb)
+}
+
+// hasBellowsTables reports whether TOML text has [[bellows]] tables.
+func hasBellowsTables(data []byte) bool {
+	var top map[string]any
+	if _, err := toml.Decode(string(data), &top); err != nil {
+		return false
+	}
+	_, ok := top["bellows"].([]map[string]any)
+	return ok
+}
 
 func (e *calibrationError) Error() string { return e.errs.Error() }
 
@@ -358,7 +391,7 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 	}
 	f := &calibrationFile{}
 	cs[path] = f
-	data, err := readSmallFile(path)
+	data, err := readBounded(path, "calibration file") // a device or a huge file fails cleanly
 	if err != nil {
 		f.err = err
 		return nil, err
@@ -370,9 +403,9 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 		var e *Error
 		switch {
 		case errors.As(err, &es):
-			f.err = &calibrationError{es}
+			f.err = &calibrationError{es, hasBellowsTables(data)}
 		case errors.As(err, &e):
-			f.err = &calibrationError{Errors{e}}
+			f.err = &calibrationError{Errors{e}, false} // not decoded: too large, too deep or a syntax error
 		default:
 			f.err = err
 		}
@@ -382,37 +415,13 @@ func (cs calibrations) read(path string) (*Calibration, error) {
 	return c, nil
 }
 
-// maxCalibrationSize bounds a calibration file; the files plica writes are
-// about 1.5 kB.
-const maxCalibrationSize = 1 << 20
-
-// readSmallFile reads a regular file of at most maxCalibrationSize bytes,
-// so that a design naming a device or a huge file fails cleanly.
-func readSmallFile(path string) ([]byte, error) {
-	fi, err := os.Stat(path)
-	if err != nil {
-		return nil, errors.Unwrap(err)
-	}
-	if !fi.Mode().IsRegular() {
-		return nil, fmt.Errorf("not a regular file")
-	}
-	if fi.Size() > maxCalibrationSize {
-		return nil, fmt.Errorf("%d bytes is too large for a calibration file", fi.Size())
-	}
-	data, err := os.ReadFile(path)
-	if err != nil {
-		return nil, errors.Unwrap(err)
-	}
-	return data, nil
-}
-
 // CalibrationFiles lists the calibration files a design or problem file
 // names with calibration_file, as written (relative to the file) and in
 // file order without repeats; a syntax error is returned as *Error. A run
 // folder that keeps a copy of the file must keep these beside it, at the
 // same relative paths, for the copy to load.
 func CalibrationFiles(data []byte, file string) ([]string, error) {
-	_, root, err := decode(data, file)
+	_, root, err := decode(data, file, "TOML file")
 	if err != nil {
 		return nil, err
 	}

@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"os"
 	"sort"
 	"strings"
 
@@ -39,9 +38,9 @@ var (
 
 // LoadDesign reads and checks a design file.
 func LoadDesign(path string) (*objective.Design, *objective.Scenario, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "design file")
 	if err != nil {
-		return nil, nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, nil, err
 	}
 	return ParseDesign(data, path)
 }
@@ -50,7 +49,7 @@ func LoadDesign(path string) (*objective.Design, *objective.Scenario, error) {
 // types: the design and the scenario it is checked in. Every problem found
 // is reported, each with file:line:col and key.
 func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenario, error) {
-	r, root, err := decode(data, file)
+	r, root, err := decode(data, file, "design file")
 	if err != nil {
 		return nil, nil, err
 	}
@@ -89,16 +88,21 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 	return d, &sc, nil
 }
 
-// decode parses TOML text; a syntax error becomes one *Error.
-func decode(data []byte, file string) (*reader, *table, error) {
+// decode parses TOML text after checking its size and depth (kind names
+// the file in those messages); a syntax error becomes one *Error that says
+// what was expected.
+func decode(data []byte, file, kind string) (*reader, *table, error) {
+	if err := checkTOMLBounds(data, file, kind); err != nil {
+		return nil, nil, err
+	}
 	var m map[string]any
 	if _, err := toml.Decode(string(data), &m); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
 			return nil, nil, &Error{File: file, Line: pe.Position.Line, Col: pe.Position.Col, Key: pe.LastKey,
-				Msg: "syntax error: " + pe.Message}
+				Msg: "syntax error: " + syntaxMessage(pe.Message)}
 		}
-		return nil, nil, &Error{File: file, Msg: "syntax error: " + err.Error()}
+		return nil, nil, &Error{File: file, Msg: "syntax error: " + syntaxMessage(err.Error())}
 	}
 	r := &reader{file: file, loc: newLocator(string(data)), cals: calibrations{}}
 	return r, r.root(m), nil

@@ -1,6 +1,7 @@
 package problems
 
 import (
+	"bytes"
 	"errors"
 	"math"
 	"os"
@@ -16,7 +17,7 @@ import (
 // seedCorpus adds every TOML file of the shipped examples and the bad-input
 // corpus.
 func seedCorpus(f *testing.F) {
-	for _, pattern := range []string{"examples/*.toml", "testdata/design-errors/*.toml", "testdata/problem-errors/*.toml"} {
+	for _, pattern := range []string{"examples/*.toml", "starter.toml", "testdata/design-errors/*.toml", "testdata/problem-errors/*.toml"} {
 		files, _ := filepath.Glob(pattern)
 		for _, name := range files {
 			b, err := os.ReadFile(name)
@@ -183,6 +184,49 @@ func FuzzEvaluate(f *testing.F) {
 			if v != v || v > 1e300 || v < -1e300 {
 				t.Fatalf("output %d is %g at x = %v without a failure reason", i, v, x)
 			}
+		}
+	})
+}
+
+// FuzzParseCalibration: the calibration parser never panics; a failure is
+// a positioned input error inside the input, one line per problem; a file
+// it accepts is written back by Format into text that parses again to the
+// same text (the writer and the reader agree).
+func FuzzParseCalibration(f *testing.F) {
+	for _, pattern := range []string{"testdata/calibration/*.toml", "testdata/design-errors/*.toml"} {
+		files, _ := filepath.Glob(pattern)
+		for _, name := range files {
+			if b, err := os.ReadFile(name); err == nil {
+				f.Add(b)
+			}
+		}
+	}
+	f.Add([]byte("material = \"petg\"\nbellows = " + strings.Repeat("[", 40) + strings.Repeat("]", 40) + "\n"))
+	f.Fuzz(func(t *testing.T, data []byte) {
+		c, err := ParseCalibration(data, "fuzz.toml")
+		if err != nil {
+			checkParseError(t, data, err)
+			if !IsInputError(err) {
+				t.Fatalf("not an input error: %T %v", err, err)
+			}
+			for _, line := range strings.Split(err.Error(), "\n") {
+				if !strings.HasPrefix(line, "fuzz.toml") {
+					t.Fatalf("a line that does not name the file: %q", line)
+				}
+			}
+			return
+		}
+		text := c.Format()
+		c2, err := ParseCalibration(text, "fuzz.toml")
+		if err != nil {
+			t.Fatalf("the written calibration does not parse: %v\n%s", err, text)
+		}
+		if again := c2.Format(); !bytes.Equal(again, text) {
+			t.Fatalf("written, read and written again differs:\n%s\n---\n%s", text, again)
+		}
+		if c2.Material != c.Material || c2.Printer != c.Printer || c2.BenchFile != c.BenchFile || c2.DesignFile != c.DesignFile ||
+			c2.Bellows != c.Bellows || c2.Profile != c.Profile || c2.Fidelity != c.Fidelity || c2.Points != c.Points || c2.Model != c.Model {
+			t.Fatalf("the round trip changed a field: %+v vs %+v", c, c2)
 		}
 	})
 }

@@ -1,10 +1,8 @@
 package problems
 
 import (
-	"errors"
 	"fmt"
 	"math"
-	"os"
 	"sort"
 	"strings"
 	"time"
@@ -51,7 +49,7 @@ const (
 func (k numericKey) check(x float64) (string, bool) {
 	switch {
 	case math.IsNaN(x) || math.IsInf(x, 0):
-		return fmt.Sprintf("non-finite value %v (expected %s)", x, k.what), false
+		return fmt.Sprintf("%s is not a finite number (expected %s)", nonFiniteName(x), k.what), false
 	case k.sign == positiveValue && x <= 0:
 		return fmt.Sprintf("%s is out of range (expected %s, > 0)", fmtNum(x), k.what), false
 	case k.sign == nonNegativeValue && x < 0:
@@ -157,9 +155,9 @@ type Spec struct {
 
 // LoadProblem reads and checks a problem file.
 func LoadProblem(path string) (*Spec, error) {
-	data, err := os.ReadFile(path)
+	data, err := readInput(path, "problem file")
 	if err != nil {
-		return nil, &Error{File: path, Msg: fmt.Sprintf("cannot read: %v", errors.Unwrap(err))}
+		return nil, err
 	}
 	return ParseProblem(data, path)
 }
@@ -167,7 +165,7 @@ func LoadProblem(path string) (*Spec, error) {
 // ParseProblem decodes a problem file. Every problem found is reported at
 // once, each with file:line:col, key and what was expected.
 func ParseProblem(data []byte, file string) (*Spec, error) {
-	r, root, err := decode(data, file)
+	r, root, err := decode(data, file, "problem file")
 	if err != nil {
 		return nil, err
 	}
@@ -197,7 +195,7 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 			lo, hi = append(lo, v.Lower), append(hi, v.Upper)
 		}
 	}
-	var tmpl *objective.Design
+	var tmpl, top *objective.Design
 	var sc *objective.Scenario
 	var materials map[string]surrogate.Material
 	for pass, x := range [][]float64{lo, hi} {
@@ -215,7 +213,12 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 		}
 		if pass == 0 {
 			tmpl, sc, materials = d, &scn, ms
+		} else {
+			top = d
 		}
+	}
+	if len(r.errs) == 0 {
+		checkNesting(r, tmpl, top, sc.Workspace.Insertion)
 	}
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
@@ -257,12 +260,31 @@ func (s *Spec) readObjectives(root *table) {
 		var goal Goal
 		t.enum("goal", &goal, goalNames)
 		o.Maximize = goal == Maximize
+		for j, prev := range s.Objectives {
+			if ok && prev.Score == name {
+				var how string
+				if prev.Maximize != o.Maximize {
+					how = fmt.Sprintf("%s is %s in objective[%d] and %s here", name, goalWord(prev.Maximize), j+1, goalWord(o.Maximize))
+				} else {
+					how = fmt.Sprintf("%s is already %s in objective[%d]", name, goalWord(prev.Maximize), j+1)
+				}
+				t.r.errorf(t.key("score"), "%s (expected each score in one [[objective]] only)", how)
+				break
+			}
+		}
 		t.finish(objectiveKeys)
 		s.Objectives = append(s.Objectives, o)
 	}
 	if len(s.Objectives) == 0 && !root.has("objective") {
 		root.r.errorf("objective", "no objectives (expected at least one [[objective]] table with score = one of: %s)", strings.Join(objective.ScoreNames(), "|"))
 	}
+}
+
+func goalWord(maximize bool) string {
+	if maximize {
+		return "maximized"
+	}
+	return "minimized"
 }
 
 func unknownScore(name string) string {
@@ -335,14 +357,23 @@ func (s *Spec) readSearch(t *table) {
 		if !ok || !isArr || len(arr) != len(s.Objectives) {
 			t.r.errorf(t.key("weights"), "found %s (expected one weight per objective, %d numbers >= 0)", describe(v), len(s.Objectives))
 		} else {
+			sum, bad := 0.0, false
 			for i, e := range arr {
 				x, ok := asFloat(e)
 				if !ok || x < 0 || math.IsNaN(x) || math.IsInf(x, 0) {
 					t.r.errorf(t.key("weights"), "element %d is %s (expected a weight >= 0)", i+1, describe(e))
+					bad = true
 				}
+				sum += x
 				st.Weights = append(st.Weights, x)
 			}
+			if !bad && len(arr) > 0 && sum == 0 {
+				t.r.errorf(t.key("weights"), "every weight is 0 (expected at least one weight > 0)")
+			}
 		}
+	}
+	if st.Method == GA && !t.has("weights") {
+		t.r.errorf(t.key("method"), "\"ga\" optimizes one weighted sum of the objectives but [search] gives no weights (expected weights = [...], one number >= 0 per objective, %d here; or method = \"nsga2\")", len(s.Objectives))
 	}
 	t.finish(searchKeys)
 }
@@ -369,8 +400,15 @@ func (s *Spec) findVariables(r *reader, root *table) {
 				lo, ok1 := finiteNumber(arr, 0)
 				hi, ok2 := finiteNumber(arr, 1)
 				switch {
-				case len(arr) != 2 || !ok1 || !ok2:
-					r.errorf(path+"."+k, "found %s (expected a number or a range [lo, hi] in %s)", describe(arr), unitOr(unit))
+				case len(arr) != 2:
+					r.errorf(path+"."+k, "found an array of %d values (expected a number or a range [lo, hi] in %s)", len(arr), unitOr(unit))
+					continue
+				case !ok1 || !ok2:
+					bad := 0
+					if ok1 {
+						bad = 1
+					}
+					r.errorf(path+"."+k, "element %d of the range %s (expected a range [lo, hi] of finite numbers in %s)", bad+1, notFinite(arr[bad]), unitOr(unit))
 					continue
 				case lo > hi:
 					r.errorf(path+"."+k, "range [%s, %s] has lo > hi (expected lo <= hi)", fmtNum(lo), fmtNum(hi))

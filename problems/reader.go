@@ -73,6 +73,28 @@ func describe(v any) string {
 	return fmt.Sprintf("%T", v)
 }
 
+// notFinite says why an array element is not a finite number: "is nan,
+// not a finite number", "is string "x", not a number".
+func notFinite(v any) string {
+	if x, ok := asFloat(v); ok {
+		return fmt.Sprintf("is %s, not a finite number", nonFiniteName(x))
+	}
+	return fmt.Sprintf("is %s, not a number", describe(v))
+}
+
+// nonFiniteName writes nan, inf and -inf as TOML does, other numbers as fmtNum.
+func nonFiniteName(x float64) string {
+	switch {
+	case math.IsNaN(x):
+		return "nan"
+	case math.IsInf(x, 1):
+		return "inf"
+	case math.IsInf(x, -1):
+		return "-inf"
+	}
+	return fmtNum(x)
+}
+
 func asFloat(v any) (float64, bool) {
 	switch x := v.(type) {
 	case int64:
@@ -104,7 +126,7 @@ func (t *table) number(k, what string, required bool) (float64, bool) {
 		return 0, false
 	}
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		t.r.errorf(t.key(k), "non-finite value %v (expected %s)", x, what)
+		t.r.errorf(t.key(k), "%s is not a finite number (expected %s)", nonFiniteName(x), what)
 		return 0, false
 	}
 	return x, true
@@ -143,11 +165,11 @@ func (t *table) numbers(k string, n int, what string, required bool) ([]float64,
 	}
 	out := make([]float64, n)
 	for i, e := range arr {
-		x, ok := asFloat(e)
-		if !ok || math.IsNaN(x) || math.IsInf(x, 0) {
-			t.r.errorf(t.key(k), "element %d is %s (expected %s)", i+1, describe(e), what)
+		if _, ok := finiteNumber(arr, i); !ok {
+			t.r.errorf(t.key(k), "element %d %s (expected %s)", i+1, notFinite(e), what)
 			return nil, false
 		}
+		x, _ := asFloat(e)
 		out[i] = x
 	}
 	return out, true

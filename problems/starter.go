@@ -2,9 +2,10 @@ package problems
 
 import _ "embed"
 
-// starter is the demo problem, shipped as the starting point of plica init.
+// starter is the commented starter problem that plica init writes: every
+// table of a problem file explained, with sensible ranges.
 //
-//go:embed examples/boom-search.toml
+//go:embed starter.toml
 var starter []byte
 
 // Starter returns the text of a commented starter problem file.
