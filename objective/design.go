@@ -2,6 +2,12 @@
 // designer decides on. It knows nothing of files: the problems package
 // builds a Design from a file, in SI units.
 //
+// Evaluate scores a Design in a Scenario: the stiffness of each bellows
+// (package surrogate, or a measured calibration), the shapes over the
+// sampled actuation space (objective/kinematics), the sag under payload and
+// gravity (objective/statics), wall strain and margins, and the checks
+// (CheckNames) that a search uses as constraints.
+//
 // All quantities are SI: metres, radians, newtons, N·m², kg/m.
 package objective
 

@@ -13,6 +13,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/surrogate"
 )
 
 // TestBenchErrorsGolden checks the exact messages for every malformed bench
@@ -86,7 +88,8 @@ func TestBenchUnits(t *testing.T) {
 }
 
 // TestBenchFitVector98 runs the surrogate/REFERENCE.md §5.4 vector (surrogate/REFERENCE.md §5.4, derived from
-// §4.2) through the file reader and the fit: EI = 41 084.6 N·mm² with
+// §4.2) through the file reader and the fit: the same EI as package surrogate's calibration
+// verification case, which fits the vector written in code and holds the published value, with
 // 95 % interval [40 387, 41 807] N·mm².
 func TestBenchFitVector98(t *testing.T) {
 	b, err := LoadBench("testdata/bench/vector98.csv")
@@ -94,7 +97,16 @@ func TestBenchFitVector98(t *testing.T) {
 	f, err := b.Fit(0, TermAuto, TermAuto)
 	require.NoError(t, err)
 	assert.Equal(t, "through origin", f.Model(), "zeroed gauge, one length")
-	assert.InEpsilon(t, 41084.6, f.Fit.EI*1e6, 1e-5, "EI, N·mm² (surrogate/REFERENCE.md §5.4)")
+	var fromCode []float64
+	for _, c := range surrogate.VerificationCases() {
+		if c.Area == "calibration" {
+			ei, err := c.Compute()
+			require.NoError(t, err, c.Name)
+			fromCode = append(fromCode, ei)
+		}
+	}
+	require.Len(t, fromCode, 1, "one calibration case in surrogate.VerificationCases")
+	assert.InEpsilon(t, fromCode[0], f.Fit.EI*1e6, 1e-12, "EI, N·mm², read from the file and from the code")
 	assert.InEpsilon(t, 40387, f.Fit.CI[0]*1e6, 1e-4, "interval low (surrogate/REFERENCE.md §5.4)")
 	assert.InEpsilon(t, 41807, f.Fit.CI[1]*1e6, 1e-4, "interval high (surrogate/REFERENCE.md §5.4)")
 	assert.Equal(t, []string{"100 mm"}, f.Setups)

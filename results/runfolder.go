@@ -2,14 +2,14 @@
 // evaluation archive, the front as CSV and as design files, checkpoints and
 // run.json. Execute runs a search into a folder with a progress bar; Merge
 // joins island runs, Compare measures fronts against each other and Pick
-// chooses designs of a front. Every file is written through WriteAtomic.
-// The report and its figures are package results/report, the built-in
-// verification cases package results/verify.
+// chooses designs of a front. Every file is written through WriteAtomic (or
+// WriteAtomicStream). The report and its figures are package results/report;
+// package results/verify runs the verification cases of plica verify.
 //
 // A run folder holds:
 //
 //	run.json           seed, plica version, problem hash, method, status, counts, variables, objectives, constraints
-//	problem.toml       the problem file as given
+//	problem.toml       the problem file, its calibration files pointing into calibration/
 //	evaluations.csv    every evaluation, appended and flushed generation by generation
 //	history.csv        counters and archive hypervolume after every generation
 //	front.csv          the final front: variables, objectives, every score and check

@@ -33,7 +33,6 @@
 //
 // The final front is an external archive: the feasible, mutually non-dominated designs seen so far,
 // bounded in size by removing, one at a time, the design with the smallest crowding distance
-// (Deb et al. 2002, Sec. III-B) among the archive members. Hypervolume computes the exact dominated
-// volume (2-D sweep, 3-D slicing, and the WFG recursion of While, Bradstreet and Barone, IEEE
-// Trans. Evol. Comput. 16(1):86–95, 2012, for four objectives or more).
+// (Deb et al. 2002, Sec. III-B) among the archive members. Dominance, the exact hypervolume of the
+// archive and the indicators that compare fronts are package search/front.
 package search

@@ -88,7 +88,8 @@ func TestNSGA2ReferenceProblems(t *testing.T) {
 		lo, hi  float64
 		near    float64
 	}{
-		{"ZDT1", ZDT1(30), []float64{1, 1}, 2.0 / 3, 0.01, zdt1, 0, 1, 0.01},
+		// hypervolume and tolerance of verifyZDT1 (verification.go)
+		{"ZDT1", ZDT1(30), []float64{1, 1}, verifyZDT1.Published, verifyZDT1.Tolerance, zdt1, 0, 1, 0.01},
 		{"BNH", BNH(), []float64{140, 50}, 15856.0 / 3, 0.005, bnhFront, 0, 136, 0.01},
 		{"CONSTR", CONSTR(), []float64{1, 9}, 8 - 7*math.Log(12.0/7) - math.Log(1.5), 0.005, constrFront, 7.0 / 18, 1, 0.01},
 	}

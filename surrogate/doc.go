@@ -25,7 +25,10 @@
 //     (milliseconds).
 //
 // The wall models of one convolution live in package convolution, the
-// shell finite elements in package shell.
+// shell finite elements in package shell; package solid is a solid model of
+// one convolution through the wall and package fecheck a cross-check with
+// CalculiX. FitCantilever and CalibrationFactor fit bench measurements
+// (surrogate/REFERENCE.md §4).
 //
 // The beam analogy (EA, EI tensor with an optional axial spine, GJ by the
 // membrane formula, helical correction) follows the project's physics

@@ -35,7 +35,7 @@ func TestEJMAWorkedExampleS1(t *testing.T) {
 		name      string
 		got, want float64
 	}{
-		{"f_iu SI", fiu, 4.02982e6},
+		// f_iu in SI is verifyEJMA of verification.go.
 		{"K_x SI", kx, 6.71636e5},
 		{"S5 SI", s5, 2.1178e6},
 		{"S6 SI", s6, 264.66e6},

@@ -29,11 +29,11 @@ func plainIz(g Geometry, perSeg int) float64 {
 	return b2 - b1*b1/b0
 }
 
-// TestUCfStripClosedForm checks Cf_strip(0) = 1 and the closed-form
+// TestUCfStripClosedForm checks Cf_strip(1) = 3π/4 (Cf_strip(0) = 1 is verifyStripFlat of
+// verification.go) and the closed-form
 // I_z = (4/3)a³ + 2π rm a² + 8 a rm² + π rm³ (surrogate/REFERENCE.md §2.1, derived)
 // against the numerical r ≈ Rm integral over the meridian.
 func TestUCfStripClosedForm(t *testing.T) {
-	assert.Equal(t, 1.0, UCfStrip(0), "Cf_strip(0)")
 	// Semicircular crown and root alone (C1 = 1): I_z = π rm³, Cf = 3π/4.
 	assert.InEpsilon(t, 0.75*math.Pi, UCfStrip(1), 1e-15, "Cf_strip(1)")
 	for _, c1 := range []float64{0.1, 0.3, 0.5, 0.8, 1.0} {

@@ -81,7 +81,8 @@ func TestTipSEG1(t *testing.T) {
 		p     [3]float64
 		bend  float64 // tip R = R_y(bend)
 	}{
-		{"aligned", []float64{0, 0}, [3]float64{0.0541691566, 0, 0.1830027953}, 1.0},
+		// p_x aligned is verifySEG1 of verification.go.
+		{"aligned", []float64{0, 0}, [3]float64{verifySEG1.Published, 0, 0.1830027953}, 1.0},
 		{"opposed", []float64{0, math.Pi}, [3]float64{-0.0083332086, 0, 0.1983850843}, 1.0 / 3},
 	}
 	for _, tc := range cases {

@@ -149,16 +149,16 @@ func TestEffectiveTwistCoefficientAnisotropic(t *testing.T) {
 }
 
 // ST-1 and ST-2 (objective/kinematics/REFERENCE.md §5.5, derived from (4.3)): c = 130 /m²,
-// √c = 11.4017543, L_crit = π/(2√c) = 0.13776795 m; with β_eff = 0.05 m,
-// L_crit = 0.09232453 m. The table gives eight decimals: 1e-8 absolute.
+// √c = 11.4017543, L_crit = π/(2√c) without transmission (verifyST1 of verification.go) and the
+// root of (4.3) with β_eff = 0.05 m (verifyST2). The table gives eight decimals: 1e-8 absolute.
 func TestCriticalLengthST1ST2(t *testing.T) {
 	assert.InDelta(t, 11.4017543, math.Sqrt(130), 1e-7, "√c")
 	rows := []struct {
 		name       string
 		beta, want float64
 	}{
-		{"ST-1 no transmission", 0, 0.13776795},
-		{"ST-2 β_eff = 0.05 m", 0.05, 0.09232453},
+		{"ST-1 no transmission", 0, verifyST1.Published},
+		{"ST-2 β_eff = 0.05 m", 0.05, verifyST2.Published},
 	}
 	for _, row := range rows {
 		lc := CriticalLength(130, row.beta)
@@ -191,10 +191,10 @@ func TestTwoTubeStabilityST1ST2(t *testing.T) {
 		beta  float64
 		lcrit float64
 	}{
-		{"ST-1", [2]float64{0, 0}, 0, 0.13776795},
+		{"ST-1", [2]float64{0, 0}, 0, verifyST1.Published},
 		// Equal transmission lengths give β_eff = ℓ for any GJ (4.2).
-		{"ST-2", [2]float64{0.05, 0.05}, 0.05, 0.09232453},
-		{"ST-2 from unequal lengths", [2]float64{0.05 * (1 + GJ1/GJ2), 0}, 0.05, 0.09232453},
+		{"ST-2", [2]float64{0.05, 0.05}, 0.05, verifyST2.Published},
+		{"ST-2 from unequal lengths", [2]float64{0.05 * (1 + GJ1/GJ2), 0}, 0.05, verifyST2.Published},
 	} {
 		for _, frac := range []float64{0.97, 1.03} {
 			t.Run(fmt.Sprintf("%s/L=%.2fLcrit", row.name, frac), func(t *testing.T) {

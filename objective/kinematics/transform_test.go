@@ -59,14 +59,7 @@ func TestLinkTransformCheckValues(t *testing.T) {
 			want: Pose{R: [3][3]float64{{1, 0, 0}, {0, 0, -1}, {0, 1, 0}}, P: [3]float64{0, -0.1, 0.1}},
 			tol:  closedFormTol,
 		},
-		{
-			// CC-5: objective/kinematics/REFERENCE.md §5.2, derived: a full circle returns to the identity
-			// to 1e-15.
-			name: "CC-5 full circle",
-			u:    [3]float64{0, 10, 0}, s: 2 * math.Pi / 10,
-			want: Identity(),
-			tol:  withinAbs(1e-15),
-		},
+		// CC-5 (a full circle returns to the identity to 1e-15) is verifyCC5 in verification.go.
 		{
 			// CC-4 third row: objective/kinematics/REFERENCE.md §5.2, derived: u = 0 is a straight segment.
 			name: "CC-4 u=0",
@@ -116,7 +109,8 @@ func TestLinkTransformNearZeroCurvature(t *testing.T) {
 	}{
 		// p_z = 0.1 − 1.6667e-16 (objective/kinematics/REFERENCE.md §5.2: "0.1 − 1.7e-16"); the tolerance is
 		// one ulp of 0.1 (1.4e-17), so the k² s³/6 term must be there.
-		{name: "k=1e-6", k: 1e-6, s: 0.1, wantX: 5.000000000e-9, wantZ: 0.1 - 1e-12*1e-3/6, zTol: 1.4e-17, naiveFail: true},
+		// p_x is verifyCC4 of verification.go.
+		{name: "k=1e-6", k: 1e-6, s: 0.1, wantX: verifyCC4.Published, wantZ: 0.1 - 1e-12*1e-3/6, zTol: 1.4e-17, naiveFail: true},
 		{name: "k=1e-9", k: 1e-9, s: 0.1, wantX: 5e-12, wantZ: 0.1, zTol: 1.4e-17, naiveFail: true},
 	}
 	for _, tc := range cases {
