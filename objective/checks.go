@@ -166,10 +166,10 @@ func (e *evaluator) printability(res *Result, add func(string, float64, float64,
 func (e *evaluator) models(res *Result) {
 	var src []string
 	for _, s := range e.st {
-		src = append(src, s.Source)
+		src = append(src, s.Source.String())
 	}
 	res.Models = []string{
-		"stiffness per bellows: " + strings.Join(src, ", ") + " (surrogate fidelity " + fidelityName(e.d.Fidelity) + ")",
+		"stiffness per bellows: " + strings.Join(src, ", ") + " (surrogate fidelity " + e.d.Fidelity.String() + ")",
 		"shape: torsionally rigid nested tubes, constant-curvature links",
 		fmt.Sprintf("tip sag: geometrically exact rod statics (RK4, Newton shooting, %d iterations), worst case found with the linear compliance over %d x %d samples",
 			res.Scores.SagIterations, len(e.shapes), defaults(e.sc.Workspace).BaseSteps),
@@ -178,7 +178,7 @@ func (e *evaluator) models(res *Result) {
 	}
 	if len(e.d.Bellows) > 0 {
 		for _, s := range e.st {
-			if s.Source == "calibrated" {
+			if s.Source == SourceCalibrated {
 				res.Models = append(res.Models, "EI multiplied by the bench calibration factor")
 				break
 			}

@@ -56,12 +56,35 @@ type Stiffness struct {
 	EA            float64       // N (0 when measured and not given)
 	AxialRate     float64       // per convolution, N/m (0 when measured)
 	LinearDensity float64       // kg/m
-	// Source says where the numbers come from: "strip", "shell",
-	// "measured" or "calibrated" (surrogate with a calibration factor).
-	Source string
+	// Source says where the numbers come from.
+	Source Source
 	// Section is the full surrogate output; nil for measured stiffness.
 	Section *surrogate.Section
 }
+
+// Source says where a bellows' stiffness numbers come from.
+type Source int
+
+// The stiffness sources.
+const (
+	SourceStrip      Source = iota // the strip surrogate
+	SourceShell                    // the thin-shell surrogate
+	SourceMeasured                 // measured values given in the design
+	SourceCalibrated               // a surrogate scaled by a bench or FE calibration factor
+)
+
+var sourceNames = []string{SourceStrip: "strip", SourceShell: "shell", SourceMeasured: "measured", SourceCalibrated: "calibrated"}
+
+// String returns the source's name as printed in outputs.
+func (s Source) String() string {
+	if s >= 0 && int(s) < len(sourceNames) {
+		return sourceNames[s]
+	}
+	return fmt.Sprintf("source(%d)", int(s))
+}
+
+// MarshalText writes the source's name (JSON and TOML outputs).
+func (s Source) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
 
 // BellowsError is a failure that belongs to one bellows of a design.
 type BellowsError struct {
@@ -85,20 +108,20 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 			if err != nil {
 				return nil, &BellowsError{Index: i, Err: err}
 			}
-			src := "strip"
+			src := SourceStrip
 			if sec.Fidelity == surrogate.Shell {
-				src = "shell"
+				src = SourceShell
 			}
 			c := b.Model.Calibration
 			if (c[0] != 0 && c[0] != 1) || (c[1] != 0 && c[1] != 1) {
-				src = "calibrated"
+				src = SourceCalibrated
 			}
 			out[i] = Stiffness{EI: sec.EI, GJ: sec.GJ, EA: sec.EA, AxialRate: sec.AxialRatePerConvolution,
 				LinearDensity: sec.MassPerLength, Source: src, Section: &sec}
 		case b.Measured != nil:
 			m := b.Measured
 			out[i] = Stiffness{EI: [2][2]float64{{m.EI[0], 0}, {0, m.EI[1]}}, GJ: m.GJ,
-				LinearDensity: m.LinearDensity, Source: "measured"}
+				LinearDensity: m.LinearDensity, Source: SourceMeasured}
 		default:
 			return nil, &BellowsError{Index: i, Err: fmt.Errorf("neither geometry nor measured stiffness given")}
 		}

@@ -7,7 +7,6 @@ import (
 	"strings"
 
 	"plica/objective/kinematics"
-	"plica/surrogate"
 )
 
 // Scores are the numbers a designer decides on, SI.
@@ -488,11 +487,3 @@ func (e *evaluator) refineTask(shapes []*shape, t TaskPoint, tol, dirTol float64
 }
 
 func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }
-
-// fidelityName names a surrogate fidelity for outputs.
-func fidelityName(f surrogate.Fidelity) string {
-	if f == surrogate.Shell {
-		return "shell"
-	}
-	return "strip"
-}

@@ -199,7 +199,7 @@ func TestMeasuredEqualsGeometry(t *testing.T) {
 	} {
 		assert.InDelta(t, c.x, c.y, 1e-12*math.Max(1, math.Abs(c.x)), "%s: geometry vs measured", c.name)
 	}
-	assert.Equal(t, "measured", rm.Bellows[0].Source)
+	assert.Equal(t, SourceMeasured, rm.Bellows[0].Source)
 	assert.True(t, math.IsNaN(b.PeakStrain), "measured stiffness has no wall model")
 	assert.False(t, math.IsNaN(a.PeakStrain), "geometry has a wall model")
 }

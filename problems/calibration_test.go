@@ -12,6 +12,7 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/objective"
 	"plica/surrogate"
 )
 
@@ -180,7 +181,7 @@ func TestDesignCalibrationFile(t *testing.T) {
 	assert.Equal(t, [2]float64{cal.Factor[0].Value, cal.Factor[1].Value}, m.Calibration, "factors from the file")
 	st, err := d.Stiffness()
 	require.NoError(t, err)
-	assert.Equal(t, "calibrated", st[0].Source)
+	assert.Equal(t, objective.SourceCalibrated, st[0].Source)
 	plain := *m
 	plain.Calibration = [2]float64{}
 	s0, err := plain.Section(d.Fidelity)
@@ -247,7 +248,7 @@ func TestShippedCalibration(t *testing.T) {
 	st, err := d.Stiffness()
 	require.NoError(t, err)
 	for i, s := range st {
-		assert.Equal(t, "calibrated", s.Source, "bellows %d", i+1)
+		assert.Equal(t, objective.SourceCalibrated, s.Source, "bellows %d", i+1)
 	}
 	shipped, err := LoadCalibration("examples/boom-calibration.toml")
 	require.NoError(t, err)

@@ -11,6 +11,7 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/objective"
 	"plica/problems"
 	"plica/search"
 )
@@ -158,7 +159,7 @@ func TestRunFolderKeepsCalibration(t *testing.T) {
 	require.NoError(t, err)
 	st, err := d.Stiffness()
 	require.NoError(t, err)
-	assert.Equal(t, "calibrated", st[1].Source)
+	assert.Equal(t, objective.SourceCalibrated, st[1].Source)
 
 	moved := filepath.Join(t.TempDir(), "moved")
 	require.NoError(t, os.Rename(run, moved))

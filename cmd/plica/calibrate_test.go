@@ -10,6 +10,7 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/objective"
 	"plica/problems"
 )
 
@@ -125,7 +126,7 @@ func TestCalibrateIntoCheck(t *testing.T) {
 	plain, calibrated := checkOf(calExamples+"boom-geometry.toml"), checkOf(design)
 	require.Len(t, calibrated.Bellows, 2)
 	for i, b := range calibrated.Bellows {
-		assert.Equal(t, "calibrated", b.Source, "bellows %d stiffness source", i+1)
+		assert.Equal(t, objective.SourceCalibrated.String(), b.Source, "bellows %d stiffness source", i+1)
 		for axis := range 2 {
 			assert.InEpsilon(t, c.Factor[axis].Value*plain.Bellows[i].EI[axis], b.EI[axis], 1e-5,
 				"bellows %d EI about %s scaled by the factor (six-digit JSON)", i+1, problems.AxisName(axis))

@@ -191,7 +191,7 @@ func bellowsRows(st []objective.Stiffness) []bellowsOutput {
 			EA:            num(math.NaN()),
 			AxialRate:     num(math.NaN()),
 			LinearDensity: num(s.LinearDensity),
-			Source:        s.Source,
+			Source:        s.Source.String(),
 		}
 		b.StrainPerCurvature = num(math.NaN())
 		if s.Section != nil {

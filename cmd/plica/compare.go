@@ -3,7 +3,6 @@ package main
 import (
 	"context"
 	"encoding/json"
-	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -48,13 +47,13 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	for _, dir := range pos {
 		f, err := results.LoadRunFront(dir)
 		if err != nil {
-			return asUsage(err)
+			return err
 		}
 		fronts = append(fronts, f)
 	}
 	note, err := results.SameObjectives(fronts)
 	if err != nil {
-		return asUsage(err)
+		return err
 	}
 	opt := results.CompareOptions{Reference: *ref}
 	if *groups != "" {
@@ -64,7 +63,7 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	}
 	c, err := results.Compare(fronts, opt)
 	if err != nil {
-		return asUsage(err)
+		return err
 	}
 	if note != "" {
 		c.Notes = append([]string{note}, c.Notes...)
@@ -83,12 +82,3 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	return results.WriteComparison(stdout, c)
 }
 
-// asUsage turns a results.InputError (a mistake in the runs or
-// expressions given) into a usage error, exit status 2.
-func asUsage(err error) error {
-	var ie *results.InputError
-	if errors.As(err, &ie) {
-		return usagef("%v", err)
-	}
-	return err
-}

@@ -41,7 +41,7 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	}
 	res, err := results.Merge(pos, *out, version)
 	if err != nil {
-		return asUsage(err)
+		return err
 	}
 	info := res.Info
 	fmt.Fprintf(stdout, "merged %d runs into %s: %d evaluations (%d failed), front of %d designs\n",

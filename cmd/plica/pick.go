@@ -94,11 +94,11 @@ func runPick(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	rf, err := results.LoadRunFront(pos[0])
 	if err != nil {
-		return asUsage(err)
+		return err
 	}
 	res, err := rf.Pick(opt)
 	if err != nil {
-		return asUsage(err)
+		return err
 	}
 	dir := *out
 	if dir == "" {

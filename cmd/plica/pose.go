@@ -103,7 +103,7 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	sources := make([]string, len(st))
 	for i, s := range st {
-		sources[i] = s.Source
+		sources[i] = s.Source.String()
 	}
 	name := d.Name
 	if name == "" {

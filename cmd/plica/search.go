@@ -158,7 +158,7 @@ func stiffnessSources(spec *problems.Spec) string {
 	}
 	src := make([]string, len(st))
 	for i, s := range st {
-		src[i] = s.Source
+		src[i] = s.Source.String()
 	}
 	return strings.Join(src, ", ")
 }
