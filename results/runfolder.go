@@ -25,6 +25,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
 	"slices"
@@ -302,6 +303,15 @@ func (f *Folder) Path(name string) string { return filepath.Join(f.Dir, name) }
 // folder, synced, then renamed over the target.
 func (f *Folder) WriteFile(name string, data []byte) error {
 	if err := WriteAtomic(f.Path(name), data); err != nil {
+		return err
+	}
+	f.wrote(name)
+	return nil
+}
+
+// writeStream writes a file of the folder with WriteAtomicStream.
+func (f *Folder) writeStream(name string, write func(w io.Writer) error) error {
+	if err := WriteAtomicStream(f.Path(name), write); err != nil {
 		return err
 	}
 	f.wrote(name)
