@@ -153,3 +153,22 @@ func WriteAtomicAll(paths []string, data [][]byte) (err error) {
 	}
 	return nil
 }
+
+// CheckOutputFolder refuses a run folder to create (of the flag named)
+// that is one of the input files, or would overwrite one: an input at a
+// path plica writes inside the folder (DIR/problem.toml, say). The error
+// is an *InputError.
+func CheckOutputFolder(flag, dir string, inputs []string) error {
+	if dir == "" {
+		return inputErrorf("%s: the name is empty (expected a folder)", flag)
+	}
+	for _, in := range inputs {
+		if SamePath(dir, in) {
+			return inputErrorf("%s %s is an input of this command (expected a new folder)", flag, dir)
+		}
+		if name := RunFileName(dir, in); name != "" {
+			return inputErrorf("%s %s would overwrite the input %s: the run writes its own %s there (expected another folder)", flag, dir, in, name)
+		}
+	}
+	return nil
+}
