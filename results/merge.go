@@ -447,6 +447,10 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 			if err != nil {
 				return bad(fmt.Sprintf("%s = %q is not a number", header[1+j], cell))
 			}
+			if !(x >= v.Lower && x <= v.Upper) {
+				// a search never leaves the ranges: the row is not one of its evaluations
+				return bad(fmt.Sprintf("%s = %s is outside the problem's range [%g, %g]", header[1+j], cell, v.Lower, v.Upper))
+			}
 			d.X[j] = x
 		}
 		for i, o := range spec.Objectives {

@@ -330,10 +330,14 @@ func (f *Folder) ReadCSV(name string) ([]string, [][]string, error) {
 	r.FieldsPerRecord = -1
 	recs, err := r.ReadAll()
 	if err != nil && err != io.EOF {
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			return nil, nil, inputErrorf("%s:%d:%d: %v", f.Path(name), pe.Line, pe.Column, pe.Err)
+		}
 		return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
 	}
 	if len(recs) == 0 {
-		return nil, nil, fmt.Errorf("%s is empty", f.Path(name))
+		return nil, nil, inputErrorf("%s is empty (expected a header and rows)", f.Path(name))
 	}
 	return recs[0], recs[1:], nil
 }
