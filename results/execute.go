@@ -5,9 +5,11 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"maps"
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 	"time"
@@ -29,6 +31,9 @@ type Options struct {
 	Progress io.Writer
 	// Resume continues the run saved in the folder's checkpoint.
 	Resume bool
+	// Note, if not nil, receives notes a user should see (a resume from
+	// the previous checkpoint because the latest is unusable, say).
+	Note func(string)
 }
 
 // Execute runs a search into a run folder: it records the problem and the
@@ -36,10 +41,23 @@ type Options struct {
 // checkpoint every few generations and when the run stops (Ctrl-C
 // included), and finally writes the front as CSV and design files. An
 // interrupted run returns its result and context.Canceled.
+//
+// A resumed run first checks evaluations.csv against the checkpoint (see
+// ResumeLog). Once run.json says "running", an error that stops the run (a
+// write that fails on a full disk, say) leaves run.json saying "failed"
+// with the reason and listing only the files actually written (Written).
 func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Settings, opt Options) (*search.Result, error) {
 	method := spec.Method()
+	note := func(s string) {
+		if opt.Note != nil && s != "" {
+			opt.Note(s)
+		}
+	}
 	info := &RunInfo{}
 	keep := int64(-1)
+	var logData []byte // evaluations.csv to start a resumed run from
+	var files map[string][]byte
+	var text []byte
 	if opt.Resume {
 		old, err := f.ReadInfo()
 		if err != nil {
@@ -47,10 +65,11 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		}
 		info = old
 		if f.HasCheckpoint() {
-			cp, err := f.ReadCheckpoint()
+			cp, why, err := f.readCheckpoint()
 			if err != nil {
 				return nil, err
 			}
+			note(why)
 			set.Resume = cp
 			keep = cp.Evaluations
 		} else {
@@ -59,22 +78,35 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			// evaluations.
 			keep = 0
 		}
-	} else {
-		// The run folder keeps the problem and the calibration files it
-		// names, so it loads wherever it is moved.
-		text, files, err := spec.Portable()
-		if err != nil {
+		if set.MaxEvaluations > 0 && set.MaxEvaluations < keep {
+			return nil, inputErrorf("the evaluation budget (-evals) %d is below the %d evaluations already done in %s (expected more than %d to extend the run)",
+				set.MaxEvaluations, keep, f.Dir, keep)
+		}
+		// Checked before anything is written: a log that does not match
+		// the checkpoint leaves the folder as it was.
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), keep); err != nil {
 			return nil, err
 		}
-		for name, data := range files {
-			if err := os.MkdirAll(filepath.Dir(f.Path(name)), 0o755); err != nil {
-				return nil, err
-			}
-			if err := f.WriteFile(name, data); err != nil {
-				return nil, err
+		// The files of the earlier sessions stay, but for the front,
+		// which this session writes anew.
+		for _, name := range info.Files {
+			if name != FrontFile && !strings.HasPrefix(name, DesignsDir+"/") && Exists(f.Path(name)) {
+				f.wrote(name)
 			}
 		}
-		if err := f.WriteFile(ProblemFile, text); err != nil {
+		if len(info.Files) == 0 && Exists(f.Path(ProblemFile)) {
+			f.wrote(ProblemFile)
+		}
+	} else {
+		// The run folder keeps the problem and the calibration files it
+		// names, so it loads wherever it is moved (read before anything
+		// is written).
+		var err error
+		if text, files, err = spec.Portable(); err != nil {
+			return nil, err
+		}
+		// A new evaluations.csv, whatever the folder held.
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), 0); err != nil {
 			return nil, err
 		}
 		info = &RunInfo{Program: "plica", Version: opt.Version, ProblemName: problemName(spec), ProblemFile: spec.File,
@@ -84,16 +116,45 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	info.Method = methodName(method)
 	info.Status = StatusRunning
+	info.Reason = ""
 	info.Workers = set.Workers
 	info.MaxEvaluations = set.MaxEvaluations
 	info.TimeBudget = set.Runtime
 	info.Updated = time.Now().UTC()
-	if err := f.WriteInfo(info); err != nil {
-		return nil, err
+	// fail records a failure after work began in run.json.
+	fail := func(res *search.Result, err error) (*search.Result, error) {
+		info.Status = StatusFailed
+		info.Reason = err.Error()
+		info.Files = f.Written()
+		if !slices.Contains(info.Files, RunFile) {
+			info.Files = append(info.Files, RunFile)
+		}
+		info.Updated = time.Now().UTC()
+		if werr := f.WriteInfo(info); werr != nil {
+			return res, fmt.Errorf("%w (and %s could not record the failure: %v)", err, f.Path(RunFile), werr)
+		}
+		return res, err
 	}
-	log, err := f.OpenEvaluationLog(spec, keep)
+	for _, name := range slices.Sorted(maps.Keys(files)) {
+		if err := os.MkdirAll(filepath.Dir(f.Path(name)), 0o755); err != nil {
+			return fail(nil, err)
+		}
+		if err := f.WriteFile(name, files[name]); err != nil {
+			return fail(nil, err)
+		}
+	}
+	if text != nil {
+		if err := f.WriteFile(ProblemFile, text); err != nil {
+			return fail(nil, err)
+		}
+	}
+	info.Files = f.Written()
+	if err := f.WriteInfo(info); err != nil {
+		return fail(nil, err)
+	}
+	log, err := f.openLog(spec, logData)
 	if err != nil {
-		return nil, err
+		return fail(nil, err)
 	}
 	defer log.Close()
 
@@ -131,6 +192,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.FrontSize, info.Hypervolume, info.Reference = c.ArchiveSize, c.Hypervolume, c.Reference
 		info.RuntimeSec = c.Elapsed.Seconds()
 		info.Updated = time.Now().UTC()
+		info.Files = f.Written()
 		return f.WriteInfo(info)
 	}
 	res, runErr := search.Run(ctx, spec.SearchProblem(), &set, method)
@@ -139,24 +201,34 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		if runErr == nil {
 			runErr = errors.New("search returned no result")
 		}
-		return nil, runErr
+		return fail(nil, runErr)
+	}
+	info.Generations, info.Evaluations, info.Failures = res.Generation, res.Evaluations, res.Failures
+	info.RuntimeSec = res.Runtime.Seconds()
+	if runErr != nil && !errors.Is(runErr, context.Canceled) {
+		return fail(res, runErr)
 	}
 	if err := log.Flush(); err != nil {
-		return res, err
+		return fail(res, err)
+	}
+	if logErr != nil {
+		return fail(res, logErr)
 	}
 	if err := f.WriteHistory(res.History); err != nil {
-		return res, err
+		return fail(res, err)
 	}
 	if err := f.WriteFront(spec, FrontRows(spec, res.Front), frontComment(spec, info)); err != nil {
-		return res, err
+		return fail(res, err)
 	}
 	info.Status = StatusOf(res.Status)
-	info.Generations, info.Evaluations, info.Failures = res.Generation, res.Evaluations, res.Failures
 	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
-	info.RuntimeSec = res.Runtime.Seconds()
 	info.Updated = time.Now().UTC()
+	info.Files = f.Written()
+	if !slices.Contains(info.Files, RunFile) {
+		info.Files = append(info.Files, RunFile)
+	}
 	if err := f.WriteInfo(info); err != nil {
-		return res, err
+		return fail(res, err)
 	}
 	if runErr != nil {
 		return res, runErr

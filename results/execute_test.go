@@ -18,7 +18,7 @@ import (
 
 // smallProblem is the shipped demo problem with a coarse workspace and a
 // small population, so a test search takes a fraction of a second.
-func smallProblem(t *testing.T) *problems.Spec {
+func smallProblem(t testing.TB) *problems.Spec {
 	t.Helper()
 	text, err := os.ReadFile("../problems/examples/boom-search.toml")
 	require.NoError(t, err)

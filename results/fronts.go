@@ -55,7 +55,7 @@ func LoadRunFront(dir string) (*RunFront, error) {
 	}
 	var info RunInfo
 	if err := json.Unmarshal(b, &info); err != nil {
-		return nil, inputErrorf("%s: %v", f.Path(RunFile), err)
+		return nil, jsonInputError(f.Path(RunFile), b, err)
 	}
 	spec, err := problems.LoadProblem(f.Path(ProblemFile))
 	if err != nil {

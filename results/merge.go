@@ -63,9 +63,54 @@ type MergeResult struct {
 
 // mergeInput is one run being merged.
 type mergeInput struct {
-	dir  string
-	info *RunInfo
-	spec *problems.Spec
+	dir     string
+	info    *RunInfo
+	spec    *problems.Spec
+	sources []RunSource // the searches whose evaluations it holds
+}
+
+// runSources are the searches whose evaluations the run in dir holds:
+// itself, or for a merged run the sources in its run.json (a merge
+// written before sources were recorded: the runs of merged_from that are
+// not merges themselves).
+func runSources(dir string, info *RunInfo) []RunSource {
+	if info.Method != "merge" {
+		return []RunSource{{Run: dir, ProblemHash: info.ProblemHash, Seed: info.Seed, Method: info.Method, Started: info.Started}}
+	}
+	if len(info.Sources) > 0 {
+		return info.Sources
+	}
+	var out []RunSource
+	for _, m := range info.MergedFrom {
+		if m.Method != "merge" {
+			out = append(out, RunSource{Run: m.Run, ProblemHash: m.ProblemHash, Seed: m.Seed, Method: m.Method})
+		}
+	}
+	return out
+}
+
+// overlap refuses two runs of a merge that hold the evaluations of one
+// search (a merged run and one of its sources, say): merging both would
+// count those evaluations twice. Two searches of the same problem with the
+// same seed and method evaluate the same designs, so they count as one.
+func overlap(a, b mergeInput) error {
+	for _, x := range a.sources {
+		for _, y := range b.sources {
+			if x.ProblemHash != y.ProblemHash || x.Seed != y.Seed || x.Method != y.Method {
+				continue
+			}
+			switch {
+			case a.info.Method == "merge" && b.info.Method != "merge":
+				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", a.dir, b.dir, y.Seed)
+			case b.info.Method == "merge" && a.info.Method != "merge":
+				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", b.dir, a.dir, x.Seed)
+			case a.info.Method == "merge":
+				return inputErrorf("%s and %s both hold the evaluations of the search %s (seed %d): merging both would count them twice (expected merges of different runs)", a.dir, b.dir, x.Run, x.Seed)
+			}
+			return inputErrorf("%s and %s are searches of the same problem with the same seed %d: they evaluate the same designs, and merging both would count them twice (expected runs with different seeds)", a.dir, b.dir, x.Seed)
+		}
+	}
+	return nil
 }
 
 // origin locates a merged design in its source run.
@@ -84,21 +129,26 @@ type origin struct {
 // seeds and problem hashes in merged_from. Runs whose problems differ in
 // anything but their [search] tables are refused (SameProblem), as is an
 // out folder that already holds a run.
-func Merge(dirs []string, out, version string) (*MergeResult, error) {
+//
+// Runs that hold the evaluations of one search (a merged run and one of
+// its sources, by the sources in run.json) are refused. The out folder is
+// locked while it is written; an error after it was made leaves its
+// run.json saying "failed" with the reason and the files written.
+func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no runs to merge")
 	}
 	var ins []mergeInput
 	res := &MergeResult{}
+	if err := CheckOutput("-o", out, dirs, nil); err != nil {
+		return nil, err
+	}
 	for _, d := range dirs {
 		d = filepath.Clean(d)
 		for _, in := range ins {
-			if in.dir == d {
+			if SamePath(in.dir, d) {
 				return nil, inputErrorf("%s is given twice", d)
 			}
-		}
-		if filepath.Clean(out) == d {
-			return nil, inputErrorf("-o %s is one of the runs to merge (expected a new folder)", out)
 		}
 		f := &Folder{Dir: d}
 		info, err := f.ReadInfo()
@@ -117,10 +167,19 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 				return nil, err
 			}
 		}
-		if info.Status == StatusRunning {
+		switch info.Status {
+		case StatusRunning:
 			res.Notes = append(res.Notes, fmt.Sprintf("%s says it is still running (or was killed): merging the evaluations it has written", d))
+		case StatusFailed:
+			res.Notes = append(res.Notes, fmt.Sprintf("%s says it failed (%s): merging the evaluations it has written", d, info.Reason))
 		}
-		ins = append(ins, mergeInput{dir: d, info: info, spec: spec})
+		in := mergeInput{dir: d, info: info, spec: spec, sources: runSources(d, info)}
+		for _, prev := range ins {
+			if err := overlap(prev, in); err != nil {
+				return nil, err
+			}
+		}
+		ins = append(ins, in)
 	}
 	// The problem of the first run, with the calibration files it names
 	// (read before the new folder is made, so a failure writes nothing).
@@ -128,9 +187,36 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	// Every row of every run is read once before the new folder is made:
+	// a run with a bad row writes nothing.
+	for _, in := range ins {
+		skipped := 0
+		err := readEvaluations(&Folder{Dir: in.dir}, ins[0].spec, EvaluationHeader(ins[0].spec), func(search.Design, []string, string, string) error { return nil }, &skipped)
+		if err != nil {
+			return nil, err
+		}
+	}
 	folder, err := Create(out)
 	if err != nil {
+		if errors.Is(err, problems.ErrInput) {
+			return nil, err
+		}
 		return nil, &InputError{err}
+	}
+	defer folder.Unlock()
+	defer func() {
+		if err == nil {
+			return
+		}
+		files := append(folder.Written(), RunFile)
+		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: "merge", Started: time.Now().UTC(),
+			Updated: time.Now().UTC(), Status: StatusFailed, Reason: err.Error(), Files: files, Caution: Caution}
+		if werr := folder.WriteInfo(failed); werr != nil {
+			err = fmt.Errorf("%w (and %s could not record the failure: %v)", err, folder.Path(RunFile), werr)
+		}
+	}()
+	if n := folder.LockNote(); n != "" {
+		res.Notes = append(res.Notes, n)
 	}
 	res.Folder = folder
 	for _, name := range slices.Sorted(maps.Keys(files)) {
@@ -156,7 +242,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	perRun := make([][]search.Design, len(ins))
 	counts := make([]int64, len(ins))
 	var next, failures int64
-	err = WriteAtomicStream(folder.Path(EvaluationsFile), func(out io.Writer) error {
+	err = folder.writeStream(EvaluationsFile, func(out io.Writer) error {
 		w := csv.NewWriter(out)
 		w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
 		for r, in := range ins {
@@ -209,6 +295,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 			}
 		}
 		info.MergedFrom = append(info.MergedFrom, src)
+		info.Sources = append(info.Sources, in.sources...)
 		info.RuntimeSec += in.info.RuntimeSec
 		info.Generations = max(info.Generations, in.info.Generations)
 	}
@@ -233,6 +320,7 @@ func Merge(dirs []string, out, version string) (*MergeResult, error) {
 	if err := folder.WriteFront(spec, res.Front, comment); err != nil {
 		return nil, err
 	}
+	info.Files = append(folder.Written(), RunFile)
 	if err := folder.WriteInfo(info); err != nil {
 		return nil, err
 	}
@@ -358,6 +446,10 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 			x, err := strconv.ParseFloat(cell, 64)
 			if err != nil {
 				return bad(fmt.Sprintf("%s = %q is not a number", header[1+j], cell))
+			}
+			if !(x >= v.Lower && x <= v.Upper) {
+				// a search never leaves the ranges: the row is not one of its evaluations
+				return bad(fmt.Sprintf("%s = %s is outside the problem's range [%g, %g]", header[1+j], cell, v.Lower, v.Upper))
 			}
 			d.X[j] = x
 		}

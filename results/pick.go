@@ -345,17 +345,16 @@ func scaled(w []float64) []float64 {
 }
 
 // WritePicks writes each picked design as a design file dir/pick-NNN.toml
-// (NNN the front id), atomically, from its variables in front.csv, and
-// sets Picked.File. check and pose accept the files; refine accepts the
-// ids.
+// (NNN the front id), atomically and all or none, from its variables in
+// front.csv, and sets Picked.File. check and pose accept the files; refine
+// accepts the ids.
 func (rf *RunFront) WritePicks(dir string, res *PickResult) error {
 	if len(res.Picked) == 0 {
 		return nil
 	}
-	if err := os.MkdirAll(dir, 0o755); err != nil {
-		return fmt.Errorf("cannot create %s: %w", dir, err)
-	}
 	f := &Folder{Dir: rf.Dir}
+	var paths []string
+	var texts [][]byte
 	for i := range res.Picked {
 		p := &res.Picked[i]
 		x, err := f.FrontX(rf.Spec, p.ID)
@@ -376,11 +375,17 @@ func (rf *RunFront) WritePicks(dir string, res *PickResult) error {
 		if err != nil {
 			return err
 		}
-		path := filepath.Join(dir, fmt.Sprintf("pick-%03d.toml", p.ID))
-		if err := WriteAtomic(path, text); err != nil {
-			return err
-		}
-		p.File = path
+		paths = append(paths, filepath.Join(dir, fmt.Sprintf("pick-%03d.toml", p.ID)))
+		texts = append(texts, text)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return fmt.Errorf("cannot create %s: %w", dir, err)
+	}
+	if err := WriteAtomicAll(paths, texts); err != nil {
+		return err
+	}
+	for i := range res.Picked {
+		res.Picked[i].File = paths[i]
 	}
 	return nil
 }

@@ -18,14 +18,17 @@
 //	calibration/       copies of the calibration files the problem names
 //	plots/*.svg        the figures; report.html the self-contained report
 //	picked/pick-NNN.toml  designs chosen by plica pick
+//	run.lock           while search, resume or merge writes the folder: process id, host, start time
 package results
 
 import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"time"
 
 	"plica/search"
@@ -75,6 +78,15 @@ type RunInfo struct {
 	MaxEvaluations int64         `json:"max_evaluations"`
 	TimeBudget     time.Duration `json:"-"`
 	Caution        string        `json:"caution"`
+	// Reason says why a run failed (Status StatusFailed): the error that
+	// stopped it after work began, a write that failed, say.
+	Reason string `json:"reason,omitempty"`
+	// Files lists the files of the folder this run has written, relative
+	// to the folder; a failed run lists only those actually written.
+	Files []string `json:"files,omitempty"`
+	// Sources identifies the searches whose evaluations a merged run
+	// holds, merges of merges flattened: merge refuses to count one twice.
+	Sources []RunSource `json:"sources,omitempty"`
 	// MergedFrom lists the runs of a merged run (method "merge"); see
 	// Merge.
 	MergedFrom []MergedRun `json:"merged_from,omitempty"`
@@ -111,8 +123,20 @@ func (r *RunInfo) UnmarshalJSON(b []byte) error {
 	return nil
 }
 
+// RunSource identifies one search run: its problem hash and seed (the same
+// problem and seed give the same evaluations), where it was and when it
+// started.
+type RunSource struct {
+	Run         string    `json:"run"`
+	ProblemHash string    `json:"problem_hash"`
+	Seed        uint64    `json:"seed"`
+	Method      string    `json:"method"`
+	Started     time.Time `json:"started"`
+}
+
 // RunStatus is the status of run.json: StatusRunning while a search writes
-// the folder, StatusMerged for a merged run, else why the search stopped
+// the folder, StatusMerged for a merged run, StatusFailed for a run that
+// failed after work began (Reason says why), else why the search stopped
 // (the names of search.Status).
 type RunStatus int
 
@@ -126,6 +150,7 @@ const (
 	StatusConverged
 	StatusFailure
 	StatusMerged
+	StatusFailed
 )
 
 var runStatusNames = [...]string{
@@ -138,6 +163,7 @@ var runStatusNames = [...]string{
 	StatusConverged:       search.Converged.String(),
 	StatusFailure:         search.Failure.String(),
 	StatusMerged:          "merged",
+	StatusFailed:          "failed",
 }
 
 // StatusOf is the run status of a search that stopped with s.
@@ -192,20 +218,29 @@ func (s *RunStatus) UnmarshalText(b []byte) error {
 			return nil
 		}
 	}
-	return fmt.Errorf("unknown run status %q (expected one of running, merged, %s, %s, %s, %s, %s, %s, %s)", b,
+	return fmt.Errorf("unknown run status %q (expected one of running, merged, failed, %s, %s, %s, %s, %s, %s, %s)", b,
 		runStatusNames[1], runStatusNames[2], runStatusNames[3], runStatusNames[4], runStatusNames[5], runStatusNames[6], runStatusNames[7])
 }
 
 // Folder is one run folder.
 type Folder struct {
 	Dir string
+	// lock is the folder's lock while this process holds it.
+	lock *heldLock
+	// written lists the files written through the folder, in order,
+	// without repeats.
+	written []string
 }
 
-// Create makes a new run folder. It refuses a folder that already holds a
-// run, and checks that the folder is writable before any work starts.
+// Create makes a new run folder and takes its lock (see Lock; release it
+// with Unlock). It refuses a folder that already holds a run, and checks
+// that the folder is writable before any work starts.
 func Create(dir string) (*Folder, error) {
+	if dir == "" {
+		return nil, inputErrorf("the run folder name is empty (expected a folder)")
+	}
 	if _, err := os.Stat(filepath.Join(dir, RunFile)); err == nil {
-		return nil, fmt.Errorf("%s already holds a run (resume it with plica resume %s, or choose another -o)", dir, dir)
+		return nil, inputErrorf("%s already holds a run (resume it with plica resume %s, or choose another -o)", dir, dir)
 	}
 	if err := os.MkdirAll(filepath.Join(dir, DesignsDir), 0o755); err != nil {
 		return nil, fmt.Errorf("cannot create run folder: %w", err)
@@ -214,7 +249,28 @@ func Create(dir string) (*Folder, error) {
 	if err := f.probe(); err != nil {
 		return nil, err
 	}
+	if err := f.Lock(); err != nil {
+		return nil, err
+	}
+	// Checked again under the lock: a run that another process finished
+	// between the first check and the lock is not overwritten.
+	if _, err := os.Stat(filepath.Join(dir, RunFile)); err == nil {
+		f.Unlock()
+		return nil, inputErrorf("%s already holds a run (resume it with plica resume %s, or choose another -o)", dir, dir)
+	}
 	return f, nil
+}
+
+// Written lists the files this process wrote into the folder, relative
+// to it, in the order first written.
+func (f *Folder) Written() []string { return slices.Clone(f.written) }
+
+// wrote records a file written into the folder.
+func (f *Folder) wrote(name string) {
+	name = filepath.ToSlash(name)
+	if !slices.Contains(f.written, name) {
+		f.written = append(f.written, name)
+	}
 }
 
 // Open opens an existing run folder.
@@ -246,7 +302,20 @@ func (f *Folder) Path(name string) string { return filepath.Join(f.Dir, name) }
 // WriteFile writes a file atomically: a temporary file in the same
 // folder, synced, then renamed over the target.
 func (f *Folder) WriteFile(name string, data []byte) error {
-	return WriteAtomic(f.Path(name), data)
+	if err := WriteAtomic(f.Path(name), data); err != nil {
+		return err
+	}
+	f.wrote(name)
+	return nil
+}
+
+// writeStream writes a file of the folder with WriteAtomicStream.
+func (f *Folder) writeStream(name string, write func(w io.Writer) error) error {
+	if err := WriteAtomicStream(f.Path(name), write); err != nil {
+		return err
+	}
+	f.wrote(name)
+	return nil
 }
 
 // WriteInfo writes run.json.
@@ -258,7 +327,9 @@ func (f *Folder) WriteInfo(info *RunInfo) error {
 	return f.WriteFile(RunFile, append(b, '\n'))
 }
 
-// ReadInfo reads run.json.
+// ReadInfo reads run.json. A file that is not run.json (bad JSON, a
+// field of the wrong type, an unknown status) is an *InputError naming the
+// line and column.
 func (f *Folder) ReadInfo() (*RunInfo, error) {
 	b, err := os.ReadFile(f.Path(RunFile))
 	if err != nil {
@@ -266,9 +337,37 @@ func (f *Folder) ReadInfo() (*RunInfo, error) {
 	}
 	var info RunInfo
 	if err := json.Unmarshal(b, &info); err != nil {
-		return nil, fmt.Errorf("%s: %w", f.Path(RunFile), err)
+		return nil, jsonInputError(f.Path(RunFile), b, err)
 	}
 	return &info, nil
+}
+
+// jsonInputError positions a JSON decoding error in its file.
+func jsonInputError(path string, data []byte, err error) error {
+	var off int64 = -1
+	var se *json.SyntaxError
+	var te *json.UnmarshalTypeError
+	switch {
+	case errors.As(err, &se):
+		off = se.Offset
+	case errors.As(err, &te):
+		off = te.Offset
+		if te.Field != "" {
+			err = fmt.Errorf("%s: found JSON %s, expected %s", te.Field, te.Value, te.Type)
+		}
+	}
+	if off < 0 {
+		return inputErrorf("%s: %v", path, err)
+	}
+	line, col := 1, 1
+	for _, c := range data[:min(int(off), len(data))] {
+		if c == '\n' {
+			line, col = line+1, 1
+		} else {
+			col++
+		}
+	}
+	return inputErrorf("%s:%d:%d: %v", path, line, col, err)
 }
 
 // WriteCheckpoint keeps the previous checkpoint and writes the new one
@@ -282,6 +381,7 @@ func (f *Folder) WriteCheckpoint(c *search.Checkpoint) error {
 		if err := os.Rename(f.Path(CheckpointFile), f.Path(PrevCheckpoint)); err != nil {
 			return err
 		}
+		f.wrote(PrevCheckpoint)
 	}
 	return f.WriteFile(CheckpointFile, b)
 }
@@ -294,6 +394,14 @@ func (f *Folder) HasCheckpoint() bool {
 // ReadCheckpoint reads the latest checkpoint, falling back to the previous
 // one when the latest is missing or unreadable.
 func (f *Folder) ReadCheckpoint() (*search.Checkpoint, error) {
+	c, _, err := f.readCheckpoint()
+	return c, err
+}
+
+// readCheckpoint is ReadCheckpoint that also says, when it fell back to
+// the previous checkpoint, why. A checkpoint whose counters are negative
+// is unusable like one that is not JSON; none usable is an *InputError.
+func (f *Folder) readCheckpoint() (*search.Checkpoint, string, error) {
 	var firstErr error
 	for _, name := range []string{CheckpointFile, PrevCheckpoint} {
 		b, err := os.ReadFile(f.Path(name))
@@ -305,12 +413,24 @@ func (f *Folder) ReadCheckpoint() (*search.Checkpoint, error) {
 		}
 		var c search.Checkpoint
 		if err := json.Unmarshal(b, &c); err != nil {
+			err = jsonInputError(f.Path(name), b, err)
 			if firstErr == nil {
-				firstErr = fmt.Errorf("%s: %w", f.Path(name), err)
+				firstErr = err
 			}
 			continue
 		}
-		return &c, nil
+		if c.Evaluations < 0 || c.Generation < 0 || c.Failures < 0 || c.Failures > c.Evaluations {
+			if firstErr == nil {
+				firstErr = fmt.Errorf("%s: counters out of range (generation %d, evaluations %d, failures %d; expected 0 <= failures <= evaluations)",
+					f.Path(name), c.Generation, c.Evaluations, c.Failures)
+			}
+			continue
+		}
+		note := ""
+		if name == PrevCheckpoint {
+			note = fmt.Sprintf("%s is unusable (%v): resuming from %s (generation %d, %d evaluations)", CheckpointFile, firstErr, PrevCheckpoint, c.Generation, c.Evaluations)
+		}
+		return &c, note, nil
 	}
-	return nil, fmt.Errorf("no usable checkpoint in %s: %w", f.Dir, firstErr)
+	return nil, "", inputErrorf("no usable checkpoint in %s: %v", f.Dir, firstErr)
 }

@@ -1,13 +1,14 @@
 package results
 
 import (
-	"bufio"
 	"bytes"
 	"encoding/csv"
+	"errors"
 	"fmt"
 	"io"
 	"math"
 	"os"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -87,14 +88,27 @@ func EvaluationHeader(s *problems.Spec) []string {
 	return append(h, "violation", "feasible", "failure")
 }
 
-// OpenEvaluationLog opens evaluations.csv for appending. When keep ≥ 0 the
-// file is first cut to the rows with index < keep (a resumed run repeats
-// the generations after its checkpoint); the header is written when the
-// file is new.
+// OpenEvaluationLog opens evaluations.csv for appending; the header is
+// written when the file is new. When keep ≥ 0 (a resumed run, which
+// repeats the generations after its checkpoint) the file is first checked
+// against the checkpoint and cut to its first keep rows: see ResumeLog.
 func (f *Folder) OpenEvaluationLog(s *problems.Spec, keep int64) (*EvaluationLog, error) {
-	path := f.Path(EvaluationsFile)
+	var data []byte
 	if keep >= 0 {
-		if err := truncateLog(path, keep); err != nil {
+		var err error
+		if data, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(s), keep); err != nil {
+			return nil, err
+		}
+	}
+	return f.openLog(s, data)
+}
+
+// openLog opens evaluations.csv for appending, first replaced by data if
+// that is not nil.
+func (f *Folder) openLog(s *problems.Spec, data []byte) (*EvaluationLog, error) {
+	path := f.Path(EvaluationsFile)
+	if data != nil {
+		if err := f.WriteFile(EvaluationsFile, data); err != nil {
 			return nil, err
 		}
 	}
@@ -109,41 +123,82 @@ func (f *Folder) OpenEvaluationLog(s *problems.Spec, keep int64) (*EvaluationLog
 			return nil, err
 		}
 	}
+	f.wrote(EvaluationsFile)
 	return l, nil
 }
 
-// truncateLog keeps the header and the rows with index < keep, rewriting
-// the file atomically.
-func truncateLog(path string, keep int64) error {
+// ResumeLog checks the evaluations.csv at path against a checkpoint that
+// holds keep evaluations and returns the file cut to its header and first
+// keep rows. The header must be header; rows 0 … keep-1 must each be
+// there, in order, with the header's number of cells. Rows after them
+// (the resumed run repeats them) may be anything, a torn last line
+// included. A file that cannot prove every evaluation the checkpoint
+// counts (missing, cut short, a cut line glued to the next, rows missing
+// or out of order) is an *InputError naming the line: resume never loses
+// evaluations silently. With keep = 0 the old file is not needed.
+func ResumeLog(path string, header []string, keep int64) ([]byte, error) {
+	var fresh bytes.Buffer
+	w := csv.NewWriter(&fresh)
+	w.Write(header)
+	w.Flush()
+	if keep == 0 {
+		return fresh.Bytes(), nil
+	}
 	data, err := os.ReadFile(path)
-	if os.IsNotExist(err) {
-		return nil
+	if errors.Is(err, os.ErrNotExist) {
+		return nil, inputErrorf("%s is missing, but the checkpoint counts %d evaluations (expected rows 0 to %d): resume cannot rebuild them; start a new run", path, keep, keep-1)
 	}
 	if err != nil {
-		return err
+		return nil, err
 	}
-	var out bytes.Buffer
-	sc := bufio.NewScanner(bytes.NewReader(data))
-	sc.Buffer(make([]byte, 1<<20), 1<<26)
-	first := true
-	for sc.Scan() {
-		line := sc.Text()
-		if first {
-			out.WriteString(line + "\n")
-			first = false
-			continue
-		}
-		comma := strings.IndexByte(line, ',')
-		if comma < 0 {
-			continue // a torn last line
-		}
-		idx, err := strconv.ParseInt(line[:comma], 10, 64)
-		if err != nil || idx >= keep {
-			continue
-		}
-		out.WriteString(line + "\n")
+	r := csv.NewReader(bytes.NewReader(data))
+	r.FieldsPerRecord = -1
+	r.ReuseRecord = true
+	have, err := r.Read()
+	if err != nil {
+		return nil, inputErrorf("%s: no header (expected %s)", path, strings.Join(header, ","))
 	}
-	return WriteAtomic(path, out.Bytes())
+	if !slices.Equal(have, header) {
+		return nil, inputErrorf("%s:1: the header differs from the problem's columns (was problem.toml changed?)", path)
+	}
+	var n int64
+	for n < keep {
+		rec, err := r.Read()
+		if err == io.EOF {
+			return nil, inputErrorf("%s holds %d of the %d evaluations the checkpoint counts (the file was cut short): resume cannot rebuild them; start a new run", path, n, keep)
+		}
+		if err != nil {
+			line := 0
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				line = pe.StartLine
+			}
+			return nil, inputErrorf("%s:%d: evaluation %d is unreadable (%v); the checkpoint counts %d evaluations", path, line, n, unwrapCSV(err), keep)
+		}
+		line, _ := r.FieldPos(0)
+		if len(rec) != len(header) {
+			return nil, inputErrorf("%s:%d: evaluation %d has %d cells, expected %d (a line cut short or glued to the next); the checkpoint counts %d evaluations",
+				path, line, n, len(rec), len(header), keep)
+		}
+		if rec[0] != strconv.FormatInt(n, 10) {
+			return nil, inputErrorf("%s:%d: index %q, expected %d (rows missing or out of order); the checkpoint counts %d evaluations", path, line, rec[0], n, keep)
+		}
+		n++
+	}
+	out := data[:r.InputOffset()]
+	if len(out) > 0 && out[len(out)-1] != '\n' {
+		out = append(slices.Clip(out), '\n')
+	}
+	return out, nil
+}
+
+// unwrapCSV is the reason of a CSV parse error without its position.
+func unwrapCSV(err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return pe.Err
+	}
+	return err
 }
 
 // Add writes one evaluated design.
@@ -275,10 +330,14 @@ func (f *Folder) ReadCSV(name string) ([]string, [][]string, error) {
 	r.FieldsPerRecord = -1
 	recs, err := r.ReadAll()
 	if err != nil && err != io.EOF {
+		var pe *csv.ParseError
+		if errors.As(err, &pe) {
+			return nil, nil, inputErrorf("%s:%d:%d: %v", f.Path(name), pe.Line, pe.Column, pe.Err)
+		}
 		return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
 	}
 	if len(recs) == 0 {
-		return nil, nil, fmt.Errorf("%s is empty", f.Path(name))
+		return nil, nil, inputErrorf("%s is empty (expected a header and rows)", f.Path(name))
 	}
 	return recs[0], recs[1:], nil
 }

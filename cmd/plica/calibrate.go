@@ -9,6 +9,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -76,6 +77,31 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 	if o.out != "" && o.design == "" {
 		return usagef("-o: a calibration file needs -design (the prediction the factors are relative to)")
 	}
+	// The outputs are checked before any work: never one of the inputs,
+	// never each other, and writable.
+	if err := emptyFlags(fs, "o", "plot", "design"); err != nil {
+		return err
+	}
+	inputs := []string{pos[0]}
+	if o.design != "" {
+		inputs = append(inputs, o.design)
+	}
+	outputs := map[string]string{"-o": o.out, "-plot": o.plot}
+	for _, flagName := range []string{"-o", "-plot"} {
+		path := outputs[flagName]
+		if path == "" {
+			continue
+		}
+		if err := results.CheckOutput(flagName, path, nil, inputs); err != nil {
+			return err
+		}
+		if err := results.ProbeOutput(flagName, path); err != nil {
+			return err
+		}
+	}
+	if o.out != "" && results.SamePath(o.out, o.plot) {
+		return usagef("-o and -plot name the same file %s (expected two files)", o.out)
+	}
 	bench, err := problems.LoadBench(pos[0])
 	if err != nil {
 		return err
@@ -111,6 +137,18 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 			return err
 		}
 	}
+	// Both files or neither.
+	var paths []string
+	var data [][]byte
+	if o.plot != "" {
+		paths, data = append(paths, o.plot), append(data, plot.Bytes())
+	}
+	if o.out != "" {
+		paths, data = append(paths, o.out), append(data, cal.Format())
+	}
+	if err := results.WriteAtomicAll(paths, data); err != nil {
+		return err
+	}
 	out := newCalibrateOutput(bench, fits, cal)
 	if o.json {
 		enc := json.NewEncoder(stdout)
@@ -121,17 +159,8 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 	} else {
 		writeCalibrate(stdout, out)
 	}
-	if o.plot != "" {
-		if err := results.WriteAtomic(o.plot, plot.Bytes()); err != nil {
-			return err
-		}
-		fmt.Fprintf(stderr, "plica: wrote %s\n", o.plot)
-	}
-	if o.out != "" {
-		if err := results.WriteAtomic(o.out, cal.Format()); err != nil {
-			return err
-		}
-		fmt.Fprintf(stderr, "plica: wrote %s\n", o.out)
+	for _, p := range paths {
+		fmt.Fprintf(stderr, "plica: wrote %s\n", p)
 	}
 	return nil
 }
@@ -154,6 +183,20 @@ func calibrateAgainst(o calibrateOptions, bench *problems.Bench, fits [2]*proble
 	d, _, err := problems.LoadDesign(o.design)
 	if err != nil {
 		return nil, err
+	}
+	if o.out != "" {
+		// -o must not replace a calibration file the design reads.
+		text, err := os.ReadFile(o.design)
+		if err != nil {
+			return nil, err
+		}
+		inputs, err := inputFiles(text, o.design)
+		if err != nil {
+			return nil, err
+		}
+		if err := results.CheckOutput("-o", o.out, nil, inputs); err != nil {
+			return nil, err
+		}
 	}
 	i, err := pickBellows(d, o.bellows)
 	if err != nil {

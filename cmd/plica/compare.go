@@ -43,6 +43,18 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	if len(pos) < 1 {
 		return usagef("compare: expected one or more run folders")
 	}
+	if err := emptyFlags(fs, "plot"); err != nil {
+		return err
+	}
+	if *plotPath != "" {
+		// Checked before any work: never over an input, never half done.
+		if err := results.CheckOutput("-plot", *plotPath, pos, nil); err != nil {
+			return err
+		}
+		if err := results.ProbeOutput("-plot", *plotPath); err != nil {
+			return err
+		}
+	}
 	var fronts []*results.RunFront
 	for _, dir := range pos {
 		f, err := results.LoadRunFront(dir)

@@ -21,7 +21,9 @@ plus the columns source_run and source_index; front.csv and
 designs/front-NNN.toml of the feasible non-dominated set of all those
 evaluations; and run.json (method "merge") listing the runs and seeds in
 merged_from. Runs whose problem files differ in anything but the [search]
-table are refused. The merged folder works with compare, pick, refine and
+table are refused, as are runs that hold the evaluations of one search
+twice (a merged run and one of its sources: run.json records the sources).
+The new folder is locked while it is written. The merged folder works with compare, pick, refine and
 report; it has no checkpoint, so it cannot be resumed.`,
 		run: runMerge,
 	})
@@ -35,6 +37,9 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	}
 	if len(pos) == 0 {
 		return usagef("merge: expected one or more run folders")
+	}
+	if err := emptyFlags(fs, "o"); err != nil {
+		return err
 	}
 	if *out == "" {
 		return usagef("merge: -o: expected the folder of the merged run")

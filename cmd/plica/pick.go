@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
 	"strings"
 	"text/tabwriter"
@@ -91,6 +92,17 @@ func runPick(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	if *n < 1 {
 		return usagef("-n: expected a number of designs >= 1")
+	}
+	if err := emptyFlags(fs, "o"); err != nil {
+		return err
+	}
+	if *out != "" && !results.SamePath(*out, filepath.Join(pos[0], results.PickedDir)) {
+		if err := results.CheckOutput("-o", *out, pos, nil); err != nil {
+			return err
+		}
+		if st, err := os.Stat(*out); err == nil && !st.IsDir() {
+			return usagef("-o %s is a file (expected a folder for the design files)", *out)
+		}
 	}
 	rf, err := results.LoadRunFront(pos[0])
 	if err != nil {

@@ -45,9 +45,21 @@ func runReport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if err != nil {
 		return err
 	}
+	if err := emptyFlags(fs, "o"); err != nil {
+		return err
+	}
 	folder, err := results.Open(pos[0])
 	if err != nil {
 		return usagef("%v", err)
+	}
+	if *out != "" && !results.SamePath(*out, folder.Path(report.File)) {
+		// Checked before any plot is written.
+		if err := results.CheckOutput("-o", *out, pos, nil); err != nil {
+			return err
+		}
+		if err := results.ProbeOutput("-o", *out); err != nil {
+			return err
+		}
 	}
 	return writeReport(folder, *out, ids, stdout, stderr)
 }

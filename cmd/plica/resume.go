@@ -16,7 +16,11 @@ func init() {
 		short: "continue an interrupted (or extend a finished) search from its checkpoint",
 		long: `Reads the problem, seed and budgets saved in the run folder. The resumed run
 reaches the same front as an uninterrupted run with the same seed; a larger
--evals or -time extends a finished run.`,
+-evals or -time extends a finished run (an -evals below the evaluations
+already done is refused). evaluations.csv is checked against the checkpoint
+first: a file that cannot prove every evaluation the checkpoint counts is
+refused, and the folder is left as it was. The folder is locked while it
+runs (run.lock).`,
 		run: runResume,
 	})
 }
@@ -36,6 +40,10 @@ func runResume(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if err != nil {
 		return usagef("%v", err)
 	}
+	if err := folder.Lock(); err != nil {
+		return err
+	}
+	defer folder.Unlock()
 	info, err := folder.ReadInfo()
 	if err != nil {
 		return err

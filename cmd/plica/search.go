@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"path/filepath"
+	"slices"
 	"strings"
 	"time"
 
@@ -79,6 +80,9 @@ func runSearch(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if len(pos) != 1 {
 		return usagef("search: expected one problem file, got %d arguments", len(pos))
 	}
+	if err := emptyFlags(fs, "o"); err != nil {
+		return err
+	}
 	spec, err := problems.LoadProblem(pos[0])
 	if err != nil {
 		return err
@@ -92,22 +96,70 @@ func runSearch(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		base := strings.TrimSuffix(filepath.Base(pos[0]), filepath.Ext(pos[0]))
 		dir = filepath.Join("runs", fmt.Sprintf("%s-seed%d", base, set.Seed))
 	}
+	inputs, err := inputFiles(spec.Text, pos[0])
+	if err != nil {
+		return err
+	}
+	if err := results.CheckOutputFolder("-o", dir, inputs); err != nil {
+		return usagef("%v", err)
+	}
 	folder, err := results.Create(dir)
 	if err != nil {
 		return usagef("%v", err)
 	}
+	defer folder.Unlock()
 	return finishRun(ctx, spec, folder, set, b.quiet, false, stdout, stderr)
 }
 
+// inputFiles is a problem or design file and the calibration files it
+// names (relative to it).
+func inputFiles(text []byte, file string) ([]string, error) {
+	cals, err := problems.CalibrationFiles(text, file)
+	if err != nil {
+		return nil, err
+	}
+	out := []string{file}
+	for _, c := range cals {
+		if !filepath.IsAbs(c) {
+			c = filepath.Join(filepath.Dir(file), c)
+		}
+		out = append(out, c)
+	}
+	return out, nil
+}
+
+// emptyFlags refuses a path flag given with an empty name (-o ""): that
+// is a mistake, never the default.
+func emptyFlags(fs *flag.FlagSet, names ...string) error {
+	var err error
+	fs.Visit(func(f *flag.Flag) {
+		if err == nil && slices.Contains(names, f.Name) && f.Value.String() == "" {
+			err = usagef("-%s: the name is empty (expected a path; leave the flag out for the default)", f.Name)
+		}
+	})
+	return err
+}
+
 // finishRun executes (or resumes) a search and prints its summary.
+// The folder is locked; the caller releases it.
 func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder, set search.Settings, quiet, resume bool, stdout, stderr io.Writer) error {
-	opt := results.Options{Version: version, Resume: resume}
+	note := func(s string) { fmt.Fprintf(stderr, "plica: note: %s\n", s) }
+	if n := folder.LockNote(); n != "" {
+		note(n)
+	}
+	opt := results.Options{Version: version, Resume: resume, Note: note}
 	if !quiet {
 		opt.Progress = stderr
 	}
 	res, err := results.Execute(ctx, spec, folder, set, opt)
+	failed := err != nil && !errors.Is(err, context.Canceled) && len(folder.Written()) > 0
 	if res != nil {
-		printSummary(stdout, spec, folder, res)
+		printSummary(stdout, spec, folder, res, failed)
+	} else if failed {
+		printFiles(stdout, folder)
+	}
+	if failed {
+		fmt.Fprintf(stderr, "plica: the run failed; %s says \"failed\" with the reason\n", folder.Path(results.RunFile))
 	}
 	if errors.Is(err, context.Canceled) {
 		fmt.Fprintf(stderr, "plica: interrupted; checkpoint saved: continue with plica resume %s\n", folder.Dir)
@@ -123,25 +175,51 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 	return err
 }
 
-func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res *search.Result) {
+func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res *search.Result, failed bool) {
 	feasible := 0
 	for _, d := range res.Population {
 		if d.Feasible() {
 			feasible++
 		}
 	}
-	fmt.Fprintf(w, "run %s: %s after %d evaluations (%d generations, %d failed), %s\n", folder.Dir, res.Status, res.Evaluations,
+	status := res.Status.String()
+	if failed {
+		status = "failed"
+	}
+	fmt.Fprintf(w, "run %s: %s after %d evaluations (%d generations, %d failed), %s\n", folder.Dir, status, res.Evaluations,
 		res.Generation, res.Failures, res.Runtime.Round(time.Millisecond))
 	fmt.Fprintf(w, "front: %d designs (feasible in population: %d of %d); hypervolume %.6g at reference %v (objectives as minimised)\n",
 		len(res.Front), feasible, len(res.Population), res.Hypervolume, res.Reference)
 	if src := stiffnessSources(spec); src != "" {
 		fmt.Fprintf(w, "stiffness per bellows: %s\n", src)
 	}
-	fmt.Fprintf(w, "files: %s, %s, %s/front-NNN.toml\n", folder.Path(results.FrontFile), folder.Path(results.EvaluationsFile), folder.Path(results.DesignsDir))
-	if len(res.Front) == 0 {
+	printFiles(w, folder)
+	if len(res.Front) == 0 && !failed {
 		fmt.Fprintln(w, "no feasible design found: relax the requirements or widen the ranges")
 	}
 	fmt.Fprintf(w, "caution: %s\n", results.Caution)
+}
+
+// printFiles lists the files of the run written by this process (only
+// those actually written), the front's design files as one pattern.
+func printFiles(w io.Writer, folder *results.Folder) {
+	var names []string
+	designs := 0
+	for _, n := range folder.Written() {
+		switch {
+		case strings.HasPrefix(n, results.DesignsDir+"/front-"):
+			designs++
+		case n == results.FrontFile || n == results.EvaluationsFile:
+			names = append(names, folder.Path(n))
+		}
+	}
+	if designs > 0 {
+		names = append(names, fmt.Sprintf("%s/front-NNN.toml (%d)", folder.Path(results.DesignsDir), designs))
+	}
+	if len(names) == 0 {
+		names = append(names, "none of the front or the evaluations")
+	}
+	fmt.Fprintf(w, "files: %s\n", strings.Join(names, ", "))
 }
 
 // stiffnessSources says where each bellows' stiffness comes from (strip,
