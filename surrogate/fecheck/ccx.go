@@ -5,9 +5,11 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"time"
 )
@@ -41,7 +43,10 @@ func HaveCCX(exe string) bool { _, err := findCCX(exe); return err == nil }
 // combined output to job.log in dir and returns the run time. Cancelling
 // ctx kills ccx. A failure is a one-line error with the first *ERROR line
 // of ccx's output (and the line after it) or its exit status.
-func runCCX(ctx context.Context, exe, dir, job string, threads int) (time.Duration, error) {
+//
+// onLine, when not nil, is called with each line of ccx's output as it
+// arrives (from the goroutine that copies the output; one call at a time).
+func runCCX(ctx context.Context, exe, dir, job string, threads int, onLine func(string)) (time.Duration, error) {
 	path, err := findCCX(exe)
 	if err != nil {
 		return 0, err
@@ -52,7 +57,11 @@ func runCCX(ctx context.Context, exe, dir, job string, threads int) (time.Durati
 	var out bytes.Buffer
 	cmd := exec.CommandContext(ctx, path, "-i", job)
 	cmd.Dir = dir
-	cmd.Stdout, cmd.Stderr = &out, &out
+	var w io.Writer = &out
+	if onLine != nil {
+		w = io.MultiWriter(&out, &lineWriter{fn: onLine})
+	}
+	cmd.Stdout, cmd.Stderr = w, w
 	n := fmt.Sprint(threads)
 	cmd.Env = append(os.Environ(), "OMP_NUM_THREADS="+n, "CCX_NPROC_EQUATION_SOLVER="+n, "CCX_NPROC_STIFFNESS="+n)
 	cmd.WaitDelay = 2 * time.Second
@@ -96,4 +105,33 @@ func ccxError(out string) string {
 		return msg
 	}
 	return ""
+}
+
+// lineWriter calls fn with every complete line written to it.
+type lineWriter struct {
+	fn   func(string)
+	part []byte
+}
+
+func (l *lineWriter) Write(p []byte) (int, error) {
+	n := len(p)
+	for {
+		i := bytes.IndexByte(p, '\n')
+		if i < 0 {
+			l.part = append(l.part, p...)
+			return n, nil
+		}
+		l.fn(string(append(l.part, p[:i]...)))
+		l.part, p = l.part[:0], p[i+1:]
+	}
+}
+
+// stepLine returns n for ccx's " STEP n" line at the start of a step.
+func stepLine(line string) (int, bool) {
+	f := strings.Fields(line)
+	if len(f) != 2 || f[0] != "STEP" {
+		return 0, false
+	}
+	n, err := strconv.Atoi(f[1])
+	return n, err == nil && n > 0
 }
