@@ -32,7 +32,7 @@ func feCalibration(t *testing.T) *Calibration {
 	return c
 }
 
-func TestFECalibrationFactors(t *testing.T) {
+func TestCalibrationFromFE(t *testing.T) {
 	c := feCalibration(t)
 	assert.Equal(t, SourceFE, c.Source)
 	assert.InEpsilon(t, 1.03, c.Factor[0].Value, 1e-12)
@@ -69,10 +69,10 @@ func TestFECalibrationFactors(t *testing.T) {
 	assert.ErrorContains(t, err, "measured stiffness")
 }
 
-// TestFECalibrationRoundTrip: format → parse gives the same values (six
+// TestCalibrationFERoundTrip: format → parse gives the same values (six
 // written digits), parse → format is idempotent, and a design that names
 // the file gets the FE factors exactly as from a bench calibration.
-func TestFECalibrationRoundTrip(t *testing.T) {
+func TestCalibrationFERoundTrip(t *testing.T) {
 	c := feCalibration(t)
 	text := c.Format()
 	assert.Contains(t, string(text), "source = \"fe\"\n")
