@@ -170,8 +170,8 @@ func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr 
 			}}
 		res, err := fecheck.Run(ctx, *d.Bellows[i].Model, opt)
 		if err != nil {
-			if ctx.Err() != nil {
-				return fmt.Errorf("fe interrupted, ccx stopped, nothing written: %w", ctx.Err())
+			if ctx.Err() != nil || errors.Is(err, context.Canceled) {
+				return fmt.Errorf("fe interrupted, ccx stopped, nothing written: %w", context.Canceled)
 			}
 			var ie *surrogate.InputError
 			if errors.As(err, &ie) {

@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 	"time"
 )
 
@@ -72,6 +73,11 @@ func runCCX(ctx context.Context, exe, dir, job string, threads int, onLine func(
 	if ctx.Err() != nil {
 		return dur, fmt.Errorf("ccx %s: %w", job, ctx.Err())
 	}
+	if sig, ok := interrupted(cmd.ProcessState); ok {
+		// Ctrl-C in a terminal reaches ccx too, and it may die of it
+		// before ctx is cancelled: an interruption, not a failure.
+		return dur, fmt.Errorf("ccx %s stopped by %v: %w", job, sig, context.Canceled)
+	}
 	if reason := ccxError(out.String()); reason != "" {
 		return dur, fmt.Errorf("ccx %s failed: %s", job, reason)
 	}
@@ -82,6 +88,23 @@ func runCCX(ctx context.Context, exe, dir, job string, threads int, onLine func(
 		return dur, fmt.Errorf("ccx %s wrote no results (%s.dat missing)", job, job)
 	}
 	return dur, logErr
+}
+
+// interrupted reports whether the process ended by SIGINT, SIGTERM or
+// SIGHUP.
+func interrupted(ps *os.ProcessState) (syscall.Signal, bool) {
+	if ps == nil {
+		return 0, false
+	}
+	ws, ok := ps.Sys().(syscall.WaitStatus)
+	if !ok || !ws.Signaled() {
+		return 0, false
+	}
+	switch sig := ws.Signal(); sig {
+	case syscall.SIGINT, syscall.SIGTERM, syscall.SIGHUP:
+		return sig, true
+	}
+	return 0, false
 }
 
 // ccxError returns the first error message in ccx's output on one line,

@@ -219,3 +219,13 @@ func TestCCXProgress(t *testing.T) {
 	}, got)
 	assert.Nil(t, (&Options{}).steps("shell", shellCaseNames()), "no callback without Progress")
 }
+
+func TestCCXInterruptedBySignal(t *testing.T) {
+	// a terminal's Ctrl-C reaches ccx as well as plica: ccx dying of
+	// SIGINT is an interruption, not a failure
+	fakeCCX(t, "kill -INT $$\nsleep 5\n")
+	_, err := runCCX(context.Background(), "ccx-fake", t.TempDir(), "job", 1, nil)
+	require.Error(t, err)
+	assert.ErrorIs(t, err, context.Canceled)
+	assert.Equal(t, "ccx job stopped by interrupt: context canceled", err.Error())
+}
