@@ -99,14 +99,21 @@ func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr 
 
 	// Everything goes into a hidden staging folder beside DIR that is
 	// renamed to DIR once complete, and removed on any failure.
-	if err := os.MkdirAll(filepath.Dir(dir), 0o755); err != nil {
-		return fmt.Errorf("fe: cannot create %s: %w", filepath.Dir(dir), errors.Unwrap(err))
+	parent := filepath.Dir(dir)
+	_, statErr := os.Stat(parent)
+	if err := os.MkdirAll(parent, 0o755); err != nil {
+		return fmt.Errorf("fe: cannot create %s: %w", parent, errors.Unwrap(err))
 	}
-	stage, err := os.MkdirTemp(filepath.Dir(dir), "."+filepath.Base(dir)+".partial-")
+	kept := false
+	defer func() {
+		if !kept && statErr != nil {
+			os.Remove(parent) // made here (runs/): removed again if still empty
+		}
+	}()
+	stage, err := os.MkdirTemp(parent, "."+filepath.Base(dir)+".partial-")
 	if err != nil {
 		return fmt.Errorf("fe: cannot create the run folder: %w", errors.Unwrap(err))
 	}
-	kept := false
 	defer func() {
 		if !kept {
 			os.RemoveAll(stage)

@@ -316,6 +316,14 @@ func TestFeVerbCCXFails(t *testing.T) {
 	assert.Equal(t, []string{"plica: fe: bellows 1: ccx shell failed: *ERROR in e_c3d: nonpositive jacobian determinant in element 7 (nothing written)"}, errs)
 	assert.Contains(t, errOut, "plica fe: bellows 1 (1 of 2): coarse mesh, shell model: load case 1 of 4 (axial)\n", "progress before the failure")
 	assert.Empty(t, entries(t, dir), "no run folder, no staging folder")
+
+	// with the default folder, not even runs/ is left
+	design, err := filepath.Abs(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	t.Chdir(dir)
+	code, _, _ = runCLI(t, "fe", design)
+	assert.Equal(t, 1, code)
+	assert.Empty(t, entries(t, dir), "no runs/ folder")
 }
 
 // TestFeVerbInterrupt: Ctrl-C while ccx runs stops ccx, removes the
