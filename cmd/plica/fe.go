@@ -230,7 +230,7 @@ func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr 
 	}
 	fmt.Fprintf(stderr, "plica: wrote %s\n", dir)
 	if cal != nil {
-		if err := problems.WriteCalibration(o.cal, cal); err != nil {
+		if err := results.WriteAtomic(o.cal, cal.Format()); err != nil {
 			return fmt.Errorf("fe: -calibration: %w (the FE run is saved in %s)", err, dir)
 		}
 		fmt.Fprintf(stderr, "plica: wrote %s\n", o.cal)
