@@ -268,7 +268,8 @@ func (c *Calibration) formatFE(b *strings.Builder, g func(float64) string) {
 		fmt.Fprintf(b, "ei_%s_fe_se_n_mm2 = %s\n", a, g(c.FittedSE[axis]/nmm2))
 		fmt.Fprintf(b, "ei_%s_fe_ci95_n_mm2 = [%s, %s]\n", a, g(c.FittedCI[axis][0]/nmm2), g(c.FittedCI[axis][1]/nmm2))
 		fmt.Fprintf(b, "ei_%s_predicted_n_mm2 = %s\n", a, g(c.PredictedEI[axis]/nmm2))
-		fmt.Fprintf(b, "ei_%s_fe_mesh_change = %s   # (EI − EI on the next coarser mesh) / EI\n", a, g(c.FEChange[axis]))
+		// all digits: a change just under MaxFEChange must not round up to it
+		fmt.Fprintf(b, "ei_%s_fe_mesh_change = %s   # (EI − EI on the next coarser mesh) / EI\n", a, strconv.FormatFloat(c.FEChange[axis], 'g', -1, 64))
 	}
 }
 

@@ -91,6 +91,11 @@ func TestCalibrationFERoundTrip(t *testing.T) {
 		assert.InEpsilon(t, c.FEChange[axis], c2.FEChange[axis], 1e-5)
 	}
 
+	// the fixture (a seed of the calibration fuzzer) is such a file
+	fixture, err := LoadCalibration("testdata/calibration/fe-petg-sinusoid.toml")
+	require.NoError(t, err)
+	assert.Equal(t, SourceFE, fixture.Source)
+
 	path := writeCalibratedDesign(t, string(text))
 	d, _, err := LoadDesign(path)
 	require.NoError(t, err, "design naming an FE calibration file")
@@ -150,6 +155,7 @@ func TestCalibrationSource(t *testing.T) {
 		{"ei_x_fe_mesh_change = 0.004", "ei_x_fe_mesh_change = 0.2", "ei_x_fe_mesh_change", "0.2 is out of range"},
 		{"fe_mesh = \"coarse\"", "fe_mesh = \"draft\"", "fe_mesh", "expected one of: coarse|fine"},
 		{"factor_y = 0.98\n", "factor_y = 0.9\n", "factor_y", "expected the factor to be FE over predicted EI"},
+		{"ei_y_fe_mesh_change = -0.002", "ei_y_fe_mesh_change = \"small\"", "ei_y_fe_mesh_change", "expected a relative change"},
 	} {
 		require.Contains(t, fe, tc.old)
 		es := errorsOf(strings.Replace(fe, tc.old, tc.new, 1))
