@@ -2,6 +2,7 @@ package problems
 
 import (
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 	"time"
@@ -103,7 +104,7 @@ func TestCalibrationFERoundTrip(t *testing.T) {
 	assert.Equal(t, [2]float64{c2.Factor[0].Value, c2.Factor[1].Value}, m.Calibration, "factors from the file")
 	st, err := d.Stiffness()
 	require.NoError(t, err)
-	assert.Equal(t, "calibrated", st[0].Source)
+	assert.Equal(t, "calibrated", fmt.Sprint(st[0].Source))
 }
 
 // TestCalibrationSource: a file without a source key is a bench
