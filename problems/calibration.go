@@ -6,6 +6,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -22,7 +23,17 @@ import (
 // predicts without calibration, with its uncertainty. A design bellows
 // names the file with calibration_file; its factors then multiply the
 // predicted EI as calibration_factor would. Lengths and stiffnesses are SI.
+//
+// A calibration may instead come from a finite-element cross-check
+// (Source SourceFE, written by plica fe): the "fitted" EI is then the EI of
+// the FE model as a cantilever test would see it, its standard error the
+// change of that EI from the next coarser mesh (discretisation only), and
+// FEDir, FEMesh and FEChange replace BenchFile, Points and Model. A design
+// references either kind the same way.
 type Calibration struct {
+	// Source is SourceBench or SourceFE; a file without a source key is a
+	// bench calibration.
+	Source   string
 	Material string
 	Printer  string // free label of the printer and process; may be ""
 	Profile  surrogate.Profile
@@ -43,7 +54,31 @@ type Calibration struct {
 	PredictedEI [2]float64          // uncalibrated, as a cantilever test sees it (surrogate.CantileverEI), N·m²
 	Points      [2]int
 	Model       [2]string // BenchFit.Model
+
+	// Source SourceFE only: the FE run folder (as given, like BenchFile),
+	// its mesh (coarse or fine) and per axis the relative change of EI
+	// from the next coarser mesh, (EI − EI_coarser)/EI.
+	FEDir    string
+	FEMesh   string
+	FEChange [2]float64
 }
+
+// Calibration sources.
+const (
+	SourceBench = "bench" // cantilever bench test (plica calibrate)
+	SourceFE    = "fe"    // finite-element cross-check (plica fe)
+)
+
+// MaxFEChange is the largest two-mesh change of an FE stiffness that a
+// calibration accepts: beyond it the FE value is not converged enough to
+// calibrate with (the stiffnesses of the coarse mesh change by well under
+// 1 %).
+const MaxFEChange = 0.1
+
+var (
+	calibrationSources = []string{SourceBench, SourceFE}
+	feMeshes           = []string{"coarse", "fine"}
+)
 
 // NewCalibration compares the bench fits about x and y with the
 // uncalibrated surrogate prediction for bellows i (0-based) of d, computed
@@ -51,13 +86,6 @@ type Calibration struct {
 // The caller fills Printer, Date, BenchFile and DesignFile. Both axes are
 // needed, and each fit's interval must be bounded.
 func NewCalibration(d *objective.Design, i int, bench *Bench, fits [2]*BenchFit) (*Calibration, error) {
-	if i < 0 || i >= len(d.Bellows) {
-		return nil, fmt.Errorf("bellows %d does not exist (expected 1 to %d)", i+1, len(d.Bellows))
-	}
-	m := d.Bellows[i].Model
-	if m == nil {
-		return nil, fmt.Errorf("bellows %d has measured stiffness: there is no prediction to calibrate (expected a bellows with geometry and material)", i+1)
-	}
 	for axis, f := range fits {
 		if f == nil {
 			return nil, &Error{File: bench.File, Line: max(bench.header, 1), Col: bench.cols[colDirection] + 1, Key: colDirection,
@@ -68,14 +96,12 @@ func NewCalibration(d *objective.Design, i int, bench *Bench, fits [2]*BenchFit)
 				Msg: fmt.Sprintf("direction %s: the 95 %% interval of EI has no upper bound (relative standard error %.0f %%; expected more rows or larger loads)", AxisName(axis), 100*f.Fit.SE/f.Fit.EI)}
 		}
 	}
-	plain := *m
-	plain.Calibration = [2]float64{}
-	sec, err := plain.Section(d.Fidelity)
+	c, err := newCalibration(d, i)
 	if err != nil {
-		return nil, &objective.BellowsError{Index: i, Err: err}
+		return nil, err
 	}
-	pred := surrogate.CantileverEI(sec.EI)
-	c := &Calibration{Material: m.Material.Name, Profile: m.Profile, Fidelity: sec.Fidelity, Bellows: i + 1, PredictedEI: pred}
+	c.Source = SourceBench
+	pred := c.PredictedEI
 	for axis, f := range fits {
 		fac, err := surrogate.CalibrationFactor(f.Fit, pred[axis])
 		if err != nil {
@@ -89,17 +115,89 @@ func NewCalibration(d *objective.Design, i int, bench *Bench, fits [2]*BenchFit)
 	return c, nil
 }
 
-// calibrationTop lists the keys of a calibration file.
-var calibrationTop = []string{"material", "printer", "profile", "fidelity", "date", "bench_file", "design_file", "bellows"}
+// newCalibration starts a calibration of bellows i (0-based) of d: the
+// uncalibrated surrogate prediction at the design's fidelity, as a
+// cantilever test sees it.
+func newCalibration(d *objective.Design, i int) (*Calibration, error) {
+	if i < 0 || i >= len(d.Bellows) {
+		return nil, fmt.Errorf("bellows %d does not exist (expected 1 to %d)", i+1, len(d.Bellows))
+	}
+	m := d.Bellows[i].Model
+	if m == nil {
+		return nil, fmt.Errorf("bellows %d has measured stiffness: there is no prediction to calibrate (expected a bellows with geometry and material)", i+1)
+	}
+	plain := *m
+	plain.Calibration = [2]float64{}
+	sec, err := plain.Section(d.Fidelity)
+	if err != nil {
+		return nil, &objective.BellowsError{Index: i, Err: err}
+	}
+	return &Calibration{Material: m.Material.Name, Profile: m.Profile, Fidelity: sec.Fidelity, Bellows: i + 1,
+		PredictedEI: surrogate.CantileverEI(sec.EI)}, nil
+}
 
-func axisKeys(a string) []string {
+// NewFECalibration compares the EI tensor fe (N·m², about the bellows' own
+// axes) of a finite-element model of bellows i (0-based) of d with the
+// uncalibrated surrogate prediction, as NewCalibration does with a bench
+// fit: per axis, factor = the FE EI a cantilever test would see /
+// the predicted one. change holds the relative change of EI_x and EI_y
+// from the next coarser mesh; it is taken as the standard error of the FE
+// value (the interval is ±2 standard errors), so it covers discretisation
+// only. mesh names the FE mesh. The caller fills Date, FEDir and
+// DesignFile.
+func NewFECalibration(d *objective.Design, i int, fe [2][2]float64, change [2]float64, mesh string) (*Calibration, error) {
+	if !slices.Contains(feMeshes, mesh) {
+		return nil, fmt.Errorf("FE mesh %q is not one of %s", mesh, strings.Join(feMeshes, "|"))
+	}
+	c, err := newCalibration(d, i)
+	if err != nil {
+		return nil, err
+	}
+	c.Source, c.FEMesh, c.FEChange = SourceFE, mesh, change
+	ei := surrogate.CantileverEI(fe)
+	for axis := range 2 {
+		a := AxisName(axis)
+		if !(ei[axis] > 0) {
+			return nil, fmt.Errorf("bellows %d: the FE EI tensor [[%g, %g], [%g, %g]] N·m² is not positive definite", i+1, fe[0][0], fe[0][1], fe[1][0], fe[1][1])
+		}
+		d := math.Abs(change[axis])
+		if !(d < MaxFEChange) {
+			return nil, fmt.Errorf("bellows %d, direction %s: the FE EI changed by %.3g %% from the coarser mesh (expected less than %g %% to calibrate with; use a finer mesh)", i+1, a, 100*d, 100*MaxFEChange)
+		}
+		c.FittedEI[axis], c.FittedSE[axis] = ei[axis], d*ei[axis]
+		c.FittedCI[axis] = [2]float64{ei[axis] * (1 - 2*d), ei[axis] * (1 + 2*d)}
+		p := c.PredictedEI[axis]
+		c.Factor[axis] = surrogate.Factor{Value: ei[axis] / p, SE: c.FittedSE[axis] / p,
+			CI: [2]float64{c.FittedCI[axis][0] / p, c.FittedCI[axis][1] / p}}
+	}
+	return c, nil
+}
+
+// calibrationTop lists the top-level keys of a calibration file of each
+// source; "source" itself is optional and absent from bench files.
+func calibrationTop(source string) []string {
+	if source == SourceFE {
+		return []string{"source", "material", "printer", "profile", "fidelity", "date", "fe_dir", "fe_mesh", "design_file", "bellows"}
+	}
+	return []string{"source", "material", "printer", "profile", "fidelity", "date", "bench_file", "design_file", "bellows"}
+}
+
+// axisKeys lists the keys of one bending axis: the factor, the bench-fitted
+// (or FE) EI, the prediction, then the bench fit's points and model (or
+// the FE two-mesh change).
+func axisKeys(a, source string) []string {
+	if source == SourceFE {
+		return []string{"factor_" + a, "factor_" + a + "_se", "factor_" + a + "_ci95",
+			"ei_" + a + "_fe_n_mm2", "ei_" + a + "_fe_se_n_mm2", "ei_" + a + "_fe_ci95_n_mm2",
+			"ei_" + a + "_predicted_n_mm2", "ei_" + a + "_fe_mesh_change"}
+	}
 	return []string{"factor_" + a, "factor_" + a + "_se", "factor_" + a + "_ci95",
 		"ei_" + a + "_fitted_n_mm2", "ei_" + a + "_fitted_se_n_mm2", "ei_" + a + "_fitted_ci95_n_mm2",
 		"ei_" + a + "_predicted_n_mm2", "points_" + a, "fit_" + a}
 }
 
-func calibrationKeys() []string {
-	return append(append(append([]string{}, calibrationTop...), axisKeys("x")...), axisKeys("y")...)
+func calibrationKeys(source string) []string {
+	return append(append(calibrationTop(source), axisKeys("x", source)...), axisKeys("y", source)...)
 }
 
 // Format returns the calibration as TOML text. Stiffnesses are written in
@@ -107,6 +205,10 @@ func calibrationKeys() []string {
 func (c *Calibration) Format() []byte {
 	var b strings.Builder
 	g := func(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+	if c.Source == SourceFE {
+		c.formatFE(&b, g)
+		return []byte(b.String())
+	}
 	fmt.Fprintf(&b, "# plica bending-stiffness calibration from a cantilever bench test (tip load, deflection zeroed\n")
 	fmt.Fprintf(&b, "# or fitted as an offset; least squares with 95 %% Student-t intervals).\n")
 	fmt.Fprintf(&b, "# factor = EI fitted on the bench / EI the %s surrogate predicts for the design's bellows without\n", c.Fidelity)
@@ -135,6 +237,42 @@ func (c *Calibration) Format() []byte {
 		fmt.Fprintf(&b, "fit_%s = %s\n", a, tomlQuote(c.Model[axis]))
 	}
 	return []byte(b.String())
+}
+
+// formatFE writes a calibration of source SourceFE.
+func (c *Calibration) formatFE(b *strings.Builder, g func(float64) string) {
+	fmt.Fprintf(b, "# plica bending-stiffness calibration from a finite-element cross-check (plica fe: CalculiX\n")
+	fmt.Fprintf(b, "# S8R shell model of the bellows wall, rigid end rings, EI measured away from the ends).\n")
+	fmt.Fprintf(b, "# factor = EI of the FE model, as a cantilever test would see it / EI the %s surrogate predicts for\n", c.Fidelity)
+	fmt.Fprintf(b, "# the design's bellows without calibration; x and y are the bellows' own bending axes. The standard\n")
+	fmt.Fprintf(b, "# error is the change of EI from the next coarser mesh: discretisation only, not the error of the\n")
+	fmt.Fprintf(b, "# shell model nor print-to-print variation. The FE model is an estimate too: verify on a prototype.\n")
+	fmt.Fprintf(b, "# Reference this file from a [[bellows]] table of the same material and profile with\n")
+	fmt.Fprintf(b, "# calibration_file = \"<path relative to the design>\".\n\n")
+	fmt.Fprintf(b, "source = %s\n", tomlQuote(SourceFE))
+	fmt.Fprintf(b, "material = %s\n", tomlQuote(c.Material))
+	fmt.Fprintf(b, "printer = %s\n", tomlQuote(c.Printer))
+	fmt.Fprintf(b, "profile = %s\n", tomlQuote(c.Profile.String()))
+	fmt.Fprintf(b, "fidelity = %s\n", tomlQuote(c.Fidelity.String()))
+	fmt.Fprintf(b, "date = %s\n", c.Date.Format(time.DateOnly))
+	fmt.Fprintf(b, "fe_dir = %s\n", tomlQuote(c.FEDir))
+	fmt.Fprintf(b, "fe_mesh = %s\n", tomlQuote(c.FEMesh))
+	fmt.Fprintf(b, "design_file = %s\n", tomlQuote(c.DesignFile))
+	fmt.Fprintf(b, "bellows = %d                   # 1-based, innermost first\n", c.Bellows)
+	for axis := range 2 {
+		a := AxisName(axis)
+		f := c.Factor[axis]
+		fmt.Fprintf(b, "\n# bending about the bellows' own %s axis\n", a)
+		fmt.Fprintf(b, "factor_%s = %s\n", a, g(f.Value))
+		fmt.Fprintf(b, "factor_%s_se = %s\n", a, g(f.SE))
+		fmt.Fprintf(b, "factor_%s_ci95 = [%s, %s]\n", a, g(f.CI[0]), g(f.CI[1]))
+		fmt.Fprintf(b, "ei_%s_fe_n_mm2 = %s\n", a, g(c.FittedEI[axis]/nmm2))
+		fmt.Fprintf(b, "ei_%s_fe_se_n_mm2 = %s\n", a, g(c.FittedSE[axis]/nmm2))
+		fmt.Fprintf(b, "ei_%s_fe_ci95_n_mm2 = [%s, %s]\n", a, g(c.FittedCI[axis][0]/nmm2), g(c.FittedCI[axis][1]/nmm2))
+		fmt.Fprintf(b, "ei_%s_predicted_n_mm2 = %s\n", a, g(c.PredictedEI[axis]/nmm2))
+		// all digits: a change just under MaxFEChange must not round up to it
+		fmt.Fprintf(b, "ei_%s_fe_mesh_change = %s   # (EI − EI on the next coarser mesh) / EI\n", a, strconv.FormatFloat(c.FEChange[axis], 'g', -1, 64))
+	}
 }
 
 // tomlQuote writes a TOML basic string.
@@ -177,6 +315,8 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 		return nil, err
 	}
 	c := &Calibration{}
+	c.Source = root.choice("source", calibrationSources, SourceBench)
+	fe := c.Source == SourceFE
 	req := func(k string) string {
 		s, ok := root.text(k)
 		if !ok && !root.has(k) {
@@ -204,12 +344,20 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 	} else {
 		r.errorf("date", "found %s (expected a date such as 2025-01-31)", describe(v))
 	}
-	c.BenchFile = req("bench_file")
+	if fe {
+		c.FEDir = req("fe_dir")
+		if !root.has("fe_mesh") {
+			r.errorf("fe_mesh", "missing (expected one of: %s)", strings.Join(feMeshes, "|"))
+		}
+		c.FEMesh = root.choice("fe_mesh", feMeshes, "")
+	} else {
+		c.BenchFile = req("bench_file")
+	}
 	c.DesignFile = req("design_file")
 	c.Bellows = root.whole("bellows", "a bellows number from 1, innermost first", 1)
 	for axis := range 2 {
 		a := AxisName(axis)
-		k := axisKeys(a)
+		k := axisKeys(a, c.Source)
 		f := &c.Factor[axis]
 		f.Value, _ = root.positive(k[0], "a factor > 0", true, false)
 		f.SE, _ = root.positive(k[1], "a standard error >= 0", true, true)
@@ -218,10 +366,20 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 		se, _ := root.positive(k[4], "a standard error in N·mm², >= 0", true, true)
 		eci, okECI := root.interval(k[5], "[lo, hi] in N·mm², 0 < lo <= hi")
 		pred, okP := root.positive(k[6], "EI in N·mm², > 0", true, false)
-		c.Points[axis] = root.whole(k[7], "a number of points >= 2", 2)
-		c.Model[axis] = root.choice(k[8], fitModels, "through origin")
-		if !root.has(k[8]) {
-			r.errorf(k[8], "missing (expected one of: %s)", strings.Join(fitModels, "|"))
+		if fe {
+			what := fmt.Sprintf("a relative change of EI between meshes, |change| < %g", MaxFEChange)
+			if ch, ok := root.number(k[7], what, true); ok {
+				if math.Abs(ch) >= MaxFEChange {
+					r.errorf(k[7], "%s is out of range (expected %s)", fmtNum(ch), what)
+				}
+				c.FEChange[axis] = ch
+			}
+		} else {
+			c.Points[axis] = root.whole(k[7], "a number of points >= 2", 2)
+			c.Model[axis] = root.choice(k[8], fitModels, "through origin")
+			if !root.has(k[8]) {
+				r.errorf(k[8], "missing (expected one of: %s)", strings.Join(fitModels, "|"))
+			}
 		}
 		f.CI = ci
 		c.FittedEI[axis], c.FittedSE[axis], c.FittedCI[axis] = ei*nmm2, se*nmm2, [2]float64{eci[0] * nmm2, eci[1] * nmm2}
@@ -233,10 +391,14 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 			r.errorf(k[5], "[%s, %s] does not contain %s = %s", fmtNum(eci[0]), fmtNum(eci[1]), k[3], fmtNum(ei))
 		}
 		if okEI && okP && f.Value > 0 && math.Abs(f.Value-ei/pred) > 1e-4*f.Value {
-			r.errorf(k[0], "%s differs from %s / %s = %s (expected the factor to be fitted over predicted EI)", fmtNum(f.Value), k[3], k[6], fmtNum(ei/pred))
+			what := "fitted"
+			if fe {
+				what = "FE"
+			}
+			r.errorf(k[0], "%s differs from %s / %s = %s (expected the factor to be %s over predicted EI)", fmtNum(f.Value), k[3], k[6], fmtNum(ei/pred), what)
 		}
 	}
-	root.finish(calibrationKeys())
+	root.finish(calibrationKeys(c.Source))
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
 	}

@@ -101,6 +101,7 @@ func TestInterruptEveryVerb(t *testing.T) {
 		"calibrate": {examples + "boom-bench.csv", "-design", design, "-o", filepath.Join(dir, "cal.toml")},
 		"check":     {design},
 		"compare":   {run1, run1},
+		"fe":        {design, "-o", filepath.Join(dir, "fe")},
 		"init":      {filepath.Join(dir, "new.toml")},
 		"merge":     {run1, run1, "-o", filepath.Join(dir, "merged")},
 		"pick":      {run1, "-knee", "-o", filepath.Join(dir, "picked")},

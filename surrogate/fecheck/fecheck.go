@@ -59,6 +59,44 @@ type Options struct {
 	// mesh (coarse, fine, draft); "" uses a temporary directory that is
 	// removed afterwards.
 	Dir string
+	// Progress, when not nil, is told when each model starts (Case 0)
+	// and when ccx begins each of its load cases. It is called from the
+	// goroutine that copies ccx's output, one call at a time.
+	Progress func(Progress)
+
+	level Mesh // the mesh being solved, for Progress
+}
+
+// Progress is one stage of a cross-check.
+type Progress struct {
+	Mesh  Mesh   // mesh level being solved
+	Model string // "shell" or "solid"
+	Case  int    // load case from 1; 0 while the deck is written and ccx starts
+	Cases int    // load cases of the model
+	Name  string // load case: axial, torsion, bending_x, bending_y; axial extension (solid)
+}
+
+// steps returns the output-line callback that reports the load cases of
+// model (nil without opt.Progress), after reporting that the model starts.
+func (opt *Options) steps(model string, cases []string) func(string) {
+	if opt.Progress == nil {
+		return nil
+	}
+	report, lv := opt.Progress, opt.level
+	report(Progress{Mesh: lv, Model: model, Cases: len(cases)})
+	return func(line string) {
+		if n, ok := stepLine(line); ok && n <= len(cases) {
+			report(Progress{Mesh: lv, Model: model, Case: n, Cases: len(cases), Name: cases[n-1]})
+		}
+	}
+}
+
+func shellCaseNames() []string {
+	names := make([]string, len(shellCases))
+	for i, c := range shellCases {
+		names[i] = c.name
+	}
+	return names
 }
 
 // Result is the FE cross-check of one bellows. Fields carry their units
@@ -223,6 +261,9 @@ func writeAtomic(path string, write func(*os.File) error) error {
 	}
 	tmp := f.Name()
 	err = write(f)
+	if e := f.Chmod(0o644); err == nil {
+		err = e
+	}
 	if e := f.Sync(); err == nil {
 		err = e
 	}
@@ -284,6 +325,7 @@ func Run(ctx context.Context, b surrogate.Bellows, opt Options) (*Result, error)
 	var shells []*ShellResult
 	var solids []*SolidResult
 	for _, lv := range levels {
+		opt.level = lv
 		sub := filepath.Join(dir, lv.String())
 		if err := os.MkdirAll(sub, 0o755); err != nil {
 			return nil, err

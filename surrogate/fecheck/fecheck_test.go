@@ -154,6 +154,11 @@ func TestWriteDecks(t *testing.T) {
 	solid, err := os.ReadFile(files[1])
 	require.NoError(t, err)
 	assert.Contains(t, string(solid), "*ELEMENT, TYPE=CAX8")
+	for _, f := range files {
+		fi, err := os.Stat(f)
+		require.NoError(t, err)
+		assert.Equal(t, os.FileMode(0o644), fi.Mode().Perm(), "%s readable like any written file", f)
+	}
 	// nothing else left behind (atomic writes)
 	left, _ := os.ReadDir(dir)
 	assert.Len(t, left, 2)
@@ -182,7 +187,7 @@ func fakeCCX(t *testing.T, script string) {
 func TestCCXFailureIsOneLine(t *testing.T) {
 	fakeCCX(t, "echo ' some banner'\necho ' *ERROR in e_c3d: nonpositive jacobian'\necho '        determinant in element  7'\nexit 201\n")
 	dir := t.TempDir()
-	_, err := runCCX(context.Background(), "ccx-fake", dir, "job", 1)
+	_, err := runCCX(context.Background(), "ccx-fake", dir, "job", 1, nil)
 	require.Error(t, err)
 	assert.Equal(t, "ccx job failed: *ERROR in e_c3d: nonpositive jacobian determinant in element 7", err.Error())
 	log, err := os.ReadFile(filepath.Join(dir, "job.log"))
@@ -194,7 +199,33 @@ func TestCCXCancel(t *testing.T) {
 	fakeCCX(t, "exec sleep 30\n")
 	ctx, cancel := context.WithTimeout(context.Background(), 200*time.Millisecond)
 	defer cancel()
-	_, err := runCCX(ctx, "ccx-fake", t.TempDir(), "job", 1)
+	_, err := runCCX(ctx, "ccx-fake", t.TempDir(), "job", 1, nil)
 	require.Error(t, err)
 	assert.ErrorIs(t, err, context.DeadlineExceeded)
+}
+
+func TestCCXProgress(t *testing.T) {
+	// ccx prints " STEP n" as each step begins; the last line may lack
+	// its newline
+	fakeCCX(t, "echo ' STEP            1'\necho ' STEP            2'\necho ' STEPS 3'\nprintf ' STEP 3'\n: > job.dat\n")
+	var got []Progress
+	opt := Options{Progress: func(p Progress) { got = append(got, p) }, level: Fine}
+	_, err := runCCX(context.Background(), "ccx-fake", t.TempDir(), "job", 1, opt.steps("shell", shellCaseNames()))
+	require.NoError(t, err)
+	assert.Equal(t, []Progress{
+		{Mesh: Fine, Model: "shell", Cases: 4},
+		{Mesh: Fine, Model: "shell", Case: 1, Cases: 4, Name: "axial"},
+		{Mesh: Fine, Model: "shell", Case: 2, Cases: 4, Name: "torsion"},
+	}, got)
+	assert.Nil(t, (&Options{}).steps("shell", shellCaseNames()), "no callback without Progress")
+}
+
+func TestCCXInterruptedBySignal(t *testing.T) {
+	// a terminal's Ctrl-C reaches ccx as well as plica: ccx dying of
+	// SIGINT is an interruption, not a failure
+	fakeCCX(t, "kill -INT $$\nsleep 5\n")
+	_, err := runCCX(context.Background(), "ccx-fake", t.TempDir(), "job", 1, nil)
+	require.Error(t, err)
+	assert.ErrorIs(t, err, context.Canceled)
+	assert.Equal(t, "ccx job stopped by interrupt: context canceled", err.Error())
 }

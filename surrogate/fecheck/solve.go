@@ -56,7 +56,7 @@ func solveShell(ctx context.Context, dir string, s *shellSpec, title string, opt
 	if err := writeAtomic(filepath.Join(dir, "shell.inp"), func(f *os.File) error { return writeShellDeck(f, m, title) }); err != nil {
 		return nil, err
 	}
-	dur, err := runCCX(ctx, opt.CCX, dir, "shell", opt.Threads)
+	dur, err := runCCX(ctx, opt.CCX, dir, "shell", opt.Threads, opt.steps("shell", shellCaseNames()))
 	if err != nil {
 		return nil, err
 	}
@@ -269,7 +269,7 @@ func solveSolid(ctx context.Context, dir string, s *axiSpec, title string, opt O
 	if err := writeAtomic(filepath.Join(dir, "solid.inp"), func(f *os.File) error { return writeAxiDeck(f, m, title) }); err != nil {
 		return nil, err
 	}
-	dur, err := runCCX(ctx, opt.CCX, dir, "solid", opt.Threads)
+	dur, err := runCCX(ctx, opt.CCX, dir, "solid", opt.Threads, opt.steps("solid", []string{"axial extension"}))
 	if err != nil {
 		return nil, err
 	}
