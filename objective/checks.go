@@ -179,7 +179,7 @@ func (e *evaluator) models(res *Result) {
 	if len(e.d.Bellows) > 0 {
 		for _, s := range e.st {
 			if s.Source == SourceCalibrated {
-				res.Models = append(res.Models, "EI multiplied by the bench calibration factor")
+				res.Models = append(res.Models, "EI multiplied by the calibration factor (bench or finite-element)")
 				break
 			}
 		}
