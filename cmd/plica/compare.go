@@ -105,4 +105,3 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	}
 	return results.WriteComparison(stdout, c)
 }
-

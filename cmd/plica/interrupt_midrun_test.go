@@ -172,3 +172,32 @@ func TestInterruptMidRun(t *testing.T) {
 		}
 	})
 }
+
+// TestReadersRespectLock: report, pick and refine on a run folder locked
+// by a live process (a search rewriting it) exit 2 naming the holder and
+// write nothing; pick -o elsewhere only checks the lock.
+func TestReadersRespectLock(t *testing.T) {
+	dir := t.TempDir()
+	prob := smallProblemFile(t, dir)
+	rdir := filepath.Join(dir, "run")
+	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "24", "-workers", "1")
+	require.Equal(t, 0, code, errOut)
+	writeLockFile(t, rdir, os.Getpid())
+	for _, args := range [][]string{
+		{"report", rdir},
+		{"pick", rdir, "-knee"},
+		{"pick", rdir, "-knee", "-o", filepath.Join(dir, "picked")},
+		{"refine", rdir, "-design", "1", "-evals", "5"},
+	} {
+		before := snapshot(t, dir)
+		code, out, errOut := runCLI(t, args...)
+		assert.Equal(t, exitUsage, code, "%v: %s", args, errOut)
+		assert.Empty(t, out, "%v", args)
+		assert.Contains(t, errOut, "is in use by another plica (process "+strconv.Itoa(os.Getpid())+" on host", "%v", args)
+		assert.Equal(t, before, snapshot(t, dir), "%v: nothing written", args)
+	}
+	require.NoError(t, os.Remove(filepath.Join(rdir, results.LockFile)))
+	code, _, errOut = runCLI(t, "pick", rdir, "-knee")
+	require.Equal(t, 0, code, errOut)
+	assert.NoFileExists(t, filepath.Join(rdir, results.LockFile), "pick releases the lock")
+}
