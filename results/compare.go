@@ -1,6 +1,7 @@
 package results
 
 import (
+	"context"
 	"encoding/json"
 	"fmt"
 	"io"
@@ -139,7 +140,9 @@ type GroupTest struct {
 // the union of the fronts. Each run gets its normalised hypervolume at the
 // common reference point, IGD and IGD+ to the union front, and the number
 // of union-front points it holds; each pair gets I_ε+ and C both ways.
-func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
+// It looks at ctx between indicators and every CheckEvery points, and
+// stops with ctx.Err() once ctx is done.
+func Compare(ctx context.Context, fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	if len(fronts) == 0 {
 		return nil, inputErrorf("no runs to compare")
 	}
@@ -187,6 +190,9 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	for i, k := range ufIdx {
 		z[i] = union[k]
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	c.UnionFront = len(z)
 	c.Normalization = fmt.Sprintf("each objective mapped to [0, 1] between the ideal and the nadir point of the non-dominated set of the union of the %d fronts (%d points), the same for every run; maximised scores are negated first", len(fronts), len(z))
 	ref := opt.Reference
@@ -204,10 +210,24 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	c.UnionHypervolume = jsonNum(front.Hypervolume(z, c.Reference))
 	for r, f := range fronts {
 		cr := ComparedRun{Run: f.Dir, Seed: f.Info.Seed, Method: f.Info.Method, Evaluations: f.Info.Evaluations, FrontSize: len(f.F)}
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		cr.Hypervolume = jsonNum(front.Hypervolume(nf[r], c.Reference))
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		cr.IGD = jsonNum(front.IGD(nf[r], z))
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		cr.IGDPlus = jsonNum(front.IGDPlus(nf[r], z))
-		for _, q := range nf[r] {
+		for i, q := range nf[r] {
+			if i%CheckEvery == 0 {
+				if err := ctx.Err(); err != nil {
+					return nil, err
+				}
+			}
 			on := true
 			for _, p := range z {
 				if front.Dominates(p, q) {
@@ -226,12 +246,18 @@ func Compare(fronts []*RunFront, opt CompareOptions) (*Comparison, error) {
 	}
 	for a := range fronts {
 		for b := a + 1; b < len(fronts); b++ {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
 			p := ComparedPair{A: fronts[a].Dir, B: fronts[b].Dir,
 				EpsAB: jsonNum(front.EpsilonAdditive(nf[a], nf[b])), EpsBA: jsonNum(front.EpsilonAdditive(nf[b], nf[a])),
 				CAB: jsonNum(front.Coverage(nf[a], nf[b])), CBA: jsonNum(front.Coverage(nf[b], nf[a]))}
 			p.Sentence = pairSentence(p, len(nf[a]), len(nf[b]))
 			c.Pairs = append(c.Pairs, p)
 		}
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
 	}
 	c.Regions = frontRegions(fronts, nf, z, spec.Objectives[0], norm)
 	c.Verdict = verdict(c)

@@ -2,6 +2,7 @@ package results
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"math"
 	"testing"
@@ -38,7 +39,7 @@ func TestCompareHandChecked(t *testing.T) {
 	note, err := SameObjectives([]*RunFront{a, b})
 	require.NoError(t, err)
 	assert.Empty(t, note, "same problem hash")
-	c, err := Compare([]*RunFront{a, b}, CompareOptions{})
+	c, err := Compare(context.Background(), []*RunFront{a, b}, CompareOptions{})
 	require.NoError(t, err)
 	assert.Equal(t, []float64{2, 2}, c.Reference, "reference 1 + 1/H with H = 1")
 	assert.Contains(t, c.ReferenceReason, "H = 1")
@@ -67,7 +68,7 @@ func TestCompareHandChecked(t *testing.T) {
 		{Runs: []string{"A"}, From: 10, To: 10, Points: 1}}, c.Regions, "who holds the union front along reach")
 
 	// a user reference point: HV(A) at 1.1 = 1.1·0.1 + 0.1·1 = 0.21 [derived]
-	c, err = Compare([]*RunFront{a, b}, CompareOptions{Reference: 1.1})
+	c, err = Compare(context.Background(), []*RunFront{a, b}, CompareOptions{Reference: 1.1})
 	require.NoError(t, err)
 	assert.InDelta(t, 0.21, float64(c.Runs[0].Hypervolume), 1e-12, "HV(A) at 1.1")
 	var buf bytes.Buffer
@@ -76,12 +77,12 @@ func TestCompareHandChecked(t *testing.T) {
 
 	// a run that covers another
 	dom := handFront(t, "D", [][2]float64{{20, 1}})
-	c, err = Compare([]*RunFront{dom, a}, CompareOptions{})
+	c, err = Compare(context.Background(), []*RunFront{dom, a}, CompareOptions{})
 	require.NoError(t, err)
 	assert.Contains(t, c.Pairs[0].Sentence, "D covers A", "plain sentence")
 
 	// groups: one label per run; the test needs both groups
-	c, err = Compare([]*RunFront{a, b, dom, a}, CompareOptions{Groups: []string{"x", "y", "x", "y"}})
+	c, err = Compare(context.Background(), []*RunFront{a, b, dom, a}, CompareOptions{Groups: []string{"x", "y", "x", "y"}})
 	require.NoError(t, err)
 	require.Len(t, c.Groups, 2)
 	assert.Equal(t, 2, c.Groups[0].Runs)
@@ -89,15 +90,15 @@ func TestCompareHandChecked(t *testing.T) {
 	assert.False(t, math.IsNaN(float64(c.GroupTests[0].P)), "p-value of the U test")
 
 	for _, opt := range []CompareOptions{{Groups: []string{"x"}}, {Reference: 0.9}} {
-		_, err := Compare([]*RunFront{a, b}, opt)
+		_, err := Compare(context.Background(), []*RunFront{a, b}, opt)
 		var ie *InputError
 		assert.True(t, errors.As(err, &ie), "bad options %+v are input errors (got %v)", opt, err)
 	}
 	empty := handFront(t, "E", nil)
-	c, err = Compare([]*RunFront{a, empty}, CompareOptions{})
+	c, err = Compare(context.Background(), []*RunFront{a, empty}, CompareOptions{})
 	require.NoError(t, err, "a run without feasible designs is compared")
 	assert.True(t, math.IsNaN(float64(c.Runs[1].IGDPlus)), "IGD+ of an empty front has no value")
 	assert.Contains(t, c.Pairs[0].Sentence, "E has no feasible front design")
-	_, err = Compare([]*RunFront{empty}, CompareOptions{})
+	_, err = Compare(context.Background(), []*RunFront{empty}, CompareOptions{})
 	assert.Error(t, err, "nothing to compare")
 }

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -47,6 +48,12 @@ type RunFront struct {
 // LoadRunFront reads run.json, problem.toml and front.csv of a run folder.
 // It does not need write access.
 func LoadRunFront(dir string) (*RunFront, error) {
+	return LoadRunFrontContext(context.Background(), dir)
+}
+
+// LoadRunFrontContext is LoadRunFront that stops with ctx.Err() once ctx
+// is done (looked at every CheckEvery rows of front.csv).
+func LoadRunFrontContext(ctx context.Context, dir string) (*RunFront, error) {
 	dir = filepath.Clean(dir)
 	f := &Folder{Dir: dir}
 	b, err := os.ReadFile(f.Path(RunFile))
@@ -61,7 +68,7 @@ func LoadRunFront(dir string) (*RunFront, error) {
 	if err != nil {
 		return nil, err
 	}
-	header, rows, err := f.ReadCSV(FrontFile)
+	header, rows, err := f.ReadCSVContext(ctx, FrontFile)
 	if err != nil {
 		if errors.Is(err, os.ErrNotExist) {
 			return nil, inputErrorf("%s has no %s yet (is the run still in its first generations?)", dir, FrontFile)
@@ -78,6 +85,11 @@ func LoadRunFront(dir string) (*RunFront, error) {
 		return nil, inputErrorf("%s has no id column", f.Path(FrontFile))
 	}
 	for line, row := range rows {
+		if line%CheckEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		if len(row) != len(header) {
 			return nil, inputErrorf("%s:%d: %d cells for %d columns", f.Path(FrontFile), line+2, len(row), len(header))
 		}

@@ -74,12 +74,12 @@ func FuzzRunFiles(f *testing.F) {
 		if rf != nil {
 			_, err = SameObjectives([]*RunFront{rf, rf})
 			input("compare objectives", err)
-			_, err = Compare([]*RunFront{rf, rf}, CompareOptions{})
+			_, err = Compare(context.Background(), []*RunFront{rf, rf}, CompareOptions{})
 			input("compare", err)
 			_, err = rf.Pick(PickOptions{Method: PickKnee, Count: 1})
 			input("pick", err)
 		}
-		_, err = Merge([]string{dir}, filepath.Join(t.TempDir(), "merged"), "fuzz")
+		_, err = Merge(context.Background(), []string{dir}, filepath.Join(t.TempDir(), "merged"), "fuzz")
 		input("merge", err)
 	})
 }

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"os"
+	"path/filepath"
 	"syscall"
 	"time"
 
@@ -147,6 +148,26 @@ func linkNew(dir, path string, data []byte) error {
 			return os.ErrExist
 		}
 		return err
+	}
+	return nil
+}
+
+// CheckUnlocked is for verbs that read a run folder without writing it
+// (pick -o elsewhere): a folder locked by a live process (a search
+// rewriting its files) is a *LockedError; no lock, or a stale one left by a
+// process of this host that no longer runs, is not. It needs no write
+// access and takes no lock.
+func CheckUnlocked(dir string) error {
+	old, err := os.ReadFile(filepath.Join(dir, LockFile))
+	if errors.Is(err, os.ErrNotExist) {
+		return nil
+	}
+	var holder lockInfo
+	if err != nil || json.Unmarshal(old, &holder) != nil || holder.PID <= 0 || holder.Host == "" {
+		return &LockedError{Dir: dir, Holder: fmt.Sprintf("%s cannot be read", LockFile)}
+	}
+	if holder.Host != hostname() || processAlive(holder.PID) {
+		return &LockedError{Dir: dir, Holder: holder.String()}
 	}
 	return nil
 }

@@ -1,6 +1,7 @@
 package results
 
 import (
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -134,7 +135,12 @@ type origin struct {
 // its sources, by the sources in run.json) are refused. The out folder is
 // locked while it is written; an error after it was made leaves its
 // run.json saying "failed" with the reason and the files written.
-func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
+//
+// Merge looks at ctx every CheckEvery rows it reads. Once ctx is done it
+// stops with ctx.Err() and leaves nothing behind: a merge cannot be
+// resumed, so an interrupted one removes the files it wrote, its lock and
+// the folders it made, and the same command can simply be run again.
+func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeResult, err error) {
 	if len(dirs) == 0 {
 		return nil, inputErrorf("no runs to merge")
 	}
@@ -191,11 +197,15 @@ func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 	// a run with a bad row writes nothing.
 	for _, in := range ins {
 		skipped := 0
-		err := readEvaluations(&Folder{Dir: in.dir}, ins[0].spec, EvaluationHeader(ins[0].spec), func(search.Design, []string, string, string) error { return nil }, &skipped)
+		err := readEvaluations(ctx, &Folder{Dir: in.dir}, ins[0].spec, EvaluationHeader(ins[0].spec), func(search.Design, []string, string, string) error { return nil }, &skipped)
 		if err != nil {
 			return nil, err
 		}
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
+	made := madeDirs(filepath.Join(out, DesignsDir))
 	folder, err := Create(out)
 	if err != nil {
 		if errors.Is(err, problems.ErrInput) {
@@ -206,6 +216,12 @@ func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 	defer folder.Unlock()
 	defer func() {
 		if err == nil {
+			return
+		}
+		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
+			if rerr := folder.removeWritten(made); rerr != nil {
+				err = fmt.Errorf("%w (and %s could not be removed: %v)", err, folder.Dir, rerr)
+			}
 			return
 		}
 		files := append(folder.Written(), RunFile)
@@ -246,7 +262,7 @@ func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 		w := csv.NewWriter(out)
 		w.Write(append(append([]string{}, header...), SourceRunColumn, SourceIndexColumn))
 		for r, in := range ins {
-			err := readEvaluations(&Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
+			err := readEvaluations(ctx, &Folder{Dir: in.dir}, spec, header, func(d search.Design, cells []string, srcRun, srcIndex string) error {
 				row := append([]string{strconv.FormatInt(next, 10)}, cells[1:]...)
 				row = append(row, srcRun, srcIndex)
 				if err := w.Write(row); err != nil {
@@ -276,6 +292,9 @@ func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 		return nil, err
 	}
 
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	merged := front.ParetoFront(designs, (*search.Design).Point)
 	res.Front = FrontRows(spec, merged)
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
@@ -317,7 +336,13 @@ func Merge(dirs []string, out, version string) (_ *MergeResult, err error) {
 		b.WriteString(Caution)
 		return b.String()
 	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
+	}
 	if err := folder.WriteFront(spec, res.Front, comment); err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	info.Files = append(folder.Written(), RunFile)
@@ -384,9 +409,10 @@ func hypervolumeOf(ds []search.Design, ref []float64) float64 {
 // readEvaluations reads evaluations.csv of a run folder and calls add for
 // every complete row with the design (minimised objectives, Index unset),
 // the row's cells in the order of header, and its source run and index
-// (carried over when the run is itself a merge). Rows with the wrong
+// (carried over when the run is itself a merge). It stops with ctx.Err()
+// once ctx is done (looked at every CheckEvery lines). Rows with the wrong
 // number of cells (a torn last line) are counted in skipped.
-func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d search.Design, cells []string, srcRun, srcIndex string) error, skipped *int) error {
+func readEvaluations(ctx context.Context, f *Folder, spec *problems.Spec, header []string, add func(d search.Design, cells []string, srcRun, srcIndex string) error, skipped *int) error {
 	path := f.Path(EvaluationsFile)
 	fh, err := os.Open(path)
 	if err != nil {
@@ -410,6 +436,11 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
 	cells := make([]string, len(header))
 	for line := 2; ; line++ {
+		if line%CheckEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return err
+			}
+		}
 		rec, err := r.Read()
 		if err == io.EOF {
 			return nil
@@ -487,4 +518,52 @@ func readEvaluations(f *Folder, spec *problems.Spec, header []string, add func(d
 			return err
 		}
 	}
+}
+
+// madeDirs lists dir and those of its parents that do not exist yet,
+// deepest first: the folders that making dir creates.
+func madeDirs(dir string) []string {
+	var out []string
+	for d := filepath.Clean(dir); ; d = filepath.Dir(d) {
+		if _, err := os.Lstat(d); err == nil {
+			return out
+		}
+		out = append(out, d)
+		if p := filepath.Dir(d); p == d {
+			return out
+		}
+	}
+}
+
+// removeWritten undoes an interrupted merge: it removes the files this
+// process wrote into the folder and its lock, then the folders in made
+// (those Create made, deepest first) if they are empty, with, when the
+// folder itself is new, the folders of the files written. Files and
+// folders it did not make are never touched.
+func (f *Folder) removeWritten(made []string) error {
+	var errs []error
+	var inner []string
+	for _, name := range f.written {
+		if err := os.Remove(f.Path(name)); err != nil && !errors.Is(err, os.ErrNotExist) {
+			errs = append(errs, err)
+		}
+		for d := filepath.Dir(filepath.FromSlash(name)); d != "."; d = filepath.Dir(d) {
+			inner = append(inner, f.Path(d))
+		}
+	}
+	f.written = nil
+	if err := f.Unlock(); err != nil {
+		errs = append(errs, err)
+	}
+	if slices.ContainsFunc(made, func(d string) bool { return SamePath(d, f.Dir) }) {
+		// deepest first: longer paths before their parents
+		slices.SortFunc(inner, func(a, b string) int { return len(b) - len(a) })
+		for _, d := range inner {
+			os.Remove(d) // only if empty
+		}
+	}
+	for _, d := range made {
+		os.Remove(d) // only if empty
+	}
+	return errors.Join(errs...)
 }

@@ -51,7 +51,7 @@ func TestMergeArchives(t *testing.T) {
 	require.NoError(t, fh.Close())
 
 	ab := filepath.Join(tmp, "ab")
-	res, err := Merge([]string{a, b}, ab, "test")
+	res, err := Merge(context.Background(), []string{a, b}, ab, "test")
 	require.NoError(t, err)
 	assert.Equal(t, 1, res.Skipped, "the torn line is left out")
 	assert.Equal(t, int64(240), res.Info.Evaluations, "every complete row")
@@ -60,7 +60,7 @@ func TestMergeArchives(t *testing.T) {
 	var all []search.Design
 	for _, dir := range []string{a, b} {
 		var n int
-		err := readEvaluations(&Folder{Dir: dir}, spec, EvaluationHeader(spec), func(d search.Design, _ []string, _, idx string) error {
+		err := readEvaluations(context.Background(), &Folder{Dir: dir}, spec, EvaluationHeader(spec), func(d search.Design, _ []string, _, idx string) error {
 			d.Index = int64(len(all))
 			all = append(all, d)
 			return nil
@@ -80,7 +80,7 @@ func TestMergeArchives(t *testing.T) {
 
 	// merge of a merge: the source columns name the first runs
 	abc := filepath.Join(tmp, "abc")
-	_, err = Merge([]string{ab, c}, abc, "test")
+	_, err = Merge(context.Background(), []string{ab, c}, abc, "test")
 	require.NoError(t, err)
 	h, rows, err := (&Folder{Dir: abc}).ReadCSV(EvaluationsFile)
 	require.NoError(t, err)
@@ -94,7 +94,7 @@ func TestMergeArchives(t *testing.T) {
 	assert.Equal(t, "0", rows[0][si], "source index of the first row")
 	assert.Equal(t, strconv.Itoa(119), rows[359][si], "source index of the last row")
 
-	_, err = Merge([]string{a, a}, filepath.Join(tmp, "twice"), "test")
+	_, err = Merge(context.Background(), []string{a, a}, filepath.Join(tmp, "twice"), "test")
 	var ie *InputError
 	assert.True(t, errors.As(err, &ie), "a run given twice is an input error: %v", err)
 }
@@ -124,7 +124,7 @@ func TestMergeKeepsCalibrationFiles(t *testing.T) {
 		runs = append(runs, dir)
 	}
 	out := filepath.Join(tmp, "merged")
-	_, err = Merge(runs, out, "test")
+	_, err = Merge(context.Background(), runs, out, "test")
 	require.NoError(t, err, "merge of runs whose problem names a calibration file")
 	assert.FileExists(t, filepath.Join(out, "calibration", "cal.toml"), "the merged run keeps the calibration file")
 	_, err = problems.LoadProblem(filepath.Join(out, ProblemFile))

@@ -231,10 +231,10 @@ func TestMergeRefusesDoubleCount(t *testing.T) {
 	islandRun(t, b, 2)
 	islandRun(t, c, 3)
 	ab := filepath.Join(tmp, "ab")
-	_, err := Merge([]string{a, b}, ab, "test")
+	_, err := Merge(context.Background(), []string{a, b}, ab, "test")
 	require.NoError(t, err)
 	abc := filepath.Join(tmp, "abc")
-	res, err := Merge([]string{ab, c}, abc, "test")
+	res, err := Merge(context.Background(), []string{ab, c}, abc, "test")
 	require.NoError(t, err)
 	require.Len(t, res.Info.Sources, 3)
 	assert.Equal(t, []uint64{1, 2, 3}, []uint64{res.Info.Sources[0].Seed, res.Info.Sources[1].Seed, res.Info.Sources[2].Seed})
@@ -249,7 +249,7 @@ func TestMergeRefusesDoubleCount(t *testing.T) {
 		{[]string{abc, ab}, "both hold the evaluations of the search"},
 	} {
 		out := filepath.Join(tmp, "x")
-		_, err := Merge(bad.runs, out, "test")
+		_, err := Merge(context.Background(), bad.runs, out, "test")
 		require.Error(t, err, "%v", bad.runs)
 		assert.True(t, errors.Is(err, problems.ErrInput))
 		assert.Contains(t, err.Error(), bad.want)
@@ -257,11 +257,11 @@ func TestMergeRefusesDoubleCount(t *testing.T) {
 	}
 	twin := filepath.Join(tmp, "twin")
 	islandRun(t, twin, 1)
-	_, err = Merge([]string{a, twin}, filepath.Join(tmp, "y"), "test")
+	_, err = Merge(context.Background(), []string{a, twin}, filepath.Join(tmp, "y"), "test")
 	assert.ErrorContains(t, err, "same seed 1: they evaluate the same designs")
 
-	_, err = Merge([]string{a, b}, filepath.Join(a, "designs"), "test")
+	_, err = Merge(context.Background(), []string{a, b}, filepath.Join(a, "designs"), "test")
 	assert.ErrorContains(t, err, "is designs of the run folder")
-	_, err = Merge([]string{a, b}, "", "test")
+	_, err = Merge(context.Background(), []string{a, b}, "", "test")
 	assert.ErrorContains(t, err, "-o: the name is empty")
 }

@@ -2,6 +2,7 @@ package results
 
 import (
 	"bytes"
+	"context"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -321,6 +322,17 @@ func DesignFileName(id int) string { return fmt.Sprintf("%s/front-%03d.toml", De
 
 // ReadCSV reads a CSV file of the run folder into a header and records.
 func (f *Folder) ReadCSV(name string) ([]string, [][]string, error) {
+	return f.ReadCSVContext(context.Background(), name)
+}
+
+// CheckEvery is how many rows the readers of run-folder files read
+// between two looks at their context: cheap, and often enough that an
+// interrupt lands well within a second on any file plica reads.
+const CheckEvery = 1024
+
+// ReadCSVContext is ReadCSV that stops with ctx.Err() once ctx is done
+// (looked at every CheckEvery rows).
+func (f *Folder) ReadCSVContext(ctx context.Context, name string) ([]string, [][]string, error) {
 	fh, err := os.Open(f.Path(name))
 	if err != nil {
 		return nil, nil, err
@@ -328,13 +340,25 @@ func (f *Folder) ReadCSV(name string) ([]string, [][]string, error) {
 	defer fh.Close()
 	r := csv.NewReader(fh)
 	r.FieldsPerRecord = -1
-	recs, err := r.ReadAll()
-	if err != nil && err != io.EOF {
-		var pe *csv.ParseError
-		if errors.As(err, &pe) {
-			return nil, nil, inputErrorf("%s:%d:%d: %v", f.Path(name), pe.Line, pe.Column, pe.Err)
+	var recs [][]string
+	for {
+		if len(recs)%CheckEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, nil, err
+			}
 		}
-		return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
+		rec, err := r.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				return nil, nil, inputErrorf("%s:%d:%d: %v", f.Path(name), pe.Line, pe.Column, pe.Err)
+			}
+			return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
+		}
+		recs = append(recs, rec)
 	}
 	if len(recs) == 0 {
 		return nil, nil, inputErrorf("%s is empty (expected a header and rows)", f.Path(name))

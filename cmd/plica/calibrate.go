@@ -109,6 +109,11 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 	var fits [2]*problems.BenchFit
 	var errs problems.Errors
 	for _, axis := range bench.Axes() {
+		// Each stage looks at ctx: Ctrl-C stops before the next one, with
+		// nothing written.
+		if err := ctx.Err(); err != nil {
+			return err
+		}
 		f, err := bench.Fit(axis, intercept, clamp)
 		if err != nil {
 			var e *problems.Error
@@ -124,6 +129,9 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 		return errs
 	}
 
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	var cal *problems.Calibration
 	if o.design != "" {
 		if cal, err = calibrateAgainst(o, bench, fits); err != nil {
@@ -131,6 +139,9 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 		}
 	}
 	// Everything is computed; now render, then write files.
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	var plot bytes.Buffer
 	if o.plot != "" {
 		if err := report.CalibrationSVG(&plot, "cantilever bench fit: "+filepath.Base(bench.File), plotPanels(fits)); err != nil {
@@ -145,6 +156,9 @@ func runCalibrate(ctx context.Context, fs *flag.FlagSet, args []string, stdout, 
 	}
 	if o.out != "" {
 		paths, data = append(paths, o.out), append(data, cal.Format())
+	}
+	if err := ctx.Err(); err != nil {
+		return err
 	}
 	if err := results.WriteAtomicAll(paths, data); err != nil {
 		return err

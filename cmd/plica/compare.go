@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"strings"
 
 	"plica/results"
@@ -57,7 +58,7 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 	}
 	var fronts []*results.RunFront
 	for _, dir := range pos {
-		f, err := results.LoadRunFront(dir)
+		f, err := results.LoadRunFrontContext(ctx, dir)
 		if err != nil {
 			return err
 		}
@@ -73,18 +74,29 @@ func runCompare(ctx context.Context, fs *flag.FlagSet, args []string, stdout, st
 			opt.Groups = append(opt.Groups, strings.TrimSpace(g))
 		}
 	}
-	c, err := results.Compare(fronts, opt)
+	c, err := results.Compare(ctx, fronts, opt)
 	if err != nil {
 		return err
 	}
 	if note != "" {
 		c.Notes = append([]string{note}, c.Notes...)
 	}
+	if err := ctx.Err(); err != nil {
+		return err
+	}
 	if *plotPath != "" {
 		if err := report.WriteOverlaySVG(*plotPath, fronts); err != nil {
 			return fmt.Errorf("plot: %w", err)
 		}
 		c.Notes = append(c.Notes, "overlay plot written to "+*plotPath)
+	}
+	if err := ctx.Err(); err != nil {
+		// Stopped while plotting: the plot is whole (written atomically) but
+		// the user asked to stop, so it is removed and nothing is printed.
+		if *plotPath != "" {
+			os.Remove(*plotPath)
+		}
+		return err
 	}
 	if *asJSON {
 		enc := json.NewEncoder(stdout)

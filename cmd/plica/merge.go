@@ -44,7 +44,7 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	if *out == "" {
 		return usagef("merge: -o: expected the folder of the merged run")
 	}
-	res, err := results.Merge(pos, *out, version)
+	res, err := results.Merge(ctx, pos, *out, version)
 	if err != nil {
 		return err
 	}

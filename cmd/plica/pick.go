@@ -104,12 +104,33 @@ func runPick(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 			return usagef("-o %s is a file (expected a folder for the design files)", *out)
 		}
 	}
-	rf, err := results.LoadRunFront(pos[0])
+	// pick reads front.csv and copies designs/front-NNN.toml, which a live
+	// search rewrites between generations: the two could disagree. Writing
+	// into the run folder (RUN/picked) it holds the lock, as a search does;
+	// writing elsewhere it only checks that no live process holds it.
+	if *out == "" || results.SamePath(*out, filepath.Join(pos[0], results.PickedDir)) {
+		folder := &results.Folder{Dir: filepath.Clean(pos[0])}
+		if results.Exists(folder.Path(results.RunFile)) {
+			if err := folder.Lock(); err != nil {
+				return err
+			}
+			defer folder.Unlock()
+			if n := folder.LockNote(); n != "" {
+				fmt.Fprintf(stderr, "plica: note: %s\n", n)
+			}
+		}
+	} else if err := results.CheckUnlocked(pos[0]); err != nil {
+		return err
+	}
+	rf, err := results.LoadRunFrontContext(ctx, pos[0])
 	if err != nil {
 		return err
 	}
 	res, err := rf.Pick(opt)
 	if err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
 		return err
 	}
 	dir := *out

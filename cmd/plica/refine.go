@@ -46,6 +46,16 @@ func runRefine(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if err != nil {
 		return usagef("%v", err)
 	}
+	// refine reads front.csv and writes designs/refined-NNN.toml into the
+	// run folder, which a live search rewrites: it holds the folder's lock
+	// as search, resume and merge do.
+	if err := folder.Lock(); err != nil {
+		return err
+	}
+	defer folder.Unlock()
+	if n := folder.LockNote(); n != "" {
+		fmt.Fprintf(stderr, "plica: note: %s\n", n)
+	}
 	spec, err := problems.LoadProblem(folder.Path(results.ProblemFile))
 	if err != nil {
 		return err
@@ -74,6 +84,9 @@ func runRefine(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	set.Workers = 1
 	res, err := search.Refine(ctx, p, x0, sc, &set)
 	if err != nil {
+		return err
+	}
+	if err := ctx.Err(); err != nil {
 		return err
 	}
 	best := res.Population[0]

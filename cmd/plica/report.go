@@ -61,12 +61,21 @@ func runReport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 			return err
 		}
 	}
-	return writeReport(folder, *out, ids, stdout, stderr)
+	// report writes RUN/plots and RUN/report.html, which a live search
+	// rewrites: it holds the folder's lock as search does.
+	if err := folder.Lock(); err != nil {
+		return err
+	}
+	defer folder.Unlock()
+	if n := folder.LockNote(); n != "" {
+		fmt.Fprintf(stderr, "plica: note: %s\n", n)
+	}
+	return writeReport(ctx, folder, *out, ids, stdout, stderr)
 }
 
 // writeReport writes a run's report and plots and says where.
-func writeReport(folder *results.Folder, path string, ids []int, stdout, stderr io.Writer) error {
-	rep, err := report.Write(folder, path, reportOptions(ids))
+func writeReport(ctx context.Context, folder *results.Folder, path string, ids []int, stdout, stderr io.Writer) error {
+	rep, err := report.Write(ctx, folder, path, reportOptions(ids))
 	var unknown *report.UnknownDesignError
 	if errors.As(err, &unknown) {
 		return usagef("-designs: %v", err)

@@ -168,7 +168,12 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 	if err == nil {
 		// The run is complete and saved; a report that cannot be written
 		// is a warning, never a failed run.
-		if rerr := writeReport(folder, "", nil, stdout, stderr); rerr != nil {
+		rerr := writeReport(ctx, folder, "", nil, stdout, stderr)
+		if errors.Is(rerr, context.Canceled) {
+			fmt.Fprintf(stderr, "plica: interrupted while writing the report; the run is saved (write it with plica report %s)\n", folder.Dir)
+			return rerr
+		}
+		if rerr != nil {
 			fmt.Fprintf(stderr, "plica: warning: report not written: %v (the run is saved; retry with plica report %s)\n", rerr, folder.Dir)
 		}
 	}

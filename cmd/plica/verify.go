@@ -32,7 +32,10 @@ func runVerify(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if len(pos) != 0 {
 		return usagef("verify: expected no arguments, got %d", len(pos))
 	}
-	cases := verify.Run(*quick)
+	cases, err := verify.Run(ctx, *quick)
+	if err != nil {
+		return err
+	}
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "area\tcase\tcomputed\tpublished\ttolerance\tunit\tresult\tsource")
 	failed := 0

@@ -454,7 +454,7 @@ func BenchmarkBuild(b *testing.B) {
 	var rep *Report
 	for b.Loop() {
 		var err error
-		rep, err = Build(f, Options{})
+		rep, err = Build(context.Background(), f, Options{})
 		if err != nil {
 			b.Fatal(err)
 		}

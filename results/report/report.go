@@ -5,6 +5,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"fmt"
 	"html/template"
 	"math"
@@ -128,9 +129,11 @@ func num(x float64) string {
 // Build reads a run folder and builds its report and figures. Parts
 // that cannot be built are reported in the page and in Report.Problems; an
 // error means the folder itself cannot be read (or a requested design id
-// is not on the front).
-func Build(f *results.Folder, opt Options) (*Report, error) {
-	r, err := Load(f)
+// is not on the front). Build looks at ctx between figures and designs,
+// inside each design's check and every results.CheckEvery rows read, and
+// stops with ctx.Err() once ctx is done.
+func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error) {
+	r, err := load(ctx, f)
 	if err != nil {
 		return nil, err
 	}
@@ -140,7 +143,13 @@ func Build(f *results.Folder, opt Options) (*Report, error) {
 	}
 	rep := &Report{Designs: ids}
 	page := r.page(ids)
-	addFig := func(dst *[]figureSection, fig Figure, err error) {
+	// addFig builds the next figure, unless ctx is done (then Build
+	// returns ctx.Err() at its next look), and adds it or its problem.
+	addFig := func(dst *[]figureSection, build func() (Figure, error)) {
+		if ctx.Err() != nil {
+			return
+		}
+		fig, err := build()
 		rf := figureSection{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
 		if err != nil {
 			rf.Problem = fmt.Sprintf("%s could not be drawn: %v", fig.Title, err)
@@ -152,17 +161,17 @@ func Build(f *results.Folder, opt Options) (*Report, error) {
 		*dst = append(*dst, rf)
 	}
 	if len(r.Front) > 0 {
-		fig, err := r.FrontFigure(ids)
-		addFig(&page.Figures, fig, err)
-		fig, err = r.VariablesFigure(ids)
-		addFig(&page.Figures, fig, err)
+		addFig(&page.Figures, func() (Figure, error) { return r.FrontFigure(ids) })
+		addFig(&page.Figures, func() (Figure, error) { return r.VariablesFigure(ids) })
 	}
 	if len(r.History) > 0 {
-		fig, err := r.HypervolumeFigure()
-		addFig(&page.Figures, fig, err)
+		addFig(&page.Figures, r.HypervolumeFigure)
 	}
 	reasons := r.reasons(ids, opt.Designs != nil)
 	for _, id := range ids {
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
 		row, _ := r.FrontRow(id)
 		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id)}
 		for i, o := range r.Spec.Objectives {
@@ -178,7 +187,10 @@ func Build(f *results.Folder, opt Options) (*Report, error) {
 		design, sc, err := problems.LoadDesign(f.Path(d.File))
 		var res *objective.Result
 		if err == nil {
-			res, err = objective.Evaluate(design, sc)
+			res, err = objective.EvaluateContext(ctx, design, sc)
+		}
+		if ctxErr := ctx.Err(); ctxErr != nil {
+			return nil, ctxErr
 		}
 		if err != nil {
 			d.Problem = fmt.Sprintf("design %d (%s) could not be checked: %v", id, d.File, err)
@@ -206,12 +218,17 @@ func Build(f *results.Folder, opt Options) (*Report, error) {
 			d.Problem = fmt.Sprintf("design %d: %v", id, err)
 			rep.Problems = append(rep.Problems, d.Problem)
 		} else {
-			fig, err := BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
-			addFig(&d.Figures, fig, err)
-			fig, err = WorkspaceFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace)
-			addFig(&d.Figures, fig, err)
+			addFig(&d.Figures, func() (Figure, error) {
+				return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
+			})
+			addFig(&d.Figures, func() (Figure, error) {
+				return WorkspaceFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace)
+			})
 		}
 		page.Designs = append(page.Designs, d)
+	}
+	if err := ctx.Err(); err != nil {
+		return nil, err
 	}
 	page.Problems = rep.Problems
 	var b bytes.Buffer
@@ -224,10 +241,15 @@ func Build(f *results.Folder, opt Options) (*Report, error) {
 
 // WriteReport builds the report of a run folder, writes its figures into
 // RUN/plots and the page to path (RUN/report.html when empty), each file
-// atomically, and returns the report.
-func Write(f *results.Folder, path string, opt Options) (*Report, error) {
-	rep, err := Build(f, opt)
+// atomically, and returns the report. Interrupted (ctx done) while it
+// builds, it writes nothing and returns ctx.Err(); the files are written
+// only once everything is built.
+func Write(ctx context.Context, f *results.Folder, path string, opt Options) (*Report, error) {
+	rep, err := Build(ctx, f, opt)
 	if err != nil {
+		return nil, err
+	}
+	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
 	if err := WritePlots(f, rep.Figures); err != nil {

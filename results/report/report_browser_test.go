@@ -40,7 +40,7 @@ func TestReportInBrowser(t *testing.T) {
 		t.Skip("no chromium binary on PATH (install the Debian package chromium, or set PLICA_REQUIRE_BROWSER=1 to make this a failure)")
 	}
 	f := fixtureRun(t, 72)
-	rep, err := Write(f, "", Options{})
+	rep, err := Write(context.Background(), f, "", Options{})
 	require.NoError(t, err)
 	path, err := filepath.Abs(f.Path(File))
 	require.NoError(t, err)

@@ -2,6 +2,7 @@ package report
 
 import (
 	"bytes"
+	"context"
 	"encoding/xml"
 	"errors"
 	"fmt"
@@ -99,7 +100,7 @@ func TestReport(t *testing.T) {
 	checkText := func(name string, res *objective.Result) string {
 		return "CHECK OUTPUT FOR " + name
 	}
-	rep, err := Write(f, "", Options{CheckText: checkText})
+	rep, err := Write(context.Background(), f, "", Options{CheckText: checkText})
 	require.NoError(t, err)
 	assert.Empty(t, rep.Problems, "every part of the report is built")
 	page := readFile(t, f.Path(File))
@@ -170,7 +171,7 @@ func TestReportRequestedDesigns(t *testing.T) {
 	require.NoError(t, err)
 	last := r.Front[len(r.Front)-1].ID
 	out := f.Path("elsewhere.html")
-	rep, err := Write(f, out, Options{Designs: []int{last}})
+	rep, err := Write(context.Background(), f, out, Options{Designs: []int{last}})
 	require.NoError(t, err)
 	assert.Equal(t, []int{last}, rep.Designs)
 	page := readFile(t, out)
@@ -181,7 +182,7 @@ func TestReportRequestedDesigns(t *testing.T) {
 	assert.FileExists(t, f.Path(fmt.Sprintf("%s/backbone-%03d.svg", PlotsDir, last)))
 	assert.NoFileExists(t, f.Path(File), "-o writes elsewhere")
 
-	_, err = Build(f, Options{Designs: []int{len(r.Front) + 1}})
+	_, err = Build(context.Background(), f, Options{Designs: []int{len(r.Front) + 1}})
 	var unknown *UnknownDesignError
 	require.True(t, errors.As(err, &unknown), "unknown id gives UnknownDesignError, got %v", err)
 	assert.ErrorContains(t, err, fmt.Sprintf("expected an id from 1 to %d", len(r.Front)))
@@ -189,7 +190,7 @@ func TestReportRequestedDesigns(t *testing.T) {
 
 func TestReportEmptyFront(t *testing.T) {
 	f := fixtureRun(t, 36, impossibleSag)
-	rep, err := Build(f, Options{})
+	rep, err := Build(context.Background(), f, Options{})
 	require.NoError(t, err)
 	assert.Empty(t, rep.Designs, "nothing to show")
 	page := string(rep.HTML)
@@ -204,7 +205,7 @@ func TestReportEmptyFront(t *testing.T) {
 func TestReportMissingDesignFile(t *testing.T) {
 	f := fixtureRun(t, 36)
 	require.NoError(t, os.Remove(f.Path(results.DesignFileName(1))))
-	rep, err := Build(f, Options{Designs: []int{1}})
+	rep, err := Build(context.Background(), f, Options{Designs: []int{1}})
 	require.NoError(t, err, "a missing design file does not stop the report")
 	require.Len(t, rep.Problems, 1)
 	assert.Contains(t, rep.Problems[0], "front-001.toml")
@@ -215,7 +216,7 @@ func TestReportMissingDesignFile(t *testing.T) {
 func TestReportBeforeFront(t *testing.T) {
 	f := fixtureRun(t, 36)
 	require.NoError(t, os.Remove(f.Path(results.FrontFile)))
-	rep, err := Build(f, Options{})
+	rep, err := Build(context.Background(), f, Options{})
 	require.NoError(t, err, "a run without front.csv still has a report")
 	page := string(rep.HTML)
 	parseReport(t, rep.HTML)

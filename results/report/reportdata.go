@@ -1,6 +1,7 @@
 package report
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"sort"
@@ -54,6 +55,12 @@ type Row struct {
 // without evaluations or history (stopped before its first generation)
 // loads with those parts empty.
 func Load(f *results.Folder) (*Data, error) {
+	return load(context.Background(), f)
+}
+
+// load is Load that stops with ctx.Err() once ctx is done (looked at every
+// results.CheckEvery rows).
+func load(ctx context.Context, f *results.Folder) (*Data, error) {
 	info, err := f.ReadInfo()
 	if err != nil {
 		return nil, err
@@ -64,12 +71,12 @@ func Load(f *results.Folder) (*Data, error) {
 	}
 	r := &Data{Folder: f, Info: info, Spec: spec}
 	if results.Exists(f.Path(results.FrontFile)) {
-		if r.Front, err = r.readRows(results.FrontFile, true); err != nil {
+		if r.Front, err = r.readRows(ctx, results.FrontFile, true); err != nil {
 			return nil, err
 		}
 	}
 	if results.Exists(f.Path(results.EvaluationsFile)) {
-		if r.Evaluated, err = r.readRows(results.EvaluationsFile, false); err != nil {
+		if r.Evaluated, err = r.readRows(ctx, results.EvaluationsFile, false); err != nil {
 			return nil, err
 		}
 		r.Evaluated = thin(r.Evaluated, MaxEvaluatedPoints)
@@ -102,8 +109,8 @@ func columns(file string, header, want []string) ([]int, error) {
 
 // readRows reads front.csv (front = true) or the feasible rows of
 // evaluations.csv.
-func (r *Data) readRows(name string, front bool) ([]Row, error) {
-	header, recs, err := r.Folder.ReadCSV(name)
+func (r *Data) readRows(ctx context.Context, name string, front bool) ([]Row, error) {
+	header, recs, err := r.Folder.ReadCSVContext(ctx, name)
 	if err != nil {
 		return nil, err
 	}
@@ -128,6 +135,11 @@ func (r *Data) readRows(name string, front bool) ([]Row, error) {
 	}
 	var out []Row
 	for line, rec := range recs {
+		if line%results.CheckEvery == 0 {
+			if err := ctx.Err(); err != nil {
+				return nil, err
+			}
+		}
 		at := func(k int) string {
 			if k < len(rec) {
 				return rec[k]

@@ -7,6 +7,7 @@
 package verify
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"slices"
@@ -89,18 +90,34 @@ func defs() []caseDef {
 }
 
 // Run runs the built-in verification cases. With quick, the slow cases
-// (a full NSGA-II run) are left out.
-func Run(quick bool) []Case {
+// (a full NSGA-II run) are left out. Run looks at ctx before each case and
+// stops with ctx.Err() (and no cases) once ctx is done; a case running
+// then is abandoned (cases compute in memory and write nothing), so an
+// interrupt does not wait for the NSGA-II run to end.
+func Run(ctx context.Context, quick bool) ([]Case, error) {
+	return run(ctx, defs(), quick)
+}
+
+func run(ctx context.Context, all []caseDef, quick bool) ([]Case, error) {
 	var out []Case
-	for _, d := range defs() {
+	for _, d := range all {
 		if quick && d.Slow {
 			continue
 		}
-		v, err := d.Compute()
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+		v, err, stopped := compute(ctx, d.Compute)
+		if stopped != nil {
+			return nil, stopped
+		}
 		out = append(out, Case{Area: d.Area, Name: d.Name, Unit: d.Unit, Computed: v, Published: d.Published,
 			Tolerance: d.Tolerance, Relative: d.Relative, Source: d.Source, Err: err})
 	}
-	return out
+	if err := ctx.Err(); err != nil {
+		return nil, err // the last case may have been cut short
+	}
+	return out, nil
 }
 
 // Row renders one case as a row of values for a table.
@@ -118,4 +135,24 @@ func (c Case) Row() []string {
 		computed = "error: " + c.Err.Error()
 	}
 	return []string{c.Area, c.Name, computed, fmt.Sprintf("%.10g", c.Published), tol, c.Unit, verdict, c.Source}
+}
+
+// compute runs one case's Compute, or returns ctx.Err() as stopped once
+// ctx is done before it ends (leaving it to finish in the background).
+func compute(ctx context.Context, f func() (float64, error)) (v float64, err, stopped error) {
+	type result struct {
+		v   float64
+		err error
+	}
+	done := make(chan result, 1)
+	go func() {
+		v, err := f()
+		done <- result{v, err}
+	}()
+	select {
+	case r := <-done:
+		return r.v, r.err, nil
+	case <-ctx.Done():
+		return 0, nil, ctx.Err()
+	}
 }

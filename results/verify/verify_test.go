@@ -1,6 +1,8 @@
 package verify
 
 import (
+	"context"
+	"fmt"
 	"go/scanner"
 	"go/token"
 	"io/fs"
@@ -21,7 +23,8 @@ import (
 // TestVerificationCases runs the same built-in cases that plica verify
 // prints; each carries its published value and source.
 func TestVerificationCases(t *testing.T) {
-	cases := Run(testing.Short())
+	cases, err := Run(context.Background(), testing.Short())
+	require.NoError(t, err)
 	assert.GreaterOrEqual(t, len(cases), 15)
 	for _, c := range cases {
 		assert.NoError(t, c.Err, "%s: %s", c.Area, c.Name)
@@ -47,7 +50,9 @@ func TestCaseList(t *testing.T) {
 		}
 	}
 	assert.Positive(t, slow, "the NSGA-II run is slow")
-	assert.Len(t, Run(true), len(defs())-slow, "-quick leaves out the slow cases")
+	quick, err := Run(context.Background(), true)
+	require.NoError(t, err)
+	assert.Len(t, quick, len(defs())-slow, "-quick leaves out the slow cases")
 }
 
 // Pass against hand-made outcomes: relative and absolute tolerances, errors and NaN.
@@ -159,4 +164,30 @@ func TestPublishedValuesWrittenOnce(t *testing.T) {
 		assert.LessOrEqual(t, len(where), 1, "published value %v of %q is written in %d files: %v; refer to the case instead",
 			v, names, len(where), where)
 	}
+}
+
+// TestRunInterrupted cancels the context inside the second of five cases:
+// Run returns context.Canceled and no cases, and the cases after it never
+// start (counted, not timed).
+func TestRunInterrupted(t *testing.T) {
+	ctx, cancel := context.WithCancel(context.Background())
+	defer cancel()
+	started := 0
+	block := make(chan struct{})
+	defer close(block)
+	var all []caseDef
+	for i := range 5 {
+		all = append(all, caseDef{Area: "search", Name: fmt.Sprint("case ", i), Compute: func() (float64, error) {
+			started++
+			if i == 1 {
+				cancel()
+				<-block // a slow case: Run must not wait for it
+			}
+			return 1, nil
+		}})
+	}
+	cases, err := run(ctx, all, false)
+	assert.ErrorIs(t, err, context.Canceled)
+	assert.Empty(t, cases)
+	assert.Equal(t, 2, started, "the cases after the interrupt never start")
 }
