@@ -14,16 +14,17 @@ import (
 func TestLayering(t *testing.T) {
 	allowed := map[string][]string{
 		"plica/surrogate/shell":            {},
-		"plica/surrogate/convolution":      {"plica/surrogate/shell"},
-		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell"},
-		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell"},
+		"plica/surrogate/convolution":      {"plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate/internal/wallgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 		"plica/objective/kinematics":       {},
-		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics"},
+		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/surrogate/solid"},
 		"plica/search":                     {},
-		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/search"},
-		"plica/results":                    {"plica/search", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics"},
+		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/search", "plica/surrogate/solid"},
+		"plica/results":                    {"plica/search", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/surrogate/solid"},
 		"plica/surrogate/solid":            {},
-		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell"},
+		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 	}
 	for pkg, ok := range allowed {
 		out, err := exec.Command("go", "list", "-deps", pkg).Output()
