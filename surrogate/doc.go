@@ -24,6 +24,13 @@
 //     model of half a convolution with conical-frustum elements
 //     (milliseconds).
 //
+// Both fidelities correct the thin-shell wall with the axisymmetric solid
+// model of package solid (thick-wall strain, bending strain and EI from
+// the bending of the convolution itself; wall_table_gen.go for Strip,
+// written by internal/wallgen; STRAIN.md). Validity is the validated
+// range of every model; Section.OutOfRange names the limits a geometry
+// lies outside.
+//
 // The wall models of one convolution live in package convolution, the
 // shell finite elements in package shell.
 //
@@ -33,7 +40,7 @@
 // comparison with the literature (EJMAAxialRate and friends), and a small
 // table of generic printable materials (LookupMaterial).
 //
-// Limits (PHYSICS §6.10): linear elastic, small movement per convolution
+// Limits (PHYSICS §6.10, and Validity): linear elastic, small movement per convolution
 // (e ≲ 0.1·w), no convolution contact, unpressurised; the beam analogy
 // assumes N ≳ 5 convolutions, L ≳ Dm and Dm ≫ w; the orthotropic shell
 // (geometric-mean Poisson coupling) and the helical torsion correction

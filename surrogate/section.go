@@ -47,8 +47,15 @@ import "math"
 // (§6.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
 // convolution farthest from the neutral axis per unit curvature change
 // (= q·Dm/2 without a spine, §6.9). StrainPerCurvature is the peak
-// meridional surface strain at that opening: strip strain × generated
-// strain factor (Strip) or shell recovery (Shell).
+// meridional surface strain per unit curvature: the thin-shell strain
+// (strip strain × generated strain factor, or shell recovery) per unit
+// opening, times the solid model's bending factor, times that opening;
+// StrainPerMovement the thin-shell strain per unit extension times the
+// solid model's axial factor; the convolutions' share of EI is multiplied
+// by the solid model's EI factor (WallFactors, STRAIN.md; Strip: the
+// generated wall tables, Shell: the solid model solved directly;
+// trapezoids keep the thin-shell wall). OutOfRange lists the limits of
+// Validity the geometry lies outside.
 func (b Bellows) Section(f Fidelity) (Section, error) {
 	if f != Strip && f != Shell {
 		return Section{}, inputErr("fidelity", "%d is not a fidelity (expected: strip|shell)", int(f))

@@ -53,7 +53,7 @@ var Validity = []Limit{
 	{Quantity: QuantityDepthPitch, Profiles: []Profile{Sinusoid}, Min: 0.15, Max: 1.6,
 		Model: "wall strain and EI of the sinusoid (solid model tables)",
 		Basis: "CalculiX 3-D solid model"},
-	{Quantity: QuantityDepthPitch, Profiles: []Profile{UShape}, Min: 0.5, Max: 1.6,
+	{Quantity: QuantityDepthPitch, Profiles: []Profile{UShape}, Min: 0.6, Max: 1.6,
 		Model: "wall strain and EI of the U profile (solid model tables)",
 		Basis: "CalculiX 3-D solid model"},
 	{Quantity: QuantityConvolutions, Min: 5, Max: math.Inf(1),

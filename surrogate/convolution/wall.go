@@ -45,9 +45,11 @@ type WallFactors struct {
 	// over the shell model's axial strain at the opening q·Rm that the
 	// beam analogy gives the convolution farthest from the axis.
 	Bending float64
-	// EI is EI_solid/(k_solid·q·Rm²/2): the solid's bending stiffness of
-	// one convolution (harmonic 1) over the beam analogy of its own axial
-	// stiffness (harmonic 0).
+	// EI is EI_solid/(k_shell·q·Rm²/2): the solid's bending stiffness of
+	// one convolution (harmonic 1) over the beam analogy of the shell
+	// model's axial stiffness, so that k_shell·q·Rm²/2·EI is the solid's
+	// EI (it corrects both the beam analogy and the thin-shell stiffness
+	// of a thick wall).
 	EI float64
 }
 
@@ -87,7 +89,7 @@ func Wall(m *Meridian, t, nu float64, ms solid.MeshSize) (WallFactors, error) {
 	f := WallFactors{
 		Axial:   math.Abs(r.Axial.Meridional.Value) / sh.StrainPerMovement,
 		Bending: math.Abs(r.Bending.Meridional.Value) / (sh.StrainPerMovement * q * rm),
-		EI:      r.BendingStiffness / r.BeamAnalogyEI(c),
+		EI:      r.BendingStiffness / (sh.K * q * rm * rm / 2),
 	}
 	if !(f.Axial > 0 && f.Bending > 0 && f.EI > 0) || math.IsInf(f.Axial+f.Bending+f.EI, 0) {
 		return WallFactors{}, fmt.Errorf("convolution: solid model gave non-positive factors %+v", f)
