@@ -4,6 +4,8 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"plica/surrogate"
 )
 
 const (
@@ -100,9 +102,58 @@ func (e *evaluator) checks(res *Result) {
 		add("payload_to_weight", sc.PayloadToWeight, q.MinPayloadToWeight, "", false, "")
 	}
 	e.printability(res, add)
+	e.validatedRange(res)
 	res.Pass = true
 	for _, c := range res.Checks {
-		res.Pass = res.Pass && c.Pass
+		res.Pass = res.Pass && (c.Pass || c.Warn)
+	}
+}
+
+// validatedRange warns about every bellows with geometry that lies
+// outside the surrogate's validated range (surrogate.Validity: the
+// geometric limits of its section, the convolution count over the
+// bellows' length and the largest opening per convolution over the
+// workspace) and, unless the requirements switch it off, adds the check
+// validated_range[i]: the largest relative excess over a limit (0 inside,
+// at most 10), which must not exceed 0. It warns without failing the
+// design (Check.Warn); a search treats it as a constraint.
+func (e *evaluator) validatedRange(res *Result) {
+	sc := &res.Scores
+	for i, b := range e.d.Bellows {
+		if b.Model == nil {
+			continue
+		}
+		var notes []surrogate.RangeNote
+		if i < len(e.st) && e.st[i].Section != nil {
+			s := e.st[i].Section
+			notes = append(notes, s.OutOfRange...)
+			g := b.Model.Geometry
+			n := (b.StraightLength + b.CurvedLength) / g.Pitch
+			notes = append(notes, surrogate.CheckLimit(surrogate.QuantityConvolutions, g.Profile, n)...)
+			if i < len(sc.StrainPerBellows) && s.StrainPerCurvature > 0 {
+				// largest curvature change over the workspace × opening per curvature
+				open := sc.StrainPerBellows[i] / s.StrainPerCurvature * s.OpeningPerCurvature
+				if !math.IsNaN(open) {
+					notes = append(notes, surrogate.CheckLimit(surrogate.QuantityOpening, g.Profile, open/g.Depth)...)
+				}
+			}
+		}
+		worst := 0.0
+		var names []string
+		for _, n := range notes {
+			worst = math.Max(worst, n.Excess())
+			names = append(names, n.Quantity)
+			res.Warnings = append(res.Warnings, fmt.Sprintf("bellows %d is outside the validated range: %s", i+1, n))
+		}
+		if e.sc.Requirements.OutsideValidatedRange {
+			continue
+		}
+		note := "inside surrogate.Validity"
+		if len(names) > 0 {
+			note = "outside: " + strings.Join(names, ", ") + " (warns; a search constraint)"
+		}
+		res.Checks = append(res.Checks, Check{Name: fmt.Sprintf("validated_range[%d]", i+1), Value: worst, Limit: 0, Max: true,
+			Pass: worst <= 0, Warn: true, Note: note})
 	}
 }
 
@@ -174,7 +225,18 @@ func (e *evaluator) models(res *Result) {
 		fmt.Sprintf("tip sag: geometrically exact rod statics (RK4, Newton shooting, %d iterations), worst case found with the linear compliance over %d x %d samples",
 			res.Scores.SagIterations, len(e.shapes), defaults(e.sc.Workspace).BaseSteps),
 		"stability: two-tube snap test with the bellows' torsional stiffness",
-		"wall strain: strip or shell wall model per unit curvature change",
+		"wall strain: strip or shell wall model per unit curvature change, thick-wall and bending corrections from the axisymmetric solid model (sinusoid, U)",
+	}
+	geometry := false
+	for _, b := range e.d.Bellows {
+		geometry = geometry || b.Model != nil
+	}
+	if geometry {
+		if e.sc.Requirements.OutsideValidatedRange {
+			res.Models = append(res.Models, "validated range: not enforced (requirements within_validated_range = false); bellows outside it are only warned about")
+		} else {
+			res.Models = append(res.Models, "validated range: each bellows with geometry is checked against the surrogate's validated range (validated_range checks warn; a search treats them as constraints)")
+		}
 	}
 	if len(e.d.Bellows) > 0 {
 		for _, s := range e.st {

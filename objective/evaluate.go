@@ -93,6 +93,9 @@ type Check struct {
 	// reach it.
 	Max  bool
 	Pass bool
+	// Warn marks a check that warns without failing the design
+	// (Result.Pass ignores it); a search still treats it as a constraint.
+	Warn bool
 	Note string
 }
 

@@ -153,4 +153,8 @@ type Requirements struct {
 	MinTaskCoverageSet bool
 	MaxMass            float64 // kg
 	MinPayloadToWeight float64 // payload mass / bellows mass
+	// OutsideValidatedRange switches off the validated_range checks:
+	// bellows outside surrogate.Validity are still warned about, but a
+	// search no longer treats leaving the range as a constraint.
+	OutsideValidatedRange bool
 }

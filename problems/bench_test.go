@@ -24,7 +24,7 @@ func TestBenchErrorsGolden(t *testing.T) {
 	goldenErrors(t, "testdata/bench/bad-*.csv", func(f string) error { _, err := LoadBench(f); return err })
 }
 
-// TestBenchErrorPositions checks the four error kinds field by
+// TestBenchErrorPositions checks four error kinds field by
 // field: the line is the CSV row's line, the column the 1-based field
 // index, the key the column name.
 func TestBenchErrorPositions(t *testing.T) {

@@ -270,17 +270,18 @@ type printerForm struct {
 }
 
 type requirementsForm struct {
-	MaxMass              *num `toml:"max_mass_g"`
-	MaxResidualCurvature *num `toml:"max_residual_curvature_per_m"`
-	MaxStraightTipOffset *num `toml:"max_straight_tip_offset_mm"`
-	MaxTipSag            *num `toml:"max_tip_sag_mm"`
-	MinBendAngleRange    *num `toml:"min_bend_angle_range_deg"`
-	MinClearance         *num `toml:"min_clearance_mm"`
-	MinPayloadToWeight   *num `toml:"min_payload_to_weight"`
-	MinReach             *num `toml:"min_reach_mm"`
-	MinStabilityMargin   *num `toml:"min_stability_margin"`
-	MinTaskCoverage      *num `toml:"min_task_coverage"`
-	StrainSafetyFactor   *num `toml:"strain_safety_factor"`
+	MaxMass              *num  `toml:"max_mass_g"`
+	MaxResidualCurvature *num  `toml:"max_residual_curvature_per_m"`
+	MaxStraightTipOffset *num  `toml:"max_straight_tip_offset_mm"`
+	MaxTipSag            *num  `toml:"max_tip_sag_mm"`
+	MinBendAngleRange    *num  `toml:"min_bend_angle_range_deg"`
+	MinClearance         *num  `toml:"min_clearance_mm"`
+	MinPayloadToWeight   *num  `toml:"min_payload_to_weight"`
+	MinReach             *num  `toml:"min_reach_mm"`
+	MinStabilityMargin   *num  `toml:"min_stability_margin"`
+	MinTaskCoverage      *num  `toml:"min_task_coverage"`
+	StrainSafetyFactor   *num  `toml:"strain_safety_factor"`
+	WithinValidatedRange *bool `toml:"within_validated_range"`
 }
 
 type taskForm struct {

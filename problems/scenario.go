@@ -13,7 +13,8 @@ var (
 	taskKeys        = []string{"position_mm", "tolerance_mm", "direction", "direction_tolerance_deg"}
 	requirementKeys = []string{"max_tip_sag_mm", "min_reach_mm", "min_bend_angle_range_deg",
 		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
-		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight"}
+		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight",
+		"within_validated_range"}
 	processNames = []string{"fff", "resin", "powder"}
 )
 
@@ -158,6 +159,9 @@ func readRequirements(t *table, q *objective.Requirements) {
 	}
 	q.MaxMass = pos("max_mass_g", "a mass in g", gram)
 	q.MinPayloadToWeight = pos("min_payload_to_weight", "a ratio", 1)
+	if v, ok := t.boolean("within_validated_range"); ok {
+		q.OutsideValidatedRange = !v
+	}
 	t.finish(requirementKeys)
 }
 

@@ -24,6 +24,13 @@
 //     model of half a convolution with conical-frustum elements
 //     (milliseconds).
 //
+// Both fidelities correct the thin-shell wall with the axisymmetric solid
+// model of package solid (thick-wall strain, bending strain and EI from
+// the bending of the convolution itself; wall_table_gen.go for Strip,
+// written by internal/wallgen; surrogate/REFERENCE.md §6). Validity is the validated
+// range of every model; Section.OutOfRange names the limits a geometry
+// lies outside.
+//
 // The wall models of one convolution live in package convolution, the
 // shell finite elements in package shell; package solid is a solid model of
 // one convolution through the wall and package fecheck a cross-check with
@@ -36,7 +43,7 @@
 // comparison with the literature (EJMAAxialRate and friends), and a small
 // table of generic printable materials (LookupMaterial).
 //
-// Limits (surrogate/REFERENCE.md §2.10): linear elastic, small movement per convolution
+// Limits (surrogate/REFERENCE.md §2.10, and Validity): linear elastic, small movement per convolution
 // (e ≲ 0.1·w), no convolution contact, unpressurised; the beam analogy
 // assumes N ≳ 5 convolutions, L ≳ Dm and Dm ≫ w; the orthotropic shell
 // (geometric-mean Poisson coupling) and the helical torsion correction

@@ -47,8 +47,15 @@ import "math"
 // (surrogate/REFERENCE.md §2.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
 // convolution farthest from the neutral axis per unit curvature change
 // (= q·Dm/2 without a spine, surrogate/REFERENCE.md §2.9). StrainPerCurvature is the peak
-// meridional surface strain at that opening: strip strain × generated
-// strain factor (Strip) or shell recovery (Shell).
+// meridional surface strain per unit curvature: the thin-shell strain
+// (strip strain × generated strain factor, or shell recovery) per unit
+// opening, times the solid model's bending factor, times that opening;
+// StrainPerMovement the thin-shell strain per unit extension times the
+// solid model's axial factor; the convolutions' share of EI is multiplied
+// by the solid model's EI factor (WallFactors, surrogate/REFERENCE.md §6; Strip: the
+// generated wall tables, Shell: the solid model solved directly;
+// trapezoids keep the thin-shell wall). OutOfRange lists the limits of
+// Validity the geometry lies outside.
 func (b Bellows) Section(f Fidelity) (Section, error) {
 	if f != Strip && f != Shell {
 		return Section{}, inputErr("fidelity", "%d is not a fidelity (expected: strip|shell)", int(f))
@@ -61,13 +68,19 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 
 	var s Section
 	s.Fidelity = Shell
+	wf, wok := thinWall, false
 	if f == Strip {
 		if p, ok := b.shapePoint(); ok {
 			if h, sf, ok := tableFor(g.Profile).Lookup(p); ok {
-				s.Fidelity = Strip
-				s.AxialRatePerConvolution = st.K * h
-				s.HoopFactor = h
-				s.StrainPerCurvature = st.StrainPerMovement * sf // per unit e for now
+				if wf, wok = b.wallFromTable(); wok || g.Profile == Trapezoid {
+					if !wok {
+						wf = thinWall
+					}
+					s.Fidelity = Strip
+					s.AxialRatePerConvolution = st.K * h
+					s.HoopFactor = h
+					s.StrainPerMovement = st.StrainPerMovement * sf
+				}
 			}
 		}
 	}
@@ -78,8 +91,16 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 		}
 		s.AxialRatePerConvolution = sh.K
 		s.HoopFactor = sh.K / st.K
-		s.StrainPerCurvature = sh.StrainPerMovement
+		s.StrainPerMovement = sh.StrainPerMovement
+		wf, wok = b.wallDirect()
 	}
+	s.ThickWall = wok
+	s.WallFactors = wf
+	// thin-shell axial strain per unit movement, before the corrections
+	thin := s.StrainPerMovement
+	s.StrainPerMovement = thin * wf.Axial
+	s.StrainPerCurvature = thin * wf.Bending // per unit opening q·Rm; beam scales it
+	s.OutOfRange = b.Geometry.OutOfRange()
 	b.beam(&s, &st)
 	return s, nil
 }
@@ -95,10 +116,16 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	// EI tensor (surrogate/REFERENCE.md §2.8), closed-form integrals over the spine arc.
 	kb := k * q / (math.Pi * dm)
 	ks := mtl.ModulusAcross * t
+	fEI := s.WallFactors.EI
+	if fEI == 0 {
+		fEI = 1
+	}
 	h := g.SpineWidth / rm / 2 // half the spine angle
 	r3 := rm * rm * rm
 	ea := kb * rm * 2 * math.Pi
-	cxx, cyy, cxy := kb*r3*math.Pi, kb*r3*math.Pi, 0.0 // ∫k x², ∫k y², ∫k xy
+	// ∫k x², ∫k y², ∫k xy with the convolutions' bending stiffness
+	// k_a·fEI (harmonic-1 EI over the beam analogy of the convolution)
+	cxx, cyy, cxy := fEI*kb*r3*math.Pi, fEI*kb*r3*math.Pi, 0.0
 	var xb, yb float64
 	if h > 0 {
 		dk := ks - kb
@@ -109,12 +136,19 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 		sy := dk * rm * rm * 2 * math.Sin(h) * sn
 		xb, yb = sx/ea, sy/ea
 		sin2h := math.Sin(2 * h)
-		cxx += dk * r3 * (h + c2*sin2h/2)
-		cyy += dk * r3 * (h - c2*sin2h/2)
-		cxy += dk * r3 * s2 * sin2h / 2
-		cxx -= ea * xb * xb
-		cyy -= ea * yb * yb
-		cxy -= ea * xb * yb
+		// bending weights: the spine replaces convolutions of fEI·k_a;
+		// second moments about the neutral axis (x̄, ȳ) of the axial
+		// stiffness: ∫k_b (x−x̄)² = ∫k_b x² − 2x̄∫k_b x + x̄²∫k_b
+		db := ks - fEI*kb
+		eb := fEI*kb*rm*2*math.Pi + db*rm*2*h
+		bx := db * rm * rm * 2 * math.Sin(h) * cs
+		by := db * rm * rm * 2 * math.Sin(h) * sn
+		cxx += db * r3 * (h + c2*sin2h/2)
+		cyy += db * r3 * (h - c2*sin2h/2)
+		cxy += db * r3 * s2 * sin2h / 2
+		cxx += -2*xb*bx + eb*xb*xb
+		cyy += -2*yb*by + eb*yb*yb
+		cxy += -xb*by - yb*bx + eb*xb*yb
 	}
 	s.EA = ea
 	ei := [2][2]float64{{cyy, -cxy}, {-cxy, cxx}}
@@ -141,7 +175,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	if g.Helical {
 		a := math.Atan(q / (math.Pi * dm))
 		s2, c2 := math.Sincos(2 * a)
-		ei0 := k * q * dm * dm / 8
+		ei0 := fEI * k * q * dm * dm / 8
 		gj = 1 / (c2*c2/gj + s2*s2/(2*ei0))
 	}
 	s.GJ = gj

@@ -8,7 +8,7 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
-// TestUniformBellowsIsotropic checks EI_xx = EI_yy = k_conv·q·Dm²/8,
+// TestUniformBellowsIsotropic checks EI_xx = EI_yy = f_EI·k_conv·q·Dm²/8 (f_EI the harmonic-1 correction),
 // EI_xy = 0, EA = k_conv·q and opening q·Dm/2 for a bellows without a
 // spine (surrogate/REFERENCE.md §2.5, §2.8, §2.9; derived).
 func TestUniformBellowsIsotropic(t *testing.T) {
@@ -19,7 +19,7 @@ func TestUniformBellowsIsotropic(t *testing.T) {
 			s, err := b.Section(f)
 			require.NoError(t, err, "%v %v", f, p)
 			dm := 2 * b.MeanRadius()
-			ei := s.AxialRatePerConvolution * b.Pitch * dm * dm / 8
+			ei := s.WallFactors.EI * s.AxialRatePerConvolution * b.Pitch * dm * dm / 8
 			name := f.String() + " " + p.String()
 			assert.InEpsilon(t, ei, s.EI[0][0], 1e-12, "%s: EI_xx", name)
 			assert.InEpsilon(t, ei, s.EI[1][1], 1e-12, "%s: EI_yy", name)
@@ -38,30 +38,36 @@ func TestUniformBellowsIsotropic(t *testing.T) {
 
 // spineTensor integrates the surrogate/REFERENCE.md §2.8 integrals numerically (midpoint rule,
 // 200 000 points around the circumference): an independent check of the
-// closed forms in beam().
-func spineTensor(kb, ks, rm, width, angle float64) (ea float64, ei [2][2]float64, cx, cy float64) {
+// closed forms in beam(). The convolutions carry k_a = kb axially and
+// fEI·kb in bending (the harmonic-1 EI correction); the spine ks in both;
+// the bending moments are taken about the neutral axis of the axial
+// stiffness.
+func spineTensor(kb, fEI, ks, rm, width, angle float64) (ea float64, ei [2][2]float64, cx, cy float64) {
 	const n = 200000
 	h := width / rm / 2
-	var sx, sy, sxx, syy, sxy float64
+	var sx, sy float64
+	type pt struct{ x, y, kb float64 }
+	pts := make([]pt, n)
+	da := rm * 2 * math.Pi / n
 	for i := 0; i < n; i++ {
 		phi := (float64(i) + 0.5) * 2 * math.Pi / n
-		k := kb
+		k, kbend := kb, fEI*kb
 		if d := math.Remainder(phi-angle, 2*math.Pi); math.Abs(d) < h {
-			k = ks
+			k, kbend = ks, ks
 		}
 		x, y := rm*math.Cos(phi), rm*math.Sin(phi)
-		da := rm * 2 * math.Pi / n
 		ea += k * da
 		sx += k * x * da
 		sy += k * y * da
-		sxx += k * x * x * da
-		syy += k * y * y * da
-		sxy += k * x * y * da
+		pts[i] = pt{x, y, kbend}
 	}
 	cx, cy = sx/ea, sy/ea
-	ixx := sxx - ea*cx*cx
-	iyy := syy - ea*cy*cy
-	ixy := sxy - ea*cx*cy
+	var ixx, iyy, ixy float64
+	for _, p := range pts {
+		ixx += p.kb * (p.x - cx) * (p.x - cx) * da
+		iyy += p.kb * (p.y - cy) * (p.y - cy) * da
+		ixy += p.kb * (p.x - cx) * (p.y - cy) * da
+	}
 	return ea, [2][2]float64{{iyy, -ixy}, {-ixy, ixx}}, cx, cy
 }
 
@@ -92,7 +98,7 @@ func TestSpineAnisotropy(t *testing.T) {
 		s, err := b.Section(Strip)
 		require.NoError(t, err, c.name)
 		kb := s.AxialRatePerConvolution * b.Pitch / (math.Pi * 2 * rm)
-		ea, ei, cx, cy := spineTensor(kb, b.Material.ModulusAcross*b.Wall, rm, b.SpineWidth, c.angle)
+		ea, ei, cx, cy := spineTensor(kb, s.WallFactors.EI, b.Material.ModulusAcross*b.Wall, rm, b.SpineWidth, c.angle)
 		// Midpoint quadrature with a discontinuous integrand: error ~ 1/n.
 		assert.InEpsilon(t, ea, s.EA, 1e-4, "%s: EA", c.name)
 		for i := 0; i < 2; i++ {
@@ -227,7 +233,7 @@ func TestHelicalTorsion(t *testing.T) {
 	require.NoError(t, err)
 	dm := 2 * b.MeanRadius()
 	a := math.Atan(b.Pitch / (math.Pi * dm))
-	ei := rev.AxialRatePerConvolution * b.Pitch * dm * dm / 8
+	ei := rev.WallFactors.EI * rev.AxialRatePerConvolution * b.Pitch * dm * dm / 8 // harmonic-1 EI
 	want := 1 / (math.Pow(math.Cos(2*a), 2)/rev.GJ + math.Pow(math.Sin(2*a), 2)/(2*ei))
 	assert.InEpsilon(t, want, hel.GJ, 1e-12, "helical GJ")
 	assert.Less(t, hel.GJ, rev.GJ, "helical convolutions are torsionally softer")
@@ -237,8 +243,10 @@ func TestHelicalTorsion(t *testing.T) {
 // TestStrainPerCurvature checks the straightening strain: the peak
 // meridional strain for e = OpeningPerCurvature (surrogate/REFERENCE.md §2.9) equals the
 // strip formula ε = 1.5·t·e/(w²·Cf_strip) for a thin U-bellows with little
-// hoop stiffening (C2 ≈ 0.3) within the strain factor (a few percent),
-// and Strip and Shell agree.
+// hoop stiffening (C2 ≈ 0.3) within the strain factor (a few percent)
+// once the solid model's bending correction (Section.WallFactors.Bending,
+// checked against the solid model in wall_test.go) is applied, and Strip
+// and Shell agree.
 func TestStrainPerCurvature(t *testing.T) {
 	b := Bellows{Geometry: Geometry{Profile: UShape, OuterDiameter: 200e-3, Depth: 8e-3, Pitch: 4e-3, Wall: 0.2e-3},
 		Material: validBellows().Material}
@@ -251,7 +259,8 @@ func TestStrainPerCurvature(t *testing.T) {
 	require.NoError(t, err)
 	e := b.Pitch * dm / 2
 	want := 1.5 * b.Wall * e / (b.Depth * b.Depth * UCfStrip(c1))
-	assert.InEpsilon(t, want, strip.StrainPerCurvature, 0.05, "strip strain per curvature vs closed form")
+	require.True(t, strip.ThickWall)
+	assert.InEpsilon(t, want*strip.WallFactors.Bending, strip.StrainPerCurvature, 0.05, "strip strain per curvature vs closed form")
 	assert.InEpsilon(t, shell.StrainPerCurvature, strip.StrainPerCurvature, 0.02, "strip vs shell strain per curvature")
 	assert.InEpsilon(t, shell.AxialRatePerConvolution, strip.AxialRatePerConvolution, 0.01, "strip vs shell k_conv")
 }

@@ -1,5 +1,7 @@
 package surrogate
 
+import "plica/surrogate/convolution"
+
 // Profile is the meridian shape of one convolution.
 type Profile int
 
@@ -72,6 +74,19 @@ type Section struct {
 	MassPerLength           float64       // kg/m
 	OpeningPerCurvature     float64       // extreme convolution opening per unit curvature change, m per 1/m
 	StrainPerCurvature      float64       // peak meridional wall strain per unit curvature change, per 1/m
+	StrainPerMovement       float64       // peak meridional wall strain per unit axial extension of one convolution, 1/m
 	HoopFactor              float64       // hoop-stiffening factor H = k_shell/k_strip applied (Strip) or implied (Shell)
 	Fidelity                Fidelity
+	// WallFactors are the solid model's corrections applied to the
+	// thin-shell wall (axial strain, bending strain, EI); all 1 when
+	// ThickWall is false.
+	WallFactors convolution.WallFactors
+	// ThickWall is true when the solid wall model (generated tables or a
+	// direct solve) gave the strain and EI; false for trapezoids and for
+	// geometries the solid model cannot mesh, which keep the thin-shell
+	// wall.
+	ThickWall bool
+	// OutOfRange lists every limit of Validity the geometry lies outside
+	// (empty inside the validated range).
+	OutOfRange []RangeNote
 }

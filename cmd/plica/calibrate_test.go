@@ -91,7 +91,7 @@ func relTo(t *testing.T, dir, p string) string {
 	return filepath.ToSlash(r)
 }
 
-// TestCalibrateIntoCheck is the round trip of the issue: calibrate writes a
+// TestCalibrateIntoCheck is the calibration round trip: calibrate writes a
 // file, a design names it, and check and pose then report calibrated
 // stiffness, EI scaled by the factors.
 func TestCalibrateIntoCheck(t *testing.T) {

@@ -177,6 +177,7 @@ type checkLine struct {
 	Limit num    `json:"limit"`
 	Unit  string `json:"unit"`
 	Pass  bool   `json:"pass"`
+	Warn  bool   `json:"warn_only,omitempty"`
 	Kind  string `json:"kind"`
 	Note  string `json:"note,omitempty"`
 }
@@ -222,7 +223,7 @@ func newCheckOutput(res *objective.Result) *checkOutput {
 		if c.Max {
 			kind = "max"
 		}
-		o.Checks[i] = checkLine{Name: c.Name, Value: num(c.Value), Limit: num(c.Limit), Unit: c.Unit, Pass: c.Pass, Kind: kind, Note: c.Note}
+		o.Checks[i] = checkLine{Name: c.Name, Value: num(c.Value), Limit: num(c.Limit), Unit: c.Unit, Pass: c.Pass, Warn: c.Warn, Kind: kind, Note: c.Note}
 	}
 	if o.Warnings == nil {
 		o.Warnings = []string{}
@@ -283,7 +284,10 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 			op = "<="
 		}
 		verdict := "PASS"
-		if !c.Pass {
+		switch {
+		case !c.Pass && c.Warn:
+			verdict = "WARN"
+		case !c.Pass:
 			verdict = "FAIL"
 			failed = append(failed, c.Name)
 		}

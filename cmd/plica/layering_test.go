@@ -14,20 +14,21 @@ import (
 func TestLayering(t *testing.T) {
 	allowed := map[string][]string{
 		"plica/surrogate/shell":            {},
-		"plica/surrogate/convolution":      {"plica/surrogate/shell"},
-		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell"},
-		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell"},
+		"plica/surrogate/convolution":      {"plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate/internal/wallgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 		"plica/surrogate/solid":            {},
-		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell"},
+		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 		"plica/objective/kinematics":       {},
 		"plica/objective/statics":          {"plica/objective/kinematics"},
-		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/objective":                  {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
 		"plica/search/front":               {},
 		"plica/search":                     {"plica/search/front"},
-		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics", "plica/search", "plica/search/front"},
-		"plica/results":                    {"plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
-		"plica/results/report":             {"plica/results", "plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
-		"plica/results/verify":             {"plica/search", "plica/search/front", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics", "plica/search", "plica/search/front"},
+		"plica/results":                    {"plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/results/report":             {"plica/results", "plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/results/verify":             {"plica/search", "plica/search/front", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
 	}
 	for pkg, ok := range allowed {
 		out, err := exec.Command("go", "list", "-deps", pkg).Output()

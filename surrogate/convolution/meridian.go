@@ -30,7 +30,18 @@ type Meridian struct {
 	seg                 [5]segment
 	n                   int
 	rMean, depth, pitch float64
+	profile             profileKind
+	crest               float64 // U: crest radius rm
 }
+
+// profileKind is the family a meridian belongs to.
+type profileKind uint8
+
+const (
+	sinusoidProfile profileKind = iota
+	uProfile
+	trapezoidProfile
+)
 
 func (m *Meridian) add(s segment) { m.seg[m.n] = s; m.n++ }
 
@@ -47,7 +58,7 @@ const tiny = 1e-12
 
 // Sinusoid returns the meridian r(z) = Rm − (w/2)·cos(2πz/q).
 func Sinusoid(rMean, depth, pitch float64) Meridian {
-	m := Meridian{rMean: rMean, depth: depth, pitch: pitch}
+	m := Meridian{rMean: rMean, depth: depth, pitch: pitch, profile: sinusoidProfile}
 	w, q := depth, pitch
 	rRoot, rCrown := rMean-w/2, rMean+w/2
 	m.add(segment{kind: segSine, rc: rMean, rad: w / 2, zc: q / (2 * math.Pi), a0: 0, a1: math.Pi,
@@ -60,7 +71,7 @@ func Sinusoid(rMean, depth, pitch float64) Meridian {
 // and root are two quarter arcs joined by an axial flat of length
 // q/2 − 2·rm, so the flanks stay radial.
 func UShape(rMean, depth, pitch, rm float64) Meridian {
-	m := Meridian{rMean: rMean, depth: depth, pitch: pitch}
+	m := Meridian{rMean: rMean, depth: depth, pitch: pitch, profile: uProfile, crest: rm}
 	w, q := depth, pitch
 	rRoot, rCrown := rMean-w/2, rMean+w/2
 	h := q/4 - rm
@@ -87,7 +98,7 @@ func UShape(rMean, depth, pitch, rm float64) Meridian {
 // length f·q/2 at crown and root (f the flat fraction of the pitch),
 // straight flanks.
 func Trapezoid(rMean, depth, pitch, flatFraction float64) Meridian {
-	m := Meridian{rMean: rMean, depth: depth, pitch: pitch}
+	m := Meridian{rMean: rMean, depth: depth, pitch: pitch, profile: trapezoidProfile}
 	w, q := depth, pitch
 	rRoot, rCrown := rMean-w/2, rMean+w/2
 	h := flatFraction * q / 4
