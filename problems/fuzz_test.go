@@ -79,35 +79,43 @@ func FuzzParseDesign(f *testing.F) {
 		if _, _, err := d.Robot(); err != nil {
 			t.Fatalf("an accepted design must build: %v", err)
 		}
-		// A coarse workspace keeps each execution cheap; the values of
-		// the design are the fuzzer's.
-		sc.Workspace.RelativeSteps, sc.Workspace.BaseSteps = 4, 2
-		sc.Workspace.InsertionSteps, sc.Workspace.Samples = 2, 16
-		res, err := objective.Evaluate(d, sc)
-		if err != nil {
-			msg := err.Error()
-			if msg == "" || strings.Contains(msg, "\n") || strings.Contains(msg, "internal error") {
-				t.Fatalf("a failed evaluation says why in one line, without an internal error: %q", msg)
-			}
-			return
-		}
-		for _, s := range objective.AllScores() {
-			v := s.Value(&res.Scores)
-			if !math.IsNaN(v) && !math.IsInf(v, 0) {
-				continue
-			}
-			documented := math.IsNaN(v) && (s.Name == "min_clearance_mm" ||
-				((s.Name == "peak_strain" || s.Name == "allowable_strain" || s.Name == "strain_ratio") && !hasWallModel(d)))
-			if !documented {
-				t.Fatalf("score %s is %v in a result without a failure", s.Name, v)
-			}
-		}
-		for _, c := range res.Checks {
-			if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
-				t.Fatalf("check %s is %v in a result without a failure", c.Name, c.Value)
-			}
-		}
+		checkEvaluation(t, d, sc)
 	})
+}
+
+// checkEvaluation evaluates a design on a coarse workspace (the values of
+// the design are the fuzzer's): a failure says why in one line without an
+// internal error, and a result without a failure holds no NaN or Inf but
+// the documented ones.
+func checkEvaluation(t *testing.T, d *objective.Design, sc *objective.Scenario) {
+	t.Helper()
+	coarse := *sc
+	coarse.Workspace.RelativeSteps, coarse.Workspace.BaseSteps = 4, 2
+	coarse.Workspace.InsertionSteps, coarse.Workspace.Samples = 2, 16
+	res, err := objective.Evaluate(d, &coarse)
+	if err != nil {
+		msg := err.Error()
+		if msg == "" || strings.Contains(msg, "\n") || strings.Contains(msg, "internal error") {
+			t.Fatalf("a failed evaluation says why in one line, without an internal error: %q", msg)
+		}
+		return
+	}
+	for _, s := range objective.AllScores() {
+		v := s.Value(&res.Scores)
+		if !math.IsNaN(v) && !math.IsInf(v, 0) {
+			continue
+		}
+		documented := math.IsNaN(v) && (s.Name == "min_clearance_mm" ||
+			((s.Name == "peak_strain" || s.Name == "allowable_strain" || s.Name == "strain_ratio") && !hasWallModel(d)))
+		if !documented {
+			t.Fatalf("score %s is %v in a result without a failure", s.Name, v)
+		}
+	}
+	for _, c := range res.Checks {
+		if math.IsNaN(c.Value) || math.IsInf(c.Value, 0) {
+			t.Fatalf("check %s is %v in a result without a failure", c.Name, c.Value)
+		}
+	}
 }
 
 func hasWallModel(d *objective.Design) bool {
@@ -120,8 +128,10 @@ func hasWallModel(d *objective.Design) bool {
 }
 
 // FuzzParseProblem: the problem parser never panics; an accepted problem
-// gives a search problem whose bounds are ordered, and the design at its
-// lower bounds is either built or refused with an input error.
+// gives a search problem whose bounds are ordered, and the candidates at
+// its lower bounds, upper bounds and midpoint are either refused with an
+// input error or built (Robot) and evaluated like a design file's: a
+// failure is a one-line reason, never a panic or an undocumented NaN.
 func FuzzParseProblem(f *testing.F) {
 	seedCorpus(f)
 	f.Fuzz(func(t *testing.T, data []byte) {
@@ -136,8 +146,21 @@ func FuzzParseProblem(f *testing.F) {
 				t.Fatalf("variable %d: bounds [%g, %g]", i, p.Lower[i], p.Upper[i])
 			}
 		}
-		if _, _, err := s.Design(p.Lower); err != nil && !IsInputError(err) {
-			t.Fatalf("design at the lower bounds: %T %v", err, err)
+		for _, x := range [][]float64{p.Lower, p.Upper, s.Midpoint()} {
+			d, sc, err := s.Design(x)
+			if err != nil {
+				if !IsInputError(err) {
+					t.Fatalf("candidate %v: %T %v", x, err, err)
+				}
+				continue
+			}
+			if _, _, err := d.Robot(); err != nil {
+				if msg := err.Error(); msg == "" || strings.Contains(msg, "\n") {
+					t.Fatalf("candidate %v: a refused robot says why in one line: %q", x, msg)
+				}
+				continue
+			}
+			checkEvaluation(t, d, sc)
 		}
 	})
 }
