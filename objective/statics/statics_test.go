@@ -93,7 +93,7 @@ func TestElasticaLinearEstimateOvershoot(t *testing.T) {
 // Straight cantilever, small loads: Roark's Formulas for Stress and Strain,
 // Table 8.1 cases 1a and 2a (Young & Budynas, 7th ed., 2002), and Gere &
 // Timoshenko, Mechanics of Materials, App. G, Table G-1 cases 1 and 4 (4th
-// ed., 1997); case numbers from memory (verify), formulas objective/REFERENCE.md §6, §7.1.
+// ed., 1997); case numbers from memory, formulas objective/REFERENCE.md §6, §7.1.
 func TestCantileverSmallLoad(t *testing.T) {
 	const L, EI, m = 0.3, 0.02, 0.05
 	const a = 0.3 * L // Roark 1a: load at distance a from the free end
@@ -194,7 +194,7 @@ func TestCantileverPiecewiseStiffness(t *testing.T) {
 // φ = s/R ∈ [0, π/2], tip at (R, 0, R) with tangent +x. Castigliano's
 // second theorem, bending (and torsion) energy only, inextensible
 // [derived; the classical curved-bar results, e.g. Timoshenko, Strength of
-// Materials, Part I, 1955, from memory (verify)]. The moment of a tip force
+// Materials, Part I, 1955, from memory]. The moment of a tip force
 // F about the section at φ is M(φ) = (p(L) − p(φ)) × F with
 // p(L) − p(φ) = R(cos φ, 0, 1 − sin φ):
 //
@@ -285,11 +285,11 @@ func TestStaticsFollowerForceSmallLoad(t *testing.T) {
 }
 
 // RK4 is fourth order (Kutta 1901; Butcher, Numerical Methods for Ordinary
-// Differential Equations, 2008, from memory (verify)): halving h divides
+// Differential Equations, 2008, from memory): halving h divides
 // the error by 2⁴ = 16. The observed order uses successive differences of
 // the tip position on grids h, h/2, h/4, … (Richardson; Roache,
 // Verification and Validation in Computational Science and Engineering,
-// 1998, from memory (verify)), so no reference solution is needed.
+// 1998, from memory), so no reference solution is needed.
 func TestStaticsRK4Order(t *testing.T) {
 	// Two precurved anisotropic links under gravity and a tip force, with
 	// large loaded curvature so the error is well above the solver tolerance.

