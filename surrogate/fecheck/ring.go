@@ -226,7 +226,7 @@ func solveRing(ctx context.Context, dir string, s *ringSpec, title string, opt O
 	if err != nil {
 		return nil, err
 	}
-	if err := writeAtomic(filepath.Join(dir, "ring.inp"), func(f *os.File) error { return writeRingDeck(f, m, title) }); err != nil {
+	if err := writeScratch(filepath.Join(dir, "ring.inp"), func(w io.Writer) error { return writeRingDeck(w, m, title) }); err != nil {
 		return nil, err
 	}
 	dur, err := runCCX(ctx, opt.CCX, dir, "ring", opt.Threads, nil)
