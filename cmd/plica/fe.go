@@ -140,7 +140,10 @@ func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr 
 			if err := os.MkdirAll(filepath.Join(stage, sub), 0o755); err != nil {
 				return err
 			}
-			if _, err := fecheck.WriteDecks(filepath.Join(stage, sub), *d.Bellows[i].Model, mesh); err != nil {
+			write := func(name string, w func(io.Writer) error) error {
+				return results.WriteAtomicStream(filepath.Join(stage, sub, name), w)
+			}
+			if _, err := fecheck.WriteDecks(write, *d.Bellows[i].Model, mesh); err != nil {
 				return &objective.BellowsError{Index: i, Err: err}
 			}
 			where = append(where, filepath.Join(dir, sub))

@@ -66,6 +66,9 @@ type figureSection struct {
 type checkRow struct {
 	Name, Value, Limit, Unit, Note string
 	Pass                           bool
+	// Warn marks a failed check that only warns (objective.Check.Warn,
+	// the validated range): WARN, as plica check prints it, not FAIL.
+	Warn bool
 }
 
 type designSection struct {
@@ -77,6 +80,7 @@ type designSection struct {
 	CheckText               string
 	Figures                 []figureSection
 	FailedChecks, NumChecks int
+	WarnChecks              int
 	Objectives              []keyValue
 	Variables               []keyValue
 	HasResult               bool
@@ -124,6 +128,27 @@ func num(x float64) string {
 		return "n/a"
 	}
 	return fmt.Sprintf("%.5g", x)
+}
+
+// checkRows renders checks as the report's table rows and counts those
+// that fail and those that only warn (failed with Warn set), the verdicts
+// plica check prints: PASS, WARN, FAIL.
+func checkRows(checks []objective.Check) (rows []checkRow, failed, warned int) {
+	for _, c := range checks {
+		op := "≥ "
+		if c.Max {
+			op = "≤ "
+		}
+		r := checkRow{Name: c.Name, Value: num(c.Value), Limit: op + num(c.Limit), Unit: c.Unit, Note: c.Note, Pass: c.Pass, Warn: !c.Pass && c.Warn}
+		switch {
+		case r.Warn:
+			warned++
+		case !c.Pass:
+			failed++
+		}
+		rows = append(rows, r)
+	}
+	return rows, failed, warned
 }
 
 // Build reads a run folder and builds its report and figures. Parts
@@ -200,16 +225,7 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 		}
 		d.HasResult, d.Pass, d.Models, d.Warnings = true, res.Pass, res.Models, res.Warnings
 		d.NumChecks = len(res.Checks)
-		for _, c := range res.Checks {
-			op := "≥ "
-			if c.Max {
-				op = "≤ "
-			}
-			d.Checks = append(d.Checks, checkRow{Name: c.Name, Value: num(c.Value), Limit: op + num(c.Limit), Unit: c.Unit, Note: c.Note, Pass: c.Pass})
-			if !c.Pass {
-				d.FailedChecks++
-			}
-		}
+		d.Checks, d.FailedChecks, d.WarnChecks = checkRows(res.Checks)
 		if opt.CheckText != nil {
 			d.CheckText = opt.CheckText(fmt.Sprintf("%s (front design %d)", d.File, id), res)
 		}
@@ -450,7 +466,7 @@ tr.chosen td { background: #fdecea; }
 .wide { overflow-x: auto; }
 .caution { border: 2px solid #d62728; background: #fff5f5; padding: .5rem 1rem; }
 .pass { color: #1a7f37; font-weight: bold; } .fail { color: #d62728; font-weight: bold; }
-.problem { color: #d62728; }
+.problem { color: #d62728; } .warn { color: #b35900; font-weight: bold; }
 figure { margin: 1rem 0 2rem; } figcaption { font-size: .9rem; color: #444; max-width: 60rem; }
 svg.figure { display: block; max-width: 100%; height: auto; }
 pre { background: #f7f7f7; padding: .5rem; overflow-x: auto; font-size: .8rem; }
@@ -505,9 +521,9 @@ nav a { margin-right: 1rem; }
 <p>Variables: {{range $i, $v := .Variables}}{{if $i}}, {{end}}<code>{{$v.Key}}</code> = {{$v.Value}}{{end}}.</p>
 {{if .Problem}}<p class="problem">{{.Problem}}</p>{{end}}
 {{if .HasResult}}
-<p>Result: {{if .Pass}}<span class="pass">PASS</span> ({{.NumChecks}} checks){{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}} checks failed){{end}}</p>
+<p>Result: {{if .Pass}}<span class="pass">PASS</span> ({{.NumChecks}} checks{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}} checks failed{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{end}}</p>
 <table class="checks"><tr><th>check</th><th>value</th><th>limit</th><th>unit</th><th>result</th><th>note</th></tr>
-{{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
+{{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else if .Warn}}<span class="warn">WARN</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
 {{end}}</table>
 <ul>{{range .Models}}<li>model: {{.}}</li>{{end}}{{range .Warnings}}<li class="problem">warning: {{.}}</li>{{end}}</ul>
 {{if .CheckText}}<details><summary>full check output (as <code>plica check {{.File}}</code> prints it)</summary><pre>{{.CheckText}}</pre></details>{{end}}

@@ -230,3 +230,45 @@ func readFile(t *testing.T, path string) string {
 	require.NoError(t, err)
 	return string(b)
 }
+
+// TestReportWarnCheck: a failed check with Warn set (validated_range)
+// shows as WARN, not FAIL, and does not count as failed, as plica check
+// prints it; a design that passes with a warning says so in its result
+// line, and a real failure still shows FAIL.
+func TestReportWarnCheck(t *testing.T) {
+	checks := []objective.Check{
+		{Name: "peak_strain", Value: 0.01, Limit: 0.02, Max: true, Pass: true},
+		{Name: "validated_range[1]", Value: 0.3, Limit: 0, Max: true, Pass: false, Warn: true, Note: "t/w 0.65 > 0.5"},
+		{Name: "validated_range[2]", Value: 0, Limit: 0, Max: true, Pass: true, Warn: true},
+	}
+	rows, failed, warned := checkRows(checks)
+	require.Len(t, rows, 3)
+	assert.Equal(t, 0, failed)
+	assert.Equal(t, 1, warned)
+	assert.True(t, rows[1].Warn)
+	assert.False(t, rows[2].Warn, "a warn check that passes is PASS")
+
+	render := func(pass bool, rows []checkRow, failed, warned int) string {
+		page := &htmlPage{Title: "t", Designs: []designSection{{ID: 1, File: "designs/front-001.toml", HasResult: true, Pass: pass,
+			Checks: rows, NumChecks: len(rows), FailedChecks: failed, WarnChecks: warned}}}
+		var b bytes.Buffer
+		require.NoError(t, reportTemplate.Execute(&b, page))
+		parseReport(t, b.Bytes())
+		out := b.String()
+		i := strings.Index(out, `<section id="design-1">`)
+		require.GreaterOrEqual(t, i, 0)
+		return out[i:] // the design's section
+	}
+	out := render(true, rows, failed, warned)
+	assert.Contains(t, out, `<td><code>validated_range[1]</code></td><td class="num">0.3</td><td class="num">≤ 0</td><td></td><td><span class="warn">WARN</span></td>`)
+	assert.NotContains(t, out, `class="fail"`)
+	assert.Contains(t, out, `<span class="pass">PASS</span> (3 checks; 1 with a warning)`)
+
+	checks[0].Pass = false
+	rows, failed, warned = checkRows(checks)
+	assert.Equal(t, 1, failed)
+	out = render(false, rows, failed, warned)
+	assert.Contains(t, out, `<td><code>peak_strain</code></td><td class="num">0.01</td><td class="num">≤ 0.02</td><td></td><td><span class="fail">FAIL</span></td>`)
+	assert.Contains(t, out, `<span class="fail">FAIL</span> (1 of 3 checks failed; 1 with a warning)`)
+	assert.Contains(t, out, `<span class="warn">WARN</span>`)
+}

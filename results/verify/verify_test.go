@@ -23,7 +23,7 @@ import (
 // TestVerificationCases runs the same built-in cases that plica verify
 // prints; each carries its published value and source.
 func TestVerificationCases(t *testing.T) {
-	cases, err := Run(context.Background(), testing.Short())
+	cases, err := Run(context.Background(), Options{Quick: testing.Short()})
 	require.NoError(t, err)
 	assert.GreaterOrEqual(t, len(cases), 15)
 	for _, c := range cases {
@@ -50,7 +50,7 @@ func TestCaseList(t *testing.T) {
 		}
 	}
 	assert.Positive(t, slow, "the NSGA-II run is slow")
-	quick, err := Run(context.Background(), true)
+	quick, err := Run(context.Background(), Options{Quick: true})
 	require.NoError(t, err)
 	assert.Len(t, quick, len(defs())-slow, "-quick leaves out the slow cases")
 }
@@ -62,6 +62,69 @@ func TestPass(t *testing.T) {
 	assert.True(t, Case{Computed: 100.2, Published: 100, Tolerance: 0.5}.Pass())
 	assert.False(t, Case{Computed: math.NaN(), Published: 0, Tolerance: 1}.Pass())
 	assert.False(t, Case{Computed: 0, Published: 0, Tolerance: 1, Err: os.ErrNotExist}.Pass())
+	// an asymmetric band, −5 % … +10 % of 1
+	band := Case{Published: 1, Tolerance: 0.10, Below: 0.05, Relative: true}
+	for v, want := range map[float64]bool{0.94: false, 0.96: true, 1.09: true, 1.11: false} {
+		band.Computed = v
+		assert.Equal(t, want, band.Pass(), "%g in −5 %% … +10 %%", v)
+		assert.Equal(t, !want, band.Failed())
+	}
+	assert.Equal(t, "−0.05/+0.1 rel", band.Row()[4])
+	// a skipped case neither passes nor fails
+	skip := Case{Computed: 1, Published: 1, Tolerance: 1, Skipped: NoCCX}
+	assert.False(t, skip.Pass())
+	assert.False(t, skip.Failed())
+	assert.Equal(t, "SKIP", skip.Row()[6])
+	assert.Equal(t, "skipped: ccx not found (Debian package calculix-ccx)", skip.Row()[2])
+}
+
+// TestRunFE: FE cases are skipped with the reason given (ccx absent) and
+// otherwise run with the context, after the model packages' cases; -quick
+// does not leave them out.
+func TestRunFE(t *testing.T) {
+	ran := 0
+	all := []entry{
+		{caseDef: caseDef{Area: "surrogate", Name: "model", Published: 2, Tolerance: 0.1, Compute: func() (float64, error) { return 2, nil }}},
+		{caseDef: caseDef{Area: "fe", Name: "fe", Published: 1, Tolerance: 0.1, Relative: true}, below: 0.05, fe: true,
+			ctxed: func(ctx context.Context) (float64, error) { ran++; return 0.97, ctx.Err() }},
+	}
+	cases, err := run(context.Background(), all, true, NoCCX)
+	require.NoError(t, err)
+	require.Len(t, cases, 2)
+	assert.True(t, cases[0].Pass())
+	assert.Equal(t, NoCCX, cases[1].Skipped)
+	assert.Zero(t, ran, "a skipped case does not run")
+
+	cases, err = run(context.Background(), all, true, "")
+	require.NoError(t, err)
+	require.Len(t, cases, 2)
+	assert.Equal(t, 1, ran)
+	assert.Empty(t, cases[1].Skipped)
+	assert.True(t, cases[1].Pass(), "0.97 is inside −5 %% … +10 %%")
+	assert.Equal(t, 0.05, cases[1].Below)
+
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err = run(ctx, all[1:], false, "")
+	assert.ErrorIs(t, err, context.Canceled)
+}
+
+// TestRunOptions: the FE cases come only with Options.FE, and then all of
+// them, either run or skipped (without running ccx here: PATH is emptied).
+func TestRunOptions(t *testing.T) {
+	t.Setenv("PATH", "")
+	plain, err := Run(context.Background(), Options{Quick: true})
+	require.NoError(t, err)
+	withFE, err := Run(context.Background(), Options{Quick: true, FE: true})
+	require.NoError(t, err)
+	require.Len(t, withFE, len(plain)+len(feDefs()))
+	for _, c := range plain {
+		assert.NotEqual(t, "fe", c.Area)
+	}
+	for _, c := range withFE[len(plain):] {
+		assert.Equal(t, "fe", c.Area)
+		assert.Equal(t, NoCCX, c.Skipped, c.Name)
+	}
 }
 
 // numberRe finds decimal numbers in comment text.
@@ -82,7 +145,11 @@ func TestPublishedValuesWrittenOnce(t *testing.T) {
 	require.NoError(t, err, "module root two levels above results/verify")
 
 	published := map[float64][]string{}
-	for _, d := range defs() {
+	all := defs()
+	for _, e := range feDefs() {
+		all = append(all, e.caseDef)
+	}
+	for _, d := range all {
 		digits := strings.TrimLeft(strings.Split(strconv.FormatFloat(math.Abs(d.Published), 'e', -1, 64), "e")[0], "0")
 		if len(strings.ReplaceAll(digits, ".", "")) >= 3 {
 			published[d.Published] = append(published[d.Published], d.Name)
@@ -175,18 +242,18 @@ func TestRunInterrupted(t *testing.T) {
 	started := 0
 	block := make(chan struct{})
 	defer close(block)
-	var all []caseDef
+	var all []entry
 	for i := range 5 {
-		all = append(all, caseDef{Area: "search", Name: fmt.Sprint("case ", i), Compute: func() (float64, error) {
+		all = append(all, entry{caseDef: caseDef{Area: "search", Name: fmt.Sprint("case ", i), Compute: func() (float64, error) {
 			started++
 			if i == 1 {
 				cancel()
 				<-block // a slow case: Run must not wait for it
 			}
 			return 1, nil
-		}})
+		}}})
 	}
-	cases, err := run(ctx, all, false)
+	cases, err := run(ctx, all, false, "")
 	assert.ErrorIs(t, err, context.Canceled)
 	assert.Empty(t, cases)
 	assert.Equal(t, 2, started, "the cases after the interrupt never start")

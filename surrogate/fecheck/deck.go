@@ -31,7 +31,22 @@ var shellCases = []loadCase{
 	{"bending_y", 1, 2, loadMoment},
 }
 
-func g(x float64) string { return strconv.FormatFloat(x, 'g', 15, 64) }
+// fieldWidth is the number of characters ccx reads of one field of a
+// data line; it silently cuts a longer number (-4.27000000000001e-06
+// would be read as -4.27000000000001e-0, i.e. -4.27).
+const fieldWidth = 20
+
+// g formats a number for a deck: 15 significant digits, or as many as fit
+// in fieldWidth characters (fewer for a negative value with an exponent:
+// 14 for -4.27e-06, 13 for -1.2e-300), never fewer than one.
+func g(x float64) string {
+	for p := 15; p > 1; p-- {
+		if s := strconv.FormatFloat(x, 'g', p, 64); len(s) <= fieldWidth {
+			return s
+		}
+	}
+	return strconv.FormatFloat(x, 'g', 1, 64)
+}
 
 // writeIDs writes ids, 8 per line (the limit of ccx's set and element
 // lines is 16 entries).

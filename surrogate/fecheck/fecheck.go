@@ -4,6 +4,7 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -216,11 +217,17 @@ func solidFor(w wall, mat wallMaterial, m Mesh) axiSpec {
 	return axiSpec{wall: w, mat: mat, perPt: n, through: through}
 }
 
-// WriteDecks writes the CalculiX decks of bellows b at mesh m into dir:
-// shell.inp (3-D shell model, four load cases) and solid.inp
-// (axisymmetric solid of one pitch), each written atomically. Run them
-// with `ccx -i shell` and `ccx -i solid` in dir.
-func WriteDecks(dir string, b surrogate.Bellows, m Mesh) ([]string, error) {
+// WriteFunc writes the file name with write, which streams its content.
+// The caller chooses how: plica's run-folder writer (temp + rename)
+// outside this package, plain files in Run's scratch directory.
+type WriteFunc func(name string, write func(io.Writer) error) error
+
+// WriteDecks writes the CalculiX decks of bellows b at mesh m through
+// create, by file name: shell.inp (3-D shell model, four load cases) and
+// solid.inp (axisymmetric solid of one pitch). It returns the names
+// written. Run them with `ccx -i shell` and `ccx -i solid` where they
+// are.
+func WriteDecks(create WriteFunc, b surrogate.Bellows, m Mesh) ([]string, error) {
 	if err := b.Validate(); err != nil {
 		return nil, err
 	}
@@ -229,16 +236,15 @@ func WriteDecks(dir string, b surrogate.Bellows, m Mesh) ([]string, error) {
 	var names []string
 	for _, d := range []struct {
 		name  string
-		write func(f *os.File) error
+		write func(w io.Writer) error
 	}{
-		{"shell.inp", func(f *os.File) error { return writeShellDeck(f, sh.build(), title(&b, m)) }},
-		{"solid.inp", func(f *os.File) error { return writeAxiDeck(f, so.build(), title(&b, m)) }},
+		{"shell.inp", func(w io.Writer) error { return writeShellDeck(w, sh.build(), title(&b, m)) }},
+		{"solid.inp", func(w io.Writer) error { return writeAxiDeck(w, so.build(), title(&b, m)) }},
 	} {
-		p := filepath.Join(dir, d.name)
-		if err := writeAtomic(p, d.write); err != nil {
+		if err := create(d.name, d.write); err != nil {
 			return names, err
 		}
-		names = append(names, p)
+		names = append(names, d.name)
 	}
 	return names, nil
 }
@@ -252,29 +258,20 @@ func title(b *surrogate.Bellows, m Mesh) string {
 		wind, b.Profile, b.OuterDiameter*1e3, b.Depth*1e3, b.Pitch*1e3, b.Wall*1e3, m)
 }
 
-// writeAtomic writes a file through a temporary file in the same
-// directory and a rename.
-func writeAtomic(path string, write func(*os.File) error) error {
-	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*")
+// writeScratch writes path with a plain create and write: the decks Run
+// and the verification cases solve live in a directory that belongs to
+// the run alone (a private temporary directory, or Options.Dir, which
+// plica fe stages and publishes whole by a rename), so no reader sees a
+// half-written deck; ccx only reads it after writeScratch returns. Files
+// a user reads elsewhere go through the caller's WriteFunc.
+func writeScratch(path string, write func(io.Writer) error) error {
+	f, err := os.Create(path)
 	if err != nil {
 		return err
 	}
-	tmp := f.Name()
 	err = write(f)
-	if e := f.Chmod(0o644); err == nil {
-		err = e
-	}
-	if e := f.Sync(); err == nil {
-		err = e
-	}
 	if e := f.Close(); err == nil {
 		err = e
-	}
-	if err == nil {
-		err = os.Rename(tmp, path)
-	}
-	if err != nil {
-		os.Remove(tmp)
 	}
 	return err
 }

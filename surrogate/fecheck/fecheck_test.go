@@ -1,8 +1,10 @@
 package fecheck
 
 import (
+	"bytes"
 	"context"
 	"errors"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -135,38 +137,51 @@ func TestReaders(t *testing.T) {
 	assert.Equal(t, 1.04192e-04, f.strains[0][2086][4])
 }
 
+// TestWriteDecks writes the decks through the caller's WriteFunc (here
+// into memory): shell.inp then solid.inp, each streamed whole; an error of
+// the writer stops WriteDecks with it; a bad bellows writes nothing.
 func TestWriteDecks(t *testing.T) {
-	dir := t.TempDir()
 	b := surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.004, Pitch: 0.006, Wall: 0.0004,
 		Profile: surrogate.Sinusoid, SpineWidth: 0.004}, Material: resin()}
 	b.Material.ModulusInLayer = 3.2e9 // orthotropic
-	files, err := WriteDecks(dir, b, Coarse)
+	decks := map[string]string{}
+	mem := func(name string, write func(io.Writer) error) error {
+		var buf bytes.Buffer
+		if err := write(&buf); err != nil {
+			return err
+		}
+		decks[name] = buf.String()
+		return nil
+	}
+	files, err := WriteDecks(mem, b, Coarse)
 	require.NoError(t, err)
-	require.Len(t, files, 2)
-	shell, err := os.ReadFile(files[0])
-	require.NoError(t, err)
-	s := string(shell)
+	assert.Equal(t, []string{"shell.inp", "solid.inp"}, files)
+	s := decks["shell.inp"]
 	assert.Equal(t, 4, strings.Count(s, "*STEP\n"))
 	assert.Equal(t, 2, strings.Count(s, "*RIGID BODY"))
 	assert.Contains(t, s, "*ELEMENT, TYPE=S8R")
 	assert.Contains(t, s, "TYPE=ENGINEERING CONSTANTS")
 	assert.Contains(t, s, "SYSTEM=CYLINDRICAL")
-	solid, err := os.ReadFile(files[1])
-	require.NoError(t, err)
-	assert.Contains(t, string(solid), "*ELEMENT, TYPE=CAX8")
-	for _, f := range files {
-		fi, err := os.Stat(f)
-		require.NoError(t, err)
-		assert.Equal(t, os.FileMode(0o644), fi.Mode().Perm(), "%s readable like any written file", f)
-	}
-	// nothing else left behind (atomic writes)
-	left, _ := os.ReadDir(dir)
-	assert.Len(t, left, 2)
+	assert.True(t, strings.HasSuffix(s, "*END STEP\n"), "streamed whole")
+	assert.Contains(t, decks["solid.inp"], "*ELEMENT, TYPE=CAX8")
+
+	full := errors.New("disk full")
+	calls := 0
+	files, err = WriteDecks(func(name string, write func(io.Writer) error) error {
+		if calls++; calls == 2 {
+			return full
+		}
+		return nil
+	}, b, Coarse)
+	assert.ErrorIs(t, err, full)
+	assert.Equal(t, []string{"shell.inp"}, files, "the decks written before the error")
 
 	b.Wall = 0.01 // invalid: wall ≥ depth/2
-	_, err = WriteDecks(t.TempDir(), b, Coarse)
+	calls = 0
+	_, err = WriteDecks(func(string, func(io.Writer) error) error { calls++; return nil }, b, Coarse)
 	var ie *surrogate.InputError
 	assert.ErrorAs(t, err, &ie)
+	assert.Zero(t, calls)
 }
 
 func TestMissingCCX(t *testing.T) {

@@ -8,7 +8,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"strconv"
 
 	"plica/surrogate/solid"
 )
@@ -206,7 +205,7 @@ func writeRingDeck(out io.Writer, m *ringMesh, title string) error {
 	fmt.Fprintf(w, "%d, 1, 2\n%d, 2, 2\n", m.fix1, m.fix2)
 	for _, id := range m.crest {
 		n := &m.nodes[id-1]
-		fmt.Fprintf(w, "%d, 3, 3, %s\n", id, g12(ringBeta*n.x))
+		fmt.Fprintf(w, "%d, 3, 3, %s\n", id, g(ringBeta*n.x))
 	}
 	w.WriteString("*NODE PRINT, NSET=CREST\nRF\n*EL FILE\nE\n*END STEP\n")
 
@@ -214,17 +213,11 @@ func writeRingDeck(out io.Writer, m *ringMesh, title string) error {
 	fmt.Fprintf(w, "%d, 3, 3\n", m.fix1)
 	for _, id := range m.crest {
 		n := &m.nodes[id-1]
-		fmt.Fprintf(w, "%d, 1, 1, %s\n%d, 2, 2, %s\n", id, g12(-ringPhi*n.y), id, g12(ringPhi*n.x))
+		fmt.Fprintf(w, "%d, 1, 1, %s\n%d, 2, 2, %s\n", id, g(-ringPhi*n.y), id, g(ringPhi*n.x))
 	}
 	w.WriteString("*NODE PRINT, NSET=CREST\nRF\n*EL FILE\nE\n*END STEP\n")
 	return w.Flush()
 }
-
-// g12 formats a prescribed value in 12 significant digits: ccx reads at
-// most 20 characters per field, which a negative value with an exponent
-// in 15 digits exceeds (ccx then silently drops the exponent's last
-// digit).
-func g12(x float64) string { return strconv.FormatFloat(x, 'g', 12, 64) }
 
 // solveRing writes ring.inp in dir, runs ccx and extracts EI, GJ and the
 // peak meridional surface strain per unit curvature.
@@ -233,7 +226,7 @@ func solveRing(ctx context.Context, dir string, s *ringSpec, title string, opt O
 	if err != nil {
 		return nil, err
 	}
-	if err := writeAtomic(filepath.Join(dir, "ring.inp"), func(f *os.File) error { return writeRingDeck(f, m, title) }); err != nil {
+	if err := writeScratch(filepath.Join(dir, "ring.inp"), func(w io.Writer) error { return writeRingDeck(w, m, title) }); err != nil {
 		return nil, err
 	}
 	dur, err := runCCX(ctx, opt.CCX, dir, "ring", opt.Threads, nil)

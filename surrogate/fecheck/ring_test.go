@@ -12,43 +12,6 @@ import (
 	"plica/surrogate/solid"
 )
 
-// ringGeometry is a periodic convolution given by its dimensionless
-// shape at Dm = 20 mm: w/q, t/(2ρ), w/Dm.
-type ringGeometry struct {
-	name          string
-	p             surrogate.Profile
-	wq, fold, wdm float64
-}
-
-func (r ringGeometry) geometry() surrogate.Geometry {
-	const dm = 0.020
-	w := r.wdm * dm
-	q := w / r.wq
-	rho := q * q / (2 * math.Pi * math.Pi * w)
-	if r.p == surrogate.UShape {
-		rho = q / 4
-	}
-	t := 2 * rho * r.fold
-	return surrogate.Geometry{OuterDiameter: dm + w + t, Depth: w, Pitch: q, Wall: t, Profile: r.p}
-}
-
-// ringGeometries span the validated range: w/q 0.15–1.6, t/2ρ 0.07–0.8,
-// w/Dm 0.1–0.25, sinusoid and U, and t/w up to 0.49. The 3-D mesh has
-// 3 + round(6·t/2ρ) bricks through the wall (8 at t/2ρ = 0.8, where the
-// concave surface has a radius of 0.25·t); its strain converges from
-// below, by about 4 % from 8 to the limit there (two-mesh extrapolation,
-// 5 and 8 through: sinusoid w/q 1, t/2ρ 0.8).
-var ringGeometries = []ringGeometry{
-	{"sine-shallow-thin", surrogate.Sinusoid, 0.15, 0.067, 0.1},
-	{"sine-0.25-0.3", surrogate.Sinusoid, 0.25, 0.3, 0.25},
-	{"sine-0.6-0.5", surrogate.Sinusoid, 0.6, 0.5, 0.15},
-	{"sine-1.0-0.8", surrogate.Sinusoid, 1.0, 0.8, 0.2},
-	{"sine-1.6-0.3", surrogate.Sinusoid, 1.6, 0.3, 0.1},
-	{"u-0.6-0.3", surrogate.UShape, 0.6, 0.3, 0.15},
-	{"u-1.0-0.15", surrogate.UShape, 1.0, 0.15, 0.1},
-	{"u-1.6-0.45", surrogate.UShape, 1.6, 0.45, 0.25},
-}
-
 // TestFESolidVsCalculiX checks the surrogate's wall model against an
 // independent 3-D solid model solved by CalculiX: the periodic
 // convolution (half of it, full circumference, mirror conditions on the
@@ -66,7 +29,7 @@ var ringGeometries = []ringGeometry{
 // makes the two models discretisations of the same elasticity problem.
 func TestFESolidVsCalculiX(t *testing.T) {
 	needCCX(t)
-	mat := surrogate.Material{Name: "iso", ModulusAcross: 1.5e9, ModulusInLayer: 1.5e9, Poisson: 0.38, Density: 1100, AllowableStrain: 0.02}
+	mat := ringMaterial
 	for _, c := range ringGeometries {
 		t.Run(c.name, func(t *testing.T) {
 			t.Parallel()
@@ -75,14 +38,9 @@ func TestFESolidVsCalculiX(t *testing.T) {
 			require.NoError(t, b.Validate())
 			sec, err := b.Section(surrogate.Strip)
 			require.NoError(t, err)
-			conv := solid.Convolution{Profile: solid.Sinusoid, MeanRadius: g.MeanRadius(), Depth: g.Depth, Pitch: g.Pitch, Wall: g.Wall}
-			if c.p == surrogate.UShape {
-				conv.Profile = solid.UShape
-			}
-			sr, err := solid.Analyze(conv, solid.Material{E: mat.ModulusAcross, Nu: mat.Poisson}, solid.MeshSize{})
+			spec := c.spec(mat)
+			sr, err := solid.Analyze(spec.conv, solid.Material{E: mat.ModulusAcross, Nu: mat.Poisson}, solid.MeshSize{})
 			require.NoError(t, err)
-			spec := ringSpec{conv: conv, e: mat.ModulusAcross, nu: mat.Poisson, around: 12,
-				mesh: solid.MeshSize{Through: 3 + int(math.Round(6*c.fold)), Along: 32, Bias: 0.8}}
 			fe, err := solveRing(context.Background(), t.TempDir(), &spec, c.name, Options{})
 			require.NoError(t, err)
 

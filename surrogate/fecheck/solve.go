@@ -3,6 +3,7 @@ package fecheck
 import (
 	"context"
 	"fmt"
+	"io"
 	"math"
 	"os"
 	"path/filepath"
@@ -53,7 +54,7 @@ func fitRing(m *shellMesh, ids []int, u map[int][3]float64) (ringMotion, error) 
 // section properties (see REFERENCE.md).
 func solveShell(ctx context.Context, dir string, s *shellSpec, title string, opt Options) (*ShellResult, error) {
 	m := s.build()
-	if err := writeAtomic(filepath.Join(dir, "shell.inp"), func(f *os.File) error { return writeShellDeck(f, m, title) }); err != nil {
+	if err := writeScratch(filepath.Join(dir, "shell.inp"), func(w io.Writer) error { return writeShellDeck(w, m, title) }); err != nil {
 		return nil, err
 	}
 	dur, err := runCCX(ctx, opt.CCX, dir, "shell", opt.Threads, opt.steps("shell", shellCaseNames()))
@@ -266,7 +267,7 @@ func (m *shellMesh) peakStrain(surf []surfNode, strain map[int][6]float64) float
 // extension of the pitch.
 func solveSolid(ctx context.Context, dir string, s *axiSpec, title string, opt Options) (*SolidResult, error) {
 	m := s.build()
-	if err := writeAtomic(filepath.Join(dir, "solid.inp"), func(f *os.File) error { return writeAxiDeck(f, m, title) }); err != nil {
+	if err := writeScratch(filepath.Join(dir, "solid.inp"), func(w io.Writer) error { return writeAxiDeck(w, m, title) }); err != nil {
 		return nil, err
 	}
 	dur, err := runCCX(ctx, opt.CCX, dir, "solid", opt.Threads, opt.steps("solid", []string{"axial extension"}))
