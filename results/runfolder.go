@@ -2,8 +2,11 @@
 // evaluation archive, the front as CSV and as design files, checkpoints and
 // run.json. Execute runs a search into a folder with a progress bar; Merge
 // joins island runs, Compare measures fronts against each other and Pick
-// chooses designs of a front. Every file is written through WriteAtomic (or
-// WriteAtomicStream). The report and its figures are package results/report;
+// chooses designs of a front. atomic.go owns atomic writes (WriteAtomic,
+// WriteAtomicStream, WriteAtomicAll); every file of a run folder goes
+// through them but evaluations.csv, appended generation by generation
+// (rewritten atomically on resume), checkpoint.prev.json, the previous
+// checkpoint renamed, and run.lock, hard-linked into place. The report and its figures are package results/report;
 // package results/verify runs the verification cases of plica verify.
 //
 // A run folder holds:
