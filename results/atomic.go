@@ -17,13 +17,17 @@ type pending struct {
 	done bool
 }
 
+// createTemp makes the temporary files of atomic writes; a test may
+// replace it to fail as a full disk does.
+var createTemp = os.CreateTemp
+
 // create starts an atomic write of path.
 func create(path string) (*pending, error) {
 	dir, base := filepath.Split(path)
 	if dir == "" {
 		dir = "."
 	}
-	tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	tmp, err := createTemp(dir, "."+base+".*.tmp")
 	if err != nil {
 		return nil, err
 	}

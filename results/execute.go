@@ -130,8 +130,8 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			info.Files = append(info.Files, RunFile)
 		}
 		info.Updated = time.Now().UTC()
-		if werr := f.WriteInfo(info); werr != nil {
-			return res, fmt.Errorf("%w (and %s could not record the failure: %v)", err, f.Path(RunFile), werr)
+		if werr := f.writeFailedInfo(info); werr != nil {
+			return res, &UnrecordedError{Err: err, Path: f.Path(RunFile), Record: werr, Files: f.Written()}
 		}
 		return res, err
 	}

@@ -227,8 +227,8 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		files := append(folder.Written(), RunFile)
 		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: "merge", Started: time.Now().UTC(),
 			Updated: time.Now().UTC(), Status: StatusFailed, Reason: err.Error(), Files: files, Caution: Caution}
-		if werr := folder.WriteInfo(failed); werr != nil {
-			err = fmt.Errorf("%w (and %s could not record the failure: %v)", err, folder.Path(RunFile), werr)
+		if werr := folder.writeFailedInfo(failed); werr != nil {
+			err = &UnrecordedError{Err: err, Path: folder.Path(RunFile), Record: werr, Files: folder.Written()}
 		}
 	}()
 	if n := folder.LockNote(); n != "" {

@@ -330,6 +330,83 @@ func (f *Folder) WriteInfo(info *RunInfo) error {
 	return f.WriteFile(RunFile, append(b, '\n'))
 }
 
+// writeFailedInfo writes run.json of a run that failed after work began,
+// as robustly as it can: atomically when the disk allows, else (no room for
+// a temporary file: a full disk) by rewriting run.json in place. The old
+// run.json already holds disk space; the new content is written over it
+// (in compact form when the indented one is longer) and the file cut to
+// its length, so a full disk still records the failure. An error means
+// run.json could not be updated.
+func (f *Folder) writeFailedInfo(info *RunInfo) error {
+	err := f.WriteInfo(info)
+	if err == nil {
+		return nil
+	}
+	indented, merr := json.MarshalIndent(info, "", "  ")
+	if merr != nil {
+		return err
+	}
+	compact, merr := json.Marshal(info)
+	if merr != nil {
+		return err
+	}
+	if ierr := rewriteInPlace(f.Path(RunFile), append(indented, '\n'), append(compact, '\n')); ierr != nil {
+		return fmt.Errorf("%v; rewriting it in place: %v", err, ierr)
+	}
+	f.wrote(RunFile)
+	return nil
+}
+
+// rewriteInPlace overwrites an existing file with the first content that
+// fits in its current size (else the last, which may need more room), then
+// cuts it to that length and syncs it: no new file, so no new disk space
+// while the content fits.
+func rewriteInPlace(path string, contents ...[]byte) error {
+	fh, err := os.OpenFile(path, os.O_WRONLY, 0)
+	if err != nil {
+		return err
+	}
+	st, err := fh.Stat()
+	if err != nil {
+		fh.Close()
+		return err
+	}
+	data := contents[len(contents)-1]
+	for _, c := range contents {
+		if int64(len(c)) <= st.Size() {
+			data = c
+			break
+		}
+	}
+	_, err = fh.WriteAt(data, 0)
+	if err == nil {
+		err = fh.Truncate(int64(len(data)))
+	}
+	if err == nil {
+		err = fh.Sync()
+	}
+	if cerr := fh.Close(); err == nil {
+		err = cerr
+	}
+	return err
+}
+
+// UnrecordedError is a run that failed after work began (Err) and whose
+// run.json could not be updated to say so (Record): it may still say
+// "running". Files lists the files of the folder written by this process.
+type UnrecordedError struct {
+	Err    error
+	Path   string // run.json
+	Record error
+	Files  []string
+}
+
+func (e *UnrecordedError) Error() string {
+	return fmt.Sprintf("%v (and %s could not be updated to say \"failed\": %v)", e.Err, e.Path, e.Record)
+}
+
+func (e *UnrecordedError) Unwrap() error { return e.Err }
+
 // ReadInfo reads run.json. A file that is not run.json (bad JSON, a
 // field of the wrong type, an unknown status) is an *InputError naming the
 // line and column.

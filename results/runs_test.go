@@ -265,3 +265,41 @@ func TestMergeRefusesDoubleCount(t *testing.T) {
 	_, err = Merge(context.Background(), []string{a, b}, "", "test")
 	assert.ErrorContains(t, err, "-o: the name is empty")
 }
+
+// TestWriteFailedInfoFullDisk: when no temporary file can be made (a full
+// disk), the failure is still recorded by rewriting run.json in place; when
+// run.json cannot be rewritten either, the error says it could not be
+// updated and which files the run wrote.
+func TestWriteFailedInfoFullDisk(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "run")
+	f, err := Create(dir)
+	require.NoError(t, err)
+	defer f.Unlock()
+	info := &RunInfo{Program: "plica", Status: StatusRunning, Variables: []string{"a_mm", "b_mm"}}
+	require.NoError(t, f.WriteInfo(info))
+	full := errors.New("no space left on device")
+	createTemp = func(string, string) (*os.File, error) { return nil, full }
+	defer func() { createTemp = os.CreateTemp }()
+	info.Status, info.Reason = StatusFailed, "write evaluations.csv: no space left on device"
+	info.Files = []string{RunFile, EvaluationsFile}
+	require.NoError(t, f.writeFailedInfo(info), "recorded in place")
+	got, err := f.ReadInfo()
+	require.NoError(t, err)
+	assert.Equal(t, StatusFailed, got.Status)
+	assert.Equal(t, info.Reason, got.Reason)
+	assert.Equal(t, info.Files, got.Files)
+	entries, err := os.ReadDir(dir)
+	require.NoError(t, err)
+	for _, e := range entries {
+		assert.NotContains(t, e.Name(), ".tmp", "no temporary file")
+	}
+
+	// run.json that cannot be opened for writing (a folder in its place).
+	require.NoError(t, os.Remove(f.Path(RunFile)))
+	require.NoError(t, os.Mkdir(f.Path(RunFile), 0o755))
+	werr := f.writeFailedInfo(info)
+	require.Error(t, werr)
+	ue := &UnrecordedError{Err: errors.New("search: boom"), Path: f.Path(RunFile), Record: werr, Files: f.Written()}
+	assert.ErrorIs(t, ue, ue.Err)
+	assert.Contains(t, ue.Error(), f.Path(RunFile)+` could not be updated to say "failed"`)
+}

@@ -233,3 +233,38 @@ func TestMergeDoubleCountCLI(t *testing.T) {
 	assert.Contains(t, errOut, "merging both would count them twice")
 	assert.NoDirExists(t, filepath.Join(dir, "x"))
 }
+
+// TestSearchFullDisk: a search on a disk that fills up mid-run (a 120 KiB
+// tmpfs) exits 1 and run.json says "failed" with the reason: the failure
+// is recorded in place of the old run.json when no new file fits. Needs
+// root to mount the tmpfs.
+func TestSearchFullDisk(t *testing.T) {
+	if testing.Short() {
+		t.Skip("mounts a tmpfs and runs a search until the disk is full")
+	}
+	if os.Geteuid() != 0 {
+		t.Skip("mounting a small tmpfs needs root")
+	}
+	dir := t.TempDir()
+	mnt := filepath.Join(dir, "disk")
+	require.NoError(t, os.Mkdir(mnt, 0o755))
+	if out, err := exec.Command("mount", "-t", "tmpfs", "-o", "size=120k", "tmpfs", mnt).CombinedOutput(); err != nil {
+		t.Skipf("cannot mount a tmpfs here (%v: %s)", err, out)
+	}
+	defer exec.Command("umount", mnt).Run()
+	rdir := filepath.Join(mnt, "run")
+	code, _, errOut := runCLI(t, "search", "../../problems/examples/boom-search.toml", "-o", rdir, "-quiet", "-evals", "4000")
+	assert.Equal(t, 1, code, errOut)
+	assert.Contains(t, errOut, "no space left on device")
+	assert.Contains(t, errOut, rdir+`/run.json says "failed" with the reason`)
+	assert.NotContains(t, errOut, "could not")
+	b, err := os.ReadFile(filepath.Join(rdir, results.RunFile))
+	require.NoError(t, err)
+	var info results.RunInfo
+	require.NoError(t, json.Unmarshal(b, &info), "run.json is whole: %s", b)
+	assert.Equal(t, results.StatusFailed, info.Status)
+	assert.Contains(t, info.Reason, "no space left on device")
+	for _, name := range info.Files {
+		assert.FileExists(t, filepath.Join(rdir, name), "listed files exist")
+	}
+}
