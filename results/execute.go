@@ -114,7 +114,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		c := NewColumns(spec)
 		info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
 	}
-	info.Method = methodName(method)
+	info.Method = spec.Search.Method.String()
 	info.Status = StatusRunning
 	info.Reason = ""
 	info.Workers = set.Workers
@@ -276,16 +276,6 @@ func problemName(s *problems.Spec) string {
 		return ""
 	}
 	return d.Name
-}
-
-func methodName(m search.Method) string {
-	switch m.(type) {
-	case *search.GA:
-		return "GA"
-	case *search.NelderMead:
-		return "NelderMead"
-	}
-	return "NSGA2"
 }
 
 // bar shows evaluations, rate, ETA, feasible count and hypervolume.

@@ -75,7 +75,7 @@ type mergeInput struct {
 // written before sources were recorded: the runs of merged_from that are
 // not merges themselves).
 func runSources(dir string, info *RunInfo) []RunSource {
-	if info.Method != "merge" {
+	if info.Method != MergeMethod {
 		return []RunSource{{Run: dir, ProblemHash: info.ProblemHash, Seed: info.Seed, Method: info.Method, Started: info.Started}}
 	}
 	if len(info.Sources) > 0 {
@@ -83,7 +83,7 @@ func runSources(dir string, info *RunInfo) []RunSource {
 	}
 	var out []RunSource
 	for _, m := range info.MergedFrom {
-		if m.Method != "merge" {
+		if m.Method != MergeMethod {
 			out = append(out, RunSource{Run: m.Run, ProblemHash: m.ProblemHash, Seed: m.Seed, Method: m.Method})
 		}
 	}
@@ -101,11 +101,11 @@ func overlap(a, b mergeInput) error {
 				continue
 			}
 			switch {
-			case a.info.Method == "merge" && b.info.Method != "merge":
+			case a.info.Method == MergeMethod && b.info.Method != MergeMethod:
 				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", a.dir, b.dir, y.Seed)
-			case b.info.Method == "merge" && a.info.Method != "merge":
+			case b.info.Method == MergeMethod && a.info.Method != MergeMethod:
 				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", b.dir, a.dir, x.Seed)
-			case a.info.Method == "merge":
+			case a.info.Method == MergeMethod:
 				return inputErrorf("%s and %s both hold the evaluations of the search %s (seed %d): merging both would count them twice (expected merges of different runs)", a.dir, b.dir, x.Run, x.Seed)
 			}
 			return inputErrorf("%s and %s are searches of the same problem with the same seed %d: they evaluate the same designs, and merging both would count them twice (expected runs with different seeds)", a.dir, b.dir, x.Seed)
@@ -225,7 +225,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 			return
 		}
 		files := append(folder.Written(), RunFile)
-		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: "merge", Started: time.Now().UTC(),
+		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: MergeMethod, Started: time.Now().UTC(),
 			Updated: time.Now().UTC(), Status: StatusFailed, Reason: err.Error(), Files: files, Caution: Caution}
 		if werr := folder.writeFailedInfo(failed); werr != nil {
 			err = &UnrecordedError{Err: err, Path: folder.Path(RunFile), Record: werr, Files: folder.Written()}
@@ -298,7 +298,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 	merged := front.ParetoFront(designs, (*search.Design).Point)
 	res.Front = FrontRows(spec, merged)
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
-		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
+		ProblemHash: spec.Hash(), Method: MergeMethod, Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
 		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints

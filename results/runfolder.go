@@ -34,6 +34,7 @@ import (
 	"slices"
 	"time"
 
+	"plica/problems"
 	"plica/search"
 )
 
@@ -116,6 +117,13 @@ func (r *RunInfo) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*r = RunInfo(j.plainRunInfo)
+	r.Method = methodText(r.Method)
+	for i := range r.Sources {
+		r.Sources[i].Method = methodText(r.Sources[i].Method)
+	}
+	for i := range r.MergedFrom {
+		r.MergedFrom[i].Method = methodText(r.MergedFrom[i].Method)
+	}
 	if j.TimeBudget != "" {
 		d, err := time.ParseDuration(j.TimeBudget)
 		if err != nil {
@@ -124,6 +132,22 @@ func (r *RunInfo) UnmarshalJSON(b []byte) error {
 		r.TimeBudget = d
 	}
 	return nil
+}
+
+// MergeMethod is the method of run.json of a merged run.
+const MergeMethod = "merge"
+
+// methodText is a method of run.json as the problem file names it
+// (problems.Method's text, or MergeMethod): run folders written before
+// run.json used the problem file's names say "NSGA2" or "GA".
+func methodText(m string) string {
+	switch m {
+	case "NSGA2":
+		return problems.NSGA2.String()
+	case "GA":
+		return problems.GA.String()
+	}
+	return m
 }
 
 // RunSource identifies one search run: its problem hash and seed (the same

@@ -303,3 +303,32 @@ func TestWriteFailedInfoFullDisk(t *testing.T) {
 	assert.ErrorIs(t, ue, ue.Err)
 	assert.Contains(t, ue.Error(), f.Path(RunFile)+` could not be updated to say "failed"`)
 }
+
+// TestRunInfoMethodNames: run.json names the method as the problem file
+// does ("nsga2"); a run.json of the old form ("NSGA2", "GA", in the run and
+// in a merge's sources) still loads, read as the problem file's names.
+func TestRunInfoMethodNames(t *testing.T) {
+	spec := smallProblem(t)
+	dir := filepath.Join(t.TempDir(), "run")
+	f, err := Create(dir)
+	require.NoError(t, err)
+	set := spec.Settings()
+	set.MaxEvaluations, set.Workers = 24, 1
+	_, err = Execute(context.Background(), spec, f, set, Options{Version: "test"})
+	require.NoError(t, err)
+	require.NoError(t, f.Unlock())
+	b, err := os.ReadFile(f.Path(RunFile))
+	require.NoError(t, err)
+	assert.Contains(t, string(b), `"method": "`+spec.Search.Method.String()+`"`)
+	assert.Equal(t, "nsga2", problems.NSGA2.String(), "the problem file's name")
+
+	old := []byte(`{"program":"plica","method":"NSGA2","status":"EvaluationLimit","time_budget":"0s",
+"sources":[{"run":"a","method":"GA"},{"run":"b","method":"NSGA2"}],"merged_from":[{"run":"a","method":"GA"}]}`)
+	require.NoError(t, os.WriteFile(f.Path(RunFile), old, 0o644))
+	info, err := f.ReadInfo()
+	require.NoError(t, err)
+	assert.Equal(t, "nsga2", info.Method)
+	assert.Equal(t, StatusEvaluationLimit, info.Status)
+	assert.Equal(t, []string{"ga", "nsga2"}, []string{info.Sources[0].Method, info.Sources[1].Method})
+	assert.Equal(t, "ga", info.MergedFrom[0].Method)
+}

@@ -195,7 +195,7 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 	}
 	status := res.Status.String()
 	if failed {
-		status = "failed"
+		status = results.StatusFailed.String()
 	}
 	fmt.Fprintf(w, "run %s: %s after %d evaluations (%d generations, %d failed), %s\n", folder.Dir, status, res.Evaluations,
 		res.Generation, res.Failures, res.Runtime.Round(time.Millisecond))
