@@ -84,7 +84,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		}
 		// Checked before anything is written: a log that does not match
 		// the checkpoint leaves the folder as it was.
-		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), keep); err != nil {
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), spec, keep); err != nil {
 			return nil, err
 		}
 		// The files of the earlier sessions stay, but for the front,
@@ -106,7 +106,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			return nil, err
 		}
 		// A new evaluations.csv, whatever the folder held.
-		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), 0); err != nil {
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), spec, 0); err != nil {
 			return nil, err
 		}
 		info = &RunInfo{Program: "plica", Version: opt.Version, ProblemName: problemName(spec), ProblemFile: spec.File,

@@ -434,6 +434,7 @@ func readEvaluations(ctx context.Context, f *Folder, spec *problems.Spec, header
 	}
 	srcRunCol, srcIdxCol := headerColumn(have, SourceRunColumn), headerColumn(have, SourceIndexColumn)
 	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
+	checks := evaluationChecks(spec, have)
 	cells := make([]string, len(header))
 	for line := 2; ; line++ {
 		if line%CheckEvery == 0 {
@@ -456,6 +457,9 @@ func readEvaluations(ctx context.Context, f *Folder, spec *problems.Spec, header
 		if len(rec) != len(have) {
 			*skipped++
 			continue
+		}
+		if err := checkCells(path, r, rec, checks); err != nil {
+			return err
 		}
 		for j, c := range col {
 			cells[j] = rec[c]

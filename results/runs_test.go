@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -98,19 +99,48 @@ func TestLock(t *testing.T) {
 // header's width; rows after them are dropped whatever they hold; every
 // other file is refused with a message naming the line.
 func TestResumeLog(t *testing.T) {
-	header := []string{"index", "x_mm", "reach_mm", "violation", "feasible", "failure"}
-	head := "index,x_mm,reach_mm,violation,feasible,failure\n"
-	row := func(i int) string { return strconv.Itoa(i) + ",1.5,200,0,true,\n" }
+	spec := smallProblem(t)
+	header := EvaluationHeader(spec)
+	head := strings.Join(header, ",") + "\n"
+	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
+	cells := func(i int) []string {
+		c := []string{strconv.Itoa(i)}
+		for _, v := range spec.Variables {
+			c = append(c, strconv.FormatFloat(v.Lower, 'g', -1, 64))
+		}
+		c = append(c, slices.Repeat([]string{"200"}, no)...)
+		c = append(c, slices.Repeat([]string{"-0.5"}, ng)...)
+		return append(c, "0", "true", "")
+	}
+	row := func(i int) string { return strings.Join(cells(i), ",") + "\n" }
 	var rows []string
 	for i := range 6 {
 		rows = append(rows, row(i))
 	}
+	// A failed evaluation as the search writes it: NaN objectives and
+	// constraints, an infinite violation, its reason.
+	failedCells := cells(2)
+	for k := 1 + nv; k < 1+nv+no+ng; k++ {
+		failedCells[k] = "NaN"
+	}
+	failedCells[1+nv+no+ng], failedCells[len(failedCells)-2], failedCells[len(failedCells)-1] = "+Inf", "false", "evaluation failed"
+	rows[2] = strings.Join(failedCells, ",") + "\n"
 	dir := t.TempDir()
 	path := filepath.Join(dir, EvaluationsFile)
 	check := func(content string, keep int64) ([]byte, error) {
 		t.Helper()
 		require.NoError(t, os.WriteFile(path, []byte(content), 0o644))
-		return ResumeLog(path, header, keep)
+		return ResumeLog(path, spec, keep)
+	}
+	// withCell is rows[:4] with cell k of row 1 replaced.
+	withCell := func(k int, v string) string {
+		c := cells(1)
+		c[k] = v
+		return head + rows[0] + strings.Join(c, ",") + "\n" + rows[2] + rows[3]
+	}
+	// column of cell k of a row (1-based bytes), for the message.
+	colOf := func(k int) string {
+		return strconv.Itoa(len(strings.Join(cells(1)[:k], ",")) + 2)
 	}
 
 	out, err := check(head+strings.Join(rows, "")+"6,1.5,2", 4)
@@ -127,7 +157,12 @@ func TestResumeLog(t *testing.T) {
 		name, content, want string
 	}{
 		{"cut short", head + strings.Join(rows[:3], ""), "holds 3 of the 4 evaluations the checkpoint counts"},
-		{"glued", head + rows[0] + rows[1][:6] + rows[2] + rows[3] + rows[4], ":3: evaluation 1 has 8 cells, expected 6 (a line cut short or glued to the next)"},
+		{"glued", head + rows[0] + rows[1][:4] + rows[2] + rows[3] + rows[4], " cells, expected " + strconv.Itoa(len(header)) + " (a line cut short or glued to the next)"},
+		{"variable", withCell(1, "zz"), ":3:3: " + header[1] + ` = "zz" (expected a number; a failed evaluation writes NaN)`},
+		{"objective", withCell(1+nv, ""), ":3:" + colOf(1+nv) + ": " + header[1+nv] + ` = "" (expected a number`},
+		{"constraint", withCell(1+nv+no+1, "1e"), ":3:" + colOf(1+nv+no+1) + ": " + header[1+nv+no+1] + ` = "1e"`},
+		{"violation", withCell(1+nv+no+ng, "x"), ": violation = \"x\""},
+		{"feasible", withCell(2+nv+no+ng, "yes"), `: feasible = "yes" (expected true or false)`},
 		{"row missing", head + rows[0] + rows[2] + rows[3] + rows[4], `:3: index "2", expected 1 (rows missing or out of order)`},
 		{"header", "index,y_mm\n" + strings.Join(rows, ""), ":1: the header differs"},
 		{"empty", "", "no header"},
@@ -141,7 +176,7 @@ func TestResumeLog(t *testing.T) {
 		assert.NotContains(t, err.Error(), "\n", "%s: one line", c.name)
 	}
 	require.NoError(t, os.Remove(path))
-	_, err = ResumeLog(path, header, 4)
+	_, err = ResumeLog(path, spec, 4)
 	assert.ErrorContains(t, err, "is missing, but the checkpoint counts 4 evaluations")
 }
 

@@ -268,3 +268,40 @@ func TestSearchFullDisk(t *testing.T) {
 		assert.FileExists(t, filepath.Join(rdir, name), "listed files exist")
 	}
 }
+
+// TestBadCellRefused: a variable cell of evaluations.csv that is not a
+// number is refused by resume, merge and report alike (exit 2, one line
+// naming file, line, column and column name), the folder left as it was.
+func TestBadCellRefused(t *testing.T) {
+	dir := t.TempDir()
+	prob := smallProblemFile(t, dir)
+	rdir := filepath.Join(dir, "rdir")
+	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "48")
+	require.Equal(t, 0, code, errOut)
+	path := filepath.Join(rdir, results.EvaluationsFile)
+	b, err := os.ReadFile(path)
+	require.NoError(t, err)
+	lines := strings.Split(string(b), "\n")
+	header := strings.Split(lines[0], ",")
+	cells := strings.Split(lines[2], ",")
+	col := len(cells[0]) + 2 // the first variable, after the index
+	cells[1] = "zz"
+	lines[2] = strings.Join(cells, ",")
+	bad := []byte(strings.Join(lines, "\n"))
+	require.NoError(t, os.WriteFile(path, bad, 0o644))
+	want := fmt.Sprintf(`%s:3:%d: %s = "zz" (expected a number; a failed evaluation writes NaN)`, path, col, header[1])
+	for _, args := range [][]string{
+		{"resume", rdir, "-quiet", "-evals", "96"},
+		{"merge", rdir, "-o", filepath.Join(dir, "merged")},
+		{"report", rdir},
+	} {
+		code, _, errOut := runCLI(t, args...)
+		assert.Equal(t, 2, code, "%v: %s", args, errOut)
+		assert.Contains(t, errOut, want, args[0])
+		assert.Equal(t, 1, strings.Count(errOut, "\n"), "%v: one line: %q", args, errOut)
+		now, err := os.ReadFile(path)
+		require.NoError(t, err)
+		assert.Equal(t, bad, now, "%s: evaluations.csv untouched", args[0])
+	}
+	assert.NoDirExists(t, filepath.Join(dir, "merged"), "merge wrote nothing")
+}
