@@ -21,7 +21,7 @@
 //	calibration/       copies of the calibration files the problem names
 //	plots/*.svg        the figures; report.html the self-contained report
 //	picked/pick-NNN.toml  designs chosen by plica pick
-//	run.lock           while search, resume or merge writes the folder: process id, host, start time
+//	run.lock           while search, resume or merge writes the folder: process id, host, start time, boot id
 package results
 
 import (

@@ -367,3 +367,52 @@ func TestRunInfoMethodNames(t *testing.T) {
 	assert.Equal(t, []string{"ga", "nsga2"}, []string{info.Sources[0].Method, info.Sources[1].Method})
 	assert.Equal(t, "ga", info.MergedFrom[0].Method)
 }
+
+// TestLockReusedPID: a lock naming a live process by id alone can be one
+// whose id was reused (after a reboot, say). A lock naming pid 1 with a
+// start time that is not pid 1's is stale and taken over with a note, as
+// is one of another boot; the lock of this process, with its own start
+// time, is refused. Without /proc only the process id is checked.
+func TestLockReusedPID(t *testing.T) {
+	if _, ok := startTicks(1); !ok || bootID() == "" {
+		t.Skip("no /proc with process start times and a boot id here")
+	}
+	dir := filepath.Join(t.TempDir(), "run")
+	require.NoError(t, os.MkdirAll(dir, 0o755))
+	one, _ := startTicks(1)
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: one + 12345})
+	assert.NoError(t, CheckUnlocked(dir), "a reused id does not lock the folder for readers")
+	f := &Folder{Dir: dir}
+	require.NoError(t, f.Lock(), "pid 1 with another start time is stale")
+	assert.Contains(t, f.LockNote(), "took over the stale lock of process 1")
+	assert.Contains(t, f.LockNote(), "its id was reused")
+	b, err := os.ReadFile(filepath.Join(dir, LockFile))
+	require.NoError(t, err)
+	var mine lockInfo
+	require.NoError(t, json.Unmarshal(b, &mine))
+	me, _ := startTicks(os.Getpid())
+	assert.Equal(t, me, mine.StartTicks, "the lock records this process's start time")
+	assert.Equal(t, bootID(), mine.BootID, "and the boot id")
+	require.NoError(t, f.Unlock())
+
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: "another-boot", StartTicks: one})
+	g := &Folder{Dir: dir}
+	require.NoError(t, g.Lock(), "a lock of another boot is stale")
+	assert.Contains(t, g.LockNote(), "the machine has restarted since")
+	require.NoError(t, g.Unlock())
+
+	writeLock(t, dir, lockInfo{PID: os.Getpid(), Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: me})
+	var le *LockedError
+	require.ErrorAs(t, (&Folder{Dir: dir}).Lock(), &le, "this live process's lock is refused")
+	require.ErrorAs(t, CheckUnlocked(dir), &le)
+
+	// Without /proc, pid 1 is alive and its lock is refused.
+	procDir = filepath.Join(t.TempDir(), "no-proc")
+	defer func() { procDir = "/proc" }()
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: one + 12345})
+	require.ErrorAs(t, (&Folder{Dir: dir}).Lock(), &le, "only the pid can be checked")
+	writeLock(t, dir, lockInfo{PID: deadPID(t), Host: hostname(), Started: time.Now()})
+	h := &Folder{Dir: dir}
+	require.NoError(t, h.Lock(), "a pid that no longer runs is stale without /proc too")
+	require.NoError(t, h.Unlock())
+}
