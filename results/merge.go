@@ -220,7 +220,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		}
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			if rerr := folder.removeWritten(made); rerr != nil {
-				err = fmt.Errorf("%w (and %s could not be removed: %v)", err, folder.Dir, rerr)
+				err = &UnremovedError{Err: err, Dir: folder.Dir, Remove: rerr}
 			}
 			return
 		}
@@ -405,6 +405,20 @@ func hypervolumeOf(ds []search.Design, ref []float64) float64 {
 	}
 	return front.Hypervolume(pts, ref)
 }
+
+// UnremovedError is an interrupted merge (Err) whose partly written
+// folder could not be removed (Remove).
+type UnremovedError struct {
+	Err    error
+	Dir    string
+	Remove error
+}
+
+func (e *UnremovedError) Error() string {
+	return fmt.Sprintf("%v (and %s could not be removed: %v)", e.Err, e.Dir, e.Remove)
+}
+
+func (e *UnremovedError) Unwrap() error { return e.Err }
 
 // readEvaluations reads evaluations.csv of a run folder and calls add for
 // every complete row with the design (minimised objectives, Index unset),
