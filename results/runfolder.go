@@ -6,7 +6,8 @@
 // WriteAtomicStream, WriteAtomicAll); every file of a run folder goes
 // through them but evaluations.csv, appended generation by generation
 // (rewritten atomically on resume), checkpoint.prev.json, the previous
-// checkpoint renamed, and run.lock, hard-linked into place. The report and its figures are package results/report;
+// checkpoint renamed, run.lock, hard-linked into place, and the run.json of
+// a failed run when no temporary file fits (rewritten in place). The report and its figures are package results/report;
 // package results/verify runs the verification cases of plica verify.
 //
 // A run folder holds:
