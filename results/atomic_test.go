@@ -62,3 +62,34 @@ func TestWriteAtomicStreamFailure(t *testing.T) {
 	require.NoError(t, err)
 	assert.Len(t, entries, 1, "no temporary file left behind")
 }
+
+// TestWriteAtomicAll: a set of files is written all or none through the
+// shared atomic write: when one target's folder is missing, no other
+// target is touched and no temporary file is left; when all can be
+// written, each has its content and mode 0644.
+func TestWriteAtomicAll(t *testing.T) {
+	dir := t.TempDir()
+	a, b := filepath.Join(dir, "a.toml"), filepath.Join(dir, "b.toml")
+	require.NoError(t, os.WriteFile(a, []byte("old a"), 0o600))
+	err := WriteAtomicAll([]string{a, filepath.Join(dir, "missing", "x.toml")}, [][]byte{[]byte("new a"), []byte("x")})
+	require.Error(t, err)
+	got, err := os.ReadFile(a)
+	require.NoError(t, err)
+	assert.Equal(t, "old a", string(got), "first target untouched when a later one fails")
+	entries, err := os.ReadDir(dir)
+	require.NoError(t, err)
+	assert.Len(t, entries, 1, "no temporary file left behind")
+
+	require.NoError(t, WriteAtomicAll([]string{a, b}, [][]byte{[]byte("new a"), []byte("new b")}))
+	for path, want := range map[string]string{a: "new a", b: "new b"} {
+		got, err := os.ReadFile(path)
+		require.NoError(t, err)
+		assert.Equal(t, want, string(got))
+		st, err := os.Stat(path)
+		require.NoError(t, err)
+		assert.Equal(t, os.FileMode(0o644), st.Mode().Perm(), "mode 0644")
+	}
+	entries, err = os.ReadDir(dir)
+	require.NoError(t, err)
+	assert.Len(t, entries, 2, "no temporary file left behind")
+}

@@ -84,7 +84,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		}
 		// Checked before anything is written: a log that does not match
 		// the checkpoint leaves the folder as it was.
-		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), keep); err != nil {
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), spec, keep); err != nil {
 			return nil, err
 		}
 		// The files of the earlier sessions stay, but for the front,
@@ -106,7 +106,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			return nil, err
 		}
 		// A new evaluations.csv, whatever the folder held.
-		if logData, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(spec), 0); err != nil {
+		if logData, err = ResumeLog(f.Path(EvaluationsFile), spec, 0); err != nil {
 			return nil, err
 		}
 		info = &RunInfo{Program: "plica", Version: opt.Version, ProblemName: problemName(spec), ProblemFile: spec.File,
@@ -114,7 +114,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		c := NewColumns(spec)
 		info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
 	}
-	info.Method = methodName(method)
+	info.Method = spec.Search.Method.String()
 	info.Status = StatusRunning
 	info.Reason = ""
 	info.Workers = set.Workers
@@ -130,8 +130,8 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			info.Files = append(info.Files, RunFile)
 		}
 		info.Updated = time.Now().UTC()
-		if werr := f.WriteInfo(info); werr != nil {
-			return res, fmt.Errorf("%w (and %s could not record the failure: %v)", err, f.Path(RunFile), werr)
+		if werr := f.writeFailedInfo(info); werr != nil {
+			return res, &UnrecordedError{Err: err, Path: f.Path(RunFile), Record: werr, Files: f.Written()}
 		}
 		return res, err
 	}
@@ -276,16 +276,6 @@ func problemName(s *problems.Spec) string {
 		return ""
 	}
 	return d.Name
-}
-
-func methodName(m search.Method) string {
-	switch m.(type) {
-	case *search.GA:
-		return "GA"
-	case *search.NelderMead:
-		return "NelderMead"
-	}
-	return "NSGA2"
 }
 
 // bar shows evaluations, rate, ETA, feasible count and hypervolume.

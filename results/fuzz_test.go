@@ -67,7 +67,7 @@ func FuzzRunFiles(f *testing.F) {
 		if c != nil {
 			keep = c.Evaluations
 		}
-		_, err = ResumeLog(folder.Path(EvaluationsFile), EvaluationHeader(spec), keep)
+		_, err = ResumeLog(folder.Path(EvaluationsFile), spec, keep)
 		input("evaluations.csv for resume", err)
 		rf, err := LoadRunFront(dir)
 		input("front.csv", err)

@@ -7,6 +7,8 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strconv"
+	"strings"
 	"syscall"
 	"time"
 
@@ -17,11 +19,71 @@ import (
 // -o hold it while they write the folder; it names the process holding it.
 const LockFile = "run.lock"
 
-// lockInfo is the content of run.lock.
+// lockInfo is the content of run.lock. BootID and StartTicks identify the
+// process beyond its id (ids are reused, after a reboot especially): on
+// Linux the boot id of /proc/sys/kernel/random/boot_id and the process
+// start time, field 22 of /proc/PID/stat, in clock ticks since boot. They
+// are empty where /proc is missing, and in locks of older plica versions.
 type lockInfo struct {
-	PID     int       `json:"pid"`
-	Host    string    `json:"host"`
-	Started time.Time `json:"started"`
+	PID        int       `json:"pid"`
+	Host       string    `json:"host"`
+	Started    time.Time `json:"started"`
+	BootID     string    `json:"boot_id,omitempty"`
+	StartTicks uint64    `json:"start_ticks,omitempty"`
+}
+
+// procDir is where process information is read; a test may point it
+// elsewhere to act as a system without /proc.
+var procDir = "/proc"
+
+// bootID is this boot's id, "" if unknown.
+func bootID() string {
+	b, err := os.ReadFile(filepath.Join(procDir, "sys", "kernel", "random", "boot_id"))
+	if err != nil {
+		return ""
+	}
+	return strings.TrimSpace(string(b))
+}
+
+// startTicks is the start time of process pid in clock ticks since boot
+// (field 22 of /proc/PID/stat), and false if unknown.
+func startTicks(pid int) (uint64, bool) {
+	b, err := os.ReadFile(filepath.Join(procDir, strconv.Itoa(pid), "stat"))
+	if err != nil {
+		return 0, false
+	}
+	// The command name (field 2) is in parentheses and may hold spaces:
+	// fields are counted after its closing parenthesis, from field 3.
+	i := bytes.LastIndexByte(b, ')')
+	if i < 0 {
+		return 0, false
+	}
+	f := strings.Fields(string(b[i+1:]))
+	if len(f) < 22-2 {
+		return 0, false
+	}
+	t, err := strconv.ParseUint(f[22-3], 10, 64)
+	return t, err == nil
+}
+
+// stale reports whether a lock of this host names a process that no
+// longer holds it, and why: the process does not run, or the machine was
+// restarted since (another boot id), or the id now names another process
+// (another start time). Without /proc (or in a lock without them) only
+// the process id is checked.
+func stale(holder lockInfo) (bool, string) {
+	if !processAlive(holder.PID) {
+		return true, "that process no longer runs: it was killed or crashed"
+	}
+	if now := bootID(); holder.BootID != "" && now != "" && now != holder.BootID {
+		return true, "the machine has restarted since: process " + strconv.Itoa(holder.PID) + " now is another process"
+	}
+	if holder.StartTicks != 0 {
+		if t, ok := startTicks(holder.PID); ok && t != holder.StartTicks {
+			return true, "process " + strconv.Itoa(holder.PID) + " now is another process, started at another time: its id was reused"
+		}
+	}
+	return false, ""
 }
 
 func (l lockInfo) String() string {
@@ -74,7 +136,8 @@ func processAlive(pid int) bool {
 
 // Lock takes the folder's lock: it writes run.lock with this process's id,
 // host and start time, atomically and only if no lock exists. A lock left
-// by a process of this host that no longer runs (killed with kill -9, say)
+// by a process of this host that no longer runs (killed with kill -9, say),
+// or whose id now names another process (another boot id or start time)
 // is stale: it is taken over and LockNote says so. A lock held by a live
 // process, one of another host, or one that cannot be read is a
 // *LockedError. Unlock releases it.
@@ -82,7 +145,8 @@ func (f *Folder) Lock() error {
 	if f.lock != nil {
 		return nil
 	}
-	me := lockInfo{PID: os.Getpid(), Host: hostname(), Started: time.Now().UTC()}
+	me := lockInfo{PID: os.Getpid(), Host: hostname(), Started: time.Now().UTC(), BootID: bootID()}
+	me.StartTicks, _ = startTicks(me.PID)
 	data, err := json.Marshal(me)
 	if err != nil {
 		return err
@@ -107,7 +171,11 @@ func (f *Folder) Lock() error {
 		if rerr != nil || json.Unmarshal(old, &holder) != nil || holder.PID <= 0 || holder.Host == "" {
 			return &LockedError{Dir: f.Dir, Holder: fmt.Sprintf("%s cannot be read", LockFile)}
 		}
-		if holder.Host != me.Host || processAlive(holder.PID) {
+		if holder.Host != me.Host {
+			return &LockedError{Dir: f.Dir, Holder: holder.String()}
+		}
+		isStale, why := stale(holder)
+		if !isStale {
 			return &LockedError{Dir: f.Dir, Holder: holder.String()}
 		}
 		// Stale: remove it only if it is still the same lock.
@@ -116,7 +184,7 @@ func (f *Folder) Lock() error {
 				return fmt.Errorf("cannot remove the stale lock of %s: %w", f.Dir, err)
 			}
 		}
-		note = fmt.Sprintf("took over the stale lock of %s in %s (that process no longer runs: it was killed or crashed)", holder, f.Dir)
+		note = fmt.Sprintf("took over the stale lock of %s in %s (%s)", holder, f.Dir, why)
 	}
 	return &LockedError{Dir: f.Dir, Holder: "another process keeps taking the lock"}
 }
@@ -166,7 +234,10 @@ func CheckUnlocked(dir string) error {
 	if err != nil || json.Unmarshal(old, &holder) != nil || holder.PID <= 0 || holder.Host == "" {
 		return &LockedError{Dir: dir, Holder: fmt.Sprintf("%s cannot be read", LockFile)}
 	}
-	if holder.Host != hostname() || processAlive(holder.PID) {
+	if holder.Host != hostname() {
+		return &LockedError{Dir: dir, Holder: holder.String()}
+	}
+	if isStale, _ := stale(holder); !isStale {
 		return &LockedError{Dir: dir, Holder: holder.String()}
 	}
 	return nil

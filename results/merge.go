@@ -75,7 +75,7 @@ type mergeInput struct {
 // written before sources were recorded: the runs of merged_from that are
 // not merges themselves).
 func runSources(dir string, info *RunInfo) []RunSource {
-	if info.Method != "merge" {
+	if info.Method != MergeMethod {
 		return []RunSource{{Run: dir, ProblemHash: info.ProblemHash, Seed: info.Seed, Method: info.Method, Started: info.Started}}
 	}
 	if len(info.Sources) > 0 {
@@ -83,7 +83,7 @@ func runSources(dir string, info *RunInfo) []RunSource {
 	}
 	var out []RunSource
 	for _, m := range info.MergedFrom {
-		if m.Method != "merge" {
+		if m.Method != MergeMethod {
 			out = append(out, RunSource{Run: m.Run, ProblemHash: m.ProblemHash, Seed: m.Seed, Method: m.Method})
 		}
 	}
@@ -101,11 +101,11 @@ func overlap(a, b mergeInput) error {
 				continue
 			}
 			switch {
-			case a.info.Method == "merge" && b.info.Method != "merge":
+			case a.info.Method == MergeMethod && b.info.Method != MergeMethod:
 				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", a.dir, b.dir, y.Seed)
-			case b.info.Method == "merge" && a.info.Method != "merge":
+			case b.info.Method == MergeMethod && a.info.Method != MergeMethod:
 				return inputErrorf("%s is a merge that already holds the evaluations of %s (seed %d): merging both would count them twice (expected one of them)", b.dir, a.dir, x.Seed)
-			case a.info.Method == "merge":
+			case a.info.Method == MergeMethod:
 				return inputErrorf("%s and %s both hold the evaluations of the search %s (seed %d): merging both would count them twice (expected merges of different runs)", a.dir, b.dir, x.Run, x.Seed)
 			}
 			return inputErrorf("%s and %s are searches of the same problem with the same seed %d: they evaluate the same designs, and merging both would count them twice (expected runs with different seeds)", a.dir, b.dir, x.Seed)
@@ -220,15 +220,15 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		}
 		if errors.Is(err, context.Canceled) || errors.Is(err, context.DeadlineExceeded) {
 			if rerr := folder.removeWritten(made); rerr != nil {
-				err = fmt.Errorf("%w (and %s could not be removed: %v)", err, folder.Dir, rerr)
+				err = &UnremovedError{Err: err, Dir: folder.Dir, Remove: rerr}
 			}
 			return
 		}
 		files := append(folder.Written(), RunFile)
-		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: "merge", Started: time.Now().UTC(),
+		failed := &RunInfo{Program: "plica", Version: version, ProblemFile: ins[0].info.ProblemFile, Method: MergeMethod, Started: time.Now().UTC(),
 			Updated: time.Now().UTC(), Status: StatusFailed, Reason: err.Error(), Files: files, Caution: Caution}
-		if werr := folder.WriteInfo(failed); werr != nil {
-			err = fmt.Errorf("%w (and %s could not record the failure: %v)", err, folder.Path(RunFile), werr)
+		if werr := folder.writeFailedInfo(failed); werr != nil {
+			err = &UnrecordedError{Err: err, Path: folder.Path(RunFile), Record: werr, Files: folder.Written()}
 		}
 	}()
 	if n := folder.LockNote(); n != "" {
@@ -298,7 +298,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 	merged := front.ParetoFront(designs, (*search.Design).Point)
 	res.Front = FrontRows(spec, merged)
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
-		ProblemHash: spec.Hash(), Method: "merge", Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
+		ProblemHash: spec.Hash(), Method: MergeMethod, Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
 		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
@@ -406,6 +406,20 @@ func hypervolumeOf(ds []search.Design, ref []float64) float64 {
 	return front.Hypervolume(pts, ref)
 }
 
+// UnremovedError is an interrupted merge (Err) whose partly written
+// folder could not be removed (Remove).
+type UnremovedError struct {
+	Err    error
+	Dir    string
+	Remove error
+}
+
+func (e *UnremovedError) Error() string {
+	return fmt.Sprintf("%v (and %s could not be removed: %v)", e.Err, e.Dir, e.Remove)
+}
+
+func (e *UnremovedError) Unwrap() error { return e.Err }
+
 // readEvaluations reads evaluations.csv of a run folder and calls add for
 // every complete row with the design (minimised objectives, Index unset),
 // the row's cells in the order of header, and its source run and index
@@ -434,6 +448,7 @@ func readEvaluations(ctx context.Context, f *Folder, spec *problems.Spec, header
 	}
 	srcRunCol, srcIdxCol := headerColumn(have, SourceRunColumn), headerColumn(have, SourceIndexColumn)
 	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
+	checks := evaluationChecks(spec, have)
 	cells := make([]string, len(header))
 	for line := 2; ; line++ {
 		if line%CheckEvery == 0 {
@@ -456,6 +471,9 @@ func readEvaluations(ctx context.Context, f *Folder, spec *problems.Spec, header
 		if len(rec) != len(have) {
 			*skipped++
 			continue
+		}
+		if err := checkCells(path, r, rec, checks); err != nil {
+			return err
 		}
 		for j, c := range col {
 			cells[j] = rec[c]

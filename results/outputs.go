@@ -109,42 +109,32 @@ func ProbeOutput(flag, path string) error {
 // every file goes to a temporary file first, and only when all are
 // written are they renamed into place. On failure before the renames no
 // target is touched.
-func WriteAtomicAll(paths []string, data [][]byte) (err error) {
+func WriteAtomicAll(paths []string, data [][]byte) error {
 	if len(paths) != len(data) {
 		return fmt.Errorf("results: %d paths for %d contents", len(paths), len(data))
 	}
-	tmps := make([]string, 0, len(paths))
+	ps := make([]*pending, 0, len(paths))
 	defer func() {
-		for _, t := range tmps {
-			os.Remove(t) // gone once renamed
+		for _, p := range ps {
+			p.Abort() // nothing once renamed
 		}
 	}()
-	for i, p := range paths {
-		dir, base := filepath.Split(p)
-		if dir == "" {
-			dir = "."
-		}
-		tmp, err := os.CreateTemp(dir, "."+base+".*.tmp")
+	for i, path := range paths {
+		p, err := create(path)
 		if err != nil {
 			return err
 		}
-		tmps = append(tmps, tmp.Name())
-		_, err = tmp.Write(data[i])
+		ps = append(ps, p)
+		_, err = p.Write(data[i])
 		if err == nil {
-			err = tmp.Sync()
-		}
-		if err == nil {
-			err = tmp.Chmod(0o644)
-		}
-		if cerr := tmp.Close(); err == nil {
-			err = cerr
+			err = p.finish()
 		}
 		if err != nil {
-			return fmt.Errorf("%s: %w", p, err)
+			return fmt.Errorf("%s: %w", path, err)
 		}
 	}
-	for i, p := range paths {
-		if err := os.Rename(tmps[i], p); err != nil {
+	for i, p := range ps {
+		if err := p.rename(); err != nil {
 			if i > 0 {
 				return fmt.Errorf("%w (written before it: %s)", err, strings.Join(paths[:i], ", "))
 			}

@@ -2,8 +2,12 @@
 // evaluation archive, the front as CSV and as design files, checkpoints and
 // run.json. Execute runs a search into a folder with a progress bar; Merge
 // joins island runs, Compare measures fronts against each other and Pick
-// chooses designs of a front. Every file is written through WriteAtomic (or
-// WriteAtomicStream). The report and its figures are package results/report;
+// chooses designs of a front. atomic.go owns atomic writes (WriteAtomic,
+// WriteAtomicStream, WriteAtomicAll); every file of a run folder goes
+// through them but evaluations.csv, appended generation by generation
+// (rewritten atomically on resume), checkpoint.prev.json, the previous
+// checkpoint renamed, run.lock, hard-linked into place, and the run.json of
+// a failed run when no temporary file fits (rewritten in place). The report and its figures are package results/report;
 // package results/verify runs the verification cases of plica verify.
 //
 // A run folder holds:
@@ -18,7 +22,7 @@
 //	calibration/       copies of the calibration files the problem names
 //	plots/*.svg        the figures; report.html the self-contained report
 //	picked/pick-NNN.toml  designs chosen by plica pick
-//	run.lock           while search, resume or merge writes the folder: process id, host, start time
+//	run.lock           while search, resume or merge writes the folder: process id, host, start time, boot id
 package results
 
 import (
@@ -31,6 +35,7 @@ import (
 	"slices"
 	"time"
 
+	"plica/problems"
 	"plica/search"
 )
 
@@ -113,6 +118,13 @@ func (r *RunInfo) UnmarshalJSON(b []byte) error {
 		return err
 	}
 	*r = RunInfo(j.plainRunInfo)
+	r.Method = methodText(r.Method)
+	for i := range r.Sources {
+		r.Sources[i].Method = methodText(r.Sources[i].Method)
+	}
+	for i := range r.MergedFrom {
+		r.MergedFrom[i].Method = methodText(r.MergedFrom[i].Method)
+	}
 	if j.TimeBudget != "" {
 		d, err := time.ParseDuration(j.TimeBudget)
 		if err != nil {
@@ -121,6 +133,22 @@ func (r *RunInfo) UnmarshalJSON(b []byte) error {
 		r.TimeBudget = d
 	}
 	return nil
+}
+
+// MergeMethod is the method of run.json of a merged run.
+const MergeMethod = "merge"
+
+// methodText is a method of run.json as the problem file names it
+// (problems.Method's text, or MergeMethod): run folders written before
+// run.json used the problem file's names say "NSGA2" or "GA".
+func methodText(m string) string {
+	switch m {
+	case "NSGA2":
+		return problems.NSGA2.String()
+	case "GA":
+		return problems.GA.String()
+	}
+	return m
 }
 
 // RunSource identifies one search run: its problem hash and seed (the same
@@ -326,6 +354,83 @@ func (f *Folder) WriteInfo(info *RunInfo) error {
 	}
 	return f.WriteFile(RunFile, append(b, '\n'))
 }
+
+// writeFailedInfo writes run.json of a run that failed after work began,
+// as robustly as it can: atomically when the disk allows, else (no room for
+// a temporary file: a full disk) by rewriting run.json in place. The old
+// run.json already holds disk space; the new content is written over it
+// (in compact form when the indented one is longer) and the file cut to
+// its length, so a full disk still records the failure. An error means
+// run.json could not be updated.
+func (f *Folder) writeFailedInfo(info *RunInfo) error {
+	err := f.WriteInfo(info)
+	if err == nil {
+		return nil
+	}
+	indented, merr := json.MarshalIndent(info, "", "  ")
+	if merr != nil {
+		return err
+	}
+	compact, merr := json.Marshal(info)
+	if merr != nil {
+		return err
+	}
+	if ierr := rewriteInPlace(f.Path(RunFile), append(indented, '\n'), append(compact, '\n')); ierr != nil {
+		return fmt.Errorf("%v; rewriting it in place: %v", err, ierr)
+	}
+	f.wrote(RunFile)
+	return nil
+}
+
+// rewriteInPlace overwrites an existing file with the first content that
+// fits in its current size (else the last, which may need more room), then
+// cuts it to that length and syncs it: no new file, so no new disk space
+// while the content fits.
+func rewriteInPlace(path string, contents ...[]byte) error {
+	fh, err := os.OpenFile(path, os.O_WRONLY, 0)
+	if err != nil {
+		return err
+	}
+	st, err := fh.Stat()
+	if err != nil {
+		fh.Close()
+		return err
+	}
+	data := contents[len(contents)-1]
+	for _, c := range contents {
+		if int64(len(c)) <= st.Size() {
+			data = c
+			break
+		}
+	}
+	_, err = fh.WriteAt(data, 0)
+	if err == nil {
+		err = fh.Truncate(int64(len(data)))
+	}
+	if err == nil {
+		err = fh.Sync()
+	}
+	if cerr := fh.Close(); err == nil {
+		err = cerr
+	}
+	return err
+}
+
+// UnrecordedError is a run that failed after work began (Err) and whose
+// run.json could not be updated to say so (Record): it may still say
+// "running". Files lists the files of the folder written by this process.
+type UnrecordedError struct {
+	Err    error
+	Path   string // run.json
+	Record error
+	Files  []string
+}
+
+func (e *UnrecordedError) Error() string {
+	return fmt.Sprintf("%v (and %s could not be updated to say \"failed\": %v)", e.Err, e.Path, e.Record)
+}
+
+func (e *UnrecordedError) Unwrap() error { return e.Err }
 
 // ReadInfo reads run.json. A file that is not run.json (bad JSON, a
 // field of the wrong type, an unknown status) is an *InputError naming the

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -98,19 +99,48 @@ func TestLock(t *testing.T) {
 // header's width; rows after them are dropped whatever they hold; every
 // other file is refused with a message naming the line.
 func TestResumeLog(t *testing.T) {
-	header := []string{"index", "x_mm", "reach_mm", "violation", "feasible", "failure"}
-	head := "index,x_mm,reach_mm,violation,feasible,failure\n"
-	row := func(i int) string { return strconv.Itoa(i) + ",1.5,200,0,true,\n" }
+	spec := smallProblem(t)
+	header := EvaluationHeader(spec)
+	head := strings.Join(header, ",") + "\n"
+	nv, no, ng := len(spec.Variables), len(spec.Objectives), spec.NumConstraints()
+	cells := func(i int) []string {
+		c := []string{strconv.Itoa(i)}
+		for _, v := range spec.Variables {
+			c = append(c, strconv.FormatFloat(v.Lower, 'g', -1, 64))
+		}
+		c = append(c, slices.Repeat([]string{"200"}, no)...)
+		c = append(c, slices.Repeat([]string{"-0.5"}, ng)...)
+		return append(c, "0", "true", "")
+	}
+	row := func(i int) string { return strings.Join(cells(i), ",") + "\n" }
 	var rows []string
 	for i := range 6 {
 		rows = append(rows, row(i))
 	}
+	// A failed evaluation as the search writes it: NaN objectives and
+	// constraints, an infinite violation, its reason.
+	failedCells := cells(2)
+	for k := 1 + nv; k < 1+nv+no+ng; k++ {
+		failedCells[k] = "NaN"
+	}
+	failedCells[1+nv+no+ng], failedCells[len(failedCells)-2], failedCells[len(failedCells)-1] = "+Inf", "false", "evaluation failed"
+	rows[2] = strings.Join(failedCells, ",") + "\n"
 	dir := t.TempDir()
 	path := filepath.Join(dir, EvaluationsFile)
 	check := func(content string, keep int64) ([]byte, error) {
 		t.Helper()
 		require.NoError(t, os.WriteFile(path, []byte(content), 0o644))
-		return ResumeLog(path, header, keep)
+		return ResumeLog(path, spec, keep)
+	}
+	// withCell is rows[:4] with cell k of row 1 replaced.
+	withCell := func(k int, v string) string {
+		c := cells(1)
+		c[k] = v
+		return head + rows[0] + strings.Join(c, ",") + "\n" + rows[2] + rows[3]
+	}
+	// column of cell k of a row (1-based bytes), for the message.
+	colOf := func(k int) string {
+		return strconv.Itoa(len(strings.Join(cells(1)[:k], ",")) + 2)
 	}
 
 	out, err := check(head+strings.Join(rows, "")+"6,1.5,2", 4)
@@ -127,7 +157,12 @@ func TestResumeLog(t *testing.T) {
 		name, content, want string
 	}{
 		{"cut short", head + strings.Join(rows[:3], ""), "holds 3 of the 4 evaluations the checkpoint counts"},
-		{"glued", head + rows[0] + rows[1][:6] + rows[2] + rows[3] + rows[4], ":3: evaluation 1 has 8 cells, expected 6 (a line cut short or glued to the next)"},
+		{"glued", head + rows[0] + rows[1][:4] + rows[2] + rows[3] + rows[4], " cells, expected " + strconv.Itoa(len(header)) + " (a line cut short or glued to the next)"},
+		{"variable", withCell(1, "zz"), ":3:3: " + header[1] + ` = "zz" (expected a number; a failed evaluation writes NaN)`},
+		{"objective", withCell(1+nv, ""), ":3:" + colOf(1+nv) + ": " + header[1+nv] + ` = "" (expected a number`},
+		{"constraint", withCell(1+nv+no+1, "1e"), ":3:" + colOf(1+nv+no+1) + ": " + header[1+nv+no+1] + ` = "1e"`},
+		{"violation", withCell(1+nv+no+ng, "x"), ": violation = \"x\""},
+		{"feasible", withCell(2+nv+no+ng, "yes"), `: feasible = "yes" (expected true or false)`},
 		{"row missing", head + rows[0] + rows[2] + rows[3] + rows[4], `:3: index "2", expected 1 (rows missing or out of order)`},
 		{"header", "index,y_mm\n" + strings.Join(rows, ""), ":1: the header differs"},
 		{"empty", "", "no header"},
@@ -141,7 +176,7 @@ func TestResumeLog(t *testing.T) {
 		assert.NotContains(t, err.Error(), "\n", "%s: one line", c.name)
 	}
 	require.NoError(t, os.Remove(path))
-	_, err = ResumeLog(path, header, 4)
+	_, err = ResumeLog(path, spec, 4)
 	assert.ErrorContains(t, err, "is missing, but the checkpoint counts 4 evaluations")
 }
 
@@ -264,4 +299,120 @@ func TestMergeRefusesDoubleCount(t *testing.T) {
 	assert.ErrorContains(t, err, "is designs of the run folder")
 	_, err = Merge(context.Background(), []string{a, b}, "", "test")
 	assert.ErrorContains(t, err, "-o: the name is empty")
+}
+
+// TestWriteFailedInfoFullDisk: when no temporary file can be made (a full
+// disk), the failure is still recorded by rewriting run.json in place; when
+// run.json cannot be rewritten either, the error says it could not be
+// updated and which files the run wrote.
+func TestWriteFailedInfoFullDisk(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "run")
+	f, err := Create(dir)
+	require.NoError(t, err)
+	defer f.Unlock()
+	info := &RunInfo{Program: "plica", Status: StatusRunning, Variables: []string{"a_mm", "b_mm"}}
+	require.NoError(t, f.WriteInfo(info))
+	full := errors.New("no space left on device")
+	createTemp = func(string, string) (*os.File, error) { return nil, full }
+	defer func() { createTemp = os.CreateTemp }()
+	info.Status, info.Reason = StatusFailed, "write evaluations.csv: no space left on device"
+	info.Files = []string{RunFile, EvaluationsFile}
+	require.NoError(t, f.writeFailedInfo(info), "recorded in place")
+	got, err := f.ReadInfo()
+	require.NoError(t, err)
+	assert.Equal(t, StatusFailed, got.Status)
+	assert.Equal(t, info.Reason, got.Reason)
+	assert.Equal(t, info.Files, got.Files)
+	entries, err := os.ReadDir(dir)
+	require.NoError(t, err)
+	for _, e := range entries {
+		assert.NotContains(t, e.Name(), ".tmp", "no temporary file")
+	}
+
+	// run.json that cannot be opened for writing (a folder in its place).
+	require.NoError(t, os.Remove(f.Path(RunFile)))
+	require.NoError(t, os.Mkdir(f.Path(RunFile), 0o755))
+	werr := f.writeFailedInfo(info)
+	require.Error(t, werr)
+	ue := &UnrecordedError{Err: errors.New("search: boom"), Path: f.Path(RunFile), Record: werr, Files: f.Written()}
+	assert.ErrorIs(t, ue, ue.Err)
+	assert.Contains(t, ue.Error(), f.Path(RunFile)+` could not be updated to say "failed"`)
+}
+
+// TestRunInfoMethodNames: run.json names the method as the problem file
+// does ("nsga2"); a run.json of the old form ("NSGA2", "GA", in the run and
+// in a merge's sources) still loads, read as the problem file's names.
+func TestRunInfoMethodNames(t *testing.T) {
+	spec := smallProblem(t)
+	dir := filepath.Join(t.TempDir(), "run")
+	f, err := Create(dir)
+	require.NoError(t, err)
+	set := spec.Settings()
+	set.MaxEvaluations, set.Workers = 24, 1
+	_, err = Execute(context.Background(), spec, f, set, Options{Version: "test"})
+	require.NoError(t, err)
+	require.NoError(t, f.Unlock())
+	b, err := os.ReadFile(f.Path(RunFile))
+	require.NoError(t, err)
+	assert.Contains(t, string(b), `"method": "`+spec.Search.Method.String()+`"`)
+	assert.Equal(t, "nsga2", problems.NSGA2.String(), "the problem file's name")
+
+	old := []byte(`{"program":"plica","method":"NSGA2","status":"EvaluationLimit","time_budget":"0s",
+"sources":[{"run":"a","method":"GA"},{"run":"b","method":"NSGA2"}],"merged_from":[{"run":"a","method":"GA"}]}`)
+	require.NoError(t, os.WriteFile(f.Path(RunFile), old, 0o644))
+	info, err := f.ReadInfo()
+	require.NoError(t, err)
+	assert.Equal(t, "nsga2", info.Method)
+	assert.Equal(t, StatusEvaluationLimit, info.Status)
+	assert.Equal(t, []string{"ga", "nsga2"}, []string{info.Sources[0].Method, info.Sources[1].Method})
+	assert.Equal(t, "ga", info.MergedFrom[0].Method)
+}
+
+// TestLockReusedPID: a lock naming a live process by id alone can be one
+// whose id was reused (after a reboot, say). A lock naming pid 1 with a
+// start time that is not pid 1's is stale and taken over with a note, as
+// is one of another boot; the lock of this process, with its own start
+// time, is refused. Without /proc only the process id is checked.
+func TestLockReusedPID(t *testing.T) {
+	if _, ok := startTicks(1); !ok || bootID() == "" {
+		t.Skip("no /proc with process start times and a boot id here")
+	}
+	dir := filepath.Join(t.TempDir(), "run")
+	require.NoError(t, os.MkdirAll(dir, 0o755))
+	one, _ := startTicks(1)
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: one + 12345})
+	assert.NoError(t, CheckUnlocked(dir), "a reused id does not lock the folder for readers")
+	f := &Folder{Dir: dir}
+	require.NoError(t, f.Lock(), "pid 1 with another start time is stale")
+	assert.Contains(t, f.LockNote(), "took over the stale lock of process 1")
+	assert.Contains(t, f.LockNote(), "its id was reused")
+	b, err := os.ReadFile(filepath.Join(dir, LockFile))
+	require.NoError(t, err)
+	var mine lockInfo
+	require.NoError(t, json.Unmarshal(b, &mine))
+	me, _ := startTicks(os.Getpid())
+	assert.Equal(t, me, mine.StartTicks, "the lock records this process's start time")
+	assert.Equal(t, bootID(), mine.BootID, "and the boot id")
+	require.NoError(t, f.Unlock())
+
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: "another-boot", StartTicks: one})
+	g := &Folder{Dir: dir}
+	require.NoError(t, g.Lock(), "a lock of another boot is stale")
+	assert.Contains(t, g.LockNote(), "the machine has restarted since")
+	require.NoError(t, g.Unlock())
+
+	writeLock(t, dir, lockInfo{PID: os.Getpid(), Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: me})
+	var le *LockedError
+	require.ErrorAs(t, (&Folder{Dir: dir}).Lock(), &le, "this live process's lock is refused")
+	require.ErrorAs(t, CheckUnlocked(dir), &le)
+
+	// Without /proc, pid 1 is alive and its lock is refused.
+	procDir = filepath.Join(t.TempDir(), "no-proc")
+	defer func() { procDir = "/proc" }()
+	writeLock(t, dir, lockInfo{PID: 1, Host: hostname(), Started: time.Now(), BootID: bootID(), StartTicks: one + 12345})
+	require.ErrorAs(t, (&Folder{Dir: dir}).Lock(), &le, "only the pid can be checked")
+	writeLock(t, dir, lockInfo{PID: deadPID(t), Host: hostname(), Started: time.Now()})
+	h := &Folder{Dir: dir}
+	require.NoError(t, h.Lock(), "a pid that no longer runs is stale without /proc too")
+	require.NoError(t, h.Unlock())
 }

@@ -97,7 +97,7 @@ func (f *Folder) OpenEvaluationLog(s *problems.Spec, keep int64) (*EvaluationLog
 	var data []byte
 	if keep >= 0 {
 		var err error
-		if data, err = ResumeLog(f.Path(EvaluationsFile), EvaluationHeader(s), keep); err != nil {
+		if data, err = ResumeLog(f.Path(EvaluationsFile), s, keep); err != nil {
 			return nil, err
 		}
 	}
@@ -137,7 +137,8 @@ func (f *Folder) openLog(s *problems.Spec, data []byte) (*EvaluationLog, error) 
 // counts (missing, cut short, a cut line glued to the next, rows missing
 // or out of order) is an *InputError naming the line: resume never loses
 // evaluations silently. With keep = 0 the old file is not needed.
-func ResumeLog(path string, header []string, keep int64) ([]byte, error) {
+func ResumeLog(path string, spec *problems.Spec, keep int64) ([]byte, error) {
+	header := EvaluationHeader(spec)
 	var fresh bytes.Buffer
 	w := csv.NewWriter(&fresh)
 	w.Write(header)
@@ -162,6 +163,7 @@ func ResumeLog(path string, header []string, keep int64) ([]byte, error) {
 	if !slices.Equal(have, header) {
 		return nil, inputErrorf("%s:1: the header differs from the problem's columns (was problem.toml changed?)", path)
 	}
+	checks := evaluationChecks(spec, have)
 	var n int64
 	for n < keep {
 		rec, err := r.Read()
@@ -184,6 +186,9 @@ func ResumeLog(path string, header []string, keep int64) ([]byte, error) {
 		if rec[0] != strconv.FormatInt(n, 10) {
 			return nil, inputErrorf("%s:%d: index %q, expected %d (rows missing or out of order); the checkpoint counts %d evaluations", path, line, rec[0], n, keep)
 		}
+		if err := checkCells(path, r, rec, checks); err != nil {
+			return nil, err
+		}
 		n++
 	}
 	out := data[:r.InputOffset()]
@@ -191,6 +196,73 @@ func ResumeLog(path string, header []string, keep int64) ([]byte, error) {
 		out = append(slices.Clip(out), '\n')
 	}
 	return out, nil
+}
+
+// cellCheck is the rule for one cell of evaluations.csv that resume,
+// merge and the report rely on: a number (NaN and ±Inf included: a failed
+// evaluation writes NaN for its objectives and constraints and +Inf for
+// its violation; a cell is never empty), one of a categorical variable's
+// options, or true/false (feasible).
+type cellCheck struct {
+	col     int
+	name    string
+	options []string
+	boolean bool
+}
+
+// evaluationChecks are the checks of the variable, objective, constraint,
+// violation and feasible cells of evaluations.csv with header have (a
+// column the header lacks is left to the caller).
+func evaluationChecks(spec *problems.Spec, have []string) []cellCheck {
+	c := NewColumns(spec)
+	var out []cellCheck
+	add := func(name string, ck cellCheck) {
+		if k := headerColumn(have, name); k >= 0 {
+			ck.col, ck.name = k, name
+			out = append(out, ck)
+		}
+	}
+	for j, name := range c.Variables {
+		add(name, cellCheck{options: spec.Variables[j].Options})
+	}
+	for _, name := range slices.Concat(c.Objectives, c.Constraints, []string{"violation"}) {
+		add(name, cellCheck{})
+	}
+	add("feasible", cellCheck{boolean: true})
+	return out
+}
+
+// checkCells applies checks to rec, the record r read last: a cell that
+// breaks its rule is an *InputError naming the file, line, column and
+// column name and what was expected.
+func checkCells(path string, r *csv.Reader, rec []string, checks []cellCheck) error {
+	for _, ck := range checks {
+		if ck.col >= len(rec) {
+			continue
+		}
+		cell := rec[ck.col]
+		var expected string
+		switch {
+		case ck.options != nil:
+			if slices.Contains(ck.options, cell) {
+				continue
+			}
+			expected = "one of " + strings.Join(ck.options, ", ")
+		case ck.boolean:
+			if cell == "true" || cell == "false" {
+				continue
+			}
+			expected = "true or false"
+		default:
+			if _, err := strconv.ParseFloat(cell, 64); err == nil {
+				continue
+			}
+			expected = "a number; a failed evaluation writes NaN"
+		}
+		line, col := r.FieldPos(ck.col)
+		return inputErrorf("%s:%d:%d: %s = %q (expected %s)", path, line, col, ck.name, cell, expected)
+	}
+	return nil
 }
 
 // unwrapCSV is the reason of a CSV parse error without its position.
@@ -333,6 +405,25 @@ const CheckEvery = 1024
 // ReadCSVContext is ReadCSV that stops with ctx.Err() once ctx is done
 // (looked at every CheckEvery rows).
 func (f *Folder) ReadCSVContext(ctx context.Context, name string) ([]string, [][]string, error) {
+	return f.readCSV(ctx, name, nil)
+}
+
+// ReadRunCSV is ReadCSVContext for a CSV file of a run of spec:
+// evaluations.csv has every complete row (one cell per column; a torn last
+// line is not checked) checked by the rule resume and merge apply: the
+// variable, objective, constraint and violation cells are numbers (or
+// options), and feasible is true or false. A cell that breaks it is an
+// *InputError with its file, line, column and column name.
+func (f *Folder) ReadRunCSV(ctx context.Context, name string, spec *problems.Spec) ([]string, [][]string, error) {
+	if name != EvaluationsFile {
+		spec = nil
+	}
+	return f.readCSV(ctx, name, spec)
+}
+
+// readCSV reads a CSV file of the folder; with spec, as evaluations.csv
+// (see ReadRunCSV).
+func (f *Folder) readCSV(ctx context.Context, name string, spec *problems.Spec) ([]string, [][]string, error) {
 	fh, err := os.Open(f.Path(name))
 	if err != nil {
 		return nil, nil, err
@@ -341,6 +432,7 @@ func (f *Folder) ReadCSVContext(ctx context.Context, name string) ([]string, [][
 	r := csv.NewReader(fh)
 	r.FieldsPerRecord = -1
 	var recs [][]string
+	var checks []cellCheck
 	for {
 		if len(recs)%CheckEvery == 0 {
 			if err := ctx.Err(); err != nil {
@@ -357,6 +449,15 @@ func (f *Folder) ReadCSVContext(ctx context.Context, name string) ([]string, [][
 				return nil, nil, inputErrorf("%s:%d:%d: %v", f.Path(name), pe.Line, pe.Column, pe.Err)
 			}
 			return nil, nil, fmt.Errorf("%s: %w", f.Path(name), err)
+		}
+		if spec != nil {
+			if len(recs) == 0 {
+				checks = evaluationChecks(spec, rec)
+			} else if len(rec) == len(recs[0]) {
+				if err := checkCells(f.Path(name), r, rec, checks); err != nil {
+					return nil, nil, err
+				}
+			}
 		}
 		recs = append(recs, rec)
 	}

@@ -92,6 +92,12 @@ func midRun(t *testing.T, dir string, at int64, args ...string) {
 	assert.Equal(t, exitInterrupt, code, "%s: exit status (stderr %q)", args[0], e.String())
 	assert.Empty(t, o.String(), "%s: nothing on standard output", args[0])
 	assert.Contains(t, e.String(), "context canceled", args[0])
+	switch args[0] {
+	case "merge":
+		assert.Contains(t, e.String(), "plica: merge interrupted, nothing written (", "says what was left")
+	case "report":
+		assert.Contains(t, e.String(), "plica: report interrupted, nothing written (the run folder is unchanged)", "says what was left")
+	}
 	after := snapshot(t, dir)
 	assert.Equal(t, keys(before), keys(after), "%s: no file created or removed", args[0])
 	assert.Equal(t, before, after, "%s: no file changed", args[0])

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"flag"
 	"fmt"
 	"io"
@@ -44,7 +45,19 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	if *out == "" {
 		return usagef("merge: -o: expected the folder of the merged run")
 	}
+	existed := results.Exists(*out)
 	res, err := results.Merge(ctx, pos, *out, version)
+	if errors.Is(err, context.Canceled) {
+		// Merge removes what it wrote when interrupted.
+		var ue *results.UnremovedError
+		if errors.As(err, &ue) {
+			return fmt.Errorf("merge interrupted, %s partly written: %w", *out, err)
+		}
+		if existed {
+			return fmt.Errorf("merge interrupted, nothing written into %s: %w", *out, err)
+		}
+		return fmt.Errorf("merge interrupted, nothing written (%s not created): %w", *out, err)
+	}
 	if err != nil {
 		return err
 	}

@@ -70,7 +70,12 @@ func runReport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	if n := folder.LockNote(); n != "" {
 		fmt.Fprintf(stderr, "plica: note: %s\n", n)
 	}
-	return writeReport(ctx, folder, *out, ids, stdout, stderr)
+	err = writeReport(ctx, folder, *out, ids, stdout, stderr)
+	if errors.Is(err, context.Canceled) {
+		// report.Write looks at ctx only before it writes a file.
+		return fmt.Errorf("report interrupted, nothing written (the run folder is unchanged): %w", err)
+	}
+	return err
 }
 
 // writeReport writes a run's report and plots and says where.

@@ -233,3 +233,75 @@ func TestMergeDoubleCountCLI(t *testing.T) {
 	assert.Contains(t, errOut, "merging both would count them twice")
 	assert.NoDirExists(t, filepath.Join(dir, "x"))
 }
+
+// TestSearchFullDisk: a search on a disk that fills up mid-run (a 120 KiB
+// tmpfs) exits 1 and run.json says "failed" with the reason: the failure
+// is recorded in place of the old run.json when no new file fits. Needs
+// root to mount the tmpfs.
+func TestSearchFullDisk(t *testing.T) {
+	if testing.Short() {
+		t.Skip("mounts a tmpfs and runs a search until the disk is full")
+	}
+	if os.Geteuid() != 0 {
+		t.Skip("mounting a small tmpfs needs root")
+	}
+	dir := t.TempDir()
+	mnt := filepath.Join(dir, "disk")
+	require.NoError(t, os.Mkdir(mnt, 0o755))
+	if out, err := exec.Command("mount", "-t", "tmpfs", "-o", "size=120k", "tmpfs", mnt).CombinedOutput(); err != nil {
+		t.Skipf("cannot mount a tmpfs here (%v: %s)", err, out)
+	}
+	defer exec.Command("umount", mnt).Run()
+	rdir := filepath.Join(mnt, "run")
+	code, _, errOut := runCLI(t, "search", "../../problems/examples/boom-search.toml", "-o", rdir, "-quiet", "-evals", "4000")
+	assert.Equal(t, 1, code, errOut)
+	assert.Contains(t, errOut, "no space left on device")
+	assert.Contains(t, errOut, rdir+`/run.json says "failed" with the reason`)
+	assert.NotContains(t, errOut, "could not")
+	b, err := os.ReadFile(filepath.Join(rdir, results.RunFile))
+	require.NoError(t, err)
+	var info results.RunInfo
+	require.NoError(t, json.Unmarshal(b, &info), "run.json is whole: %s", b)
+	assert.Equal(t, results.StatusFailed, info.Status)
+	assert.Contains(t, info.Reason, "no space left on device")
+	for _, name := range info.Files {
+		assert.FileExists(t, filepath.Join(rdir, name), "listed files exist")
+	}
+}
+
+// TestBadCellRefused: a variable cell of evaluations.csv that is not a
+// number is refused by resume, merge and report alike (exit 2, one line
+// naming file, line, column and column name), the folder left as it was.
+func TestBadCellRefused(t *testing.T) {
+	dir := t.TempDir()
+	prob := smallProblemFile(t, dir)
+	rdir := filepath.Join(dir, "rdir")
+	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "48")
+	require.Equal(t, 0, code, errOut)
+	path := filepath.Join(rdir, results.EvaluationsFile)
+	b, err := os.ReadFile(path)
+	require.NoError(t, err)
+	lines := strings.Split(string(b), "\n")
+	header := strings.Split(lines[0], ",")
+	cells := strings.Split(lines[2], ",")
+	col := len(cells[0]) + 2 // the first variable, after the index
+	cells[1] = "zz"
+	lines[2] = strings.Join(cells, ",")
+	bad := []byte(strings.Join(lines, "\n"))
+	require.NoError(t, os.WriteFile(path, bad, 0o644))
+	want := fmt.Sprintf(`%s:3:%d: %s = "zz" (expected a number; a failed evaluation writes NaN)`, path, col, header[1])
+	for _, args := range [][]string{
+		{"resume", rdir, "-quiet", "-evals", "96"},
+		{"merge", rdir, "-o", filepath.Join(dir, "merged")},
+		{"report", rdir},
+	} {
+		code, _, errOut := runCLI(t, args...)
+		assert.Equal(t, 2, code, "%v: %s", args, errOut)
+		assert.Contains(t, errOut, want, args[0])
+		assert.Equal(t, 1, strings.Count(errOut, "\n"), "%v: one line: %q", args, errOut)
+		now, err := os.ReadFile(path)
+		require.NoError(t, err)
+		assert.Equal(t, bad, now, "%s: evaluations.csv untouched", args[0])
+	}
+	assert.NoDirExists(t, filepath.Join(dir, "merged"), "merge wrote nothing")
+}

@@ -159,7 +159,13 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 		printFiles(stdout, folder)
 	}
 	if failed {
-		fmt.Fprintf(stderr, "plica: the run failed; %s says \"failed\" with the reason\n", folder.Path(results.RunFile))
+		var ue *results.UnrecordedError
+		if errors.As(err, &ue) {
+			fmt.Fprintf(stderr, "plica: the run failed; %s could not be updated (it may still say %q); the folder holds what this run wrote: %s\n",
+				ue.Path, results.StatusRunning, strings.Join(ue.Files, ", "))
+		} else {
+			fmt.Fprintf(stderr, "plica: the run failed; %s says %q with the reason\n", folder.Path(results.RunFile), results.StatusFailed)
+		}
 	}
 	if errors.Is(err, context.Canceled) {
 		fmt.Fprintf(stderr, "plica: interrupted; checkpoint saved: continue with plica resume %s\n", folder.Dir)
@@ -189,7 +195,7 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 	}
 	status := res.Status.String()
 	if failed {
-		status = "failed"
+		status = results.StatusFailed.String()
 	}
 	fmt.Fprintf(w, "run %s: %s after %d evaluations (%d generations, %d failed), %s\n", folder.Dir, status, res.Evaluations,
 		res.Generation, res.Failures, res.Runtime.Round(time.Millisecond))

@@ -110,7 +110,7 @@ func columns(file string, header, want []string) ([]int, error) {
 // readRows reads front.csv (front = true) or the feasible rows of
 // evaluations.csv.
 func (r *Data) readRows(ctx context.Context, name string, front bool) ([]Row, error) {
-	header, recs, err := r.Folder.ReadCSVContext(ctx, name)
+	header, recs, err := r.Folder.ReadRunCSV(ctx, name, r.Spec)
 	if err != nil {
 		return nil, err
 	}

@@ -83,10 +83,9 @@ func main() {
 	if err != nil {
 		log.Fatal(err)
 	}
-	if err := os.WriteFile(outputGen+".tmp", src, 0o644); err != nil {
-		log.Fatal(err)
-	}
-	if err := os.Rename(outputGen+".tmp", outputGen); err != nil {
+	// A source file under version control: a plain write, as hoopgen's
+	// (a failed write is redone by running the generator again).
+	if err := os.WriteFile(outputGen, src, 0o644); err != nil {
 		log.Fatal(err)
 	}
 	log.Printf("wrote %s in %v", outputGen, time.Since(start).Round(time.Second))
