@@ -129,15 +129,19 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 	return out, nil
 }
 
-// Largest values a design may hold. They lie far beyond any bellows that
-// can be printed or bought, and far inside what the models compute in
-// floating point: a longer, more curved or stiffer bellows is refused as
-// out of range rather than evaluated into overflow.
+// Largest and smallest values a design may hold. They lie far beyond any
+// bellows that can be printed or bought, and far inside what the models
+// compute in floating point: a longer, more curved, stiffer or softer
+// bellows is refused as out of range rather than evaluated into overflow
+// or an ill-conditioned stiffness matrix. At 10 m a bellows still gets a
+// result or a plain reason from the rod statics; at 100 m the shooting
+// overflows.
 const (
-	MaxLength        = 100.0 // m, each of the straight and curved lengths and a thread lead
-	MaxPrecurvature  = 1e4   // 1/m (a bend radius of 0.1 mm)
-	MaxStiffness     = 1e9   // N·m², measured EI and GJ
-	MaxLinearDensity = 1e4   // kg/m, measured
+	MaxLength        = 10.0 // m, each of the straight and curved lengths and a thread lead
+	MaxPrecurvature  = 1e4  // 1/m (a bend radius of 0.1 mm)
+	MaxStiffness     = 1e9  // N·m², measured EI and GJ
+	MinStiffness     = 1e-9 // N·m² (1e-3 N·mm²), measured EI and GJ
+	MaxLinearDensity = 1e4  // kg/m, measured
 )
 
 // rangeErr is an out-of-range value of one design-file key; the key is a
@@ -171,8 +175,15 @@ func (b Bellows) checkRanges() error {
 				errs = append(errs, rangeErr("bending_stiffness_n_mm2", "[%.6g, %.6g] is out of range (expected each at most %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MaxStiffness*1e6))
 				break
 			}
+			if v < MinStiffness {
+				errs = append(errs, rangeErr("bending_stiffness_n_mm2", "[%.6g, %.6g] is out of range (expected each at least %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MinStiffness*1e6))
+				break
+			}
 		}
 		out("torsional_stiffness_n_mm2", m.GJ, MaxStiffness, 1e6, "N·mm²")
+		if m.GJ < MinStiffness {
+			errs = append(errs, rangeErr("torsional_stiffness_n_mm2", "%.6g is out of range (expected at least %.6g N·mm²)", m.GJ*1e6, MinStiffness*1e6))
+		}
 		out("linear_density_kg_per_m", m.LinearDensity, MaxLinearDensity, 1, "kg/m")
 	}
 	return errors.Join(errs...)

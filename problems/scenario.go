@@ -32,9 +32,17 @@ func readScenario(root *table) objective.Scenario {
 	return sc
 }
 
+// maxPayloadGrams is the largest payload a scenario may carry (1 t): far
+// beyond any bellows manipulator, far inside what the rod statics computes.
+const maxPayloadGrams = 1e6
+
 func readLoad(t *table, l *objective.Load) {
 	if v, ok := t.positive("payload_g", "a mass in g", false, true); ok {
-		l.PayloadMass = v * gram
+		if v > maxPayloadGrams {
+			t.r.errorf(t.key("payload_g"), "%s is out of range (expected at most %.0f g)", fmtNum(v), float64(maxPayloadGrams))
+		} else {
+			l.PayloadMass = v * gram
+		}
 	}
 	g := objective.StandardGravity
 	if v, ok := t.positive("gravity_m_per_s2", "an acceleration in m/s² (0 switches gravity off)", false, true); ok {
