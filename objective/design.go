@@ -15,6 +15,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
@@ -106,7 +107,7 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 		case b.Model != nil:
 			sec, err := b.Model.Section(d.Fidelity)
 			if err != nil {
-				return nil, &BellowsError{Index: i, Err: err}
+				return nil, &BellowsError{Index: i, Err: modelFailure(err)}
 			}
 			src := SourceStrip
 			if sec.Fidelity == surrogate.Shell {
@@ -127,6 +128,22 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 		}
 	}
 	return out, nil
+}
+
+// modelFailure words a stiffness-model failure for the user: an invalid
+// input stays as it is (its key positions it); a model that cannot compute
+// an accepted geometry says so in plain words, without the model package's
+// own prefix.
+func modelFailure(err error) error {
+	var ie *surrogate.InputError
+	if errors.As(err, &ie) {
+		return err
+	}
+	msg := err.Error()
+	for _, f := range []surrogate.Fidelity{surrogate.Strip, surrogate.Shell} {
+		msg = strings.TrimPrefix(msg, f.String()+": ")
+	}
+	return fmt.Errorf("the stiffness model cannot compute this geometry: %s", msg)
 }
 
 // Largest and smallest values a design may hold. They lie far beyond any

@@ -228,3 +228,12 @@ func TestWorkspaceCaps(t *testing.T) {
 		assert.Contains(t, err.Error(), "out of range", "%+v", w)
 	}
 }
+
+// TestModelFailureWording: a stiffness-model failure reaches the user
+// without the model package's prefix; an input error keeps its key.
+func TestModelFailureWording(t *testing.T) {
+	err := modelFailure(errors.New("shell: stiffness matrix is not positive definite"))
+	assert.EqualError(t, err, "the stiffness model cannot compute this geometry: stiffness matrix is not positive definite")
+	in := &surrogate.InputError{Key: "wall_mm", Msg: "0 is not a positive finite number (expected > 0)"}
+	assert.Same(t, in, modelFailure(in))
+}
