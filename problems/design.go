@@ -99,7 +99,15 @@ func decode(data []byte, file, kind string) (*reader, *table, error) {
 	if _, err := toml.Decode(string(data), &m); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, nil, &Error{File: file, Line: pe.Position.Line, Col: pe.Position.Col, Key: pe.LastKey,
+			text := string(data)
+			line, col := pe.Position.Line, pe.Position.Col
+			if strings.HasPrefix(pe.Message, "TOML files cannot contain control characters") {
+				// the decoder reports where its token ended, not the character
+				if l, c := controlCharacter(text); l > 0 {
+					line, col = l, c
+				}
+			}
+			return nil, nil, &Error{File: file, Line: line, Col: col, Key: syntaxKey(text, line, pe.LastKey),
 				Msg: "syntax error: " + syntaxMessage(pe.Message)}
 		}
 		return nil, nil, &Error{File: file, Msg: "syntax error: " + syntaxMessage(err.Error())}
