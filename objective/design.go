@@ -87,6 +87,27 @@ func (s Source) String() string {
 // MarshalText writes the source's name (JSON and TOML outputs).
 func (s Source) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
 
+// UnmarshalText reads a source name as String writes it; an unknown one is
+// a *surrogate.InputError (key "stiffness_source") that lists the names.
+func (s *Source) UnmarshalText(text []byte) error {
+	v, err := parseName(sourceNames, text, "stiffness_source")
+	if err == nil {
+		*s = Source(v)
+	}
+	return err
+}
+
+// parseName finds text in names (indexed by value); an unknown name is an
+// input error at key listing the allowed ones.
+func parseName(names []string, text []byte, key string) (int, error) {
+	for i, n := range names {
+		if string(text) == n {
+			return i, nil
+		}
+	}
+	return 0, &surrogate.InputError{Key: key, Msg: fmt.Sprintf("%q is not allowed (expected one of: %s)", text, strings.Join(names, "|"))}
+}
+
 // BellowsError is a failure that belongs to one bellows of a design.
 type BellowsError struct {
 	Index int // 0-based, innermost first

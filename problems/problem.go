@@ -111,6 +111,15 @@ type Objective struct {
 	Maximize bool
 }
 
+// Goal is the objective's goal, whose String is the file's word
+// ("minimize" or "maximize"): what every output writes.
+func (o Objective) Goal() Goal {
+	if o.Maximize {
+		return Maximize
+	}
+	return Minimize
+}
+
 // Constraint is an extra limit on a score, beyond [requirements].
 type Constraint struct {
 	Score    string

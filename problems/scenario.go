@@ -15,7 +15,6 @@ var (
 		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
 		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight",
 		"within_validated_range"}
-	processNames = []string{"fff", "resin", "powder"}
 )
 
 // readScenario reads the [load], [printer], [workspace], [[task_point]] and
@@ -72,7 +71,7 @@ func readLoad(t *table, l *objective.Load) {
 }
 
 func readPrinter(t *table, p *objective.Printer) {
-	p.Process = t.choice("process", processNames, "fff")
+	t.enum("process", &p.Process, objective.ProcessNames())
 	if v, ok := t.positive("nozzle_mm", "a nozzle diameter in mm", false, false); ok {
 		p.Nozzle = v * mm
 	}

@@ -324,10 +324,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.Variables = append(p.Variables, []string{v.Path(), fmt.Sprintf("%.6g to %.6g", v.Lower, v.Upper), unit})
 	}
 	for _, o := range s.Objectives {
-		goal := "minimise"
-		if o.Maximize {
-			goal = "maximise"
-		}
+		goal := o.Goal().String()
 		_, unit := scoreAxis(o.Score)
 		doc := ""
 		if sc, ok := objective.LookupScore(o.Score); ok {
