@@ -3,6 +3,7 @@ package problems
 import (
 	"encoding"
 	"errors"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -83,4 +84,36 @@ func TestTypedNamesInFiles(t *testing.T) {
 func TestObjectiveGoal(t *testing.T) {
 	assert.Equal(t, "maximize", Objective{Score: "reach_mm", Maximize: true}.Goal().String())
 	assert.Equal(t, "minimize", Objective{Score: "tip_sag_mm"}.Goal().String())
+}
+
+// TestSpecRequirements: the [requirements] of a problem, typed, in key
+// order, with the unit each key names; the shipped search problem is read.
+func TestSpecRequirements(t *testing.T) {
+	s, err := LoadProblem("examples/boom-search.toml")
+	require.NoError(t, err)
+	reqs := s.Requirements()
+	require.NotEmpty(t, reqs)
+	for i, r := range reqs {
+		assert.Contains(t, requirementKeys, r.Key)
+		assert.NotEmpty(t, r.Value, r.Key)
+		if i > 0 {
+			assert.Less(t, reqs[i-1].Key, r.Key, "key order")
+		}
+	}
+	text := string(s.Text) + "\n"
+	s, err = ParseProblem([]byte(strings.Replace(text, "[requirements]", "[requirements]\nwithin_validated_range = false\nmin_stability_margin = 0.25", 1)), "p.toml")
+	require.NoError(t, err)
+	var got []Requirement
+	for _, r := range s.Requirements() {
+		if r.Key == "within_validated_range" || r.Key == "min_stability_margin" || r.Key == "max_tip_sag_mm" {
+			got = append(got, r)
+		}
+	}
+	assert.Contains(t, got, Requirement{Key: "within_validated_range", Value: "false"})
+	assert.Contains(t, got, Requirement{Key: "min_stability_margin", Value: "0.25"})
+	assert.Contains(t, got, Requirement{Key: "max_tip_sag_mm", Value: "4", Unit: "mm"})
+	assert.Equal(t, "mm", keyUnit("max_tip_sag_mm"))
+	assert.Equal(t, "g", keyUnit("max_mass_g"))
+	assert.Equal(t, "1/m", keyUnit("max_residual_curvature_per_m"))
+	assert.Equal(t, "", keyUnit("min_payload_to_weight"))
 }
