@@ -350,7 +350,7 @@ func materialList(custom map[string]surrogate.Material) string {
 func (r *reader) physicsError(err error) error {
 	var be *objective.BellowsError
 	if !errors.As(err, &be) {
-		r.errorf("bellows", "%v", err)
+		r.errorf("bellows", "%s", BellowsWording(err))
 		return r.errs.sorted()
 	}
 	for _, part := range leaves(be.Err) {
@@ -382,7 +382,6 @@ func leaves(err error) []error {
 // BellowsWording turns a kinematics message about tubes into the words of
 // the design files: bellows, counted from 1, innermost first.
 func BellowsWording(err error) string {
-	msg := strings.TrimPrefix(err.Error(), "kinematics: ")
-	msg = strings.ReplaceAll(msg, "tubes", "bellows")
+	msg := strings.ReplaceAll(err.Error(), "tubes", "bellows")
 	return strings.ReplaceAll(msg, "tube", "bellows")
 }
