@@ -162,9 +162,6 @@ func (e *evaluator) validatedRange(res *Result) {
 func (e *evaluator) printability(res *Result, add func(string, float64, float64, string, bool, string)) {
 	p := e.sc.Printer
 	process := p.Process
-	if process == "" {
-		process = "fff"
-	}
 	nozzle := p.Nozzle
 	if nozzle == 0 {
 		nozzle = 0.4e-3
@@ -180,15 +177,15 @@ func (e *evaluator) printability(res *Result, add func(string, float64, float64,
 	minWall := p.MinWall
 	if minWall == 0 {
 		switch process {
-		case "fff":
+		case FFF:
 			minWall = line
-		case "powder":
+		case Powder:
 			minWall = 0.8e-3
 		default:
 			minWall = 0.5e-3
 		}
 	}
-	if process == "fff" {
+	if process == FFF {
 		add("layer_height", layer*mmPerM, 0.8*nozzle*mmPerM, "mm", true, "at most 80 % of the nozzle diameter")
 	}
 	for i, b := range e.d.Bellows {
@@ -196,8 +193,8 @@ func (e *evaluator) printability(res *Result, add func(string, float64, float64,
 			continue
 		}
 		g := b.Model.Geometry
-		add(fmt.Sprintf("wall[%d]", i+1), g.Wall*mmPerM, minWall*mmPerM, "mm", false, process+" minimum wall")
-		if process == "fff" {
+		add(fmt.Sprintf("wall[%d]", i+1), g.Wall*mmPerM, minWall*mmPerM, "mm", false, process.String()+" minimum wall")
+		if process == FFF {
 			limit := p.OverhangLimit
 			if limit == 0 {
 				limit = math.Pi / 4

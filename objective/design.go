@@ -15,6 +15,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
@@ -86,6 +87,27 @@ func (s Source) String() string {
 // MarshalText writes the source's name (JSON and TOML outputs).
 func (s Source) MarshalText() ([]byte, error) { return []byte(s.String()), nil }
 
+// UnmarshalText reads a source name as String writes it; an unknown one is
+// a *surrogate.InputError (key "stiffness_source") that lists the names.
+func (s *Source) UnmarshalText(text []byte) error {
+	v, err := parseName(sourceNames, text, "stiffness_source")
+	if err == nil {
+		*s = Source(v)
+	}
+	return err
+}
+
+// parseName finds text in names (indexed by value); an unknown name is an
+// input error at key listing the allowed ones.
+func parseName(names []string, text []byte, key string) (int, error) {
+	for i, n := range names {
+		if string(text) == n {
+			return i, nil
+		}
+	}
+	return 0, &surrogate.InputError{Key: key, Msg: fmt.Sprintf("%q is not allowed (expected one of: %s)", text, strings.Join(names, "|"))}
+}
+
 // BellowsError is a failure that belongs to one bellows of a design.
 type BellowsError struct {
 	Index int // 0-based, innermost first
@@ -106,7 +128,7 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 		case b.Model != nil:
 			sec, err := b.Model.Section(d.Fidelity)
 			if err != nil {
-				return nil, &BellowsError{Index: i, Err: err}
+				return nil, &BellowsError{Index: i, Err: modelFailure(err)}
 			}
 			src := SourceStrip
 			if sec.Fidelity == surrogate.Shell {
@@ -129,15 +151,35 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 	return out, nil
 }
 
-// Largest values a design may hold. They lie far beyond any bellows that
-// can be printed or bought, and far inside what the models compute in
-// floating point: a longer, more curved or stiffer bellows is refused as
-// out of range rather than evaluated into overflow.
+// modelFailure words a stiffness-model failure for the user: an invalid
+// input stays as it is (its key positions it); a model that cannot compute
+// an accepted geometry says so in plain words, without the model package's
+// own prefix.
+func modelFailure(err error) error {
+	var ie *surrogate.InputError
+	if errors.As(err, &ie) {
+		return err
+	}
+	msg := err.Error()
+	for _, f := range []surrogate.Fidelity{surrogate.Strip, surrogate.Shell} {
+		msg = strings.TrimPrefix(msg, f.String()+": ")
+	}
+	return fmt.Errorf("the stiffness model cannot compute this geometry: %s", msg)
+}
+
+// Largest and smallest values a design may hold. They lie far beyond any
+// bellows that can be printed or bought, and far inside what the models
+// compute in floating point: a longer, more curved, stiffer or softer
+// bellows is refused as out of range rather than evaluated into overflow
+// or an ill-conditioned stiffness matrix. At 10 m a bellows still gets a
+// result or a plain reason from the rod statics; at 100 m the shooting
+// overflows.
 const (
-	MaxLength        = 100.0 // m, each of the straight and curved lengths and a thread lead
-	MaxPrecurvature  = 1e4   // 1/m (a bend radius of 0.1 mm)
-	MaxStiffness     = 1e9   // N·m², measured EI and GJ
-	MaxLinearDensity = 1e4   // kg/m, measured
+	MaxLength        = 10.0 // m, each of the straight and curved lengths and a thread lead
+	MaxPrecurvature  = 1e4  // 1/m (a bend radius of 0.1 mm)
+	MaxStiffness     = 1e9  // N·m², measured EI and GJ
+	MinStiffness     = 1e-9 // N·m² (1e-3 N·mm²), measured EI and GJ
+	MaxLinearDensity = 1e4  // kg/m, measured
 )
 
 // rangeErr is an out-of-range value of one design-file key; the key is a
@@ -171,8 +213,15 @@ func (b Bellows) checkRanges() error {
 				errs = append(errs, rangeErr("bending_stiffness_n_mm2", "[%.6g, %.6g] is out of range (expected each at most %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MaxStiffness*1e6))
 				break
 			}
+			if v < MinStiffness {
+				errs = append(errs, rangeErr("bending_stiffness_n_mm2", "[%.6g, %.6g] is out of range (expected each at least %.6g N·mm²)", m.EI[0]*1e6, m.EI[1]*1e6, MinStiffness*1e6))
+				break
+			}
 		}
 		out("torsional_stiffness_n_mm2", m.GJ, MaxStiffness, 1e6, "N·mm²")
+		if m.GJ < MinStiffness {
+			errs = append(errs, rangeErr("torsional_stiffness_n_mm2", "%.6g is out of range (expected at least %.6g N·mm²)", m.GJ*1e6, MinStiffness*1e6))
+		}
 		out("linear_density_kg_per_m", m.LinearDensity, MaxLinearDensity, 1, "kg/m")
 	}
 	return errors.Join(errs...)

@@ -38,7 +38,10 @@ func TestOutOfRangeDesign(t *testing.T) {
 		{"precurvature_per_m", func(b *Bellows) { b.Precurvature = [2]float64{0, 1e300} }},
 		{"precurvature_xy_per_m", func(b *Bellows) { b.Precurvature = [2]float64{3e4, 1} }},
 		{"bending_stiffness_n_mm2", func(b *Bellows) { b.Measured.EI = [2]float64{1e294, 1e294} }},
+		{"bending_stiffness_n_mm2", func(b *Bellows) { b.Measured.EI = [2]float64{1e-306, 1e-306} }},
+		{"bending_stiffness_n_mm2", func(b *Bellows) { b.Measured.EI = [2]float64{1, 5e-324} }},
 		{"torsional_stiffness_n_mm2", func(b *Bellows) { b.Measured.GJ = 1e294 }},
+		{"torsional_stiffness_n_mm2", func(b *Bellows) { b.Measured.GJ = 1e-306 }},
 		{"linear_density_kg_per_m", func(b *Bellows) { b.Measured.LinearDensity = 1e300 }},
 		{"thread_lead_mm", func(b *Bellows) { b.ThreadLead = 1e200 }},
 	} {
@@ -57,6 +60,11 @@ func TestOutOfRangeDesign(t *testing.T) {
 	d := boomPair()
 	d.Bellows[0].StraightLength, d.Bellows[1].StraightLength = MaxLength, MaxLength
 	_, _, err := d.Robot()
+	assert.NoError(t, err)
+	d = boomPair()
+	d.Bellows[0].Measured.EI = [2]float64{MinStiffness, MinStiffness}
+	d.Bellows[0].Measured.GJ = MinStiffness
+	_, _, err = d.Robot()
 	assert.NoError(t, err)
 }
 
@@ -81,8 +89,9 @@ func TestNonFiniteShapeIsAReason(t *testing.T) {
 }
 
 // TestNonFiniteStiffnessIsAReason: a surrogate geometry so large that the
-// stiffness model overflows (an outer diameter of 1e96 m) fails with a
-// reason, never a panic or a NaN score.
+// stiffness model would overflow (an outer diameter of 1e96 m) is refused
+// as out of range before any model runs, and the last guard behind that
+// range, checkFinite, names a non-finite section instead of passing it on.
 func TestNonFiniteStiffnessIsAReason(t *testing.T) {
 	petg, ok := surrogate.LookupMaterial("petg")
 	require.True(t, ok)
@@ -95,7 +104,17 @@ func TestNonFiniteStiffnessIsAReason(t *testing.T) {
 	}}
 	res, err := Evaluate(d, &Scenario{Workspace: Workspace{RelativeSteps: 8, BaseSteps: 4}})
 	require.Error(t, err, "scores %+v", res)
-	assert.Contains(t, err.Error(), "not finite")
+	assert.Contains(t, err.Error(), "outer_diameter_mm: 1e+99 is out of range (expected at most 10000 mm)")
+	var ie *surrogate.InputError
+	assert.ErrorAs(t, err, &ie, "positioned at a key")
+
+	for _, s := range []Stiffness{
+		{EI: [2][2]float64{{math.Inf(1), 0}, {0, 1}}, GJ: 1, LinearDensity: 1, Source: SourceStrip},
+		{EI: [2][2]float64{{1, 0}, {0, 1}}, GJ: math.NaN(), LinearDensity: 1, Source: SourceStrip},
+		{EI: [2][2]float64{{1, 0}, {0, 1}}, GJ: 1, LinearDensity: math.Inf(1), Source: SourceStrip},
+	} {
+		assert.ErrorContains(t, s.checkFinite(), "non-finite")
+	}
 }
 
 // TestFiniteScoresGuard: the last guard names a non-finite score, and lets
@@ -208,4 +227,13 @@ func TestWorkspaceCaps(t *testing.T) {
 		require.Error(t, err, "%+v", w)
 		assert.Contains(t, err.Error(), "out of range", "%+v", w)
 	}
+}
+
+// TestModelFailureWording: a stiffness-model failure reaches the user
+// without the model package's prefix; an input error keeps its key.
+func TestModelFailureWording(t *testing.T) {
+	err := modelFailure(errors.New("shell: stiffness matrix is not positive definite"))
+	assert.EqualError(t, err, "the stiffness model cannot compute this geometry: stiffness matrix is not positive definite")
+	in := &surrogate.InputError{Key: "wall_mm", Msg: "0 is not a positive finite number (expected > 0)"}
+	assert.Same(t, in, modelFailure(in))
 }

@@ -3,6 +3,7 @@ package objective
 import (
 	"fmt"
 	"math"
+	"slices"
 )
 
 // Scenario is everything besides the bellows themselves that the scores
@@ -50,8 +51,8 @@ func (l Load) GravityVector() [3]float64 {
 
 // Printer describes the printing process for the printability checks.
 type Printer struct {
-	// Process is "fff" (fused filament), "resin" or "powder". Empty means "fff".
-	Process string
+	// Process is the printing process; the zero value is FFF.
+	Process Process
 	// LineWidth is the extrusion line width, m (FFF). Zero: 1.2 × Nozzle.
 	LineWidth float64
 	// Nozzle is the nozzle diameter, m (FFF). Zero: 0.4 mm.
@@ -157,4 +158,45 @@ type Requirements struct {
 	// bellows outside surrogate.Validity are still warned about, but a
 	// search no longer treats leaving the range as a constraint.
 	OutsideValidatedRange bool
+}
+
+// Process is a printing process.
+type Process int
+
+// The printing processes.
+const (
+	FFF    Process = iota // fused filament fabrication, the default
+	Resin                 // vat photopolymerisation
+	Powder                // powder bed fusion
+)
+
+var processNames = []string{FFF: "fff", Resin: "resin", Powder: "powder"}
+
+// ProcessNames lists the process names, in value order.
+func ProcessNames() []string { return slices.Clone(processNames) }
+
+// String returns the process's name as files write it.
+func (p Process) String() string {
+	if p >= 0 && int(p) < len(processNames) {
+		return processNames[p]
+	}
+	return fmt.Sprintf("process(%d)", int(p))
+}
+
+// MarshalText writes the process's name.
+func (p Process) MarshalText() ([]byte, error) {
+	if p < 0 || int(p) >= len(processNames) {
+		return nil, fmt.Errorf("process(%d) has no name", int(p))
+	}
+	return []byte(processNames[p]), nil
+}
+
+// UnmarshalText reads a process name; an unknown one is a
+// *surrogate.InputError (key "process") that lists the names.
+func (p *Process) UnmarshalText(text []byte) error {
+	v, err := parseName(processNames, text, "process")
+	if err == nil {
+		*p = Process(v)
+	}
+	return err
 }

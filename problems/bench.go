@@ -252,14 +252,10 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 		add(l, n+1, "", "row has %d fields, the header %d (expected one cell per column)", len(rec), n)
 		return
 	}
-	short := -1 // first required column beyond the row's end
-	for _, name := range []string{b.LoadColumn, colDeflection, colLength, colDirection} {
-		if i := b.cols[name]; i >= len(rec) && (short < 0 || i < short) {
-			short = i
-		}
-	}
-	if short >= 0 {
-		add(line, short+1, headerName(b.cols, short), "missing cell: the row has %d fields, the header %d (expected one cell per column)", len(rec), b.width)
+	if n := b.width; len(rec) < n {
+		// every cell counts, optional columns too: a short row is a cut or
+		// mis-separated line, not a row that leaves a column out
+		add(line, len(rec)+1, headerName(b.cols, len(rec)), "missing cell: the row has %d fields, the header %d (expected one cell per column)", len(rec), n)
 		return
 	}
 	row := BenchRow{Line: line}
@@ -284,12 +280,20 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 			return 0, 0, 0, false
 		}
 		v, err := strconv.ParseFloat(s, 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
+		switch {
+		case errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0):
+			add(l, col, name, "%s is out of the finite range (expected %s)", strconv.Quote(s), what)
+		case errors.Is(err, strconv.ErrRange):
+			return v, l, col, true // below the smallest float: as good as 0
+		case err != nil:
 			add(l, col, name, "%s is not a number (expected %s)", strconv.Quote(s), what)
-			ok = false
-			return 0, 0, 0, false
+		case math.IsNaN(v) || math.IsInf(v, 0):
+			add(l, col, name, "%s is not a finite number (expected %s)", strconv.Quote(s), what)
+		default:
+			return v, l, col, true
 		}
-		return v, l, col, true
+		ok = false
+		return 0, 0, 0, false
 	}
 
 	what := "a tip load in N, >= 0"

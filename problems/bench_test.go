@@ -39,7 +39,10 @@ func TestBenchErrorPositions(t *testing.T) {
 		{"negative load", "load_n,deflection_mm,free_length_mm,direction\n\n-0.1,1,100,x\n", 3, 1, "load_n", "-0.1 is negative"},
 		{"unknown direction", "direction,load_n,deflection_mm,free_length_mm\nz,0.1,1,100\n", 2, 1, "direction", `"z" is not a direction (expected x or y`},
 		{"multi-line quoted cell", "load_n,specimen,deflection_mm,free_length_mm,direction\n0.1,\"two\nlines\",1,100,w\n", 3, 5, "direction", `"w" is not a direction`},
-		{"infinite value", "load_n,deflection_mm,free_length_mm,direction\n0.1,Inf,100,x\n", 2, 2, "deflection_mm", `"Inf" is not a number`},
+		{"infinite value", "load_n,deflection_mm,free_length_mm,direction\n0.1,Inf,100,x\n", 2, 2, "deflection_mm", `"Inf" is not a finite number`},
+		{"beyond float range", "load_n,deflection_mm,free_length_mm,direction\n0.1,1e400,100,x\n", 2, 2, "deflection_mm", `"1e400" is out of the finite range (expected a tip deflection in mm)`},
+		{"short row, optional column", "load_n,deflection_mm,free_length_mm,direction,specimen\n0.1,1,100,x,A\n0.2,1,100,x\n", 3, 5, "specimen", "missing cell: the row has 4 fields, the header 5"},
+		{"short row, unknown column", "load_n,deflection_mm,free_length_mm,direction,note\n0.2,1,100,x\n", 2, 5, "note", "missing cell: the row has 4 fields, the header 5"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

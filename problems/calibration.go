@@ -6,7 +6,6 @@ import (
 	"math"
 	"os"
 	"path/filepath"
-	"slices"
 	"strconv"
 	"strings"
 	"time"
@@ -33,7 +32,7 @@ import (
 type Calibration struct {
 	// Source is SourceBench or SourceFE; a file without a source key is a
 	// bench calibration.
-	Source   string
+	Source   CalibrationSource
 	Material string
 	Printer  string // free label of the printer and process; may be ""
 	Profile  surrogate.Profile
@@ -59,26 +58,15 @@ type Calibration struct {
 	// its mesh (coarse or fine) and per axis the relative change of EI
 	// from the next coarser mesh, (EI − EI_coarser)/EI.
 	FEDir    string
-	FEMesh   string
+	FEMesh   FEMesh
 	FEChange [2]float64
 }
-
-// Calibration sources.
-const (
-	SourceBench = "bench" // cantilever bench test (plica calibrate)
-	SourceFE    = "fe"    // finite-element cross-check (plica fe)
-)
 
 // MaxFEChange is the largest two-mesh change of an FE stiffness that a
 // calibration accepts: beyond it the FE value is not converged enough to
 // calibrate with (the stiffnesses of the coarse mesh change by well under
 // 1 %).
 const MaxFEChange = 0.1
-
-var (
-	calibrationSources = []string{SourceBench, SourceFE}
-	feMeshes           = []string{"coarse", "fine"}
-)
 
 // NewCalibration compares the bench fits about x and y with the
 // uncalibrated surrogate prediction for bellows i (0-based) of d, computed
@@ -146,14 +134,15 @@ func newCalibration(d *objective.Design, i int) (*Calibration, error) {
 // only. mesh names the FE mesh. The caller fills Date, FEDir and
 // DesignFile.
 func NewFECalibration(d *objective.Design, i int, fe [2][2]float64, change [2]float64, mesh string) (*Calibration, error) {
-	if !slices.Contains(feMeshes, mesh) {
-		return nil, fmt.Errorf("FE mesh %q is not one of %s", mesh, strings.Join(feMeshes, "|"))
+	var m FEMesh
+	if err := m.UnmarshalText([]byte(mesh)); err != nil {
+		return nil, fmt.Errorf("FE mesh %q is not one of %s", mesh, strings.Join(feMeshNames, "|"))
 	}
 	c, err := newCalibration(d, i)
 	if err != nil {
 		return nil, err
 	}
-	c.Source, c.FEMesh, c.FEChange = SourceFE, mesh, change
+	c.Source, c.FEMesh, c.FEChange = SourceFE, m, change
 	ei := surrogate.CantileverEI(fe)
 	for axis := range 2 {
 		a := AxisName(axis)
@@ -175,7 +164,7 @@ func NewFECalibration(d *objective.Design, i int, fe [2][2]float64, change [2]fl
 
 // calibrationTop lists the top-level keys of a calibration file of each
 // source; "source" itself is optional and absent from bench files.
-func calibrationTop(source string) []string {
+func calibrationTop(source CalibrationSource) []string {
 	if source == SourceFE {
 		return []string{"source", "material", "printer", "profile", "fidelity", "date", "fe_dir", "fe_mesh", "design_file", "bellows"}
 	}
@@ -185,7 +174,7 @@ func calibrationTop(source string) []string {
 // axisKeys lists the keys of one bending axis: the factor, the bench-fitted
 // (or FE) EI, the prediction, then the bench fit's points and model (or
 // the FE two-mesh change).
-func axisKeys(a, source string) []string {
+func axisKeys(a string, source CalibrationSource) []string {
 	if source == SourceFE {
 		return []string{"factor_" + a, "factor_" + a + "_se", "factor_" + a + "_ci95",
 			"ei_" + a + "_fe_n_mm2", "ei_" + a + "_fe_se_n_mm2", "ei_" + a + "_fe_ci95_n_mm2",
@@ -196,7 +185,7 @@ func axisKeys(a, source string) []string {
 		"ei_" + a + "_predicted_n_mm2", "points_" + a, "fit_" + a}
 }
 
-func calibrationKeys(source string) []string {
+func calibrationKeys(source CalibrationSource) []string {
 	return append(append(calibrationTop(source), axisKeys("x", source)...), axisKeys("y", source)...)
 }
 
@@ -249,14 +238,14 @@ func (c *Calibration) formatFE(b *strings.Builder, g func(float64) string) {
 	fmt.Fprintf(b, "# shell model nor print-to-print variation. The FE model is an estimate too: verify on a prototype.\n")
 	fmt.Fprintf(b, "# Reference this file from a [[bellows]] table of the same material and profile with\n")
 	fmt.Fprintf(b, "# calibration_file = \"<path relative to the design>\".\n\n")
-	fmt.Fprintf(b, "source = %s\n", tomlQuote(SourceFE))
+	fmt.Fprintf(b, "source = %s\n", tomlQuote(SourceFE.String()))
 	fmt.Fprintf(b, "material = %s\n", tomlQuote(c.Material))
 	fmt.Fprintf(b, "printer = %s\n", tomlQuote(c.Printer))
 	fmt.Fprintf(b, "profile = %s\n", tomlQuote(c.Profile.String()))
 	fmt.Fprintf(b, "fidelity = %s\n", tomlQuote(c.Fidelity.String()))
 	fmt.Fprintf(b, "date = %s\n", c.Date.Format(time.DateOnly))
 	fmt.Fprintf(b, "fe_dir = %s\n", tomlQuote(c.FEDir))
-	fmt.Fprintf(b, "fe_mesh = %s\n", tomlQuote(c.FEMesh))
+	fmt.Fprintf(b, "fe_mesh = %s\n", tomlQuote(c.FEMesh.String()))
 	fmt.Fprintf(b, "design_file = %s\n", tomlQuote(c.DesignFile))
 	fmt.Fprintf(b, "bellows = %d                   # 1-based, innermost first\n", c.Bellows)
 	for axis := range 2 {
@@ -315,7 +304,7 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 		return nil, err
 	}
 	c := &Calibration{}
-	c.Source = root.choice("source", calibrationSources, SourceBench)
+	root.enum("source", &c.Source, calibrationSourceNames) // absent: SourceBench
 	fe := c.Source == SourceFE
 	req := func(k string) string {
 		s, ok := root.text(k)
@@ -347,9 +336,9 @@ func ParseCalibration(data []byte, file string) (*Calibration, error) {
 	if fe {
 		c.FEDir = req("fe_dir")
 		if !root.has("fe_mesh") {
-			r.errorf("fe_mesh", "missing (expected one of: %s)", strings.Join(feMeshes, "|"))
+			r.errorf("fe_mesh", "missing (expected one of: %s)", strings.Join(feMeshNames, "|"))
 		}
-		c.FEMesh = root.choice("fe_mesh", feMeshes, "")
+		root.enum("fe_mesh", &c.FEMesh, feMeshNames)
 	} else {
 		c.BenchFile = req("bench_file")
 	}

@@ -99,7 +99,15 @@ func decode(data []byte, file, kind string) (*reader, *table, error) {
 	if _, err := toml.Decode(string(data), &m); err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return nil, nil, &Error{File: file, Line: pe.Position.Line, Col: pe.Position.Col, Key: pe.LastKey,
+			text := string(data)
+			line, col := pe.Position.Line, pe.Position.Col
+			if strings.HasPrefix(pe.Message, "TOML files cannot contain control characters") {
+				// the decoder reports where its token ended, not the character
+				if l, c := controlCharacter(text); l > 0 {
+					line, col = l, c
+				}
+			}
+			return nil, nil, &Error{File: file, Line: line, Col: col, Key: syntaxKey(text, line, pe.LastKey),
 				Msg: "syntax error: " + syntaxMessage(pe.Message)}
 		}
 		return nil, nil, &Error{File: file, Msg: "syntax error: " + syntaxMessage(err.Error())}
@@ -342,7 +350,7 @@ func materialList(custom map[string]surrogate.Material) string {
 func (r *reader) physicsError(err error) error {
 	var be *objective.BellowsError
 	if !errors.As(err, &be) {
-		r.errorf("bellows", "%v", err)
+		r.errorf("bellows", "%s", BellowsWording(err))
 		return r.errs.sorted()
 	}
 	for _, part := range leaves(be.Err) {
@@ -374,7 +382,6 @@ func leaves(err error) []error {
 // BellowsWording turns a kinematics message about tubes into the words of
 // the design files: bellows, counted from 1, innermost first.
 func BellowsWording(err error) string {
-	msg := strings.TrimPrefix(err.Error(), "kinematics: ")
-	msg = strings.ReplaceAll(msg, "tubes", "bellows")
+	msg := strings.ReplaceAll(err.Error(), "tubes", "bellows")
 	return strings.ReplaceAll(msg, "tube", "bellows")
 }

@@ -115,3 +115,12 @@ func TestLocator(t *testing.T) {
 	assert.Equal(t, position{8, 1}, l.find("load.payload_g"))
 	assert.Equal(t, position{7, 1}, l.find("load.missing"), "falls back to the table header")
 }
+
+// TestPhysicsErrorWording: a kinematics failure that belongs to no single
+// bellows is reported at the bellows header in the files' words, without
+// a package prefix.
+func TestPhysicsErrorWording(t *testing.T) {
+	r := &reader{file: "d.toml", loc: newLocator("[[bellows]]\nwall_mm = 1.0\n")}
+	err := r.physicsError(errors.New("tube 1 (innermost): torsional stiffness GJ 0 N·m² (expected finite, > 0)"))
+	assert.EqualError(t, err, "d.toml:1:1: bellows: bellows 1 (innermost): torsional stiffness GJ 0 N·m² (expected finite, > 0)")
+}

@@ -83,7 +83,7 @@ func TestCalibrationFERoundTrip(t *testing.T) {
 	assert.Equal(t, string(text), string(c2.Format()), "format → parse → format is idempotent")
 	assert.Equal(t, SourceFE, c2.Source)
 	assert.Equal(t, c.FEDir, c2.FEDir)
-	assert.Equal(t, "coarse", c2.FEMesh)
+	assert.Equal(t, MeshCoarse, c2.FEMesh)
 	assert.Equal(t, c.DesignFile, c2.DesignFile)
 	for axis := range 2 {
 		assert.InEpsilon(t, c.Factor[axis].Value, c2.Factor[axis].Value, 1e-5)

@@ -7,6 +7,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
+	"plica/objective"
 	"plica/surrogate"
 )
 
@@ -261,12 +262,12 @@ type loadForm struct {
 }
 
 type printerForm struct {
-	LayerHeight   *num    `toml:"layer_height_mm"`
-	LineWidth     *num    `toml:"line_width_mm"`
-	MinWall       *num    `toml:"min_wall_mm"`
-	Nozzle        *num    `toml:"nozzle_mm"`
-	OverhangLimit *num    `toml:"overhang_limit_deg"`
-	Process       *string `toml:"process"`
+	LayerHeight   *num               `toml:"layer_height_mm"`
+	LineWidth     *num               `toml:"line_width_mm"`
+	MinWall       *num               `toml:"min_wall_mm"`
+	Nozzle        *num               `toml:"nozzle_mm"`
+	OverhangLimit *num               `toml:"overhang_limit_deg"`
+	Process       *objective.Process `toml:"process"`
 }
 
 type requirementsForm struct {

@@ -132,6 +132,23 @@ func TestSyntaxErrorsSayWhatWasExpected(t *testing.T) {
 	}
 }
 
+// TestSyntaxErrorPositions: a syntax error names the array-table element
+// it is in (the decoder gives "bellows.wall_mm"), and a control character is
+// reported where it is, not where the decoder's token ended.
+func TestSyntaxErrorPositions(t *testing.T) {
+	for _, c := range []struct{ text, want string }{
+		{"[[bellows]]\nwall_mm = 1\n[[bellows]]\nwall_mm = = 3\n", "s.toml:4:11: bellows[2].wall_mm: syntax error: expected value"},
+		{"[[bellows]]\n[bellows.calibration]\nx = = 1\n", "s.toml:3:5: bellows[1].calibration.x: syntax error: expected value"},
+		{"[load]\npayload_g = = 3\n", "s.toml:2:13: load.payload_g: syntax error: expected value"},
+		{"name = \"x\"\n\n[[bellows]]\n\x01straight_length_mm = 1\n", "s.toml:4:1: bellows[1]: syntax error: control character '0x01'"},
+		{"a = 1\r\nb = \"x\x7f\"\n", "s.toml:2:7: b: syntax error: control character '0x7f'"},
+	} {
+		_, _, err := ParseDesign([]byte(c.text), "s.toml")
+		require.Error(t, err, "%q", c.text)
+		assert.True(t, strings.HasPrefix(err.Error(), c.want), "%q: got %v", c.text, err)
+	}
+}
+
 // TestSyntaxMessages checks the rewording of the decoder's messages that
 // do not say what was expected.
 func TestSyntaxMessages(t *testing.T) {

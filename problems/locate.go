@@ -14,7 +14,8 @@ type position struct{ Line, Col int }
 // library keeps no per-element positions for arrays of tables, so plica
 // scans the (already syntax-checked) text itself.
 type locator struct {
-	keys map[string]position
+	keys   map[string]position
+	prefix string // the table open at the end of the text, indexed
 }
 
 func newLocator(text string) *locator {
@@ -76,6 +77,7 @@ func newLocator(text string) *locator {
 			l.inline(full, rest, i+1, valOff+1)
 		}
 	}
+	l.prefix = prefix
 	return l
 }
 

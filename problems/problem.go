@@ -3,7 +3,9 @@ package problems
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 
@@ -109,6 +111,15 @@ func (s *Spec) Midpoint() []float64 {
 type Objective struct {
 	Score    string
 	Maximize bool
+}
+
+// Goal is the objective's goal, whose String is the file's word
+// ("minimize" or "maximize"): what every output writes.
+func (o Objective) Goal() Goal {
+	if o.Maximize {
+		return Maximize
+	}
+	return Minimize
 }
 
 // Constraint is an extra limit on a score, beyond [requirements].
@@ -522,4 +533,55 @@ func deepCopy(v any) any {
 		return out
 	}
 	return v
+}
+
+// Requirement is one key of a problem's [requirements] table as the file
+// gives it.
+type Requirement struct {
+	Key   string // e.g. "max_tip_sag_mm"
+	Value string // as written: a number, or true or false
+	Unit  string // the unit the key names ("mm", "g", "deg", "1/m"), or "" for a ratio or a flag
+}
+
+// Requirements lists the [requirements] the problem file gives, in key
+// order; absent keys (their defaults) are not listed.
+func (s *Spec) Requirements() []Requirement {
+	rf := s.form.Requirements
+	if rf == nil {
+		return nil
+	}
+	var out []Requirement
+	v := reflect.ValueOf(*rf)
+	for i := range v.NumField() {
+		f := v.Field(i)
+		if f.IsNil() {
+			continue
+		}
+		key, _, _ := strings.Cut(v.Type().Field(i).Tag.Get("toml"), ",")
+		r := Requirement{Key: key, Unit: keyUnit(key)}
+		switch x := f.Interface().(type) {
+		case *num:
+			if x.isInt {
+				r.Value = strconv.FormatInt(x.i, 10)
+			} else {
+				r.Value = strconv.FormatFloat(x.f, 'g', -1, 64)
+			}
+		case *bool:
+			r.Value = strconv.FormatBool(*x)
+		default:
+			panic(fmt.Sprintf("problems: requirement %s has type %T", key, x))
+		}
+		out = append(out, r)
+	}
+	return out
+}
+
+// keyUnit is the unit a key's suffix names.
+func keyUnit(key string) string {
+	for _, u := range []struct{ suffix, unit string }{{"_mm", "mm"}, {"_g", "g"}, {"_deg", "deg"}, {"_per_m", "1/m"}} {
+		if strings.HasSuffix(key, u.suffix) {
+			return u.unit
+		}
+	}
+	return ""
 }

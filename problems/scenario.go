@@ -15,7 +15,6 @@ var (
 		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
 		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight",
 		"within_validated_range"}
-	processNames = []string{"fff", "resin", "powder"}
 )
 
 // readScenario reads the [load], [printer], [workspace], [[task_point]] and
@@ -32,9 +31,17 @@ func readScenario(root *table) objective.Scenario {
 	return sc
 }
 
+// maxPayloadGrams is the largest payload a scenario may carry (1 t): far
+// beyond any bellows manipulator, far inside what the rod statics computes.
+const maxPayloadGrams = 1e6
+
 func readLoad(t *table, l *objective.Load) {
 	if v, ok := t.positive("payload_g", "a mass in g", false, true); ok {
-		l.PayloadMass = v * gram
+		if v > maxPayloadGrams {
+			t.r.errorf(t.key("payload_g"), "%s is out of range (expected at most %.0f g)", fmtNum(v), float64(maxPayloadGrams))
+		} else {
+			l.PayloadMass = v * gram
+		}
 	}
 	g := objective.StandardGravity
 	if v, ok := t.positive("gravity_m_per_s2", "an acceleration in m/s² (0 switches gravity off)", false, true); ok {
@@ -64,7 +71,7 @@ func readLoad(t *table, l *objective.Load) {
 }
 
 func readPrinter(t *table, p *objective.Printer) {
-	p.Process = t.choice("process", processNames, "fff")
+	t.enum("process", &p.Process, objective.ProcessNames())
 	if v, ok := t.positive("nozzle_mm", "a nozzle diameter in mm", false, false); ok {
 		p.Nozzle = v * mm
 	}

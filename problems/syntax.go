@@ -32,6 +32,47 @@ var syntaxRules = []struct {
 	{regexp.MustCompile(`^.*key name appears blank.*$`), "$0 (expected a key before '=')"},
 }
 
+var arrayIndex = regexp.MustCompile(`\[[0-9]+\]`)
+
+// syntaxKey gives the decoder's key path of a syntax error at line the
+// index of each array table ("bellows.wall_mm" becomes "bellows[2].wall_mm"
+// in the second [[bellows]]): the decoder names array tables without their
+// element, the locator counts them in the text before the error line.
+func syntaxKey(text string, line int, key string) string {
+	lines := strings.SplitAfter(text, "\n")
+	if key == "" || line < 1 || line > len(lines) {
+		return key
+	}
+	table := newLocator(strings.Join(lines[:line-1], "")).prefix
+	plain := arrayIndex.ReplaceAllString(table, "")
+	if table == plain {
+		return key
+	}
+	if key == plain || strings.HasPrefix(key, plain+".") {
+		return table + key[len(plain):]
+	}
+	return key
+}
+
+// controlCharacter is the 1-based line and column of the first control
+// character TOML forbids (any but tab, newline and a carriage return
+// before a newline), or 0, 0.
+func controlCharacter(text string) (line, col int) {
+	line, col = 1, 1
+	for i, r := range text {
+		switch {
+		case r == '\n':
+			line, col = line+1, 1
+			continue
+		case r == '\t', r == '\r' && strings.HasPrefix(text[i+1:], "\n"):
+		case r < 0x20 || r == 0x7f:
+			return line, col
+		}
+		col++
+	}
+	return 0, 0
+}
+
 var saysExpected = regexp.MustCompile(`\bexpected\b`)
 
 // syntaxMessage is the decoder's message on one line, starting in lower

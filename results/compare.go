@@ -169,10 +169,7 @@ func Compare(ctx context.Context, fronts []*RunFront, opt CompareOptions) (*Comp
 		c.Problem = fronts[0].Info.ProblemFile
 	}
 	for k, o := range spec.Objectives {
-		co := ComparedObjective{Score: o.Score, Goal: "minimize", Ideal: o.Natural(norm.Ideal[k]), Nadir: o.Natural(norm.Nadir[k])}
-		if o.Maximize {
-			co.Goal = "maximize"
-		}
+		co := ComparedObjective{Score: o.Score, Goal: o.Goal().String(), Ideal: o.Natural(norm.Ideal[k]), Nadir: o.Natural(norm.Nadir[k])}
 		c.Objectives = append(c.Objectives, co)
 	}
 	var union [][]float64

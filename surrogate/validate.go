@@ -43,6 +43,23 @@ func positive(key string, x, scale float64) error {
 	return inputErr(key, "%s is not a positive finite number (expected > 0)", num(x*scale))
 }
 
+// MaxDimension is the largest outer diameter, depth, pitch and wall
+// Geometry.Validate accepts, in metres: far beyond any bellows that can be
+// printed or bought, and far inside what the wall and shell models compute
+// in floating point.
+const MaxDimension = 10.0
+
+// dimension checks a positive finite length of at most MaxDimension, in mm.
+func dimension(key string, x float64) error {
+	if err := positive(key, x, 1e3); err != nil {
+		return err
+	}
+	if x > MaxDimension {
+		return inputErr(key, "%s is out of range (expected at most %g mm)", num(x*1e3), MaxDimension*1e3)
+	}
+	return nil
+}
+
 func nonNegative(key string, x, scale float64) error {
 	if finite(x) && x >= 0 {
 		return nil
@@ -67,7 +84,8 @@ func (m Material) Validate() error {
 }
 
 // Validate checks the geometry. First every value on its own (positive,
-// finite, in range; all such failures are joined and returned), then the
+// finite, in range: outer diameter, depth, pitch and wall at most
+// MaxDimension; all such failures are joined and returned), then the
 // cross-field rules, all of which are joined:
 //
 //   - wall < depth/2 (the crown and root walls must not overlap);
@@ -85,10 +103,10 @@ func (m Material) Validate() error {
 func (g Geometry) Validate() error {
 	var errs []error
 	errs = append(errs,
-		positive("outer_diameter_mm", g.OuterDiameter, 1e3),
-		positive("depth_mm", g.Depth, 1e3),
-		positive("pitch_mm", g.Pitch, 1e3),
-		positive("wall_mm", g.Wall, 1e3),
+		dimension("outer_diameter_mm", g.OuterDiameter),
+		dimension("depth_mm", g.Depth),
+		dimension("pitch_mm", g.Pitch),
+		dimension("wall_mm", g.Wall),
 		nonNegative("spine_width_mm", g.SpineWidth, 1e3))
 	if !finite(g.SpineAngle) {
 		errs = append(errs, inputErr("spine_angle_deg", "%s is not a finite number", num(g.SpineAngle*180/math.Pi)))

@@ -141,6 +141,11 @@ func TestExitCodes(t *testing.T) {
 		{"nesting", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,0", "-insert-mm", "0,-20"}, 2, "bellows 1 (innermost) starts at 0 mm but bellows 2 (outermost) around it at -20 mm"},
 		{"tiny backbone step", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "0,0", "-step-mm", "1e-9"}, 2, "-step-mm: 1e-09 gives"},
 		{"version", []string{"version"}, 0, ""},
+		{"huge angle", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "1e308,0"}, 2, "-angles-deg: 1e+308 is out of range (expected angles in degrees of at most 3.6e+08 in magnitude)"},
+		{"angle beyond float", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "1e400,0"}, 2, `-angles-deg: "1e400" is out of the finite range`},
+		{"NaN angle", []string{"pose", examples + "boom-geometry.toml", "-angles-deg", "nan,0"}, 2, `-angles-deg: "nan" is not a finite number`},
+		{"empty design name", []string{"check", ""}, 2, "check: argument 1 is an empty name (expected a path)"},
+		{"empty run name", []string{"resume", ""}, 2, "resume: argument 1 is an empty name (expected a path)"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -151,6 +156,17 @@ func TestExitCodes(t *testing.T) {
 				assert.Equal(t, 1, strings.Count(strings.TrimSpace(errOut), "\n")+1, "one-line error for %v: %q", c.args, errOut)
 			}
 		})
+	}
+}
+
+// TestUnknownFlag: an unknown flag prints the error once and where the
+// verb's flags are listed, not the whole usage.
+func TestUnknownFlag(t *testing.T) {
+	for _, verb := range []string{"init", "refine", "check"} {
+		code, out, errOut := runCLI(t, verb, "-bogus", "x")
+		assert.Equal(t, 2, code, verb)
+		assert.Empty(t, out, verb)
+		assert.Equal(t, "plica: flag provided but not defined: -bogus\nplica: run \"plica help "+verb+"\" for its flags\n", errOut, verb)
 	}
 }
 

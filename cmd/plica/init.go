@@ -6,7 +6,6 @@ import (
 	"fmt"
 	"io"
 	"os"
-	"strings"
 
 	"plica/problems"
 	"plica/results"
@@ -31,10 +30,7 @@ func runInit(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	}
 	path := "plica-problem.toml"
 	if len(pos) == 1 {
-		path = pos[0]
-		if strings.TrimSpace(path) == "" {
-			return usagef("init: empty file name (expected a file name such as plica-problem.toml, or none for that default)")
-		}
+		path = pos[0] // parseArgs refuses an empty name
 	}
 	if _, err := os.Stat(path); err == nil {
 		return usagef("init: %s exists (expected a new file name; plica never overwrites a problem)", path)

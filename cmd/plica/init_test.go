@@ -48,7 +48,7 @@ func TestInitEmptyName(t *testing.T) {
 		code, stdout, stderr := runCLI(t, "init", name)
 		assert.Equal(t, 2, code)
 		assert.Empty(t, stdout)
-		assert.Equal(t, "plica: init: empty file name (expected a file name such as plica-problem.toml, or none for that default)", strings.TrimSpace(stderr))
+		assert.Equal(t, "plica: init: argument 1 is an empty name (expected a path)", strings.TrimSpace(stderr))
 	}
 	entries, err := os.ReadDir(dir)
 	require.NoError(t, err)

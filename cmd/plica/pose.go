@@ -31,6 +31,10 @@ base frame (row-major).`,
 // -step-mm is a usage error rather than an out-of-memory crash.
 const maxBackboneSamples = 1000000
 
+// maxAngleDeg bounds a base rotation: a million turns, far beyond any use,
+// and far inside what converts to radians and back without overflow.
+const maxAngleDeg = 3.6e8
+
 type poseOptions struct {
 	angles, inserts string
 	step            float64
@@ -184,6 +188,9 @@ func actuation(n int, angles, inserts string) (kinematics.Actuation, error) {
 	}
 	a := kinematics.Actuation{Theta: make([]float64, n), Beta: make([]float64, n)}
 	for i := range th {
+		if math.Abs(th[i]) > maxAngleDeg {
+			return kinematics.Actuation{}, usagef("-angles-deg: %g is out of range (expected angles in degrees of at most %g in magnitude)", th[i], float64(maxAngleDeg))
+		}
 		a.Theta[i] = th[i] * math.Pi / 180
 		a.Beta[i] = be[i] * 1e-3
 	}

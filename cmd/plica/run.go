@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"sort"
 	"strconv"
 	"strings"
@@ -62,7 +63,11 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		if len(args) > 1 {
 			if c, ok := commands[args[1]]; ok {
 				// Each verb binds its flags when it runs: ask it for -h.
-				err := c.run(ctx, newFlagSet(c, stdout), []string{"-h"}, stdout, stderr)
+				fs := newFlagSet(c, stdout)
+				err := c.run(ctx, fs, []string{"-h"}, stdout, stderr)
+				if errors.Is(err, flag.ErrHelp) {
+					printCommandHelp(stdout, c, fs)
+				}
 				if err != nil && !errors.Is(err, flag.ErrHelp) {
 					fmt.Fprintf(stderr, "plica: %v\n", err)
 					return exitCode(err)
@@ -88,6 +93,7 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 	fs := newFlagSet(c, stderr)
 	err := c.run(ctx, fs, args[1:], stdout, stderr)
 	if errors.Is(err, flag.ErrHelp) {
+		printCommandHelp(stderr, c, fs)
 		return exitOK
 	}
 	if err != nil {
@@ -118,10 +124,14 @@ func exitCode(err error) int {
 	return exitFail
 }
 
+// newFlagSet makes a verb's flag set. The flag package prints nothing
+// itself: -h returns flag.ErrHelp and Run prints the verb's help; a bad flag
+// returns a usage error that parseArgs words in two lines (the error, then
+// where the flags are listed). out is where the help goes.
 func newFlagSet(c *command, out io.Writer) *flag.FlagSet {
 	fs := flag.NewFlagSet("plica "+c.name, flag.ContinueOnError)
-	fs.SetOutput(out)
-	fs.Usage = func() { printCommandHelp(out, c, fs) }
+	fs.SetOutput(io.Discard)
+	fs.Usage = func() {}
 	return fs
 }
 
@@ -134,11 +144,14 @@ func parseArgs(fs *flag.FlagSet, args []string) ([]string, error) {
 			if errors.Is(err, flag.ErrHelp) {
 				return nil, err
 			}
-			return nil, &usageError{err.Error()}
+			return nil, &usageError{fmt.Sprintf("%v\nrun \"plica help %s\" for its flags", err, strings.TrimPrefix(fs.Name(), "plica "))}
 		}
 		args = fs.Args()
 		if len(args) == 0 {
 			return pos, nil
+		}
+		if strings.TrimSpace(args[0]) == "" {
+			return nil, usagef("%s: argument %d is an empty name (expected a path)", strings.TrimPrefix(fs.Name(), "plica "), len(pos)+1)
 		}
 		pos = append(pos, args[0])
 		args = args[1:]
@@ -188,6 +201,12 @@ func floatList(flagName, s string) ([]float64, error) {
 	out := make([]float64, len(parts))
 	for i, p := range parts {
 		v, err := strconv.ParseFloat(strings.TrimSpace(p), 64)
+		if errors.Is(err, strconv.ErrRange) {
+			return nil, usagef("-%s: %q is out of the finite range (expected finite numbers in a comma-separated list such as 0,180)", flagName, strings.TrimSpace(p))
+		}
+		if err == nil && (math.IsInf(v, 0) || math.IsNaN(v)) {
+			return nil, usagef("-%s: %q is not a finite number (expected finite numbers in a comma-separated list such as 0,180)", flagName, strings.TrimSpace(p))
+		}
 		if err != nil {
 			return nil, usagef("-%s: %q is not a number (expected a comma-separated list such as 0,180)", flagName, p)
 		}

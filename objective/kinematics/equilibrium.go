@@ -62,7 +62,7 @@ func bendingParts(b [2][2]float64) (m, d, q float64) {
 // positive definite (EI_xx > 0, det > 0 and Σ GJ > 0).
 func EquilibriumCurvature(tubes []LinkTube) (u [3]float64, K [3][3]float64, err error) {
 	if len(tubes) == 0 {
-		return u, K, fmt.Errorf("kinematics: equilibrium curvature of a link with no tubes")
+		return u, K, fmt.Errorf("equilibrium curvature of a link with no tubes")
 	}
 	var kxx, kxy, kyy, gj, mx, my, mz float64
 	for _, t := range tubes {
@@ -84,7 +84,7 @@ func EquilibriumCurvature(tubes []LinkTube) (u [3]float64, K [3][3]float64, err 
 	K = [3][3]float64{{kxx, kxy, 0}, {kxy, kyy, 0}, {0, 0, gj}}
 	det := kxx*kyy - kxy*kxy
 	if !(kxx > 0 && det > 0 && gj > 0) || math.IsInf(det, 0) || math.IsInf(gj, 0) {
-		return u, K, fmt.Errorf("kinematics: summed link stiffness is not positive definite "+
+		return u, K, fmt.Errorf("summed link stiffness is not positive definite "+
 			"(EI_xx %g N·m², EI_xy %g N·m², EI_yy %g N·m², det %g N²·m⁴, GJ %g N·m²)", kxx, kxy, kyy, det, gj)
 	}
 	u[0] = (mx*kyy - kxy*my) / det

@@ -151,7 +151,7 @@ func linkSteps(l, maxStep float64) int {
 // returns an error if maxStep is not > 0 or as Links does.
 func (r *Robot) Backbone(a Actuation, maxStep float64) ([]float64, []Pose, error) {
 	if !(maxStep > 0) {
-		return nil, nil, fmt.Errorf("kinematics: backbone step %s (expected > 0)", mm(maxStep))
+		return nil, nil, fmt.Errorf("backbone step %s (expected > 0)", mm(maxStep))
 	}
 	links, err := r.Links(a, nil)
 	if err != nil {

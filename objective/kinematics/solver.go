@@ -288,7 +288,7 @@ func (s *Solver) linkSums(b []float64, lo, hi float64) (kxx, kxy, kyy, gj, mx, m
 func linkCurvature(j int, lo, hi, kxx, kxy, kyy, mx, my float64) (ux, uy float64, err error) {
 	det := kxx*kyy - kxy*kxy
 	if !(kxx > 0 && det > 0) {
-		return 0, 0, fmt.Errorf("kinematics: link %d (%s to %s): summed link stiffness is not positive definite "+
+		return 0, 0, fmt.Errorf("link %d (%s to %s): summed link stiffness is not positive definite "+
 			"(EI_xx %g N·m², EI_xy %g N·m², EI_yy %g N·m²)", j+1, mm(lo), mm(hi), kxx, kxy, kyy)
 	}
 	idet := 1 / det
@@ -368,7 +368,7 @@ func (s *Solver) Links(theta, beta []float64, dst []Link) ([]Link, error) {
 func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, poses []Pose) ([]float64, []Pose, error) {
 	ss, poses = ss[:0], poses[:0]
 	if !(maxStep > 0) {
-		return ss, poses, fmt.Errorf("kinematics: backbone step %s (expected > 0)", mm(maxStep))
+		return ss, poses, fmt.Errorf("backbone step %s (expected > 0)", mm(maxStep))
 	}
 	b, tip, err := s.prepare(theta, beta)
 	if err != nil {

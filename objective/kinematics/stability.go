@@ -59,7 +59,7 @@ func TwistCoefficient(inner, outer Tube) (float64, error) {
 			return 0, err
 		}
 		if b[0][1] != 0 || b[1][0] != 0 || math.Abs(b[0][0]-b[1][1]) > 1e-12*b[0][0] {
-			return 0, fmt.Errorf("kinematics: twist coefficient: tube %d bending %v is not isotropic (expected EI_x = EI_y, no coupling)", i+1, b)
+			return 0, fmt.Errorf("twist coefficient: tube %d bending %v is not isotropic (expected EI_x = EI_y, no coupling)", i+1, b)
 		}
 		k[i] = b[0][0]
 	}
@@ -156,11 +156,11 @@ func CriticalLength(c, betaEff float64) float64 {
 // isotropic tubes); the pair is snap-free iff L < L_crit.
 func TwoTubeStability(inner, outer Tube, overlap float64, transmission [2]float64) (PairStability, error) {
 	if !(overlap >= 0) || math.IsInf(overlap, 0) {
-		return PairStability{}, fmt.Errorf("kinematics: stability: overlap %g m (expected ≥ 0)", overlap)
+		return PairStability{}, fmt.Errorf("stability: overlap %g m (expected ≥ 0)", overlap)
 	}
 	for i, l := range transmission {
 		if !(l >= 0) || math.IsInf(l, 0) {
-			return PairStability{}, fmt.Errorf("kinematics: stability: transmission length of tube %d is %g m (expected ≥ 0)", i+1, l)
+			return PairStability{}, fmt.Errorf("stability: transmission length of tube %d is %g m (expected ≥ 0)", i+1, l)
 		}
 	}
 	c, _, err := EffectiveTwistCoefficient(inner, outer)
@@ -192,7 +192,7 @@ func (r *Robot) SnapStability(a Actuation, inner int) (PairStability, error) {
 		return PairStability{}, err
 	}
 	if inner < 0 || inner+1 >= len(r.Tubes) {
-		return PairStability{}, fmt.Errorf("kinematics: stability: no tube pair (%d, %d) in a set of %d tubes", inner+1, inner+2, len(r.Tubes))
+		return PairStability{}, fmt.Errorf("stability: no tube pair (%d, %d) in a set of %d tubes", inner+1, inner+2, len(r.Tubes))
 	}
 	beta := r.EffectiveInsertion(a)
 	t1, t2 := r.Tubes[inner], r.Tubes[inner+1]
@@ -212,12 +212,12 @@ func stabCheckTube(i int, t Tube) error {
 	det := b[0][0]*b[1][1] - b[0][1]*b[1][0]
 	switch {
 	case !(t.Torsion > 0) || math.IsInf(t.Torsion, 0):
-		return fmt.Errorf("kinematics: stability: tube %d torsional stiffness GJ = %g N·m² (expected > 0)", i+1, t.Torsion)
+		return fmt.Errorf("stability: tube %d torsional stiffness GJ = %g N·m² (expected > 0)", i+1, t.Torsion)
 	case !(b[0][0] > 0) || !(det > 0) || math.Abs(b[0][1]-b[1][0]) > 1e-9*(b[0][0]+b[1][1]):
-		return fmt.Errorf("kinematics: stability: tube %d bending %v N·m² is not symmetric positive definite", i+1, b)
+		return fmt.Errorf("stability: tube %d bending %v N·m² is not symmetric positive definite", i+1, b)
 	case math.IsNaN(t.Precurvature[0]) || math.IsNaN(t.Precurvature[1]) ||
 		math.IsInf(t.Precurvature[0], 0) || math.IsInf(t.Precurvature[1], 0):
-		return errors.New("kinematics: stability: precurvature is not finite")
+		return errors.New("stability: precurvature is not finite")
 	}
 	return nil
 }

@@ -42,53 +42,53 @@ func finite(x float64) bool { return !math.IsNaN(x) && !math.IsInf(x, 0) }
 func (r *Robot) Validate() error {
 	n := len(r.Tubes)
 	if n == 0 {
-		return fmt.Errorf("kinematics: robot has no tubes")
+		return fmt.Errorf("robot has no tubes")
 	}
 	if n > MaxTubes {
-		return fmt.Errorf("kinematics: robot has %d tubes (expected at most %d)", n, MaxTubes)
+		return fmt.Errorf("robot has %d tubes (expected at most %d)", n, MaxTubes)
 	}
 	for i, t := range r.Tubes {
 		name := tubeName(i, n)
 		switch {
 		case !finite(t.StraightLength) || t.StraightLength < 0:
-			return fmt.Errorf("kinematics: %s: straight length %s (expected finite, ≥ 0)", name, mm(t.StraightLength))
+			return fmt.Errorf("%s: straight length %s (expected finite, ≥ 0)", name, mm(t.StraightLength))
 		case !finite(t.CurvedLength) || t.CurvedLength < 0:
-			return fmt.Errorf("kinematics: %s: curved length %s (expected finite, ≥ 0)", name, mm(t.CurvedLength))
+			return fmt.Errorf("%s: curved length %s (expected finite, ≥ 0)", name, mm(t.CurvedLength))
 		case !(t.Length() > 0):
-			return fmt.Errorf("kinematics: %s: total length %s (expected > 0)", name, mm(t.Length()))
+			return fmt.Errorf("%s: total length %s (expected > 0)", name, mm(t.Length()))
 		case !finite(t.Precurvature[0]) || !finite(t.Precurvature[1]):
-			return fmt.Errorf("kinematics: %s: precurvature (%g, %g) /m is not finite", name, t.Precurvature[0], t.Precurvature[1])
+			return fmt.Errorf("%s: precurvature (%g, %g) /m is not finite", name, t.Precurvature[0], t.Precurvature[1])
 		}
 		b := t.Bending
 		for _, v := range [4]float64{b[0][0], b[0][1], b[1][0], b[1][1]} {
 			if !finite(v) {
-				return fmt.Errorf("kinematics: %s: bending stiffness %v N·m² is not finite", name, b)
+				return fmt.Errorf("%s: bending stiffness %v N·m² is not finite", name, b)
 			}
 		}
 		if math.Abs(b[0][1]-b[1][0]) > symmetryTol*(math.Abs(b[0][0])+math.Abs(b[1][1])) {
-			return fmt.Errorf("kinematics: %s: bending stiffness %v N·m² is not symmetric", name, b)
+			return fmt.Errorf("%s: bending stiffness %v N·m² is not symmetric", name, b)
 		}
 		_, _, q := bendingParts(b)
 		if !(b[0][0] > 0 && b[0][0]*b[1][1]-q*q > 0) {
-			return fmt.Errorf("kinematics: %s: bending stiffness %v N·m² is not positive definite (expected EI_x > 0 and EI_x·EI_y > EI_xy²)", name, b)
+			return fmt.Errorf("%s: bending stiffness %v N·m² is not positive definite (expected EI_x > 0 and EI_x·EI_y > EI_xy²)", name, b)
 		}
 		if !finite(t.Torsion) || !(t.Torsion > 0) {
-			return fmt.Errorf("kinematics: %s: torsional stiffness GJ %g N·m² (expected finite, > 0)", name, t.Torsion)
+			return fmt.Errorf("%s: torsional stiffness GJ %g N·m² (expected finite, > 0)", name, t.Torsion)
 		}
 		if !finite(t.LinearDensity) || t.LinearDensity < 0 {
-			return fmt.Errorf("kinematics: %s: linear density %g kg/m (expected finite, ≥ 0)", name, t.LinearDensity)
+			return fmt.Errorf("%s: linear density %g kg/m (expected finite, ≥ 0)", name, t.LinearDensity)
 		}
 	}
 	var threaded uint64
 	for k, th := range r.Threads {
 		if th.Inner < 0 || th.Inner >= n-1 {
-			return fmt.Errorf("kinematics: thread %d: inner tube index %d (expected 0 to %d: a thread joins a tube to the one around it)", k+1, th.Inner, n-2)
+			return fmt.Errorf("thread %d: inner tube index %d (expected 0 to %d: a thread joins a tube to the one around it)", k+1, th.Inner, n-2)
 		}
 		if !finite(th.Lead) || th.Lead == 0 {
-			return fmt.Errorf("kinematics: thread %d between %s and tube %d: lead %s (expected finite, non-zero)", k+1, tubeName(th.Inner, n), th.Inner+2, mm(th.Lead))
+			return fmt.Errorf("thread %d between %s and tube %d: lead %s (expected finite, non-zero)", k+1, tubeName(th.Inner, n), th.Inner+2, mm(th.Lead))
 		}
 		if threaded&(1<<th.Inner) != 0 {
-			return fmt.Errorf("kinematics: thread %d: %s is threaded into tube %d twice", k+1, tubeName(th.Inner, n), th.Inner+2)
+			return fmt.Errorf("thread %d: %s is threaded into tube %d twice", k+1, tubeName(th.Inner, n), th.Inner+2)
 		}
 		threaded |= 1 << th.Inner
 	}
@@ -104,7 +104,7 @@ type ActuationError struct {
 	Msg  string // one line, tubes 1-based, lengths in mm
 }
 
-func (e *ActuationError) Error() string { return "kinematics: " + e.Msg }
+func (e *ActuationError) Error() string { return e.Msg }
 
 // threadRates returns, for each tube, its advance per radian, Lead/(2π), or 0
 // for an unthreaded tube; the slice is nil if the robot has no threads.

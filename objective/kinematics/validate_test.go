@@ -85,19 +85,19 @@ func TestCheckActuationNesting(t *testing.T) {
 		{"equal ends", threeTubes(), []float64{-0.25, -0.15, -0.05}, "", 0},
 		{"outermost ends at the base plane", threeTubes(), []float64{-0.3, -0.2, -0.1}, "", 0},
 		{"inner starts in front", threeTubes(), []float64{-0.05, -0.1, -0.05},
-			"kinematics: tube 1 (innermost) starts at -50 mm but tube 2 around it at -100 mm (inner tubes must start at least as far back)", 0},
+			"tube 1 (innermost) starts at -50 mm but tube 2 around it at -100 mm (inner tubes must start at least as far back)", 0},
 		{"outermost in front of base", threeTubes(), []float64{-0.2, -0.1, 0.01},
-			"kinematics: tube 3 (outermost) starts 10 mm in front of the base plane (insertion must be ≤ 0: every tube starts at or behind the base plane)", 2},
+			"tube 3 (outermost) starts 10 mm in front of the base plane (insertion must be ≤ 0: every tube starts at or behind the base plane)", 2},
 		{"outermost behind base", threeTubes(), []float64{-0.3, -0.25, -0.12},
-			"kinematics: tube 3 (outermost) ends 20 mm behind the base plane (every tube must reach at least the base plane)", 2},
+			"tube 3 (outermost) ends 20 mm behind the base plane (every tube must reach at least the base plane)", 2},
 		{"outer reaches further", two(), []float64{-0.2, -0.08},
-			"kinematics: tube 2 (outermost) reaches 120 mm beyond the base but tube 1 (innermost) inside it only 100 mm (inner tubes must reach at least as far)", 0},
+			"tube 2 (outermost) reaches 120 mm beyond the base but tube 1 (innermost) inside it only 100 mm (inner tubes must reach at least as far)", 0},
 		{"middle reaches further", threeTubes(), []float64{-0.2, -0.09, -0.05},
-			"kinematics: tube 2 reaches 110 mm beyond the base but tube 1 (innermost) inside it only 100 mm (inner tubes must reach at least as far)", 0},
+			"tube 2 reaches 110 mm beyond the base but tube 1 (innermost) inside it only 100 mm (inner tubes must reach at least as far)", 0},
 		{"wrong count", threeTubes(), []float64{-0.2, -0.1},
-			"kinematics: actuation has 3 angles and 2 insertions for 3 tubes (expected one of each per tube, innermost first)", -1},
+			"actuation has 3 angles and 2 insertions for 3 tubes (expected one of each per tube, innermost first)", -1},
 		{"NaN insertion", threeTubes(), []float64{-0.2, math.NaN(), -0.05},
-			"kinematics: tube 2: insertion NaN m is not finite", 1},
+			"tube 2: insertion NaN m is not finite", 1},
 	}
 	for _, tc := range cases {
 		t.Run(tc.name, func(t *testing.T) {
@@ -132,7 +132,7 @@ func TestCheckActuationNesting(t *testing.T) {
 	t.Run("NaN angle", func(t *testing.T) {
 		r := threeTubes()
 		a := Actuation{Theta: []float64{0, math.Inf(1), 0}, Beta: []float64{-0.2, -0.1, -0.05}}
-		want := "kinematics: tube 2: angle +Inf rad is not finite"
+		want := "tube 2: angle +Inf rad is not finite"
 		assert.EqualError(t, r.CheckActuation(a), want)
 		s, err := NewSolver(r)
 		require.NoError(t, err)
@@ -227,7 +227,7 @@ func TestThreads(t *testing.T) {
 		// far as the outer one is infeasible, and the message says so.
 		r := robot(0.06)
 		a := Actuation{Theta: []float64{-2 * math.Pi, 0}, Beta: []float64{-0.15, -0.1}}
-		want := "kinematics: tube 2 (outermost) reaches 100 mm beyond the base but tube 1 (innermost) inside it only 90 mm, thread included (inner tubes must reach at least as far)"
+		want := "tube 2 (outermost) reaches 100 mm beyond the base but tube 1 (innermost) inside it only 90 mm, thread included (inner tubes must reach at least as far)"
 		assert.EqualError(t, r.CheckActuation(a), want, "CheckActuation(θ=%v)", a.Theta)
 		// Without the rotation the same insertions are feasible.
 		a.Theta = []float64{0, 0}

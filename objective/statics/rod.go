@@ -41,29 +41,29 @@ type rod struct {
 // the integration grid (steps, when non-nil, overrides the step counts).
 func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig, steps []int) (*rod, error) {
 	if len(links) == 0 {
-		return nil, errors.New("kinematics: statics: no links")
+		return nil, errors.New("rod statics: no links")
 	}
 	L := links[len(links)-1].End
 	if !(L > 0) || math.IsInf(L, 0) {
-		return nil, fmt.Errorf("kinematics: statics: backbone length %g m (expected > 0)", L)
+		return nil, fmt.Errorf("rod statics: backbone length %g m (expected > 0)", L)
 	}
 	tol := 1e-12 * L
 	if math.Abs(links[0].Start) > tol {
-		return nil, fmt.Errorf("kinematics: statics: first link starts at %g m (expected 0)", links[0].Start)
+		return nil, fmt.Errorf("rod statics: first link starts at %g m (expected 0)", links[0].Start)
 	}
 	r := &rod{links: links, load: load, factor: factor, length: L}
 	vecs := [][3]float64{load.TipForce, load.TipMoment, load.Gravity, load.FollowerForce, load.FollowerMoment}
 	for _, v := range vecs {
 		if !finite3(v) {
-			return nil, fmt.Errorf("kinematics: statics: load %v is not finite", v)
+			return nil, fmt.Errorf("rod statics: load %v is not finite", v)
 		}
 	}
 	for k, pf := range load.PointForces {
 		if !finite3(pf.Force) || math.IsNaN(pf.S) {
-			return nil, fmt.Errorf("kinematics: statics: point force %d is not finite", k+1)
+			return nil, fmt.Errorf("rod statics: point force %d is not finite", k+1)
 		}
 		if pf.S <= tol || pf.S > L+tol {
-			return nil, fmt.Errorf("kinematics: statics: point force %d at s = %g m (expected 0 < s ≤ %g m)", k+1, pf.S, L)
+			return nil, fmt.Errorf("rod statics: point force %d at s = %g m (expected 0 < s ≤ %g m)", k+1, pf.S, L)
 		}
 	}
 	r.tipF = scale3(load.TipForce, factor)
@@ -76,15 +76,15 @@ func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig,
 	total := norm3(r.tipF) + norm3(r.folF) + (norm3(r.tipM)+norm3(r.folM))/L
 	for j, lk := range links {
 		if j > 0 && math.Abs(lk.Start-links[j-1].End) > tol {
-			return nil, fmt.Errorf("kinematics: statics: link %d starts at %g m but link %d ends at %g m (expected contiguous links)", j+1, lk.Start, j, links[j-1].End)
+			return nil, fmt.Errorf("rod statics: link %d starts at %g m but link %d ends at %g m (expected contiguous links)", j+1, lk.Start, j, links[j-1].End)
 		}
 		l := lk.End - lk.Start
 		if !(l > 0) {
-			return nil, fmt.Errorf("kinematics: statics: link %d has length %g m (expected > 0)", j+1, l)
+			return nil, fmt.Errorf("rod statics: link %d has length %g m (expected > 0)", j+1, l)
 		}
 		kinv, ok := invertSPD(lk.K)
 		if !ok || !finite3(lk.U) || !(lk.MassPerLength >= 0) {
-			return nil, fmt.Errorf("kinematics: statics: link %d: stiffness %v N·m² must be symmetric positive definite, U finite and MassPerLength ≥ 0", j+1, lk.K)
+			return nil, fmt.Errorf("rod statics: link %d: stiffness %v N·m² must be symmetric positive definite, U finite and MassPerLength ≥ 0", j+1, lk.K)
 		}
 		eiMin = math.Min(eiMin, math.Min(lk.K[0][0], lk.K[1][1]))
 		f := scale3(load.Gravity, lk.MassPerLength*factor)
@@ -108,7 +108,7 @@ func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig,
 	}
 	if steps != nil {
 		if len(steps) != len(r.segs) {
-			panic("kinematics: statics grid mismatch")
+			panic("statics: grid mismatch")
 		}
 		for i := range r.segs {
 			r.segs[i].steps = steps[i]

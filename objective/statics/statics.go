@@ -153,7 +153,7 @@ type Error struct {
 }
 
 func (e *Error) Error() string {
-	return fmt.Sprintf("kinematics: statics did not converge: %v after %d iterations at %.3g of the load (residual %.3g)",
+	return fmt.Sprintf("the rod statics did not converge: %v after %d iterations at %.3g of the load (residual %.3g)",
 		e.Status, e.Iterations, e.LoadFactor, e.Residual)
 }
 
@@ -316,7 +316,7 @@ func robotLinks(r *kinematics.Robot, a kinematics.Actuation) ([]kinematics.Link,
 		return nil, err
 	}
 	if len(links) == 0 {
-		return nil, errors.New("statics: the innermost tube ends at the base plane (no backbone to load)")
+		return nil, errors.New("rod statics: the innermost tube ends at the base plane (no backbone to load)")
 	}
 	return links, nil
 }

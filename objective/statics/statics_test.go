@@ -559,7 +559,7 @@ func TestStatusString(t *testing.T) {
 		assert.Equal(t, want, s.String(), "status %d", int(s))
 	}
 	err := &Error{Status: Stalled, Iterations: 7, Residual: 0.25, LoadFactor: 1}
-	assert.Equal(t, "kinematics: statics did not converge: stalled after 7 iterations at 1 of the load (residual 0.25)", err.Error())
+	assert.Equal(t, "the rod statics did not converge: stalled after 7 iterations at 1 of the load (residual 0.25)", err.Error())
 	assert.True(t, errors.Is(err, ErrNotConverged), "Error wraps ErrNotConverged")
 }
 

@@ -78,11 +78,7 @@ func scoreAxis(key string) (name, unit string) {
 func (r *Data) objectiveLabel(i int) string {
 	o := r.Spec.Objectives[i]
 	name, unit := scoreAxis(o.Score)
-	goal := "minimise"
-	if o.Maximize {
-		goal = "maximise"
-	}
-	return fmt.Sprintf("%s (%s), %s", name, unit, goal)
+	return fmt.Sprintf("%s (%s), %s", name, unit, o.Goal())
 }
 
 // newPlot is a plot with plica's common style.

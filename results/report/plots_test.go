@@ -251,9 +251,9 @@ func TestFrontFigure(t *testing.T) {
 		legend int // legend entries per series
 		labels []string
 	}{
-		{"one objective", [][2]string{oneObjective}, 1, 0, []string{"tip sag (mm), minimise", "evaluation index (count)"}},
-		{"two objectives", nil, 1, 1, []string{"reach (mm), maximise", "tip sag (mm), minimise"}},
-		{"three objectives: pairs", [][2]string{threeObjectives}, 3, 1, []string{"reach (mm), maximise", "tip sag (mm), minimise", "mass (g), minimise"}},
+		{"one objective", [][2]string{oneObjective}, 1, 0, []string{"tip sag (mm), minimize", "evaluation index (count)"}},
+		{"two objectives", nil, 1, 1, []string{"reach (mm), maximize", "tip sag (mm), minimize"}},
+		{"three objectives: pairs", [][2]string{threeObjectives}, 3, 1, []string{"reach (mm), maximize", "tip sag (mm), minimize", "mass (g), minimize"}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

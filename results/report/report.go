@@ -12,8 +12,6 @@ import (
 	"regexp"
 	"strings"
 
-	"github.com/BurntSushi/toml"
-
 	"plica/objective"
 	"plica/problems"
 
@@ -340,10 +338,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.Variables = append(p.Variables, []string{v.Path(), fmt.Sprintf("%.6g to %.6g", v.Lower, v.Upper), unit})
 	}
 	for _, o := range s.Objectives {
-		goal := "minimise"
-		if o.Maximize {
-			goal = "maximise"
-		}
+		goal := o.Goal().String()
 		_, unit := scoreAxis(o.Score)
 		doc := ""
 		if sc, ok := objective.LookupScore(o.Score); ok {
@@ -351,13 +346,8 @@ func (r *Data) page(ids []int) *htmlPage {
 		}
 		p.Objectives = append(p.Objectives, []string{o.Score, goal, unit, doc})
 	}
-	var file map[string]any
-	if _, err := toml.Decode(string(s.Text), &file); err == nil {
-		if req, ok := file["requirements"].(map[string]any); ok {
-			for _, k := range sortedKeys(req) {
-				p.Requirements = append(p.Requirements, keyValue{k, fmt.Sprint(req[k])})
-			}
-		}
+	for _, req := range s.Requirements() {
+		p.Requirements = append(p.Requirements, keyValue{req.Key, req.Value})
 	}
 	timeBudget := info.TimeBudget.String()
 	if info.TimeBudget == 0 {

@@ -130,7 +130,7 @@ func TestReport(t *testing.T) {
 		assert.Contains(t, page, v.Path(), "variable")
 		assert.Contains(t, page, fmt.Sprintf("%.6g to %.6g", v.Lower, v.Upper), "range of %s", v.Path())
 	}
-	for _, s := range []string{"reach_mm", "tip_sag_mm", "maximise", "max_tip_sag_mm", "min_clearance_mm",
+	for _, s := range []string{"reach_mm", "tip_sag_mm", "maximize", "max_tip_sag_mm", "min_clearance_mm",
 		"EvaluationLimit", "nsga2", "hypervolume (mm·mm)", "reference", "desk boom search"} {
 		assert.Contains(t, page, s, "summary")
 	}

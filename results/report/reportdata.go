@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"sort"
 	"strconv"
 
 	"plica/problems"
@@ -322,14 +321,4 @@ func (e *UnknownDesignError) Error() string {
 		return fmt.Sprintf("the front of %s is empty: there is no design %d", e.Dir, e.ID)
 	}
 	return fmt.Sprintf("the front of %s has no design %d (expected an id from 1 to %d)", e.Dir, e.ID, e.FrontSize)
-}
-
-// sortedKeys returns the keys of a map in order.
-func sortedKeys[V any](m map[string]V) []string {
-	keys := make([]string, 0, len(m))
-	for k := range m {
-		keys = append(keys, k)
-	}
-	sort.Strings(keys)
-	return keys
 }
