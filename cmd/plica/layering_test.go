@@ -15,8 +15,9 @@ func TestLayering(t *testing.T) {
 	allowed := map[string][]string{
 		"plica/surrogate/shell":            {},
 		"plica/surrogate/convolution":      {"plica/surrogate/shell", "plica/surrogate/solid"},
-		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
-		"plica/surrogate/internal/wallgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
+		"plica/surrogate/internal/hoopgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/surrogate/internal/gotable"},
+		"plica/surrogate/internal/wallgen": {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/surrogate/internal/gotable"},
+		"plica/surrogate/internal/gotable": {},
 		"plica/surrogate":                  {"plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 		"plica/surrogate/solid":            {},
 		"plica/surrogate/fecheck":          {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},

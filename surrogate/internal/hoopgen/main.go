@@ -16,11 +16,10 @@ import (
 	"log"
 	"math"
 	"os"
-	"strconv"
-	"strings"
 	"time"
 
 	"plica/surrogate/convolution"
+	"plica/surrogate/internal/gotable"
 )
 
 // Grids (surrogate/REFERENCE.md §2.2): U C1 0.1…0.9 (denser below 0.2, where w/Dm grows
@@ -84,9 +83,9 @@ func main() {
 		hoop, strain := compute(tb)
 		fmt.Fprintf(&b, "\nvar %s = FactorTable{\n\tProfile:  %s,\n\tElements: %d,\n\tAxes: [][]float64{\n", tb.name, tb.profile, elements)
 		for _, ax := range tb.axes {
-			fmt.Fprintf(&b, "\t\t{%s},\n", join(ax))
+			fmt.Fprintf(&b, "\t\t{%s},\n", gotable.Join(ax))
 		}
-		fmt.Fprintf(&b, "\t},\n\tHoop: []float64{\n%s\t},\n\tStrain: []float64{\n%s\t},\n}\n", rows(hoop), rows(strain))
+		fmt.Fprintf(&b, "\t},\n\tHoop: []float64{\n%s\t},\n\tStrain: []float64{\n%s\t},\n}\n", gotable.Rows(hoop), gotable.Rows(strain))
 		log.Printf("%s: %d entries", tb.name, len(hoop))
 	}
 	src, err := format.Source(b.Bytes())
@@ -127,29 +126,4 @@ func compute(tb table) (hoop, strain []float64) {
 		strain = append(strain, s)
 	}
 	return hoop, strain
-}
-
-func join(v []float64) string {
-	s := make([]string, len(v))
-	for i, x := range v {
-		s[i] = strconv.FormatFloat(x, 'g', -1, 64)
-	}
-	return strings.Join(s, ", ")
-}
-
-func rows(v []float64) string {
-	var b strings.Builder
-	for i := 0; i < len(v); i += 8 {
-		b.WriteString("\t\t")
-		for j := i; j < min(i+8, len(v)); j++ {
-			if math.IsNaN(v[j]) {
-				b.WriteString("nan, ")
-				continue
-			}
-			b.WriteString(strconv.FormatFloat(v[j], 'g', 7, 64))
-			b.WriteString(", ")
-		}
-		b.WriteString("\n")
-	}
-	return b.String()
 }

@@ -18,12 +18,11 @@ import (
 	"math"
 	"os"
 	"runtime"
-	"strconv"
-	"strings"
 	"sync"
 	"time"
 
 	"plica/surrogate/convolution"
+	"plica/surrogate/internal/gotable"
 	"plica/surrogate/solid"
 )
 
@@ -68,9 +67,9 @@ func main() {
 		ax, bd, ei := compute(tb)
 		fmt.Fprintf(&b, "\nvar %s = WallTable{\n\tProfile: %s,\n\tAxes: [][]float64{\n", tb.name, tb.profile)
 		for _, a := range tb.axes {
-			fmt.Fprintf(&b, "\t\t{%s},\n", join(a))
+			fmt.Fprintf(&b, "\t\t{%s},\n", gotable.Join(a))
 		}
-		fmt.Fprintf(&b, "\t},\n\tAxial: []float64{\n%s\t},\n\tBending: []float64{\n%s\t},\n\tEI: []float64{\n%s\t},\n}\n", rows(ax), rows(bd), rows(ei))
+		fmt.Fprintf(&b, "\t},\n\tAxial: []float64{\n%s\t},\n\tBending: []float64{\n%s\t},\n\tEI: []float64{\n%s\t},\n}\n", gotable.Rows(ax), gotable.Rows(bd), gotable.Rows(ei))
 		n := 0
 		for _, v := range ax {
 			if !math.IsNaN(v) {
@@ -132,29 +131,4 @@ func compute(tb table) (ax, bd, ei []float64) {
 	close(next)
 	wg.Wait()
 	return ax, bd, ei
-}
-
-func join(v []float64) string {
-	s := make([]string, len(v))
-	for i, x := range v {
-		s[i] = strconv.FormatFloat(x, 'g', -1, 64)
-	}
-	return strings.Join(s, ", ")
-}
-
-func rows(v []float64) string {
-	var b strings.Builder
-	for i := 0; i < len(v); i += 8 {
-		b.WriteString("\t\t")
-		for j := i; j < min(i+8, len(v)); j++ {
-			if math.IsNaN(v[j]) {
-				b.WriteString("nan, ")
-				continue
-			}
-			b.WriteString(strconv.FormatFloat(v[j], 'g', 7, 64))
-			b.WriteString(", ")
-		}
-		b.WriteString("\n")
-	}
-	return b.String()
 }
