@@ -90,8 +90,8 @@ func TestBenchUnits(t *testing.T) {
 	assert.Equal(t, []int{0, 1}, b.Axes())
 }
 
-// TestBenchFitVector98 runs the surrogate/REFERENCE.md §5.4 vector (surrogate/REFERENCE.md §5.4, derived from
-// §4.2) through the file reader and the fit: the same EI as package surrogate's calibration
+// TestBenchFitVector98 runs the cantilever-fit vector of surrogate/REFERENCE.md §5.4 (derived from
+// surrogate/REFERENCE.md §4.2) through the file reader and the fit: the same EI as package surrogate's calibration
 // verification case, which fits the vector written in code and holds the published value, with
 // 95 % interval [40 387, 41 807] N·mm².
 func TestBenchFitVector98(t *testing.T) {

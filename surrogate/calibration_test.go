@@ -46,7 +46,7 @@ func TestCalibrationFitVector98(t *testing.T) {
 // TestCalibrationStudentT checks the quantile against gonum's StudentsT as
 // the reference library and the tabulated t_{0.975,3} = 3.182 (standard
 // Student t tables, e.g. NIST/SEMATECH e-Handbook of Statistical Methods,
-// §1.3.6.7.2, from memory).
+// section 1.3.6.7.2, from memory).
 func TestCalibrationStudentT(t *testing.T) {
 	ref := distuv.StudentsT{Mu: 0, Sigma: 1, Nu: 3}.Quantile(0.975)
 	assert.InDelta(t, 3.182, ref, 5e-4, "gonum t_{0.975,3}")

@@ -8,7 +8,7 @@ import (
 )
 
 // TestEJMAWorkedExampleS1 recomputes worked example S1 of surrogate/REFERENCE.md §5.2:
-// EJMA Standards equations (§2.11) as applied in a published worked
+// EJMA Standards equations (surrogate/REFERENCE.md §2.11) as applied in a published worked
 // calculation for an unreinforced U-bellows; published outputs
 // f_iu = 23 010.85 lbf/in, K_x = 3835.14 lbf/in, S5 = 307.17 psi,
 // S6 = 38 386.29 psi; tolerance 0.1 % (the published sheet rounds).

@@ -24,7 +24,7 @@ func VerificationCases() []VerificationCase {
 }
 
 // calibrationVector is the synthetic cantilever-fit vector of surrogate/REFERENCE.md §5.4
-// (derived from the equations of §4.2): L = 100 mm,
+// (derived from the equations of surrogate/REFERENCE.md §4.2): L = 100 mm,
 // P = [0.05, 0.10, 0.15, 0.20] N, δ = [0.40, 0.83, 1.21, 1.62] mm, in SI.
 func calibrationVector() []BenchPoint {
 	loads := []float64{0.05, 0.10, 0.15, 0.20}

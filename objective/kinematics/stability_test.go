@@ -51,7 +51,7 @@ func TestTwistCoefficientST1(t *testing.T) {
 		ce, d0, err := EffectiveTwistCoefficient(row.inner, row.outer)
 		require.NoError(t, err, row.name)
 		// objective/kinematics/REFERENCE.md §4.3 reduces exactly to (4.1) for isotropic tubes [derived].
-		assert.InDelta(t, row.want, ce, 1e-9*math.Max(row.want, 1), "c_eff (§4.3) for %s", row.name)
+		assert.InDelta(t, row.want, ce, 1e-9*math.Max(row.want, 1), "c_eff (objective/kinematics/REFERENCE.md §4.3) for %s", row.name)
 		if row.want > 0 {
 			assert.InDelta(t, math.Pi, d0, 1e-9, "anti-aligned Δ0 for %s", row.name)
 		}

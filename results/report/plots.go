@@ -60,7 +60,7 @@ const MaxWorkspacePoints = 1024
 // scoreAxis splits a score or variable key into a readable name and its
 // unit, from the unit suffix every key carries ("reach_mm" → "reach",
 // "mm"). A quantity without a unit suffix is a ratio: unit "1" (SI
-// Brochure, 9th ed., 2019, §2.3.3: the unit of a dimensionless quantity is
+// Brochure, 9th ed., 2019, section 2.3.3: the unit of a dimensionless quantity is
 // one).
 func scoreAxis(key string) (name, unit string) {
 	suffixes := []struct{ suffix, unit string }{

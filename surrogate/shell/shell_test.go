@@ -33,7 +33,7 @@ func TestShellStraightCylinderAxial(t *testing.T) {
 // TestShellSemiInfiniteCylinderEdge checks the radial edge stiffness of a
 // semi-infinite cylinder with a rotation-free edge (M = 0), per unit
 // circumference 2 β³ D with β⁴ = 3(1−ν²)/(R² t²) (Timoshenko &
-// Woinowsky-Krieger, Theory of Plates and Shells, 2nd ed., 1959, §114,
+// Woinowsky-Krieger, Theory of Plates and Shells, 2nd ed., 1959, art. 114,
 // from memory; surrogate/REFERENCE.md §5.3: element 0.388986, 1e-5 relative). The published value
 // of 2β³D, against which surrogate.CylinderEdgeStiffness runs this element, is a verification
 // case of package surrogate (surrogate/verification.go).

@@ -29,7 +29,7 @@ func lameModel(t *testing.T, a, b, length float64, along, through int) (*Grid, *
 
 // TestLameCylinder checks a thick-walled cylinder under internal pressure
 // in the axisymmetric mode against Lamé's solution (Timoshenko & Goodier,
-// Theory of Elasticity, 3rd ed., 1970, thick-walled cylinder, §28 from
+// Theory of Elasticity, 3rd ed., 1970, thick-walled cylinder, art. 28 from
 // memory; plane strain ends so σz = ν(σr + σθ)). Nodal stresses of
 // quadratic elements converge as h², hence the tolerances.
 func TestLameCylinder(t *testing.T) {
@@ -71,7 +71,7 @@ func TestLameCylinder(t *testing.T) {
 // curvedBar meshes a quarter ring a ≤ r ≤ b, 0 ≤ θ ≤ π/2 in plane stress,
 // symmetric on θ = 0, with the section θ = π/2 turned rigidly by β about
 // the centre (sections of a curved bar in pure bending stay plane:
-// Timoshenko & Goodier, Theory of Elasticity, 3rd ed., 1970, §29 from
+// Timoshenko & Goodier, Theory of Elasticity, 3rd ed., 1970, art. 29 from
 // memory). It
 // returns the bending moment per unit thickness, the hoop stress on the
 // inner and outer fibres at θ = π/4, and the rotation.
@@ -118,7 +118,7 @@ func curvedBar(t *testing.T, a, b float64, along, through int) (m, sInner, sOute
 // golovin returns the hoop stress on the inner and outer fibres and the
 // rotation per unit angle of a curved bar of unit thickness in pure
 // bending by M (Golovin's solution, Timoshenko & Goodier, Theory of
-// Elasticity, 3rd ed., 1970, §29, eqs. (52)–(55); from memory).
+// Elasticity, 3rd ed., 1970, art. 29, eqs. (52)–(55); from memory).
 func golovin(a, b, m, e float64) (sInner, sOuter, rotPerAngle float64) {
 	l := math.Log(b / a)
 	n := (b*b-a*a)*(b*b-a*a) - 4*a*a*b*b*l*l
@@ -165,7 +165,7 @@ func TestCurvedBarPureBending(t *testing.T) {
 		t.Logf("R/h = %4.1f  K_i: FE %.4f  Golovin %.4f  Winkler–Bach %.4f", rh, kFE, math.Abs(ei)/(6*m/(h*h)), kWB)
 		// Winkler–Bach neglects σr; for rectangular sections it stays
 		// within a few per cent of the exact inner-fibre stress even at
-		// R/h = 1 (Timoshenko & Goodier §29 compare the two; from memory).
+		// R/h = 1 (Timoshenko & Goodier art. 29 compare the two; from memory).
 		if e := rel(kFE, kWB); e > 0.05 {
 			t.Errorf("R/h = %g: K_i FE %.4f, Winkler–Bach %.4f (error %.2g)", rh, kFE, kWB, e)
 		}
