@@ -21,10 +21,10 @@ func (g Geometry) crestRadius() float64 {
 // flank or flat of half a convolution (convolution.DefaultElements).
 const DefaultShellElements = convolution.DefaultElements
 
-// halfMeridian returns the centreline of half a convolution, root apex at
+// HalfMeridian returns the centreline of half a convolution, root apex at
 // z = 0 to crown apex at z = q/2 (package convolution). The geometry must
 // be valid.
-func (g Geometry) halfMeridian() convolution.Meridian {
+func (g Geometry) HalfMeridian() convolution.Meridian {
 	rm, w, q := g.MeanRadius(), g.Depth, g.Pitch
 	switch g.Profile {
 	case Sinusoid:
@@ -40,6 +40,6 @@ func (g Geometry) halfMeridian() convolution.Meridian {
 // shellModel runs the shell model on half a convolution of the wall
 // (convolution.Shell) with the orthotropic wall of the material.
 func shellModel(g *Geometry, mtl *Material, perSeg int) (convolution.Result, error) {
-	m := g.halfMeridian()
+	m := g.HalfMeridian()
 	return convolution.Shell(&m, shell.Wall{Es: mtl.ModulusAcross, Et: mtl.ModulusInLayer, Nu: mtl.Poisson, T: g.Wall}, perSeg)
 }

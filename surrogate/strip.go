@@ -15,7 +15,7 @@ type stripResult struct {
 
 // stripModel runs the strip model on the wall with meridional modulus e.
 func stripModel(g *Geometry, e, nu float64) stripResult {
-	m := g.halfMeridian()
+	m := g.HalfMeridian()
 	r, mo := convolution.Strip(&m, g.Wall, e, nu)
 	return stripResult{Result: r, mom: mo}
 }

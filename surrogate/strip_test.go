@@ -14,7 +14,7 @@ import (
 // along a fine polyline of the meridian (trapezoidal rule on chords): an
 // independent numerical form of the r ≈ Rm strip integrals of surrogate/REFERENCE.md §2.1.
 func plainIz(g Geometry, perSeg int) float64 {
-	m := g.halfMeridian()
+	m := g.HalfMeridian()
 	r, z := m.Nodes(perSeg)
 	rm := g.MeanRadius()
 	var b0, b1, b2 float64

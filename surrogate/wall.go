@@ -183,7 +183,7 @@ var thinWall = convolution.WallFactors{Axial: 1, Bending: 1, EI: 1}
 // geometry it cannot mesh); the factors are then those of the thin-shell
 // wall.
 func (b *Bellows) wallDirect() (convolution.WallFactors, bool) {
-	m := b.Geometry.halfMeridian()
+	m := b.Geometry.HalfMeridian()
 	f, err := convolution.Wall(&m, b.Geometry.Wall, b.Material.Poisson, solid.MeshSize{})
 	if err != nil {
 		return thinWall, false

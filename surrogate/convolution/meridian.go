@@ -114,6 +114,36 @@ func Trapezoid(rMean, depth, pitch, flatFraction float64) Meridian {
 	return m
 }
 
+// PieceKind is the shape of one piece of a meridian.
+type PieceKind uint8
+
+// The piece shapes.
+const (
+	Line PieceKind = PieceKind(segLine) // straight from (R0, Z0) to (R1, Z1)
+	Arc  PieceKind = PieceKind(segArc)  // (Rc + Rad·cos a, Zc + Rad·sin a), a from A0 to A1
+	Sine PieceKind = PieceKind(segSine) // r = Rc − Rad·cos θ, z = Zc·θ, θ from A0 to A1
+)
+
+// Piece is one smooth piece of a meridian, for models that mesh the same
+// centreline in their own way (package fecheck).
+type Piece struct {
+	Kind           PieceKind
+	R0, Z0, R1, Z1 float64
+	Rc, Zc, Rad    float64
+	A0, A1         float64
+}
+
+// Pieces returns the meridian's pieces from the root apex to the crown apex.
+func (m *Meridian) Pieces() []Piece {
+	out := make([]Piece, m.n)
+	for i := range out {
+		s := m.seg[i]
+		out[i] = Piece{Kind: PieceKind(s.kind), R0: s.r0, Z0: s.z0, R1: s.r1, Z1: s.z1,
+			Rc: s.rc, Zc: s.zc, Rad: s.rad, A0: s.a0, A1: s.a1}
+	}
+	return out
+}
+
 // point returns the centreline point at parameter u ∈ [0, 1] of the
 // segment (uniform in length for lines, angle for arcs, θ for sines).
 func (s *segment) point(u float64) (r, z float64) {

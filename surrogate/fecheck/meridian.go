@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"plica/surrogate"
+	"plica/surrogate/convolution"
 )
 
 // piece is one smooth piece of a wall centreline in the (r, z) half-plane:
@@ -77,52 +78,24 @@ type wall struct {
 }
 
 // halfPieces returns the centreline of half a convolution, root apex at
-// z = 0 to crown apex at z = q/2, from the geometry conventions of
-// surrogate.Geometry: root centreline at Rm − w/2, crown at Rm + w/2;
-// sinusoid r = Rm − (w/2)cos(2πz/q); U: crown and root arcs of radius rm
-// (0 → q/4) with radial flanks and, when rm < q/4, axial flats of
-// q/4 − rm at the apexes; trapezoid: flats of FlatFraction·q/4 at the
-// apexes joined by a straight flank.
+// z = 0 to crown apex at z = q/2: the surrogate's own meridian
+// (surrogate.Geometry.HalfMeridian), so the FE model meshes exactly the
+// wall the surrogate integrates.
 func halfPieces(g surrogate.Geometry) []piece {
-	rm := g.MeanRadius()
-	w, q := g.Depth, g.Pitch
-	rRoot, rCrown := rm-w/2, rm+w/2
-	const tiny = 1e-12
+	m := g.HalfMeridian()
 	var ps []piece
-	switch g.Profile {
-	case surrogate.Sinusoid:
-		ps = append(ps, piece{kind: pieceSine, rc: rm, rad: w / 2, lam: q / (2 * math.Pi), a0: 0, a1: math.Pi})
-	case surrogate.UShape:
-		rc := g.CrestRadius
-		if rc == 0 {
-			rc = q / 4
+	for _, c := range m.Pieces() {
+		p := piece{r0: c.R0, z0: c.Z0, r1: c.R1, z1: c.Z1, rc: c.Rc, zc: c.Zc, rad: c.Rad, a0: c.A0, a1: c.A1}
+		switch c.Kind {
+		case convolution.Line:
+			p.kind = pieceLine
+		case convolution.Arc:
+			p.kind = pieceArc
+		case convolution.Sine:
+			// convolution's z = Zc·θ is this piece's z = zc + lam·θ with zc = 0.
+			p.kind, p.lam, p.zc = pieceSine, c.Zc, 0
 		}
-		h := q/4 - rc
-		if h < tiny*q {
-			h = 0
-		}
-		if h > 0 {
-			ps = append(ps, piece{kind: pieceLine, r0: rRoot, z0: 0, r1: rRoot, z1: h})
-		}
-		ps = append(ps, piece{kind: pieceArc, rc: rRoot + rc, zc: h, rad: rc, a0: math.Pi, a1: math.Pi / 2})
-		if rCrown-rc-(rRoot+rc) > tiny*w {
-			ps = append(ps, piece{kind: pieceLine, r0: rRoot + rc, z0: h + rc, r1: rCrown - rc, z1: h + rc})
-		}
-		ps = append(ps, piece{kind: pieceArc, rc: rCrown - rc, zc: q/2 - h, rad: rc, a0: -math.Pi / 2, a1: 0})
-		if h > 0 {
-			ps = append(ps, piece{kind: pieceLine, r0: rCrown, z0: q/2 - h, r1: rCrown, z1: q / 2})
-		}
-	case surrogate.Trapezoid:
-		h := g.FlatFraction * q / 4
-		if h > tiny*q {
-			ps = append(ps, piece{kind: pieceLine, r0: rRoot, z0: 0, r1: rRoot, z1: h})
-		} else {
-			h = 0
-		}
-		ps = append(ps, piece{kind: pieceLine, r0: rRoot, z0: h, r1: rCrown, z1: q/2 - h})
-		if h > 0 {
-			ps = append(ps, piece{kind: pieceLine, r0: rCrown, z0: q/2 - h, r1: rCrown, z1: q / 2})
-		}
+		ps = append(ps, p)
 	}
 	return ps
 }
