@@ -6,8 +6,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"os"
-	"path/filepath"
 
 	"plica/surrogate/solid"
 )
@@ -226,30 +224,9 @@ func solveRing(ctx context.Context, dir string, s *ringSpec, title string, opt O
 	if err != nil {
 		return nil, err
 	}
-	if err := writeScratch(filepath.Join(dir, "ring.inp"), func(w io.Writer) error { return writeRingDeck(w, m, title) }); err != nil {
-		return nil, err
-	}
-	dur, err := runCCX(ctx, opt.CCX, dir, "ring", opt.Threads, nil)
+	blocks, frd, dur, err := runJob(ctx, dir, "ring", func(w io.Writer) error { return writeRingDeck(w, m, title) }, opt, nil)
 	if err != nil {
 		return nil, err
-	}
-	df, err := os.Open(filepath.Join(dir, "ring.dat"))
-	if err != nil {
-		return nil, err
-	}
-	blocks, err := readDat(df)
-	df.Close()
-	if err != nil {
-		return nil, fmt.Errorf("ring.dat: %w", err)
-	}
-	ff, err := os.Open(filepath.Join(dir, "ring.frd"))
-	if err != nil {
-		return nil, err
-	}
-	frd, err := readFrd(ff)
-	ff.Close()
-	if err != nil {
-		return nil, fmt.Errorf("ring.frd: %w", err)
 	}
 	var forces []datBlock
 	for _, b := range blocks {

@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"time"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -50,34 +51,46 @@ func fitRing(m *shellMesh, ids []int, u map[int][3]float64) (ringMotion, error) 
 	return ringMotion{a: cz.AtVec(0), thx: cz.AtVec(1), thy: cz.AtVec(2), thz: cxy.AtVec(2)}, nil
 }
 
-// solveShell writes and runs the shell deck in dir and extracts the
-// section properties (see REFERENCE.md).
-func solveShell(ctx context.Context, dir string, s *shellSpec, title string, opt Options) (*ShellResult, error) {
-	m := s.build()
-	if err := writeScratch(filepath.Join(dir, "shell.inp"), func(w io.Writer) error { return writeShellDeck(w, m, title) }); err != nil {
-		return nil, err
+// runJob writes the deck JOB.inp into the private folder dir, runs ccx on
+// it and reads back JOB.dat (printed node and force sets) and JOB.frd
+// (nodal strains).
+func runJob(ctx context.Context, dir, job string, deck func(io.Writer) error, opt Options, onLine func(string)) ([]datBlock, *frdResult, time.Duration, error) {
+	if err := writeScratch(filepath.Join(dir, job+".inp"), deck); err != nil {
+		return nil, nil, 0, err
 	}
-	dur, err := runCCX(ctx, opt.CCX, dir, "shell", opt.Threads, opt.steps("shell", shellCaseNames()))
+	dur, err := runCCX(ctx, opt.CCX, dir, job, opt.Threads, onLine)
 	if err != nil {
-		return nil, err
+		return nil, nil, 0, err
 	}
-	df, err := os.Open(filepath.Join(dir, "shell.dat"))
+	df, err := os.Open(filepath.Join(dir, job+".dat"))
 	if err != nil {
-		return nil, err
+		return nil, nil, 0, err
 	}
 	blocks, err := readDat(df)
 	df.Close()
 	if err != nil {
-		return nil, fmt.Errorf("shell.dat: %w", err)
+		return nil, nil, 0, fmt.Errorf("%s.dat: %w", job, err)
 	}
-	ff, err := os.Open(filepath.Join(dir, "shell.frd"))
+	ff, err := os.Open(filepath.Join(dir, job+".frd"))
 	if err != nil {
-		return nil, err
+		return nil, nil, 0, err
 	}
 	frd, err := readFrd(ff)
 	ff.Close()
 	if err != nil {
-		return nil, fmt.Errorf("shell.frd: %w", err)
+		return nil, nil, 0, fmt.Errorf("%s.frd: %w", job, err)
+	}
+	return blocks, frd, dur, nil
+}
+
+// solveShell writes and runs the shell deck in dir and extracts the
+// section properties (see REFERENCE.md).
+func solveShell(ctx context.Context, dir string, s *shellSpec, title string, opt Options) (*ShellResult, error) {
+	m := s.build()
+	blocks, frd, dur, err := runJob(ctx, dir, "shell", func(w io.Writer) error { return writeShellDeck(w, m, title) },
+		opt, opt.steps("shell", shellCaseNames()))
+	if err != nil {
+		return nil, err
 	}
 	r, err := extractShell(m, blocks, frd)
 	if err != nil {
@@ -267,30 +280,10 @@ func (m *shellMesh) peakStrain(surf []surfNode, strain map[int][6]float64) float
 // extension of the pitch.
 func solveSolid(ctx context.Context, dir string, s *axiSpec, title string, opt Options) (*SolidResult, error) {
 	m := s.build()
-	if err := writeScratch(filepath.Join(dir, "solid.inp"), func(w io.Writer) error { return writeAxiDeck(w, m, title) }); err != nil {
-		return nil, err
-	}
-	dur, err := runCCX(ctx, opt.CCX, dir, "solid", opt.Threads, opt.steps("solid", []string{"axial extension"}))
+	blocks, frd, dur, err := runJob(ctx, dir, "solid", func(w io.Writer) error { return writeAxiDeck(w, m, title) },
+		opt, opt.steps("solid", []string{"axial extension"}))
 	if err != nil {
 		return nil, err
-	}
-	df, err := os.Open(filepath.Join(dir, "solid.dat"))
-	if err != nil {
-		return nil, err
-	}
-	blocks, err := readDat(df)
-	df.Close()
-	if err != nil {
-		return nil, fmt.Errorf("solid.dat: %w", err)
-	}
-	ff, err := os.Open(filepath.Join(dir, "solid.frd"))
-	if err != nil {
-		return nil, err
-	}
-	frd, err := readFrd(ff)
-	ff.Close()
-	if err != nil {
-		return nil, fmt.Errorf("solid.frd: %w", err)
 	}
 	r, err := extractSolid(m, blocks, frd)
 	if err != nil {
