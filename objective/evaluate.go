@@ -118,11 +118,13 @@ type evaluator struct {
 	st                 []Stiffness
 	payload            float64 // kg
 	strainPerCurvature []float64
-	nodes              []complianceNode
-	compliancePoints   int // 0: defaultCompliancePoints
-	shapes             []*shape
-	solver             *kinematics.Solver
-	linkBuf            []kinematics.Link
+	nodes              []gaussNode
+	pieces             []gaussPiece
+	// fine makes the workspace compliance use fineRule instead of rankRule.
+	fine    bool
+	shapes  []*shape
+	solver  *kinematics.Solver
+	linkBuf []kinematics.Link
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)

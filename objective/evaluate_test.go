@@ -125,7 +125,7 @@ func TestComplianceCantilever(t *testing.T) {
 	d := &Design{Bellows: []Bellows{measuredBellows(L, 0, 0, EI, 20, mpl)}}
 	robot, st, err := d.Robot()
 	require.NoError(t, err)
-	e := &evaluator{d: d, robot: robot, st: st, payload: mp, strainPerCurvature: make([]float64, 1), compliancePoints: 200}
+	e := &evaluator{d: d, robot: robot, st: st, payload: mp, strainPerCurvature: make([]float64, 1), fine: true}
 	sh, err := e.evalShape(kinematics.Actuation{Theta: []float64{0}, Beta: []float64{0}})
 	require.NoError(t, err)
 	want := mp*L*L*L/(3*EI) + mpl*L*L*L*L/(8*EI)
@@ -144,7 +144,7 @@ func TestComplianceMatchesLinearEstimate(t *testing.T) {
 	}}
 	robot, st, err := d.Robot()
 	require.NoError(t, err)
-	e := &evaluator{d: d, robot: robot, st: st, payload: 0.05, strainPerCurvature: make([]float64, 2), compliancePoints: 200}
+	e := &evaluator{d: d, robot: robot, st: st, payload: 0.05, strainPerCurvature: make([]float64, 2), fine: true}
 	a := kinematics.Actuation{Theta: []float64{0.7, -0.4}, Beta: []float64{0, 0}}
 	sh, err := e.evalShape(a)
 	require.NoError(t, err)

@@ -104,10 +104,9 @@ func (e *evaluator) sag(res *Result) error {
 	}
 	sc.TipSag = sag
 	sc.SagIterations = loaded.Iterations + free.Iterations
-	// Linear estimate at the same configuration: the compliance on a fine
-	// grid (objective/statics/REFERENCE.md §3).
-	fine := &evaluator{robot: e.robot, payload: e.payload, compliancePoints: 200}
-	C := fine.compliance(links)
+	// Linear estimate at the same configuration: the compliance with the
+	// fine rule (objective/statics/REFERENCE.md §3).
+	C := e.compliance(links, &fineRule)
 	var dp [3]float64
 	for i := range 3 {
 		dp[i] = C[i][0]*g[0] + C[i][1]*g[1] + C[i][2]*g[2]

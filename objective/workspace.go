@@ -245,7 +245,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 	}
 	sh.tip = tip
-	sh.comp = e.compliance(links)
+	sh.comp = e.compliance(links, e.rule())
 	if what := sh.nonFinite(); what != "" {
 		return nil, nonFinite(what + " at angles " + degList(a.Theta))
 	}
@@ -283,106 +283,170 @@ func (sh *shape) nonFinite() string {
 // (objective/statics/REFERENCE.md §3, derived). With a(s) = m_p (p_L − p(s)) + ∫_s^L m'(σ)(p(σ) −
 // p(s)) dσ the bending moment is M(s) = a(s) × g, the curvature change is
 // Δu = K⁻¹ Rᵀ M, and δp_tip = ∫ (R Δu) × (p_L − p(s)) ds, so
-// C = −∫ [c]× R K⁻¹ Rᵀ [a]× ds with c = p_L − p(s). Trapezoid rule on
-// nodes at most L/compliancePoints apart, with every link boundary a node.
-func (e *evaluator) compliance(links []kinematics.Link) [3][3]float64 {
+// C = −∫ [c]× R K⁻¹ Rᵀ [a]× ds with c = p_L − p(s).
+//
+// Per link the curvature, stiffness and mass are constant, so the
+// integrand is smooth there and jumps only at link ends. Each link is cut
+// into pieces of equal length turning at most rule.maxAngle, and the outer
+// integral uses the Gauss–Legendre rule of rule on each piece; the inner
+// integral ∫ m' p of a(s) is exact, from the closed-form position integral
+// of kinematics.LinkTransformIntegral. The node offsets inside a piece are
+// the same for every piece of a link and are computed once per link.
+func (e *evaluator) compliance(links []kinematics.Link, rule *gaussRule) [3][3]float64 {
 	if len(links) == 0 {
 		return [3][3]float64{}
 	}
-	L := links[len(links)-1].End
+	G := len(rule.x)
 	nodes := e.nodes[:0]
+	pieces := e.pieces[:0]
 	pose := kinematics.Identity()
-	sPos := 0.0
+	var off [gaussMax]kinematics.Pose
+	var offJ [gaussMax][3]float64
 	for _, l := range links {
 		ll := l.End - l.Start
-		m := int(math.Ceil(ll / L * float64(e.points())))
-		if m < 2 {
-			m = 2
+		if !(ll > 0) {
+			continue
+		}
+		k := math.Sqrt(l.U[0]*l.U[0] + l.U[1]*l.U[1] + l.U[2]*l.U[2])
+		m := 1
+		if turn := k * ll / rule.maxAngle; turn > 1 {
+			m = int(math.Ceil(turn))
 		}
 		h := ll / float64(m)
-		step := kinematics.LinkTransform(l.U, h)
-		kinv, _ := statics.InvertSPD(l.K) // Links checked K
-		for j := 0; j < m; j++ {
-			nd := complianceNode{s: sPos, p: pose.P, w: h, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)}
-			if j == 0 {
-				nd.w = h / 2
-			}
-			nodes = append(nodes, nd)
-			pose = pose.Mul(step)
-			sPos += h
+		for g := range G {
+			off[g], offJ[g] = kinematics.LinkTransformIntegral(l.U, 0.5*h*(1+rule.x[g]))
 		}
-		// The link's end node carries the other half weight. The next
-		// link starts with a node at the same point but with that link's
-		// stiffness: the integrand jumps there.
-		sPos = l.End
-		nodes = append(nodes, complianceNode{s: sPos, p: pose.P, w: h / 2, mpl: l.MassPerLength, kin: rkr(pose.R, kinv)})
+		step, stepJ := kinematics.LinkTransformIntegral(l.U, h)
+		kinv, _ := statics.InvertSPD(l.K) // Links checked K
+		for range m {
+			// ∫ p over the piece = p0 h + R0 J(h)
+			pc := gaussPiece{mpl: l.MassPerLength, h: h, first: len(nodes)}
+			pc.ip = pieceIntegral(&pose, h, stepJ)
+			for g := range G {
+				t := 0.5 * h * (1 + rule.x[g])
+				np := pose.Mul(off[g])
+				nodes = append(nodes, gaussNode{
+					p:   np.P,
+					kin: rkr(np.R, kinv),
+					w:   0.5 * h * rule.w[g],
+					t:   t,
+					ip:  pieceIntegral(&pose, t, offJ[g]),
+				})
+			}
+			pieces = append(pieces, pc)
+			pose = pose.Mul(step)
+		}
 	}
-	e.nodes = nodes
+	e.nodes, e.pieces = nodes, pieces
 	pL := pose.P
-	// a(s) by backward accumulation: W = ∫_s^L m', Q = ∫_s^L m' p.
+	// a(s) by backward accumulation over the pieces: W = ∫_s^L m', Q = ∫_s^L m' p.
 	var C [3][3]float64
 	W := 0.0
 	var Q [3]float64
 	mp := e.payload
-	for k := len(nodes) - 1; k >= 0; k-- {
-		nd := &nodes[k]
-		if k < len(nodes)-1 {
-			nx := &nodes[k+1]
-			if h := nx.s - nd.s; h > 0 {
-				m := nd.mpl
-				W += m * h
-				for i := range 3 {
-					Q[i] += m * h * (nx.p[i] + nd.p[i]) / 2
-				}
+	for pi := len(pieces) - 1; pi >= 0; pi-- {
+		pc := &pieces[pi]
+		m := pc.mpl
+		for gi := pc.first; gi < pc.first+G; gi++ {
+			nd := &nodes[gi]
+			Wn := W + m*(pc.h-nd.t)
+			var a, c [3]float64
+			for i := range 3 {
+				c[i] = pL[i] - nd.p[i]
+				a[i] = mp*c[i] + Q[i] + m*(pc.ip[i]-nd.ip[i]) - Wn*nd.p[i]
 			}
+			addNode(&C, nd.w, &nd.kin, &a, &c)
 		}
-		var a, c [3]float64
+		W += m * pc.h
 		for i := range 3 {
-			c[i] = pL[i] - nd.p[i]
-			a[i] = mp*c[i] + Q[i] - W*nd.p[i]
-		}
-		// C += −w [c]× KIN [a]×, with the skew products written out.
-		var t1 [3][3]float64
-		for i := range 3 {
-			k := &nd.kin[i]
-			// row i of KIN·[a]×
-			t1[i][0] = k[1]*a[2] - k[2]*a[1]
-			t1[i][1] = k[2]*a[0] - k[0]*a[2]
-			t1[i][2] = k[0]*a[1] - k[1]*a[0]
-		}
-		w := nd.w
-		for j := range 3 {
-			// column j of [c]×·t1
-			C[0][j] -= w * (c[1]*t1[2][j] - c[2]*t1[1][j])
-			C[1][j] -= w * (c[2]*t1[0][j] - c[0]*t1[2][j])
-			C[2][j] -= w * (c[0]*t1[1][j] - c[1]*t1[0][j])
+			Q[i] += m * pc.ip[i]
 		}
 	}
 	return C
 }
 
-// complianceNode is one trapezoid node of the compliance integral.
-type complianceNode struct {
-	s   float64
-	p   [3]float64
-	kin [3][3]float64 // R K⁻¹ Rᵀ
-	w   float64       // trapezoid weight
-	mpl float64       // mass per length on the segment after the node
+// pieceIntegral is ∫₀ᵗ p = p0 t + R0 J(t) for a piece starting at pose.
+func pieceIntegral(pose *kinematics.Pose, t float64, J [3]float64) [3]float64 {
+	var out [3]float64
+	for i := range 3 {
+		r := &pose.R[i]
+		out[i] = pose.P[i]*t + r[0]*J[0] + r[1]*J[1] + r[2]*J[2]
+	}
+	return out
 }
 
-// defaultCompliancePoints is the number of trapezoid intervals over the
-// whole length for the linear compliance used to find the worst sag
-// configuration. The rule is second order: about 1e-3 relative at 32
-// intervals and 1e-4 at 200 (derived from the Roark cantilever check in
-// the tests). The reported sag comes from the exact rod model, so this only
-// has to rank configurations.
-const defaultCompliancePoints = 32
-
-func (e *evaluator) points() int {
-	if e.compliancePoints > 0 {
-		return e.compliancePoints
+// addNode adds −w [c]× KIN [a]× to C, with the skew products written out.
+func addNode(C *[3][3]float64, w float64, kin *[3][3]float64, a, c *[3]float64) {
+	var t1 [3][3]float64
+	for i := range 3 {
+		k := &kin[i]
+		// row i of KIN·[a]×
+		t1[i][0] = k[1]*a[2] - k[2]*a[1]
+		t1[i][1] = k[2]*a[0] - k[0]*a[2]
+		t1[i][2] = k[0]*a[1] - k[1]*a[0]
 	}
-	return defaultCompliancePoints
+	for j := range 3 {
+		// column j of [c]×·t1
+		C[0][j] -= w * (c[1]*t1[2][j] - c[2]*t1[1][j])
+		C[1][j] -= w * (c[2]*t1[0][j] - c[0]*t1[2][j])
+		C[2][j] -= w * (c[0]*t1[1][j] - c[1]*t1[0][j])
+	}
+}
+
+// gaussNode is one Gauss–Legendre node of the compliance integral.
+type gaussNode struct {
+	p   [3]float64
+	kin [3][3]float64 // R K⁻¹ Rᵀ
+	w   float64       // weight, m
+	t   float64       // arc length from the start of its piece, m
+	ip  [3]float64    // ∫ p from the start of its piece to the node, m²
+}
+
+// gaussPiece is one piece of a link: constant mass per length over h.
+type gaussPiece struct {
+	mpl   float64    // kg/m
+	h     float64    // length, m
+	ip    [3]float64 // ∫ p over the piece, m²
+	first int        // index of its first node
+}
+
+// gaussRule is a Gauss–Legendre rule on [−1, 1] and the largest turning
+// angle of a piece it is applied to.
+type gaussRule struct {
+	x, w     []float64
+	maxAngle float64 // rad
+}
+
+const gaussMax = 5
+
+// Gauss–Legendre nodes and weights on [−1, 1] (Abramowitz & Stegun,
+// Handbook of Mathematical Functions, 1964, Table 25.4).
+var (
+	// rankRule ranks the sampled shapes for the worst sag: 3 nodes, pieces
+	// turning at most 1 rad; within 1e-6 relative of the exact integral
+	// on the tests' shapes (objective/REFERENCE.md §4).
+	rankRule = gaussRule{
+		x:        []float64{-0.774596669241483377035853079956, 0, 0.774596669241483377035853079956},
+		w:        []float64{0.555555555555555555555555555556, 0.888888888888888888888888888889, 0.555555555555555555555555555556},
+		maxAngle: 1,
+	}
+	// fineRule gives tip_sag_linear: 5 nodes, pieces turning at most
+	// 0.5 rad; within 1e-10 relative of the exact integral.
+	fineRule = gaussRule{
+		x: []float64{-0.906179845938663992797626878299, -0.538469310105683091036314420700, 0,
+			0.538469310105683091036314420700, 0.906179845938663992797626878299},
+		w: []float64{0.236926885056189087514264040720, 0.478628670499366468041291514836, 0.568888888888888888888888888889,
+			0.478628670499366468041291514836, 0.236926885056189087514264040720},
+		maxAngle: 0.5,
+	}
+)
+
+// rule is the quadrature rule of the workspace compliance.
+func (e *evaluator) rule() *gaussRule {
+	if e.fine {
+		return &fineRule
+	}
+	return &rankRule
 }
 
 // rkr returns R K⁻¹ Rᵀ for a symmetric K⁻¹ (the result is symmetric).
