@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 
 	"plica/objective/kinematics"
 )
@@ -121,10 +122,13 @@ type evaluator struct {
 	nodes              []gaussNode
 	pieces             []gaussPiece
 	// fine makes the workspace compliance use fineRule instead of rankRule.
-	fine    bool
-	shapes  []*shape
-	solver  *kinematics.Solver
-	linkBuf []kinematics.Link
+	fine       bool
+	shapes     []*shape
+	slab       []shape   // storage of shapes (newShape)
+	strainSlab []float64 // storage of their strains
+	shapePtrs  []*shape  // storage of the list of shapes
+	solver     *kinematics.Solver
+	linkBuf    []kinematics.Link
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -196,6 +200,8 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 		sc = &Scenario{}
 	}
 	e := &evaluator{d: d, sc: sc, payload: sc.Load.PayloadMass, ctx: ctx, progress: progress}
+	e.takeScratch()
+	defer e.putScratch()
 	defer func() {
 		if r := recover(); r != nil {
 			res, err = nil, &InternalError{Stage: e.stage, Value: r}
@@ -236,6 +242,33 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 		return nil, err
 	}
 	return res, nil
+}
+
+// scratch is the storage an evaluation reuses from the one before it, so
+// that a search does not allocate per sample: shape and compliance
+// buffers. Nothing of it is part of a Result.
+type scratch struct {
+	nodes      []gaussNode
+	pieces     []gaussPiece
+	slab       []shape
+	strainSlab []float64
+	shapePtrs  []*shape
+	linkBuf    []kinematics.Link
+}
+
+var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
+
+func (e *evaluator) takeScratch() {
+	s := scratchPool.Get().(*scratch)
+	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
+}
+
+func (e *evaluator) putScratch() {
+	clear(e.shapePtrs[:cap(e.shapePtrs)])
+	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
+	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
+		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0]})
+	e.shapes = nil
 }
 
 // enter starts a stage.
@@ -279,7 +312,11 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	p := plan(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
-	shapes := make([]*shape, 0, len(p.acts))
+	e.reserve(len(p.acts))
+	if cap(e.shapePtrs) < len(p.acts) {
+		e.shapePtrs = make([]*shape, 0, len(p.acts))
+	}
+	shapes := e.shapePtrs[:0]
 	for k, a := range p.acts {
 		if err := e.tick(k, len(p.acts)); err != nil {
 			return err

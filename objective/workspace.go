@@ -161,7 +161,9 @@ func WorkspaceTips(robot *kinematics.Robot, w Workspace) ([][3]float64, error) {
 	n := len(robot.Tubes)
 	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n)}
 	var tips [][3]float64
-	for _, a := range plan(n, w).acts {
+	acts := plan(n, w).acts
+	e.reserve(len(acts))
+	for _, a := range acts {
 		sh, err := e.evalShape(a)
 		if err != nil {
 			return nil, err
@@ -221,7 +223,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 		return nil, err
 	}
-	sh := &shape{act: a, strain: make([]float64, len(e.robot.Tubes))}
+	sh := e.newShape(a)
 	tip := kinematics.Identity()
 	for _, l := range links {
 		tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
@@ -250,6 +252,40 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		return nil, nonFinite(what + " at angles " + degList(a.Theta))
 	}
 	return sh, nil
+}
+
+// newShape returns a zeroed shape for actuation a, from the evaluator's
+// slab while it has room (workspace sizes it to the plan), so a sweep does
+// not allocate per sample.
+func (e *evaluator) newShape(a kinematics.Actuation) *shape {
+	n := len(e.robot.Tubes)
+	if len(e.slab) < cap(e.slab) && len(e.strainSlab)+n <= cap(e.strainSlab) {
+		e.slab = e.slab[:len(e.slab)+1]
+		sh := &e.slab[len(e.slab)-1]
+		k := len(e.strainSlab)
+		e.strainSlab = e.strainSlab[:k+n]
+		strain := e.strainSlab[k : k+n : k+n]
+		clear(strain)
+		*sh = shape{act: a, strain: strain}
+		return sh
+	}
+	return &shape{act: a, strain: make([]float64, n)}
+}
+
+// reserve makes room in the slab for count shapes; shapes handed out
+// before stay valid (the slab is replaced, not grown in place).
+func (e *evaluator) reserve(count int) {
+	n := len(e.robot.Tubes)
+	if cap(e.slab) < count {
+		e.slab = make([]shape, 0, count)
+	} else {
+		e.slab = e.slab[:0]
+	}
+	if cap(e.strainSlab) < count*n {
+		e.strainSlab = make([]float64, 0, count*n)
+	} else {
+		e.strainSlab = e.strainSlab[:0]
+	}
 }
 
 // nonFinite names the first non-finite quantity of a shape, "" if none.
