@@ -51,8 +51,8 @@ func ExampleRobotTipSag() {
 		fmt.Println(err)
 		return
 	}
-	fmt.Printf("tip sag %.3f mm; base force %.4f N along x; %d Newton iterations\n",
-		sag*1e3, shape.BaseForce[0], shape.Iterations)
+	fmt.Printf("tip sag %.3f mm; base force %.4f N along x; %d Newton iterations, %d integrations\n",
+		sag*1e3, shape.BaseForce[0], shape.Iterations, shape.Integrations)
 	// Output:
-	// tip sag 4.113 mm; base force -0.0736 N along x; 2 Newton iterations
+	// tip sag 4.113 mm; base force -0.0736 N along x; 3 Newton iterations, 5 integrations
 }

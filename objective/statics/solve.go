@@ -47,6 +47,18 @@ func (r *rod) newton(n, m [3]float64, dim int, cfg solveConfig) result {
 	lambda := 1e-3
 	fresh := false // J is a difference Jacobian at the current x
 	haveJ := false
+	if dim == 3 {
+		// Warm start of the dead-load shortcut: the residual m(L) − M_tip
+		// moves one for one with m(0) while the shape does not change
+		// (the rigid-rod limit, ∂m(L)/∂m(0) = I in the scaled unknowns),
+		// so the first steps are quasi-Newton from J = I, updated by
+		// Broyden; a step that does not lower the residual falls back to
+		// the difference Jacobian below.
+		for i := range 3 {
+			J[i][i] = 1
+		}
+		haveJ = true
+	}
 	slow := 0
 	for nr >= cfg.tol {
 		if res.iters >= cfg.maxIter {
