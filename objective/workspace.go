@@ -1,9 +1,12 @@
 package objective
 
 import (
+	"encoding/binary"
 	"errors"
 	"fmt"
 	"math"
+	"sync"
+	"sync/atomic"
 
 	"plica/objective/kinematics"
 
@@ -61,7 +64,48 @@ func defaults(w Workspace) Workspace {
 // w.Samples points, otherwise a Halton low-discrepancy set of w.Samples
 // points (Halton, Numer. Math. 2, 1960: radical inverses in the first
 // primes).
+//
+// Plans are cached by (n, w): a search evaluates every candidate on the
+// same workspace. The actuations of a plan are shared and must not be
+// modified.
 func plan(n int, w Workspace) samplePlan {
+	key := planKey(n, w)
+	if p, ok := planCache.Load(key); ok {
+		return p.(samplePlan)
+	}
+	p := buildPlan(n, w)
+	if planCount.Add(1) > planCacheMax {
+		planCache.Clear()
+		planCount.Store(1)
+	}
+	planCache.Store(key, p)
+	return p
+}
+
+var (
+	planCache sync.Map // planKey → samplePlan
+	planCount atomic.Int64
+)
+
+// planCacheMax bounds the cached plans (one per workspace and bellows count).
+const planCacheMax = 64
+
+// planKey encodes everything plan depends on.
+func planKey(n int, w Workspace) string {
+	b := make([]byte, 0, 48+16*len(w.Insertion))
+	for _, v := range []int{n, w.RelativeSteps, w.BaseSteps, w.InsertionSteps, w.Samples} {
+		b = binary.LittleEndian.AppendUint64(b, uint64(v))
+	}
+	b = binary.LittleEndian.AppendUint64(b, math.Float64bits(w.VoxelSize))
+	for _, r := range w.Insertion {
+		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(r[0]))
+		b = binary.LittleEndian.AppendUint64(b, math.Float64bits(r[1]))
+	}
+	return string(b)
+}
+
+// buildPlan is plan without the cache.
+func buildPlan(n int, w Workspace) samplePlan {
 	var dims []int // grid sizes per dimension
 	var kinds []int
 	const rel, ins = 0, 1
