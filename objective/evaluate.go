@@ -127,6 +127,8 @@ type evaluator struct {
 	slab       []shape   // storage of shapes (newShape)
 	strainSlab []float64 // storage of their strains
 	shapePtrs  []*shape  // storage of the list of shapes
+	voxels     []uint64  // bitset of voxelVolume, all zero between uses
+	touched    []int32   // words of voxels set during one count
 	solver     *kinematics.Solver
 	linkBuf    []kinematics.Link
 
@@ -254,6 +256,8 @@ type scratch struct {
 	strainSlab []float64
 	shapePtrs  []*shape
 	linkBuf    []kinematics.Link
+	voxels     []uint64
+	touched    []int32
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -261,13 +265,14 @@ var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
+	e.voxels, e.touched = s.voxels, s.touched
 }
 
 func (e *evaluator) putScratch() {
 	clear(e.shapePtrs[:cap(e.shapePtrs)])
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
-		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0]})
+		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0]})
 	e.shapes = nil
 }
 
@@ -400,20 +405,96 @@ func revolvedArea(shapes []*shape) float64 {
 }
 
 // voxelVolume counts the voxels of edge h that hold at least one tip
-// sample, over the shapes and baseSteps common rotations.
+// sample, over the shapes and baseSteps common rotations. The voxels are
+// bits of a box around the base axis that holds every turned tip (radius
+// the largest tip distance from the axis, height the tips' z range, one
+// voxel of margin); a box too large for memory, or a tip outside it,
+// falls back to a hash set. Both count exactly the voxels of
+// voxelKey (tested against each other).
 func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (float64, error) {
+	sins, coss := baseTable(baseSteps)
+	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
+	for _, sh := range shapes {
+		p := sh.tip.P
+		rho = math.Max(rho, math.Hypot(p[0], p[1]))
+		zlo, zhi = math.Min(zlo, p[2]), math.Max(zhi, p[2])
+	}
+	x0 := int64(math.Floor(-rho/h)) - 1
+	x1 := int64(math.Floor(rho/h)) + 1
+	z0 := int64(math.Floor(zlo/h)) - 1
+	z1 := int64(math.Floor(zhi/h)) + 1
+	nx, nz := x1-x0+1, z1-z0+1
+	if nx > 0 && nz > 0 && nx <= 1<<16 && nz <= 1<<16 && nx*nx*nz <= maxVoxelBits {
+		words := (nx*nx*nz + 63) / 64
+		if int64(cap(e.voxels)) < words {
+			e.voxels = make([]uint64, words)
+		}
+		bits := e.voxels[:words]
+		e.touched = e.touched[:0]
+		count := 0
+		inside := true
+	loop:
+		for k, sh := range shapes {
+			if err := e.tick(k, len(shapes)); err != nil {
+				e.clearVoxels(bits)
+				return 0, err
+			}
+			p := sh.tip.P
+			for j := range baseSteps {
+				key := voxelKey(turnedBy(p, sins[j], coss[j]), h)
+				ix, iy, iz := int64(key[0])-x0, int64(key[1])-x0, int64(key[2])-z0
+				if ix < 0 || ix >= nx || iy < 0 || iy >= nx || iz < 0 || iz >= nz {
+					inside = false
+					break loop
+				}
+				i := ix + nx*(iy+nx*iz)
+				w, b := i>>6, uint64(1)<<(i&63)
+				if bits[w]&b == 0 {
+					if bits[w] == 0 {
+						e.touched = append(e.touched, int32(w))
+					}
+					bits[w] |= b
+					count++
+				}
+			}
+		}
+		e.clearVoxels(bits)
+		if inside {
+			return float64(count) * h * h * h, nil
+		}
+	}
+	return voxelVolumeMap(shapes, baseSteps, h, e.tick)
+}
+
+// maxVoxelBits bounds the bitset of voxelVolume (8 MiB).
+const maxVoxelBits = 1 << 26
+
+// clearVoxels zeroes the words voxelVolume set.
+func (e *evaluator) clearVoxels(bits []uint64) {
+	for _, w := range e.touched {
+		bits[w] = 0
+	}
+	e.touched = e.touched[:0]
+}
+
+// voxelVolumeMap is voxelVolume with a hash set of voxel keys.
+func voxelVolumeMap(shapes []*shape, baseSteps int, h float64, tick func(k, total int) error) (float64, error) {
+	sins, coss := baseTable(baseSteps)
 	occupied := make(map[[3]int32]struct{})
 	for k, sh := range shapes {
-		if err := e.tick(k, len(shapes)); err != nil {
+		if err := tick(k, len(shapes)); err != nil {
 			return 0, err
 		}
-		for j := 0; j < baseSteps; j++ {
-			p := turned(sh.tip.P, j, baseSteps)
-			key := [3]int32{int32(math.Floor(p[0] / h)), int32(math.Floor(p[1] / h)), int32(math.Floor(p[2] / h))}
-			occupied[key] = struct{}{}
+		for j := range baseSteps {
+			occupied[voxelKey(turnedBy(sh.tip.P, sins[j], coss[j]), h)] = struct{}{}
 		}
 	}
 	return float64(len(occupied)) * h * h * h, nil
+}
+
+// voxelKey is the voxel of edge h holding p.
+func voxelKey(p [3]float64, h float64) [3]int32 {
+	return [3]int32{int32(math.Floor(p[0] / h)), int32(math.Floor(p[1] / h)), int32(math.Floor(p[2] / h))}
 }
 
 // tasks decides for every task point whether some actuation reaches it.

@@ -229,8 +229,31 @@ func WorkspaceTips(robot *kinematics.Robot, w Workspace) ([][3]float64, error) {
 // rotations over a full turn.
 func turned(p [3]float64, j, steps int) [3]float64 {
 	s, c := math.Sincos(2 * math.Pi * float64(j) / float64(steps))
+	return turnedBy(p, s, c)
+}
+
+// turnedBy is p turned about the base z axis by the angle of sine s and
+// cosine c.
+func turnedBy(p [3]float64, s, c float64) [3]float64 {
 	return [3]float64{c*p[0] - s*p[1], s*p[0] + c*p[1], p[2]}
 }
+
+// baseTable returns the sines and cosines of the steps common rotations
+// over a full turn, as turned computes them (shared, read-only).
+func baseTable(steps int) (sins, coss []float64) {
+	if t, ok := baseTables.Load(steps); ok {
+		tt := t.(*[2][]float64)
+		return tt[0], tt[1]
+	}
+	tt := &[2][]float64{make([]float64, steps), make([]float64, steps)}
+	for j := range steps {
+		tt[0][j], tt[1][j] = math.Sincos(2 * math.Pi * float64(j) / float64(steps))
+	}
+	baseTables.Store(steps, tt)
+	return tt[0], tt[1]
+}
+
+var baseTables sync.Map // steps → *[2][]float64{sin, cos}
 
 var primes = []int{2, 3, 5, 7, 11, 13, 17, 19, 23, 29, 31, 37, 41, 43, 47, 53}
 
