@@ -38,6 +38,10 @@ type Solver struct {
 	beta []float64 // effective insertions
 	c, s []float64 // cos θ_i, sin θ_i
 	bp   []float64 // breakpoints
+
+	// SweepTips: its angles and the table of the common rotations
+	sweepTheta       []float64
+	baseSin, baseCos []float64
 }
 
 // NewSolver validates r (see Validate) and precomputes its constants.
@@ -88,6 +92,7 @@ func (s *Solver) allocScratch() {
 func (s *Solver) Clone() *Solver {
 	c := *s
 	c.allocScratch()
+	c.sweepTheta = nil // scratch; the base table is replaced, never written in place
 	return &c
 }
 
