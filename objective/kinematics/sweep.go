@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 )
 
 // SweepTips appends to dst the tip positions (base frame, m) of a sweep of
@@ -35,6 +36,7 @@ func (s *Solver) SweepTips(theta, beta []float64, tube, relSteps, baseSteps int,
 	s.sweepTables(baseSteps)
 	th := s.sweepTheta[:n]
 	copy(th, theta)
+	dst = slices.Grow(dst, relSteps*baseSteps)
 	skipped := 0
 	for j := range relSteps {
 		th[tube] = theta[tube] + 2*math.Pi*float64(j)/float64(relSteps)
@@ -47,11 +49,14 @@ func (s *Solver) SweepTips(theta, beta []float64, tube, relSteps, baseSteps int,
 			}
 			return dst, skipped, err
 		}
-		p := tip.P
-		for k := range baseSteps {
-			sk, ck := s.baseSin[k], s.baseCos[k]
-			dst = append(dst, [3]float64{ck*p[0] - sk*p[1], sk*p[0] + ck*p[1], p[2]})
+		x, y, z := tip.P[0], tip.P[1], tip.P[2]
+		m := len(dst)
+		out := dst[m : m+baseSteps]
+		sn, cs := s.baseSin[:len(out)], s.baseCos[:len(out)]
+		for k := range out {
+			out[k] = [3]float64{cs[k]*x - sn[k]*y, sn[k]*x + cs[k]*y, z}
 		}
+		dst = dst[:m+baseSteps]
 	}
 	return dst, skipped, nil
 }
