@@ -149,7 +149,7 @@ func maxRelDiff(a, b [3][3]float64) float64 {
 // TestComplianceClosedFormAgainstQuadrature: the per-link compliance with
 // the exact inner integral and Gauss–Legendre pieces agrees with the same
 // integral by brute-force gonum quadrature (fine rule to 1e-10 relative,
-// ranking rule to 1e-6), and the old trapezoid rule converges to it
+// ranking rule to 2e-4), and the old trapezoid rule converges to it
 // (second order: 32 intervals within 2e-3, 2000 within 1e-6), on two- and
 // three-bellows shapes with several links, twist-free and curved.
 func TestComplianceClosedFormAgainstQuadrature(t *testing.T) {
@@ -177,7 +177,7 @@ func TestComplianceClosedFormAgainstQuadrature(t *testing.T) {
 			fine := e.compliance(links, &fineRule)
 			rank := e.compliance(links, &rankRule)
 			assert.Less(t, maxRelDiff(fine, ref), 1e-10, "%s %v: fine rule", name, th)
-			assert.Less(t, maxRelDiff(rank, ref), 1e-6, "%s %v: ranking rule", name, th)
+			assert.Less(t, maxRelDiff(rank, ref), 2e-4, "%s %v: ranking rule", name, th)
 			assert.Less(t, maxRelDiff(complianceTrapezoid(links, 0.05, 32), ref), 2e-3, "%s %v: trapezoid, 32", name, th)
 			assert.Less(t, maxRelDiff(complianceTrapezoid(links, 0.05, 2000), ref), 1e-6, "%s %v: trapezoid, 2000", name, th)
 			t.Logf("%s %v: fine %.2g rank %.2g trap32 %.2g", name, th, maxRelDiff(fine, ref), maxRelDiff(rank, ref), maxRelDiff(complianceTrapezoid(links, 0.05, 32), ref))
