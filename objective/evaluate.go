@@ -122,7 +122,9 @@ type evaluator struct {
 	nodes              []gaussNode
 	pieces             []gaussPiece
 	// fine makes the workspace compliance use fineRule instead of rankRule.
-	fine       bool
+	fine bool
+	// tipsOnly skips the compliance of the shapes (WorkspaceTips).
+	tipsOnly   bool
 	shapes     []*shape
 	slab       []shape   // storage of shapes (newShape)
 	strainSlab []float64 // storage of their strains

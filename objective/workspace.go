@@ -203,7 +203,7 @@ func FixedInsertion(n int, w Workspace) []float64 {
 func WorkspaceTips(robot *kinematics.Robot, w Workspace) ([][3]float64, error) {
 	w = defaults(w)
 	n := len(robot.Tubes)
-	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n)}
+	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n), tipsOnly: true}
 	var tips [][3]float64
 	acts := plan(n, w).acts
 	e.reserve(len(acts))
@@ -314,7 +314,9 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 	}
 	sh.tip = tip
-	sh.comp = e.compliance(links, e.rule())
+	if !e.tipsOnly {
+		sh.comp = e.compliance(links, e.rule())
+	}
 	if what := sh.nonFinite(); what != "" {
 		return nil, nonFinite(what + " at angles " + degList(a.Theta))
 	}
