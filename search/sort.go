@@ -74,6 +74,9 @@ type scratch struct {
 	flat         []int32
 	fronts       [][]int32
 	dist         []float64
+	order        []int32
+	flatF        []float64
+	members      [][]int32
 }
 
 type sortKey2 struct {
@@ -82,13 +85,13 @@ type sortKey2 struct {
 }
 
 // nondominatedSort returns the constrained non-domination rank of each design, using the
-// O(N log N) sweep for two objectives and the O(M N²) sort otherwise. The result is valid until
-// the next call.
+// O(N log N) sweep for two objectives and the efficient non-dominated sort otherwise. The result
+// is valid until the next call.
 func (s *scratch) nondominatedSort(ds []*Design, m int) []int {
 	if m == 2 {
 		return s.nondominatedSort2(ds)
 	}
-	return nondominatedSortNaive(ds)
+	return s.nondominatedSortENS(ds, m)
 }
 
 // nondominatedSort2 is the O(N log N) non-dominated sort for two objectives (after Jensen, IEEE
