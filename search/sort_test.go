@@ -277,24 +277,24 @@ func TestArchiveTruncationMatchesOracle(t *testing.T) {
 }
 
 // TestArchiveAdd checks the archive invariants: feasible, mutually non-dominated, first of equal
-// objective vectors kept, and the batch merge equal to one-at-a-time insertion.
+// objective vectors kept, and the batch merge equal to one-at-a-time insertion (one to four
+// objectives, several batches).
 func TestArchiveAdd(t *testing.T) {
 	rng := rand.New(rand.NewPCG(12, 13))
-	for trial := range 200 {
-		m := 2 + rng.IntN(2)
+	for trial := range 1000 {
+		m := []int{1, 2, 3, 4}[rng.IntN(4)]
 		ds := randomDesigns(rng, 1+rng.IntN(80), m, 0.2, 0.05)
 		one := archive{m: m, capacity: -1}
 		batch := archive{m: m, capacity: -1}
-		cut := rng.IntN(len(ds) + 1)
-		for _, d := range ds[:cut] {
-			one.add(d)
+		for rest := ds; len(rest) > 0; {
+			cut := 1 + rng.IntN(len(rest))
+			for _, d := range rest[:cut] {
+				one.add(d)
+			}
+			batch.addAll(rest[:cut])
+			rest = rest[cut:]
+			require.Equal(t, indices(one.items), indices(batch.items), "trial %d: add vs addAll", trial)
 		}
-		batch.addAll(ds[:cut])
-		for _, d := range ds[cut:] {
-			one.add(d)
-		}
-		batch.addAll(ds[cut:])
-		require.Equal(t, indices(one.items), indices(batch.items), "trial %d: add vs addAll", trial)
 		for _, d := range ds {
 			if !d.Feasible() {
 				continue
