@@ -442,3 +442,32 @@ func TestSortsOnKnownFronts(t *testing.T) {
 		assert.Equal(t, l, nondominatedSortENS(ds, m), "DTLZ2 M=%d efficient sort", m)
 	}
 }
+
+// TestCrowding2MatchesGeneral checks the one-sort crowding distance of feasible two-objective
+// fronts against crowdingDistance (the definition of Deb et al. 2002, Sec. III-B, checked above
+// against crowdingOracle), bit for bit, on the fronts of random sets with ties and duplicates.
+func TestCrowding2MatchesGeneral(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	var s scratch
+	for trial := range 500 {
+		ds := randomDesigns(rng, 1+rng.IntN(80), 2, 0.2, 0.05)
+		if trial%2 == 1 { // continuous values as well as the coarse grid
+			for _, d := range ds {
+				if d.Failed == "" {
+					d.F[0], d.F[1] = rng.Float64(), rng.Float64()
+				}
+			}
+		}
+		rank := nondominatedSort2(ds)
+		for _, front := range s.frontsOf(rank) {
+			if ds[front[0]].CV != 0 {
+				continue
+			}
+			want := make([]float64, len(front))
+			got := make([]float64, len(front))
+			crowdingDistance(ds, front, 2, want)
+			s.crowdingDistance2(ds, front, got)
+			require.Equal(t, want, got, "trial %d: front %v", trial, front)
+		}
+	}
+}
