@@ -9,9 +9,12 @@ import (
 	"math"
 	"os"
 	"path/filepath"
+	"runtime"
 	"slices"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/schollz/progressbar/v3"
@@ -217,7 +220,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	if err := f.WriteHistory(res.History); err != nil {
 		return fail(res, err)
 	}
-	if err := f.WriteFront(spec, FrontRows(spec, res.Front), frontComment(spec, info)); err != nil {
+	if err := f.WriteFront(spec, frontRows(spec, res.Front, set.Workers), frontComment(spec, info)); err != nil {
 		return fail(res, err)
 	}
 	info.Status = StatusOf(res.Status)
@@ -240,20 +243,42 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 }
 
 // FrontRows re-evaluates the front designs for their full scores, sorted
-// by the first objective.
+// by the first objective, on all cores.
 func FrontRows(spec *problems.Spec, front []search.Design) []FrontRow {
+	return frontRows(spec, front, runtime.GOMAXPROCS(0))
+}
+
+// frontRows is FrontRows with at most workers concurrent evaluations
+// (each row is evaluated on its own, so the rows do not depend on the
+// number; 0 or less means all cores). Done one by one, this re-evaluation was the largest serial
+// step at the end of a search (DEVELOPERS.md, "Search speed").
+func frontRows(spec *problems.Spec, front []search.Design, workers int) []FrontRow {
 	ds := append([]search.Design(nil), front...)
 	sort.SliceStable(ds, func(i, j int) bool { return ds[i].F[0] < ds[j].F[0] })
 	rows := make([]FrontRow, len(ds))
-	for i, d := range ds {
-		rows[i] = FrontRow{ID: i + 1, Design: d}
-		res, err := spec.Evaluate(d.X)
-		if err != nil {
-			rows[i].Err = err.Error()
-			continue
-		}
-		rows[i].Result = res
+	if workers <= 0 {
+		workers = runtime.GOMAXPROCS(0)
 	}
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range max(1, min(workers, len(ds))) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(ds) {
+					return
+				}
+				rows[i] = FrontRow{ID: i + 1, Design: ds[i]}
+				res, err := spec.Evaluate(ds[i].X)
+				if err != nil {
+					rows[i].Err = err.Error()
+					continue
+				}
+				rows[i].Result = res
+			}
+		})
+	}
+	wg.Wait()
 	return rows
 }
 

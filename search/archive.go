@@ -21,6 +21,15 @@ type archive struct {
 	capacity int // < 0: unbounded
 	items    []*Design
 	trunc    truncator
+
+	// buffers of addAllM
+	sort     scratch
+	cand     []*Design
+	first    []int32
+	byF1     []crowdKey
+	flatF    []float64
+	dead     []bool
+	deadItem []bool
 }
 
 // add offers d to the archive; infeasible designs are ignored.
@@ -68,9 +77,7 @@ func (a *archive) add2(d *Design) {
 // before it.
 func (a *archive) addAll(ds []*Design) {
 	if a.m != 2 {
-		for _, d := range ds {
-			a.add(d)
-		}
+		a.addAllM(ds)
 		return
 	}
 	cand := make([]*Design, 0, len(ds))
@@ -113,6 +120,126 @@ func (a *archive) addAll(ds []*Design) {
 		}
 	}
 	a.items = out
+}
+
+// addAllM is addAll for one or three or more objectives. Offering designs one at a time keeps
+// exactly the designs of the archive and the batch that nothing among them dominates, the first
+// of equal vectors, in the order archive then batch (dominance is transitive, so a design
+// rejected or removed stays out whatever follows). So the batch is first reduced to its own
+// non-dominated designs by the efficient sort (search/REFERENCE.md §2.2); each of those is then
+// rejected if a member weakly dominates it, and members a kept newcomer dominates are removed.
+// The members are visited by increasing f1 (a weak dominator of d has f1 ≤ d's f1, a member d
+// dominates has f1 ≥ d's f1), so each comparison runs one way only.
+func (a *archive) addAllM(ds []*Design) {
+	m := a.m
+	cand := a.cand[:0]
+	for _, d := range ds {
+		if d.Feasible() {
+			cand = append(cand, d)
+		}
+	}
+	if len(cand) == 0 {
+		return
+	}
+	// Non-dominated designs of the batch, first of equal vectors (ranks of the lexicographic
+	// sort: rank 0, and for duplicates the one with the smallest position).
+	rank := a.sort.nondominatedSortENS(cand, m)
+	kept := cand[:0]
+	seen := a.sort.order // the sorted order of the last sort: equal vectors are adjacent
+	first := a.first[:0]
+	for j, i := range seen {
+		if rank[i] != 0 {
+			continue
+		}
+		if j > 0 && rank[seen[j-1]] == 0 && slices.Equal(cand[seen[j-1]].F, cand[i].F) {
+			continue // a later copy (the sort breaks ties by position)
+		}
+		first = append(first, i)
+	}
+	slices.Sort(first) // batch order
+	for _, i := range first {
+		kept = append(kept, cand[i])
+	}
+	// Members by increasing f1, their objectives copied into one flat array in that order.
+	byF1 := a.byF1[:0]
+	for i, q := range a.items {
+		byF1 = append(byF1, crowdKey{q.F[0], int32(i)})
+	}
+	slices.SortFunc(byF1, func(x, y crowdKey) int { // finite values: plain comparisons
+		switch {
+		case x.v < y.v:
+			return -1
+		case x.v > y.v:
+			return 1
+		}
+		return int(x.i - y.i)
+	})
+	af := resize(a.flatF, len(byF1)*m)
+	for j, e := range byF1 {
+		copy(af[j*m:j*m+m], a.items[e.i].F)
+	}
+	deadAt := resize(a.dead, len(byF1)) // by position in byF1
+	clear(deadAt)
+	out := a.items
+	for _, d := range kept {
+		f := d.F
+		f0 := f[0]
+		pos := sort.Search(len(byF1), func(j int) bool { return byF1[j].v > f0 })
+		rejected := false
+	weak:
+		for j := range pos { // members with f1 ≤ d's f1: does one weakly dominate d?
+			if deadAt[j] {
+				continue
+			}
+			q := af[j*m : j*m+m]
+			for k := 1; k < m; k++ {
+				if q[k] > f[k] {
+					continue weak
+				}
+			}
+			rejected = true
+			break
+		}
+		if rejected {
+			continue
+		}
+		lo := pos
+		for lo > 0 && byF1[lo-1].v == f0 {
+			lo--
+		}
+	dom:
+		for j := lo; j < len(byF1); j++ { // members with f1 ≥ d's f1: which does d dominate?
+			if deadAt[j] {
+				continue
+			}
+			q := af[j*m : j*m+m]
+			for k := 1; k < m; k++ {
+				if f[k] > q[k] {
+					continue dom
+				}
+			}
+			deadAt[j] = true // d ⪯ q and d was not weakly dominated, so d ≠ q: d ≺ q
+		}
+		out = append(out, d)
+	}
+	dead := resize(a.deadItem, len(a.items))
+	clear(dead)
+	for j, e := range byF1 {
+		dead[e.i] = deadAt[j]
+	}
+	// Newcomers never dominate one another, and none is weakly dominated by a surviving member,
+	// so only the old members can be dead.
+	items := out[:0]
+	for i, q := range out {
+		if i < len(dead) && dead[i] {
+			continue
+		}
+		items = append(items, q)
+	}
+	clear(out[len(items):])
+	a.items = items
+	clear(cand[:cap(cand)]) // drop the references to the batch
+	a.cand, a.first, a.byF1, a.dead, a.deadItem, a.flatF = cand[:0], first, byF1, deadAt, dead, af
 }
 
 // truncate reduces the archive to its capacity.
@@ -284,11 +411,14 @@ func sortByObjective(ds []*Design, order []int32, k int, keys []crowdKey) []crow
 	for _, i := range order {
 		keys = append(keys, crowdKey{ds[i].F[k], i})
 	}
-	slices.SortFunc(keys, func(a, b crowdKey) int {
-		if c := cmp.Compare(a.v, b.v); c != 0 {
-			return c
+	slices.SortFunc(keys, func(a, b crowdKey) int { // archive members: finite values
+		switch {
+		case a.v < b.v:
+			return -1
+		case a.v > b.v:
+			return 1
 		}
-		return cmp.Compare(a.i, b.i)
+		return int(a.i - b.i)
 	})
 	for j, key := range keys {
 		order[j] = key.i

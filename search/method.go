@@ -46,7 +46,7 @@ func Run(ctx context.Context, p Problem, s *Settings, m Method) (*Result, error)
 // crowding distance (Sec. III-B), the crowding of the split front being computed over the whole
 // front before truncation. The initial population is a Latin hypercube sample after any
 // Settings.InitialDesigns. Non-dominated sorting uses an O(N log N) sweep for two objectives and
-// the paper's O(M N²) sort otherwise. Crowding loses selection pressure from four objectives on.
+// the efficient non-dominated sort of Zhang et al. (2015) otherwise (search/REFERENCE.md §2.2). Crowding loses selection pressure from four objectives on.
 type NSGA2 struct{}
 
 func (*NSGA2) search(ctx context.Context, p *Problem, s *Settings) (*Result, error) {

@@ -36,6 +36,41 @@ func ZDT1(n int) Problem {
 	}
 }
 
+// DTLZ2 is the second problem of Deb, Thiele, Laumanns and Zitzler, "Scalable multi-objective
+// optimization test problems", Proc. IEEE Congress on Evolutionary Computation 2002, 825–830,
+// with m objectives and n ≥ m variables in [0, 1]: g = Σ_{i≥m} (x_i − 0.5)², and, with
+// θ_i = x_i π/2, f_1 = (1 + g) cos θ_1 ⋯ cos θ_{m−1}, f_k = (1 + g) cos θ_1 ⋯ cos θ_{m−k}
+// sin θ_{m−k+1} for 1 < k < m, and f_m = (1 + g) sin θ_1. The Pareto front is the part of the unit
+// sphere Σ f_k² = 1 with f ≥ 0 (x_i = 0.5 for i ≥ m); for m = 3 its hypervolume at (1, 1, 1) is
+// 1 − π/6 (search/REFERENCE.md §5.5, derived).
+func DTLZ2(m, n int) Problem {
+	lo, hi := make([]float64, n), make([]float64, n)
+	for i := range hi {
+		hi[i] = 1
+	}
+	return Problem{
+		Dim: n, Lower: lo, Upper: hi, NumObjectives: m,
+		Evaluate: func(_ context.Context, _ int64, x, f, _ []float64) error {
+			var g float64
+			for _, v := range x[m-1:] {
+				g += (v - 0.5) * (v - 0.5)
+			}
+			r := 1 + g
+			for k := range m { // f[k] for objective k+1
+				v := r
+				for i := range m - 1 - k {
+					v *= math.Cos(x[i] * math.Pi / 2)
+				}
+				if k > 0 {
+					v *= math.Sin(x[m-1-k] * math.Pi / 2)
+				}
+				f[k] = v
+			}
+			return nil
+		},
+	}
+}
+
 // BNH is the constrained two-objective problem of Binh and Korn, "MOBES: a multiobjective
 // evolution strategy for constrained optimization problems", 1997: x1 ∈ [0, 5], x2 ∈ [0, 3],
 // f1 = 4x1² + 4x2², f2 = (x1 − 5)² + (x2 − 5)², subject to (x1 − 5)² + x2² ≤ 25 and

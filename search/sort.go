@@ -74,6 +74,9 @@ type scratch struct {
 	flat         []int32
 	fronts       [][]int32
 	dist         []float64
+	order        []int32
+	flatF        []float64
+	members      [][]int32
 }
 
 type sortKey2 struct {
@@ -82,13 +85,13 @@ type sortKey2 struct {
 }
 
 // nondominatedSort returns the constrained non-domination rank of each design, using the
-// O(N log N) sweep for two objectives and the O(M N²) sort otherwise. The result is valid until
-// the next call.
+// O(N log N) sweep for two objectives and the efficient non-dominated sort otherwise. The result
+// is valid until the next call.
 func (s *scratch) nondominatedSort(ds []*Design, m int) []int {
 	if m == 2 {
 		return s.nondominatedSort2(ds)
 	}
-	return nondominatedSortNaive(ds)
+	return s.nondominatedSortENS(ds, m)
 }
 
 // nondominatedSort2 is the O(N log N) non-dominated sort for two objectives (after Jensen, IEEE
@@ -192,6 +195,63 @@ func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []fl
 			}
 			return int(a.i - b.i)
 		})
+		span := order[l-1].v - order[0].v
+		if !(span > 0) {
+			continue
+		}
+		dist[order[0].i] = math.Inf(1)
+		dist[order[l-1].i] = math.Inf(1)
+		for j := 1; j < l-1; j++ {
+			dist[order[j].i] += (order[j+1].v - order[j-1].v) / span
+		}
+	}
+}
+
+// crowdingDistance2 is crowdingDistance for a front of two objectives whose designs are feasible
+// and mutually non-dominated (a feasible front of the sort). Sorted by (f1, position), such a
+// front has f2 non-increasing, with equal f2 only among equal vectors; so the (f2, position)
+// order is that order reversed run by run of equal vectors, each run kept as it is, and one sort
+// serves both objectives. The sums are formed in the same order, so the distances are the same
+// numbers (TestCrowding2MatchesGeneral).
+func (s *scratch) crowdingDistance2(ds []*Design, front []int32, dist []float64) {
+	l := len(front)
+	if l <= 2 {
+		for i := range dist[:l] {
+			dist[i] = math.Inf(1)
+		}
+		return
+	}
+	o1 := resize(s.keys, 2*l)
+	s.keys = o1
+	o1, o2 := o1[:l], o1[l:]
+	for j, i := range front {
+		o1[j] = crowdKey{ds[i].F[0], int32(j)}
+	}
+	slices.SortFunc(o1, func(a, b crowdKey) int { // finite values: plain comparisons
+		switch {
+		case a.v < b.v:
+			return -1
+		case a.v > b.v:
+			return 1
+		}
+		return int(a.i - b.i)
+	})
+	f2 := func(k crowdKey) float64 { return ds[front[k.i]].F[1] }
+	for end, n := l, 0; end > 0; {
+		start := end - 1
+		for start > 0 && o1[start-1].v == o1[end-1].v && f2(o1[start-1]) == f2(o1[end-1]) {
+			start--
+		}
+		for _, k := range o1[start:end] {
+			o2[n] = crowdKey{f2(k), k.i}
+			n++
+		}
+		end = start
+	}
+	for i := range dist[:l] {
+		dist[i] = 0
+	}
+	for _, order := range [2][]crowdKey{o1, o2} {
 		span := order[l-1].v - order[0].v
 		if !(span > 0) {
 			continue

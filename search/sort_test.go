@@ -1,6 +1,7 @@
 package search
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"math/rand/v2"
@@ -276,24 +277,24 @@ func TestArchiveTruncationMatchesOracle(t *testing.T) {
 }
 
 // TestArchiveAdd checks the archive invariants: feasible, mutually non-dominated, first of equal
-// objective vectors kept, and the batch merge equal to one-at-a-time insertion.
+// objective vectors kept, and the batch merge equal to one-at-a-time insertion (one to four
+// objectives, several batches).
 func TestArchiveAdd(t *testing.T) {
 	rng := rand.New(rand.NewPCG(12, 13))
-	for trial := range 200 {
-		m := 2 + rng.IntN(2)
+	for trial := range 1000 {
+		m := []int{1, 2, 3, 4}[rng.IntN(4)]
 		ds := randomDesigns(rng, 1+rng.IntN(80), m, 0.2, 0.05)
 		one := archive{m: m, capacity: -1}
 		batch := archive{m: m, capacity: -1}
-		cut := rng.IntN(len(ds) + 1)
-		for _, d := range ds[:cut] {
-			one.add(d)
+		for rest := ds; len(rest) > 0; {
+			cut := 1 + rng.IntN(len(rest))
+			for _, d := range rest[:cut] {
+				one.add(d)
+			}
+			batch.addAll(rest[:cut])
+			rest = rest[cut:]
+			require.Equal(t, indices(one.items), indices(batch.items), "trial %d: add vs addAll", trial)
 		}
-		batch.addAll(ds[:cut])
-		for _, d := range ds[cut:] {
-			one.add(d)
-		}
-		batch.addAll(ds[cut:])
-		require.Equal(t, indices(one.items), indices(batch.items), "trial %d: add vs addAll", trial)
 		for _, d := range ds {
 			if !d.Feasible() {
 				continue
@@ -341,5 +342,132 @@ func TestCompareCanonicalIsTotal(t *testing.T) {
 	} {
 		assert.Equal(t, tc.want, compareCanonical(tc.x, tc.y), fmt.Sprintf("%s: compare(%v, %v)", tc.name, *tc.x, *tc.y))
 		assert.Equal(t, -tc.want, compareCanonical(tc.y, tc.x), "%s: reversed", tc.name)
+	}
+}
+
+// TestENSSortMatchesOracle checks the efficient non-dominated sort (search/REFERENCE.md §2.2)
+// against the O(M N²) fast non-dominated sort of Deb et al. (2002, Sec. III-A) with
+// constraint-domination (Sec. VI), for one to five objectives, on random sets on a coarse grid
+// (many ties and exact duplicates) with infeasible and failed designs, over many seeds.
+func TestENSSortMatchesOracle(t *testing.T) {
+	for seed := range uint64(20) {
+		rng := rand.New(rand.NewPCG(seed, 77))
+		for trial := range 100 {
+			m := []int{1, 2, 3, 3, 4, 5}[rng.IntN(6)]
+			n := 1 + rng.IntN(120)
+			ds := randomDesigns(rng, n, m, 0.3*rng.Float64(), 0.1*rng.Float64())
+			want := nondominatedSortNaive(ds)
+			require.Equal(t, want, nondominatedSortENS(ds, m), "seed %d trial %d: ranks of %d designs, %d objectives", seed, trial, n, m)
+		}
+	}
+	// Continuous values (no ties) and a reused scratch.
+	var s scratch
+	rng := rand.New(rand.NewPCG(21, 22))
+	for trial := range 200 {
+		m := 3 + rng.IntN(2)
+		ds := make([]*Design, 1+rng.IntN(200))
+		for i := range ds {
+			ds[i] = &Design{Index: int64(i), F: make([]float64, m)}
+			for k := range ds[i].F {
+				ds[i].F[k] = rng.Float64()
+			}
+		}
+		require.Equal(t, nondominatedSortNaive(ds), slices.Clone(s.nondominatedSortENS(ds, m)), "trial %d", trial)
+	}
+}
+
+// layeredFront evaluates p at points whose first free variables are drawn at random and whose
+// distance variables are shifted by sqrt(gs[layer]) from their optimum at 0 (ZDT1) or 0.5
+// (DTLZ2), giving len(gs) nested copies of the Pareto front; it returns the designs, shuffled, and
+// the layer of each.
+func layeredFront(t *testing.T, rng *rand.Rand, p Problem, free int, opt float64, gs []float64, perLayer int) ([]*Design, []int) {
+	var ds []*Design
+	var layer []int
+	dirs := make([][]float64, perLayer) // the same free variables in every copy
+	for j := range dirs {
+		dirs[j] = make([]float64, free)
+		for i := range dirs[j] {
+			dirs[j][i] = rng.Float64()
+		}
+	}
+	for l, g := range gs {
+		for j := range perLayer {
+			x := make([]float64, p.Dim)
+			for i := range x {
+				x[i] = opt
+			}
+			copy(x, dirs[j])
+			x[free] = opt + math.Sqrt(g)
+			if opt == 0 { // ZDT1: g = 1 + 9 Σ x_i/(n − 1)
+				x[free] = (g - 1) * float64(p.Dim-1) / 9
+			}
+			f := make([]float64, p.NumObjectives)
+			require.NoError(t, p.Evaluate(context.Background(), 0, x, f, nil))
+			ds = append(ds, &Design{Index: int64(len(ds)), F: f, X: x})
+			layer = append(layer, l)
+		}
+	}
+	perm := rng.Perm(len(ds))
+	outD, outL := make([]*Design, len(ds)), make([]int, len(ds))
+	for i, j := range perm {
+		outD[i], outL[i] = ds[j], layer[j]
+	}
+	return outD, outL
+}
+
+// TestSortsOnKnownFronts ranks nested copies of known Pareto fronts: ZDT1 (Zitzler, Deb and Thiele
+// 2000) with g = 1, 1.3, 1.6, 2, whose front f2 = g − √(g f1) rises with g at fixed f1, and DTLZ2
+// (Deb, Thiele, Laumanns and Zitzler 2002) with M = 3 and 4 on spheres of radius 1 + g; the
+// point of a copy is dominated by the same point of every inner copy and by nothing of its own or
+// an outer copy, so the rank of each design is the index of its copy (derived from the
+// definitions; fronts of Deb et al. 2002, Sec. III-A).
+func TestSortsOnKnownFronts(t *testing.T) {
+	rng := rand.New(rand.NewPCG(31, 32))
+	zdt, zl := layeredFront(t, rng, ZDT1(10), 1, 0, []float64{1, 1.3, 1.6, 2}, 40)
+	assert.Equal(t, zl, nondominatedSortNaive(zdt), "ZDT1 oracle")
+	assert.Equal(t, zl, nondominatedSort2(zdt), "ZDT1 two-objective sweep")
+	assert.Equal(t, zl, nondominatedSortENS(zdt, 2), "ZDT1 efficient sort")
+	for _, m := range []int{3, 4} {
+		ds, l := layeredFront(t, rng, DTLZ2(m, m+9), m-1, 0.5, []float64{0, 0.01, 0.04, 0.1, 0.25}, 40)
+		for i, d := range ds { // the front is the unit sphere (Deb, Thiele, Laumanns and Zitzler 2002)
+			if l[i] == 0 {
+				var r2 float64
+				for _, v := range d.F {
+					r2 += v * v
+				}
+				assert.InDelta(t, 1, r2, 1e-12, "DTLZ2 M=%d: Σ f² of a front point", m)
+			}
+		}
+		assert.Equal(t, l, nondominatedSortNaive(ds), "DTLZ2 M=%d oracle", m)
+		assert.Equal(t, l, nondominatedSortENS(ds, m), "DTLZ2 M=%d efficient sort", m)
+	}
+}
+
+// TestCrowding2MatchesGeneral checks the one-sort crowding distance of feasible two-objective
+// fronts against crowdingDistance (the definition of Deb et al. 2002, Sec. III-B, checked above
+// against crowdingOracle), bit for bit, on the fronts of random sets with ties and duplicates.
+func TestCrowding2MatchesGeneral(t *testing.T) {
+	rng := rand.New(rand.NewPCG(41, 42))
+	var s scratch
+	for trial := range 500 {
+		ds := randomDesigns(rng, 1+rng.IntN(80), 2, 0.2, 0.05)
+		if trial%2 == 1 { // continuous values as well as the coarse grid
+			for _, d := range ds {
+				if d.Failed == "" {
+					d.F[0], d.F[1] = rng.Float64(), rng.Float64()
+				}
+			}
+		}
+		rank := nondominatedSort2(ds)
+		for _, front := range s.frontsOf(rank) {
+			if ds[front[0]].CV != 0 {
+				continue
+			}
+			want := make([]float64, len(front))
+			got := make([]float64, len(front))
+			crowdingDistance(ds, front, 2, want)
+			s.crowdingDistance2(ds, front, got)
+			require.Equal(t, want, got, "trial %d: front %v", trial, front)
+		}
 	}
 }

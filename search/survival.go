@@ -32,7 +32,11 @@ func (c *crowdingSurvival) survive(r []*Design, n int) []*Design {
 			break
 		}
 		d := dist[:len(front)]
-		c.s.crowdingDistance(r, front, c.m, d)
+		if c.m == 2 && r[front[0]].CV == 0 {
+			c.s.crowdingDistance2(r, front, d)
+		} else {
+			c.s.crowdingDistance(r, front, c.m, d)
+		}
 		for j, i := range front {
 			r[i].Rank = fr
 			r[i].Crowding = d[j]

@@ -6,7 +6,9 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"os"
 	"path/filepath"
+	"runtime/debug"
 	"slices"
 	"strings"
 	"time"
@@ -142,10 +144,20 @@ func emptyFlags(fs *flag.FlagSet, names ...string) error {
 
 // finishRun executes (or resumes) a search and prints its summary.
 // The folder is locked; the caller releases it.
+// searchGCPercent is the collector's GOGC during a search or resume.
+const searchGCPercent = 400
+
 func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder, set search.Settings, quiet, resume bool, stdout, stderr io.Writer) error {
 	note := func(s string) { fmt.Fprintf(stderr, "plica: note: %s\n", s) }
 	if n := folder.LockNote(); n != "" {
 		note(n)
+	}
+	// The live heap of a search is a few megabytes and the evaluations
+	// allocate: at the default GOGC the collector took about 7 % of the
+	// CPU, which is free on an idle core with one worker but competes with
+	// the second (DEVELOPERS.md, "Search speed"). A user's GOGC wins.
+	if os.Getenv("GOGC") == "" {
+		defer debug.SetGCPercent(debug.SetGCPercent(searchGCPercent))
 	}
 	opt := results.Options{Version: version, Resume: resume, Note: note}
 	if !quiet {

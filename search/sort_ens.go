@@ -1,0 +1,114 @@
+package search
+
+import (
+	"cmp"
+	"slices"
+)
+
+// nondominatedSortENS is the efficient non-dominated sort with binary search (ENS-BS) of Zhang,
+// Tian, Cheng and Jin (2015; search/REFERENCE.md §2.2), extended to constraint-domination. Feasible
+// designs are sorted lexicographically by their objectives (ties by position), so that no design
+// can be dominated by one that comes after it. Each design is then placed in the first front none
+// of whose members dominates it: a design dominated by a member of front k is dominated by a
+// member of every front before k, so that front is found by binary search over the fronts, and
+// each front is scanned from its latest member back. A design equal to the previous one gets its
+// rank. Infeasible designs follow as in nondominatedSort2. The result is valid until the next call.
+func (s *scratch) nondominatedSortENS(ds []*Design, m int) []int {
+	n := len(ds)
+	rank := resize(s.rank, n)
+	s.rank = rank
+	order := s.order[:0]
+	infeas := s.infeas[:0]
+	for i, d := range ds {
+		if d.CV == 0 {
+			order = append(order, int32(i))
+		} else {
+			infeas = append(infeas, sortKey2{d.CV, 0, int32(i)})
+		}
+	}
+	slices.SortFunc(order, func(a, b int32) int { // finite values: plain comparisons
+		fa, fb := ds[a].F, ds[b].F
+		for k := range m {
+			switch {
+			case fa[k] < fb[k]:
+				return -1
+			case fa[k] > fb[k]:
+				return 1
+			}
+		}
+		return int(a - b)
+	})
+	// Flat copy of the sorted objective vectors: f[j*m : j*m+m] is the j-th in order.
+	f := resize(s.flatF, len(order)*m)
+	for j, i := range order {
+		copy(f[j*m:j*m+m], ds[i].F)
+	}
+	// members[k] lists the positions (in order) of front k.
+	members := s.members[:0]
+	dominatedBy := func(k, j int) bool { // some member of front k dominates design j
+		p := f[j*m : j*m+m]
+		mem := members[k]
+		for t := len(mem) - 1; t >= 0; t-- {
+			q := f[int(mem[t])*m : int(mem[t])*m+m]
+			dom := true
+			for c := 1; c < m; c++ { // q precedes p, so q[0] ≤ p[0]; q ≠ p
+				if q[c] > p[c] {
+					dom = false
+					break
+				}
+			}
+			if dom {
+				return true
+			}
+		}
+		return false
+	}
+	prev := -1
+	for j, i := range order {
+		var k int
+		if j > 0 && slices.Equal(f[(j-1)*m:j*m], f[j*m:j*m+m]) {
+			k = prev
+		} else {
+			lo, hi := 0, len(members) // fronts < lo dominate j; fronts ≥ hi do not
+			for lo < hi {
+				mid := int(uint(lo+hi) >> 1)
+				if dominatedBy(mid, j) {
+					lo = mid + 1
+				} else {
+					hi = mid
+				}
+			}
+			k = lo
+		}
+		if k == len(members) {
+			if k < cap(members) {
+				members = members[:k+1]
+				members[k] = members[k][:0]
+			} else {
+				members = append(members, nil)
+			}
+		}
+		members[k] = append(members[k], int32(j))
+		rank[i] = k
+		prev = k
+	}
+	s.order, s.flatF, s.members = order, f, members
+	slices.SortFunc(infeas, func(a, b sortKey2) int {
+		if c := cmp.Compare(a.f1, b.f1); c != 0 {
+			return c
+		}
+		return cmp.Compare(a.i, b.i)
+	})
+	r := len(members) - 1
+	for j, p := range infeas {
+		if j == 0 || p.f1 != infeas[j-1].f1 {
+			r++
+		}
+		rank[p.i] = r
+	}
+	s.infeas = infeas
+	return rank
+}
+
+// nondominatedSortENS with fresh buffers.
+func nondominatedSortENS(ds []*Design, m int) []int { return new(scratch).nondominatedSortENS(ds, m) }
