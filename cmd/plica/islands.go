@@ -172,7 +172,7 @@ workers="${SLURM_CPUS_PER_TASK:-%[6]d}"
 echo "island $i (seed $seed) on $(hostname), job ${SLURM_JOB_ID:-?}, restart ${SLURM_RESTART_COUNT:-0}"
 if [ -f "$run/checkpoint.json" ]; then
     # Requeued (or resubmitted): continue this island from its checkpoint.
-    exec "$plica" resume "$run" -workers "$workers" -quiet
+    exec "$plica" resume "$run" -workers "$workers"
 fi
 if [ -e "$run" ]; then
     # Stopped before its first checkpoint: nothing to continue, start again.
