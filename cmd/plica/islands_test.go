@@ -135,3 +135,19 @@ func readText(t *testing.T, path string) string {
 	require.NoError(t, err)
 	return string(b)
 }
+
+// A search whose standard error is not a terminal (here a buffer, as a
+// scheduler's log file) writes plain progress lines, never redraws;
+// -quiet writes none.
+func TestSearchPlainProgress(t *testing.T) {
+	dir := t.TempDir()
+	code, _, errOut := runCLI(t, "search", examples+"boom-search.toml", "-evals", "240", "-workers", "1", "-o", filepath.Join(dir, "r"))
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, errOut, "\r")
+	assert.Contains(t, errOut, " progress: generation 0, 60/240 evaluations, ")
+	assert.Regexp(t, `(?m)^\S+ done: generation 3, 240/240 evaluations, [0-9.]+ evals/s, feasible \d+, front \d+, hypervolume \S+, ETA 0s$`, errOut)
+	code, _, errOut = runCLI(t, "search", examples+"boom-search.toml", "-evals", "120", "-workers", "1", "-quiet", "-o", filepath.Join(dir, "q"))
+	require.Equal(t, 0, code, errOut)
+	assert.NotContains(t, errOut, "progress:")
+	assert.NotContains(t, errOut, "done:")
+}
