@@ -304,7 +304,9 @@ func problemName(s *problems.Spec) string {
 }
 
 // bar shows evaluations, rate, ETA, feasible count and hypervolume.
+// Only a terminal gets the redrawn bar; anything else gets plain lines.
 type bar struct {
+	plain *plainLog
 	pb    *progressbar.ProgressBar
 	start time.Time
 	first int64
@@ -313,6 +315,9 @@ type bar struct {
 func newBar(w io.Writer, set search.Settings) *bar {
 	if w == nil {
 		return &bar{}
+	}
+	if !isTerminal(w) {
+		return &bar{plain: newPlainLog(w, set, time.Now)}
 	}
 	max := set.MaxEvaluations
 	if max <= 0 {
@@ -332,6 +337,10 @@ func newBar(w io.Writer, set search.Settings) *bar {
 }
 
 func (b *bar) update(p search.Progress) {
+	if b.plain != nil {
+		b.plain.update(p)
+		return
+	}
 	if b.pb == nil {
 		return
 	}
@@ -348,6 +357,9 @@ func (b *bar) update(p search.Progress) {
 }
 
 func (b *bar) finish() {
+	if b.plain != nil {
+		b.plain.finish()
+	}
 	if b.pb != nil {
 		b.pb.Finish()
 	}
