@@ -92,3 +92,13 @@ func (r *reader) recordCalibrationSE(path string, c *Calibration) {
 	}
 	r.calSE[path] = se
 }
+
+// rejectScatter reports a [scatter] table in a problem file: the search
+// scores candidates at their nominal values, so a scatter there would be
+// silently ignored.
+func rejectScatter(r *reader, root *table) {
+	if root.has("scatter") {
+		root.get("scatter")
+		r.errorf("scatter", "plica search scores nominal designs and does not read [scatter] (expected [scatter] in a design file, for plica check -robust)")
+	}
+}
