@@ -12,7 +12,7 @@ import (
 // Scatter is the print scatter of a design: one standard deviation of each
 // quantity in percent of its nominal value, drawn from a normal
 // distribution truncated at ±TruncationSD standard deviations
-// (objective/REFERENCE.md §9).
+// (objective/REFERENCE.md §9.1).
 type Scatter struct {
 	ModulusPct      float64 // Young's moduli of a bellows with geometry
 	WallPct         float64 // wall thickness of a bellows with geometry
@@ -225,7 +225,7 @@ func TruncatedNormal(u float64) float64 {
 }
 
 // TruncatedNormalSD is the standard deviation of the standard normal
-// truncated at ±c: sqrt(1 − 2c·φ(c)/(Φ(c) − Φ(−c))) (objective/REFERENCE.md §9).
+// truncated at ±c: sqrt(1 − 2c·φ(c)/(Φ(c) − Φ(−c))) (objective/REFERENCE.md §9.1).
 func TruncatedNormalSD(c float64) float64 {
 	phi := math.Exp(-c*c/2) / math.Sqrt(2*math.Pi)
 	return math.Sqrt(1 - 2*c*phi/(NormalCDF(c)-NormalCDF(-c)))
@@ -415,7 +415,7 @@ func Quantile(sorted []float64, p float64) float64 {
 
 // FirstOrder estimates the same numbers from the nominal evaluation and
 // one forward finite difference per scattered variable (first-order
-// second-moment method, objective/REFERENCE.md §9): 1 + (number of
+// second-moment method, objective/REFERENCE.md §9.4): 1 + (number of
 // variables) evaluations. Each score is taken as normal with mean the
 // nominal value and variance Σ (∂score/∂z_j · σ_T)², σ_T the standard
 // deviation of the truncated standard normal; a check's pass probability

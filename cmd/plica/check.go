@@ -50,6 +50,9 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	if len(pos) != 1 {
 		return usagef("check: expected one design file, got %d arguments", len(pos))
 	}
+	if *samples < 0 || *samples > objective.MaxScatterSamples || (*samples > 0 && !*robust) {
+		return usagef("check: -samples %d (expected 1 to %d, with -robust)", *samples, objective.MaxScatterSamples)
+	}
 	d, sc, err := problems.LoadDesign(pos[0])
 	if err != nil {
 		return err
@@ -62,9 +65,6 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 			return fmt.Errorf("check interrupted, nothing printed: %w", ctx.Err())
 		}
 		return err
-	}
-	if *samples < 0 || *samples > objective.MaxScatterSamples || (*samples > 0 && !*robust) {
-		return usagef("check: -samples %d (expected 1 to %d, with -robust)", *samples, objective.MaxScatterSamples)
 	}
 	var rob *objective.Robust
 	var scat *objective.Scatter
