@@ -278,6 +278,12 @@ type Robust struct {
 // The draws depend on the seed and the sample index only, so the result
 // is the same for any worker count (workers < 1: one).
 func MonteCarlo(ctx context.Context, d *Design, sc *Scenario, s *Scatter, workers int) (*Robust, error) {
+	return MonteCarloProgress(ctx, d, sc, s, workers, nil)
+}
+
+// MonteCarloProgress is MonteCarlo reporting, from one goroutine, how
+// many samples have been handed out (stage "scatter samples").
+func MonteCarloProgress(ctx context.Context, d *Design, sc *Scenario, s *Scatter, workers int, progress func(Progress)) (*Robust, error) {
 	n := s.Samples
 	if n <= 0 {
 		n = DefaultScatterSamples
@@ -306,6 +312,9 @@ func MonteCarlo(ctx context.Context, d *Design, sc *Scenario, s *Scatter, worker
 			break
 		}
 		next <- k
+		if progress != nil {
+			progress(Progress{Stage: "scatter samples", Done: k, Total: n})
+		}
 	}
 	close(next)
 	wg.Wait()

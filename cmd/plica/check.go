@@ -69,7 +69,7 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	var rob *objective.Robust
 	var scat *objective.Scatter
 	if *robust {
-		if rob, scat, err = runRobust(ctx, pos[0], d, sc, *samples); err != nil {
+		if rob, scat, err = runRobust(ctx, stderr, pos[0], d, sc, *samples); err != nil {
 			if ctx.Err() != nil {
 				return fmt.Errorf("check interrupted, nothing printed: %w", ctx.Err())
 			}

@@ -47,7 +47,7 @@ const robustCaution = "The odds are model estimates and only as good as the scat
 
 // runRobust runs the Monte Carlo of a design's [scatter] (samples > 0
 // overrides its sample count).
-func runRobust(ctx context.Context, file string, d *objective.Design, sc *objective.Scenario, samples int) (*objective.Robust, *objective.Scatter, error) {
+func runRobust(ctx context.Context, stderr io.Writer, file string, d *objective.Design, sc *objective.Scenario, samples int) (*objective.Robust, *objective.Scatter, error) {
 	if !sc.Scatter.Active() {
 		return nil, nil, usagef("check -robust: %s has no scatter (expected a [scatter] table with at least one of modulus_pct, wall_pct, precurvature_pct, stiffness_pct > 0, or a calibrated bellows)", file)
 	}
@@ -55,7 +55,9 @@ func runRobust(ctx context.Context, file string, d *objective.Design, sc *object
 	if samples > 0 {
 		s.Samples = samples
 	}
-	r, err := objective.MonteCarlo(ctx, d, sc, &s, runtime.GOMAXPROCS(0))
+	prog := newProgressLine(stderr, "check -robust")
+	r, err := objective.MonteCarloProgress(ctx, d, sc, &s, runtime.GOMAXPROCS(0), prog.report)
+	prog.clear()
 	return r, &s, err
 }
 
