@@ -16,6 +16,8 @@ type Scenario struct {
 	Workspace    Workspace
 	Tasks        []TaskPoint
 	Requirements Requirements
+	// Scatter is the print scatter for robust checks (nil: none).
+	Scatter *Scatter
 }
 
 // Load is the payload and gravity.

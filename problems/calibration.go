@@ -481,6 +481,7 @@ func (t *table) calibrationFile(mb *surrogate.Bellows) {
 		return
 	}
 	mb.Calibration = [2]float64{c.Factor[0].Value, c.Factor[1].Value}
+	t.r.recordCalibrationSE(t.path, c)
 }
 
 // calibrations are the calibration files one file names, read once when

@@ -62,7 +62,8 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 			r.errorf(k, "belongs in a problem file for plica search (expected a design file: every value fixed, no [[objective]], [[constraint]] or [search])")
 		}
 	}
-	root.finish(topKeys)
+	sc.Scatter = readScatter(root)
+	root.finish(append(append([]string{}, topKeys...), designOnlyKeys...))
 	if len(r.errs) > 0 {
 		return nil, nil, r.errs.sorted()
 	}

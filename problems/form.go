@@ -152,6 +152,7 @@ type designForm struct {
 	Requirements *requirementsForm   `toml:"requirements"`
 	TaskPoint    []taskForm          `toml:"task_point"`
 	Workspace    *workspaceForm      `toml:"workspace"`
+	Scatter      *scatterForm        `toml:"scatter"`
 }
 
 // problemForm is the form of a problem file: the design tables and the

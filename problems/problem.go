@@ -186,10 +186,11 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	s.readSearch(root.sub("search"))
 	base := map[string]any{}
 	for k, v := range root.m {
-		if !contains(problemOnlyKeys, k) {
+		if !contains(problemOnlyKeys, k) && !contains(designOnlyKeys, k) {
 			base[k] = v
 		}
 	}
+	rejectScatter(r, root)
 	s.findVariables(r, root)
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()

@@ -19,6 +19,9 @@ type reader struct {
 	loc  *locator
 	errs Errors
 	cals calibrations // the calibration files read so far
+	// calSE is the relative standard error of each calibrated bellows'
+	// factors, by bellows table path (for [scatter]).
+	calSE map[string][2]float64
 }
 
 func (r *reader) errorf(path, format string, args ...any) {

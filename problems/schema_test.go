@@ -45,7 +45,7 @@ func TestFormMatchesReaders(t *testing.T) {
 		form   any
 		reader []string
 	}{
-		{"design file (top level)", designForm{}, topKeys},
+		{"design file (top level)", designForm{}, union(topKeys, designOnlyKeys)},
 		{"problem file (top level)", problemForm{}, union(topKeys, problemOnlyKeys)},
 		{"[[bellows]]", bellowsForm{}, union(commonBellowsKeys, geometryKeys, measuredKeys)},
 		{"[[material]]", materialForm{}, materialKeys},
@@ -57,6 +57,7 @@ func TestFormMatchesReaders(t *testing.T) {
 		{"[[objective]]", objectiveForm{}, objectiveKeys},
 		{"[[constraint]]", constraintForm{}, constraintKeys},
 		{"[search]", searchForm{}, searchKeys},
+		{"[scatter]", scatterForm{}, scatterKeys},
 	} {
 		form := tomlKeys(c.form)
 		for _, k := range c.reader {

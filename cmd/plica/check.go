@@ -20,26 +20,38 @@ import (
 func init() {
 	register(&command{
 		name:  "check",
-		usage: "DESIGN.toml [-json]",
+		usage: "DESIGN.toml [-json] [-robust [-samples N]]",
 		short: "score one design and check it against its requirements before printing",
 		long: `Prints every score with its unit, every requirement with its limit and
 PASS or FAIL, the models used, and the cautions. A design whose physics
 leaves floating point (say a non-finite tip) fails with the reason. A long
 check shows its progress when standard error is a terminal. Exit status 0
 when every check passes, 1 when any fails, 2 on bad input, 130 when
-interrupted (Ctrl-C or SIGTERM; nothing is printed).`,
+interrupted (Ctrl-C or SIGTERM; nothing is printed).
+
+-robust also runs the design's [scatter] table by Monte Carlo (every
+sample through the full model): the probability that each check passes,
+with its standard error, the probability that all pass, and each score's
+mean, standard deviation and 5th, 50th and 95th percentiles. -samples
+overrides the table's sample count. The exit status stays that of the
+nominal design.`,
 		run: runCheck,
 	})
 }
 
 func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
 	asJSON := fs.Bool("json", false, "print JSON instead of tables")
+	robust := fs.Bool("robust", false, "also estimate pass probabilities under the design's [scatter] by Monte Carlo")
+	samples := fs.Int("samples", 0, "Monte Carlo samples for -robust (default: the [scatter] table's, else 1000)")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
 		return err
 	}
 	if len(pos) != 1 {
 		return usagef("check: expected one design file, got %d arguments", len(pos))
+	}
+	if *samples < 0 || *samples > objective.MaxScatterSamples || (*samples > 0 && !*robust) {
+		return usagef("check: -samples %d (expected 1 to %d, with -robust)", *samples, objective.MaxScatterSamples)
 	}
 	d, sc, err := problems.LoadDesign(pos[0])
 	if err != nil {
@@ -54,10 +66,24 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 		}
 		return err
 	}
+	var rob *objective.Robust
+	var scat *objective.Scatter
+	if *robust {
+		if rob, scat, err = runRobust(ctx, stderr, pos[0], d, sc, *samples); err != nil {
+			if ctx.Err() != nil {
+				return fmt.Errorf("check interrupted, nothing printed: %w", ctx.Err())
+			}
+			return err
+		}
+	}
 	if *asJSON {
 		enc := json.NewEncoder(stdout)
 		enc.SetIndent("", "  ")
-		if err := enc.Encode(newCheckOutput(res)); err != nil {
+		out := newCheckOutput(res)
+		if rob != nil {
+			out.Robust = newRobustOutput(rob, scat)
+		}
+		if err := enc.Encode(out); err != nil {
 			return err
 		}
 	} else {
@@ -66,6 +92,9 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 			name = pos[0]
 		}
 		writeCheck(stdout, name, res)
+		if rob != nil {
+			writeRobust(stdout, rob, scat)
+		}
 	}
 	if !res.Pass {
 		return &failure{}
@@ -158,6 +187,7 @@ type checkOutput struct {
 	Models   []string        `json:"models"`
 	Warnings []string        `json:"warnings"`
 	Caution  string          `json:"caution"`
+	Robust   *robustOutput   `json:"robust,omitempty"`
 }
 
 type bellowsOutput struct {
