@@ -158,6 +158,9 @@ type checkOutput struct {
 	Models   []string        `json:"models"`
 	Warnings []string        `json:"warnings"`
 	Caution  string          `json:"caution"`
+	// TaskPoints gives the closest tip and miss per task point (empty
+	// without task points).
+	TaskPoints []taskPointLine `json:"task_points"`
 }
 
 type bellowsOutput struct {
@@ -228,6 +231,7 @@ func newCheckOutput(res *objective.Result) *checkOutput {
 	if o.Warnings == nil {
 		o.Warnings = []string{}
 	}
+	o.TaskPoints = taskPointLines(&res.Scores)
 	return o
 }
 
@@ -266,6 +270,9 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 		row("volume", sc.Volume*1e9, "mm³", fmt.Sprintf("%.3g mm voxels", sc.VoxelSize*1e3))
 	}
 	row("task_coverage", sc.TaskCoverage, "", "fraction of task points reached")
+	if len(sc.TaskMisses) > 0 {
+		row("task_miss", sc.TaskMiss*1e3, "mm", "largest miss beyond the tolerance over the task points")
+	}
 	row("residual_curvature", sc.ResidualCurvature, "1/m", "straightest configuration")
 	row("straight_tip_offset", sc.StraightTipOffset*1e3, "mm", "straightest configuration")
 	row("curvature_range", sc.CurvatureMin, "1/m", fmt.Sprintf("to %.4g 1/m over relative rotation", sc.CurvatureMax))
@@ -275,6 +282,7 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	row("payload_to_weight", sc.PayloadToWeight, "", "")
 	tw.Flush()
 	fmt.Fprintln(w)
+	writeTaskPoints(w, &sc)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "check\tvalue\tlimit\tunit\tresult\tnote")
 	failed := []string{}
