@@ -110,7 +110,7 @@ func (e *evaluator) bestTurn(tip kinematics.Pose, comp *[3][3]float64, t TaskPoi
 // shapes: the closest sample (common rotation solved exactly), refined by
 // golden-section search on the relative rotation of a pair, screened with
 // the linear compliance when loaded, then solved at the closest
-// configuration with the geometrically exact rod model (objective/REFERENCE.md §9).
+// configuration with the geometrically exact rod model (objective/REFERENCE.md §2.4).
 func (e *evaluator) taskMisses(shapes []*shape) ([]TaskMiss, error) {
 	arm := e.armLength()
 	out := make([]TaskMiss, len(e.sc.Tasks))

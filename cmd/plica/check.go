@@ -161,6 +161,8 @@ type checkOutput struct {
 	// TaskPoints gives the closest tip and miss per task point (empty
 	// without task points).
 	TaskPoints []taskPointLine `json:"task_points"`
+	// Limits says, per failed check, what limits the design.
+	Limits []string `json:"limits"`
 }
 
 type bellowsOutput struct {
@@ -232,6 +234,10 @@ func newCheckOutput(res *objective.Result) *checkOutput {
 		o.Warnings = []string{}
 	}
 	o.TaskPoints = taskPointLines(&res.Scores)
+	o.Limits = limitSentences(res)
+	if o.Limits == nil {
+		o.Limits = []string{}
+	}
 	return o
 }
 
@@ -308,6 +314,9 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	}
 	for _, m := range res.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
+	}
+	for _, m := range o.Limits {
+		fmt.Fprintln(w, m)
 	}
 	fmt.Fprintf(w, "caution: %s\n\n", results.Caution)
 	if len(failed) == 0 {

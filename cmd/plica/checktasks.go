@@ -67,3 +67,25 @@ func writeTaskPoints(w io.Writer, sc *objective.Scores) {
 	tw.Flush()
 	fmt.Fprintln(w)
 }
+
+// limitSentences says, one line per failed check, what limits the design
+// and by how much.
+func limitSentences(res *objective.Result) []string {
+	var out []string
+	for _, c := range res.Checks {
+		if c.Pass || c.Warn {
+			continue
+		}
+		short := c.Limit - c.Value
+		word := "short of"
+		if c.Max {
+			short, word = c.Value-c.Limit, "over"
+		}
+		unit := ""
+		if c.Unit != "" {
+			unit = " " + c.Unit
+		}
+		out = append(out, fmt.Sprintf("limited by %s: %s%s, %s the limit %s%s by %s%s", c.Name, fmtNum(c.Value), unit, word, fmtNum(c.Limit), unit, fmtNum(short), unit))
+	}
+	return out
+}
