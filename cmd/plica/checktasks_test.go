@@ -73,3 +73,37 @@ loaded = false
 	assert.InDelta(t, 0, q.Distance, 1e-6)
 	assert.InEpsilon(t, delta-1, o.Scores["task_miss_mm"], 1e-2)
 }
+
+// TestPoseLoadedCantilever: pose -loaded of the same straight cantilever
+// puts the tip at −δ along gravity (y), δ = 2.2617 mm (Roark's Formulas for
+// Stress and Strain, 7th ed., Table 8.1, cases 1a and 2a), and pose without
+// -loaded keeps it on the axis.
+func TestPoseLoadedCantilever(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "cantilever.toml")
+	require.NoError(t, os.WriteFile(path, []byte(`name = "cantilever"
+[[bellows]]
+straight_length_mm = 300.0
+curved_length_mm = 0.0
+precurvature_per_m = 0.0
+bending_stiffness_n_mm2 = [1.0e6, 1.0e6]
+torsional_stiffness_n_mm2 = 5.0e7
+linear_density_kg_per_m = 0.05
+
+[load]
+payload_g = 20
+`), 0o644))
+	for _, c := range []struct {
+		args []string
+		y    float64
+	}{{[]string{"-loaded"}, -2.2617}, {nil, 0}} {
+		args := append([]string{"pose", path, "-angles-deg", "0", "-json"}, c.args...)
+		_, out, errOut := runCLI(t, args...)
+		var o struct {
+			Tip struct {
+				Position [3]float64 `json:"position_mm"`
+			} `json:"tip"`
+		}
+		require.NoError(t, json.Unmarshal([]byte(out), &o), errOut)
+		assert.InDelta(t, c.y, o.Tip.Position[1], 0.005*2.2617, "tip y %v", c.args)
+	}
+}
