@@ -47,7 +47,12 @@ func (e *evaluator) checks(res *Result) {
 		if min == 0 && !q.MinTaskCoverageSet {
 			min = 1
 		}
-		add("task_coverage", sc.TaskCoverage, min, "", false, fmt.Sprintf("%d task points", len(e.sc.Tasks)))
+		if min >= 1 {
+			// every point required: the continuous miss gives a search its direction
+			add("task_miss", sc.TaskMiss*mmPerM, 0, "mm", true, fmt.Sprintf("%d task points, coverage %.3g", len(e.sc.Tasks), sc.TaskCoverage))
+		} else {
+			add("task_coverage", sc.TaskCoverage, min, "", false, fmt.Sprintf("%d task points", len(e.sc.Tasks)))
+		}
 	}
 	sf := q.StrainSafetyFactor
 	if sf == 0 {

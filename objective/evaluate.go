@@ -41,6 +41,11 @@ type Scores struct {
 	TaskCoverage float64
 	// TaskReached lists, per task point, whether it is reached.
 	TaskReached []bool
+	// TaskMiss is the largest miss over the task points (0 when every
+	// point is reached, or without task points), m.
+	TaskMiss float64
+	// TaskMisses gives, per task point, the closest tip and its miss.
+	TaskMisses []TaskMiss
 
 	// The curvature scores look at the nested section: links where two or
 	// more bellows are present (all links for a single bellows). A curved
@@ -499,116 +504,30 @@ func voxelKey(p [3]float64, h float64) [3]int32 {
 	return [3]int32{int32(math.Floor(p[0] / h)), int32(math.Floor(p[1] / h)), int32(math.Floor(p[2] / h))}
 }
 
-// tasks decides for every task point whether some actuation reaches it.
-// The common rotation is solved exactly: turning a tip at cylindrical
-// coordinates (ρ, ψ, z) by ψ_t − ψ brings it to the task point's azimuth,
-// leaving the distance sqrt((ρ − ρ_t)² + (z − z_t)²). The relative rotation
-// is sampled, then refined by golden-section search around the best
-// sample for pairs.
+// tasks decides for every task point whether some actuation reaches it,
+// and how far it misses otherwise (task.go).
 func (e *evaluator) tasks(shapes []*shape, res *Result) error {
 	sc := &res.Scores
 	if len(e.sc.Tasks) == 0 {
 		sc.TaskCoverage = 1
 		return nil
 	}
+	misses, err := e.taskMisses(shapes)
+	if err != nil {
+		return err
+	}
+	sc.TaskMisses = misses
+	sc.TaskReached = make([]bool, len(misses))
 	reached := 0
-	sc.TaskReached = make([]bool, len(e.sc.Tasks))
-	for ti, t := range e.sc.Tasks {
-		// every task point looks at every shape: one batch each
-		if err := e.tick(ti*batch, len(e.sc.Tasks)*batch); err != nil {
-			return err
-		}
-		tol := t.Tolerance
-		if tol == 0 {
-			tol = 1e-3
-		}
-		dirTol := t.DirectionTolerance
-		if dirTol == 0 {
-			dirTol = 5 * math.Pi / 180
-		}
-		ok := false
-		for _, sh := range shapes {
-			if taskDistance(sh.tip, t, dirTol) <= tol {
-				ok = true
-				break
-			}
-		}
-		if !ok && len(e.robot.Tubes) == 2 && len(shapes) > 2 {
-			ok = e.refineTask(shapes, t, tol, dirTol)
-		}
-		sc.TaskReached[ti] = ok
-		if ok {
+	for i, m := range misses {
+		sc.TaskReached[i] = m.Reached
+		if m.Reached {
 			reached++
 		}
+		sc.TaskMiss = math.Max(sc.TaskMiss, m.Miss+e.armLength()*m.AngleMiss)
 	}
-	sc.TaskCoverage = float64(reached) / float64(len(e.sc.Tasks))
+	sc.TaskCoverage = float64(reached) / float64(len(misses))
 	return nil
-}
-
-// taskDistance is the distance from a tip (after the best common rotation)
-// to a task point; +Inf when the direction requirement cannot be met.
-func taskDistance(tip kinematics.Pose, t TaskPoint, dirTol float64) float64 {
-	p := tip.P
-	rho := math.Hypot(p[0], p[1])
-	rt := math.Hypot(t.Position[0], t.Position[1])
-	d := math.Hypot(rho-rt, p[2]-t.Position[2])
-	if t.Direction != ([3]float64{}) {
-		// rotate the tip tangent by the same common rotation
-		phi := math.Atan2(t.Position[1], t.Position[0]) - math.Atan2(p[1], p[0])
-		if rho == 0 || rt == 0 {
-			phi = 0
-		}
-		s, c := math.Sincos(phi)
-		tx, ty, tz := tip.R[0][2], tip.R[1][2], tip.R[2][2]
-		dx, dy := c*tx-s*ty, s*tx+c*ty
-		cosang := dx*t.Direction[0] + dy*t.Direction[1] + tz*t.Direction[2]
-		if math.Acos(clamp(cosang, -1, 1)) > dirTol {
-			return math.Inf(1)
-		}
-	}
-	return d
-}
-
-// refineTask runs a golden-section search on the relative rotation of a
-// pair around the best sample.
-func (e *evaluator) refineTask(shapes []*shape, t TaskPoint, tol, dirTol float64) bool {
-	best, bestD := 0, math.Inf(1)
-	for k, sh := range shapes {
-		// position only, to find the bracket
-		if d := taskDistance(sh.tip, TaskPoint{Position: t.Position}, dirTol); d < bestD {
-			best, bestD = k, d
-		}
-	}
-	step := 2 * math.Pi / float64(len(shapes))
-	base := shapes[best].act
-	f := func(delta float64) float64 {
-		a := kinematics.Actuation{Theta: append([]float64(nil), base.Theta...), Beta: base.Beta}
-		a.Theta[0] = delta
-		tip, err := e.robot.Tip(a)
-		if err != nil {
-			return math.Inf(1)
-		}
-		return taskDistance(tip, t, dirTol)
-	}
-	lo, hi := base.Theta[0]-step, base.Theta[0]+step
-	g := (math.Sqrt(5) - 1) / 2
-	x1, x2 := hi-g*(hi-lo), lo+g*(hi-lo)
-	f1, f2 := f(x1), f(x2)
-	for range 40 {
-		if f1 <= tol || f2 <= tol {
-			return true
-		}
-		if f1 < f2 {
-			hi, x2, f2 = x2, x1, f1
-			x1 = hi - g*(hi-lo)
-			f1 = f(x1)
-		} else {
-			lo, x1, f1 = x1, x2, f2
-			x2 = lo + g*(hi-lo)
-			f2 = f(x2)
-		}
-	}
-	return math.Min(f1, f2) <= tol
 }
 
 func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }

@@ -130,6 +130,9 @@ type TaskPoint struct {
 	Direction [3]float64
 	// DirectionTolerance is the allowed angle to Direction, rad (zero: 5°).
 	DirectionTolerance float64
+	// Unloaded checks the point on the shape without gravity (the file's
+	// loaded = false); by default the loaded shape is checked.
+	Unloaded bool
 }
 
 // Requirements are the limits a design must meet. A zero limit is not

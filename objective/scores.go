@@ -24,6 +24,7 @@ var scoreList = []Score{
 	{"surface_area_mm2", "area of the tip surface (two actuation parameters)", func(s *Scores) float64 { return s.SurfaceArea * 1e6 }},
 	{"volume_mm3", "voxel volume of the tip point cloud (three or more actuation parameters)", func(s *Scores) float64 { return s.Volume * 1e9 }},
 	{"task_coverage", "fraction of task points reached", func(s *Scores) float64 { return s.TaskCoverage }},
+	{"task_miss_mm", "largest miss of a task point beyond its tolerance, loaded shape (an angular miss counts as the arc arm length × angle)", func(s *Scores) float64 { return s.TaskMiss * mmPerM }},
 	{"residual_curvature_per_m", "largest nested-section curvature at the straightest configuration", func(s *Scores) float64 { return s.ResidualCurvature }},
 	{"straight_tip_offset_mm", "tip lateral offset at the straightest configuration", func(s *Scores) float64 { return s.StraightTipOffset * mmPerM }},
 	{"curvature_min_per_m", "smallest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMin }},

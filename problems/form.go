@@ -289,6 +289,7 @@ type requirementsForm struct {
 type taskForm struct {
 	Direction          []num `toml:"direction"`
 	DirectionTolerance *num  `toml:"direction_tolerance_deg"`
+	Loaded             *bool `toml:"loaded"`
 	Position           []num `toml:"position_mm"`
 	Tolerance          *num  `toml:"tolerance_mm"`
 }

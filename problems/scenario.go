@@ -10,7 +10,7 @@ var (
 	loadKeys        = []string{"payload_g", "gravity_direction", "gravity_m_per_s2", "tip_force_n", "tip_moment_n_mm"}
 	printerKeys     = []string{"process", "nozzle_mm", "line_width_mm", "layer_height_mm", "overhang_limit_deg", "min_wall_mm"}
 	workspaceKeys   = []string{"relative_steps", "base_steps", "insertion_steps", "samples", "voxel_mm"}
-	taskKeys        = []string{"position_mm", "tolerance_mm", "direction", "direction_tolerance_deg"}
+	taskKeys        = []string{"position_mm", "tolerance_mm", "direction", "direction_tolerance_deg", "loaded"}
 	requirementKeys = []string{"max_tip_sag_mm", "min_reach_mm", "min_bend_angle_range_deg",
 		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
 		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight",
@@ -128,6 +128,9 @@ func readTask(t *table) objective.TaskPoint {
 			t.r.errorf(t.key("direction_tolerance_deg"), "given without direction (expected direction = [x, y, z] as well)")
 		}
 		p.DirectionTolerance = v * deg
+	}
+	if v, ok := t.boolean("loaded"); ok {
+		p.Unloaded = !v
 	}
 	t.finish(taskKeys)
 	return p

@@ -162,7 +162,9 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	defer log.Close()
 
 	var logErr error
+	diag := &search.Diagnoser{}
 	set.Evaluated = func(d *search.Design) {
+		diag.Add(d)
 		if err := log.Add(d); err != nil && logErr == nil {
 			logErr = err
 		}
@@ -225,6 +227,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	info.Status = StatusOf(res.Status)
 	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
+	info.Diagnosis = nil
+	if len(res.Front) < FewFeasible {
+		info.Diagnosis = Diagnose(spec, diag)
+	}
 	info.Updated = time.Now().UTC()
 	info.Files = f.Written()
 	if !slices.Contains(info.Files, RunFile) {

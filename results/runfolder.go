@@ -95,6 +95,9 @@ type RunInfo struct {
 	// MergedFrom lists the runs of a merged run (method "merge"); see
 	// Merge.
 	MergedFrom []MergedRun `json:"merged_from,omitempty"`
+	// Diagnosis says what blocked a run whose front holds fewer than
+	// FewFeasible designs (this session's evaluations).
+	Diagnosis *Diagnosis `json:"diagnosis,omitempty"`
 }
 
 // runInfoJSON is run.json on disk: RunInfo with the time budget as text.

@@ -188,6 +188,11 @@ type checkOutput struct {
 	Warnings []string        `json:"warnings"`
 	Caution  string          `json:"caution"`
 	Robust   *robustOutput   `json:"robust,omitempty"`
+	// TaskPoints gives the closest tip and miss per task point (empty
+	// without task points).
+	TaskPoints []taskPointLine `json:"task_points"`
+	// Limits says, per failed check, what limits the design.
+	Limits []string `json:"limits"`
 }
 
 type bellowsOutput struct {
@@ -258,6 +263,11 @@ func newCheckOutput(res *objective.Result) *checkOutput {
 	if o.Warnings == nil {
 		o.Warnings = []string{}
 	}
+	o.TaskPoints = taskPointLines(&res.Scores)
+	o.Limits = limitSentences(res)
+	if o.Limits == nil {
+		o.Limits = []string{}
+	}
 	return o
 }
 
@@ -296,6 +306,9 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 		row("volume", sc.Volume*1e9, "mm³", fmt.Sprintf("%.3g mm voxels", sc.VoxelSize*1e3))
 	}
 	row("task_coverage", sc.TaskCoverage, "", "fraction of task points reached")
+	if len(sc.TaskMisses) > 0 {
+		row("task_miss", sc.TaskMiss*1e3, "mm", "largest miss beyond the tolerance over the task points")
+	}
 	row("residual_curvature", sc.ResidualCurvature, "1/m", "straightest configuration")
 	row("straight_tip_offset", sc.StraightTipOffset*1e3, "mm", "straightest configuration")
 	row("curvature_range", sc.CurvatureMin, "1/m", fmt.Sprintf("to %.4g 1/m over relative rotation", sc.CurvatureMax))
@@ -305,6 +318,7 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	row("payload_to_weight", sc.PayloadToWeight, "", "")
 	tw.Flush()
 	fmt.Fprintln(w)
+	writeTaskPoints(w, &sc)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "check\tvalue\tlimit\tunit\tresult\tnote")
 	failed := []string{}
@@ -330,6 +344,9 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	}
 	for _, m := range res.Warnings {
 		fmt.Fprintf(w, "warning: %s\n", m)
+	}
+	for _, m := range o.Limits {
+		fmt.Fprintln(w, m)
 	}
 	fmt.Fprintf(w, "caution: %s\n\n", results.Caution)
 	if len(failed) == 0 {

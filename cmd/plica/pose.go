@@ -39,6 +39,7 @@ type poseOptions struct {
 	angles, inserts string
 	step            float64
 	json            bool
+	loaded          bool
 }
 
 func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
@@ -47,6 +48,7 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	fs.StringVar(&o.inserts, "insert-mm", "", "insertion of each bellows in `mm`, innermost first (default all 0)")
 	fs.Float64Var(&o.step, "step-mm", 5, "largest backbone sample spacing in `mm`")
 	fs.BoolVar(&o.json, "json", false, "print JSON instead of tables")
+	fs.BoolVar(&o.loaded, "loaded", false, "the shape under the design's [load] (exact rod model) instead of the unloaded one")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
 		return err
@@ -57,7 +59,7 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	if !(o.step > 0) {
 		return usagef("-step-mm: %g is out of range (expected > 0)", o.step)
 	}
-	d, _, err := problems.LoadDesign(pos[0])
+	d, scen, err := problems.LoadDesign(pos[0])
 	if err != nil {
 		return err
 	}
@@ -90,6 +92,11 @@ func runPose(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stder
 	ss, poses, err := robot.Backbone(a, o.step*1e-3)
 	if err != nil {
 		return err
+	}
+	if o.loaded {
+		if tip, ss, poses, err = loadedPose(links, scen, o.step*1e-3); err != nil {
+			return err
+		}
 	}
 	if what := nonFinitePose(tip, links, poses); what != "" {
 		// NaN is no position: refuse rather than print it.

@@ -220,6 +220,9 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 	if len(res.Front) == 0 && !failed {
 		fmt.Fprintln(w, "no feasible design found: relax the requirements or widen the ranges")
 	}
+	if info, err := folder.ReadInfo(); err == nil && !failed {
+		results.WriteDiagnosis(w, info.Diagnosis)
+	}
 	fmt.Fprintf(w, "caution: %s\n", results.Caution)
 }
 

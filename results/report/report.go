@@ -435,6 +435,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.NoFront = "The front is empty: no feasible design was found."
 		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
 	}
+	p.Cautions = append(p.Cautions, diagnosisLines(info.Diagnosis)...)
 	return p
 }
 

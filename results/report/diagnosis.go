@@ -1,0 +1,45 @@
+package report
+
+import (
+	"fmt"
+	"sort"
+	"strings"
+
+	"plica/results"
+)
+
+// diagnosisLines turns a run's diagnosis (run.json) into report lines: one
+// per blocking constraint, the variables at a bound and the least
+// infeasible design.
+func diagnosisLines(d *results.Diagnosis) []string {
+	if d == nil {
+		return nil
+	}
+	out := []string{fmt.Sprintf("Diagnosis: %d feasible of %d evaluations.", d.Feasible, d.Evaluations)}
+	for _, s := range d.Sentences {
+		out = append(out, "Diagnosis: "+s+".")
+	}
+	if len(d.AtBound) > 0 {
+		out = append(out, "Diagnosis: the least-infeasible designs hold "+strings.Join(d.AtBound, ", ")+"; widening those ranges may help.")
+	}
+	if len(d.LeastInfeasible) > 0 {
+		l := d.LeastInfeasible[0]
+		var m []string
+		for _, k := range sortedKeys(l.Margins) {
+			if l.Margins[k] > 0 {
+				m = append(m, fmt.Sprintf("%s %.4g", k, l.Margins[k]))
+			}
+		}
+		out = append(out, fmt.Sprintf("Diagnosis: the least-infeasible design is evaluation %d of %s; it violates %s.", l.Evaluation, results.EvaluationsFile, strings.Join(m, ", ")))
+	}
+	return out
+}
+
+func sortedKeys(m map[string]float64) []string {
+	keys := make([]string, 0, len(m))
+	for k := range m {
+		keys = append(keys, k)
+	}
+	sort.Strings(keys)
+	return keys
+}
