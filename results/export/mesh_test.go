@@ -9,6 +9,7 @@ import (
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/surrogate"
 	"plica/surrogate/convolution"
 )
 
@@ -97,5 +98,24 @@ func TestRevolveRefusesBadInput(t *testing.T) {
 	_, err := Revolve(Section{{1, 0}, {2, 0}, {2, 1}}, 2)
 	assert.Error(t, err)
 	_, err = Revolve(Section{{0, 0}, {2, 0}, {2, 1}}, 8)
+	assert.Error(t, err)
+}
+
+// The default mesh keeps the wall volume of the surrogate's mass model
+// (surrogate.Section MassPerLength/ρ, surrogate/REFERENCE.md §2.9) within
+// 0.5 %.
+func TestBellowsVolumeMatchesMassModel(t *testing.T) {
+	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 4.5e-3, Wall: 0.45e-3, Profile: surrogate.Sinusoid}
+	mtl := surrogate.Material{Density: 1000, ModulusAcross: 1e9, ModulusInLayer: 1e9, Poisson: 0.35, AllowableStrain: 0.02}
+	sec, err := surrogate.Bellows{Geometry: g, Material: mtl}.Section(surrogate.Strip)
+	require.NoError(t, err)
+	m, n, err := Bellows(g, 35e-3, 0, DefaultSides)
+	require.NoError(t, err)
+	require.NoError(t, m.Check())
+	want := sec.MassPerLength / mtl.Density * float64(n) * g.Pitch * 1e9
+	assert.InEpsilon(t, want, m.Volume(), 5e-3)
+	lo, hi := m.Bounds()
+	assert.InEpsilon(t, g.OuterDiameter*1e3, hi[0]-lo[0], 2e-3)
+	_, _, err = Bellows(surrogate.Geometry{Helical: true}, 1, 0, 64)
 	assert.Error(t, err)
 }
