@@ -13,7 +13,7 @@ import (
 // volume stays within 0.5 % of the surrogate's wall volume.
 const (
 	DefaultSides    = 128
-	DefaultPerPiece = 32
+	DefaultPerPiece = 16
 	MaxSides        = 4096
 )
 
