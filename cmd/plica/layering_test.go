@@ -29,6 +29,7 @@ func TestLayering(t *testing.T) {
 		"plica/problems":                   {"plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics", "plica/search", "plica/search/front"},
 		"plica/results":                    {"plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
 		"plica/results/report":             {"plica/results", "plica/search", "plica/search/front", "plica/problems", "plica/objective", "plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
+		"plica/results/export":             {"plica/surrogate", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid"},
 		"plica/results/verify":             {"plica/search", "plica/search/front", "plica/surrogate", "plica/surrogate/fecheck", "plica/surrogate/convolution", "plica/surrogate/shell", "plica/surrogate/solid", "plica/objective/kinematics", "plica/objective/statics"},
 	}
 	for pkg, ok := range allowed {

@@ -1,0 +1,153 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"flag"
+	"fmt"
+	"io"
+	"os"
+	"path/filepath"
+
+	"plica/problems"
+	"plica/results/export"
+)
+
+func init() {
+	register(&command{
+		name:  "export",
+		usage: "DESIGN.toml -o DIR [-collar-mm L] [-segments N] [-json]",
+		short: "write printable bellows meshes (binary STL, mm) and export.json",
+		long: `Writes bellows-N.stl for each bellows given by geometry: the wall printed
+straight along +z from z = 0, whole convolutions over the straight plus
+curved length, the wall offset by half its thickness both ways from the
+centreline, plain collars of -collar-mm at both ends. -segments sets the
+polygon sides about the axis (3 to 4096; the k-gon carries the area factor
+k·sin(2π/k)/(2π)). A bellows in measured form has no geometry and is
+skipped with a note. DIR must not exist or be empty; the files appear
+together or not at all. Exit status 0, or 2 on bad input.`,
+		run: runExport,
+	})
+}
+
+type exportPart struct {
+	Bellows      int        `json:"bellows"`
+	File         string     `json:"file"`
+	Convolutions int        `json:"convolutions"`
+	VolumeMM3    float64    `json:"volume_mm3"`
+	MassG        float64    `json:"mass_g"`
+	BoxMinMM     [3]float64 `json:"bbox_min_mm"`
+	BoxMaxMM     [3]float64 `json:"bbox_max_mm"`
+	Triangles    int        `json:"triangles"`
+	ODmm         float64    `json:"outer_diameter_mm"`
+	DepthMM      float64    `json:"depth_mm"`
+	PitchMM      float64    `json:"pitch_mm"`
+	WallMM       float64    `json:"wall_mm"`
+	CollarMM     float64    `json:"collar_mm"`
+	Sides        int        `json:"segments"`
+}
+
+type exportOutput struct {
+	Design  string       `json:"design"`
+	Parts   []exportPart `json:"parts"`
+	Skipped []string     `json:"skipped,omitempty"`
+}
+
+func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
+	dir := fs.String("o", "", "output folder (must not exist or be empty)")
+	collar := fs.Float64("collar-mm", 5, "plain collar length at each end, mm (0: none)")
+	sides := fs.Int("segments", export.DefaultSides, "polygon sides about the axis")
+	asJSON := fs.Bool("json", false, "print JSON instead of a table")
+	pos, err := parseArgs(fs, args)
+	if err != nil {
+		return err
+	}
+	if len(pos) != 1 {
+		return usagef("export: expected one design file, got %d arguments", len(pos))
+	}
+	if *dir == "" {
+		return usagef("export: -o DIR is required")
+	}
+	if *sides < 3 || *sides > export.MaxSides {
+		return usagef("export: -segments %d is out of range (expected 3 to %d)", *sides, export.MaxSides)
+	}
+	if !(*collar >= 0 && *collar <= 1000) {
+		return usagef("export: -collar-mm %g is out of range (expected 0 to 1000 mm)", *collar)
+	}
+	if ents, err := os.ReadDir(*dir); err == nil && len(ents) > 0 {
+		return usagef("export: -o %s exists and is not empty", *dir)
+	} else if err != nil && !os.IsNotExist(err) {
+		return usagef("export: -o %s: %v", *dir, err)
+	}
+	d, _, err := problems.LoadDesign(pos[0])
+	if err != nil {
+		return err
+	}
+	parent := filepath.Dir(filepath.Clean(*dir))
+	tmp, err := os.MkdirTemp(parent, ".plica-export-")
+	if err != nil {
+		return usagef("export: -o %s cannot be written: %v", *dir, err)
+	}
+	defer os.RemoveAll(tmp)
+	if err := os.Chmod(tmp, 0o755); err != nil {
+		return err
+	}
+	out := exportOutput{Design: pos[0]}
+	for i, b := range d.Bellows {
+		if b.Model == nil {
+			out.Skipped = append(out.Skipped, fmt.Sprintf("bellows %d: measured form, no geometry to export", i+1))
+			continue
+		}
+		if err := ctx.Err(); err != nil {
+			return err
+		}
+		g := b.Model.Geometry
+		m, n, err := export.Bellows(g, b.StraightLength+b.CurvedLength, *collar*1e-3, *sides)
+		if err != nil {
+			return fmt.Errorf("%s: bellows %d: %w", pos[0], i+1, err)
+		}
+		if err := m.Check(); err != nil {
+			return fmt.Errorf("%s: bellows %d: mesh is not closed: %w", pos[0], i+1, err)
+		}
+		name := fmt.Sprintf("bellows-%d.stl", i+1)
+		var buf bytes.Buffer
+		if err := m.WriteSTL(&buf, fmt.Sprintf("plica bellows %d, mm", i+1)); err != nil {
+			return err
+		}
+		if err := os.WriteFile(filepath.Join(tmp, name), buf.Bytes(), 0o644); err != nil {
+			return err
+		}
+		lo, hi := m.Bounds()
+		vol := m.Volume()
+		out.Parts = append(out.Parts, exportPart{Bellows: i + 1, File: name, Convolutions: n,
+			VolumeMM3: vol, MassG: vol * 1e-9 * b.Model.Material.Density * 1e3,
+			BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
+			ODmm: g.OuterDiameter * 1e3, DepthMM: g.Depth * 1e3, PitchMM: g.Pitch * 1e3, WallMM: g.Wall * 1e3,
+			CollarMM: *collar, Sides: *sides})
+	}
+	js, err := json.MarshalIndent(out, "", "  ")
+	if err != nil {
+		return err
+	}
+	if err := os.WriteFile(filepath.Join(tmp, "export.json"), append(js, '\n'), 0o644); err != nil {
+		return err
+	}
+	if err := os.Remove(*dir); err != nil && !os.IsNotExist(err) {
+		return usagef("export: -o %s: %v", *dir, err)
+	}
+	if err := os.Rename(tmp, *dir); err != nil {
+		return usagef("export: -o %s cannot be written: %v", *dir, err)
+	}
+	if *asJSON {
+		_, err := stdout.Write(append(js, '\n'))
+		return err
+	}
+	for _, p := range out.Parts {
+		fmt.Fprintf(stdout, "%s  %d convolutions  %.1f mm³  %.2f g  %d triangles\n", filepath.Join(*dir, p.File), p.Convolutions, p.VolumeMM3, p.MassG, p.Triangles)
+	}
+	for _, s := range out.Skipped {
+		fmt.Fprintln(stdout, "note:", s)
+	}
+	return nil
+}
