@@ -21,9 +21,6 @@ const (
 	// tables.
 	spineBetaMin = 0.05
 	spineBetaMax = 0.15
-	// spineWdMin and spineWdMax bound w/Dm of both tables.
-	spineWdMin = 0.08
-	spineWdMax = 0.2
 )
 
 // SpineFraction returns β = SpineWidth/(π·Dm), the share of the
@@ -81,11 +78,20 @@ func bracket(a []float64, x float64) (int, float64) {
 }
 
 // SpineTorsionFactor returns GJ(spine)/GJ(no spine) of the geometry's
-// revolved wall from the generated tables (1 without a spine).
+// revolved wall from the generated tables (1 without a spine), read at
+// the bellows' pitch over mean diameter q/Dm: the table's w/Dm axis is
+// q/Dm times the table's w/q (surrogate/REFERENCE.md §6.4).
 func (g Geometry) SpineTorsionFactor() float64 {
 	beta := g.SpineFraction()
 	if beta == 0 {
 		return 1
 	}
-	return spineTableFor(g.Profile).Lookup(beta, g.Depth/(2*g.MeanRadius()))
+	t := spineTableFor(g.Profile)
+	return t.Lookup(beta, t.DepthPitch*g.Pitch/(2*g.MeanRadius()))
+}
+
+// spinePitchDiam returns the q/Dm range of the table of profile p.
+func spinePitchDiam(p Profile) (lo, hi float64) {
+	t := spineTableFor(p)
+	return t.DepthDiam[0] / t.DepthPitch, t.DepthDiam[len(t.DepthDiam)-1] / t.DepthPitch
 }

@@ -82,7 +82,7 @@ func TestSpineTableLookup(t *testing.T) {
 }
 
 // TestSpineValidity: a spined bellows reports the spine limits of
-// Validity at their edges (arc fraction, w/Dm and w/q of the generated
+// Validity at their edges (arc fraction, q/Dm and w/q of the generated
 // factor), a spined trapezoid always; an unspined one none of them.
 func TestSpineValidity(t *testing.T) {
 	quantities := func(g Geometry) map[string]bool {
@@ -114,18 +114,21 @@ func TestSpineValidity(t *testing.T) {
 		assert.Equal(t, c.out, quantities(g)[QuantitySpineDepthPitch], "w/q %g", c.wq)
 	}
 	g.Pitch = g.Depth / 0.5
-	lo, hi := spineTableFor(Sinusoid).DepthDiam[0], spineTableFor(Sinusoid).DepthDiam[len(spineTableFor(Sinusoid).DepthDiam)-1]
+	lo, hi := spinePitchDiam(Sinusoid)
+	require.InDelta(t, 0.16, lo, 1e-12)
+	require.InDelta(t, 0.4, hi, 1e-12)
 	for _, c := range []struct {
-		wd  float64
+		qd  float64
 		out bool
 	}{{lo * 0.99, true}, {lo * 1.01, false}, {hi * 0.99, false}, {hi * 1.01, true}} {
-		g.Depth = c.wd * dm
+		g.Pitch = c.qd * dm
+		g.Depth = 0.5 * g.Pitch
 		g.OuterDiameter = dm + g.Depth + g.Wall
-		g.Pitch = g.Depth / 0.5
-		assert.Equal(t, c.out, quantities(g)[QuantitySpineDepthDiam], "w/Dm %g", c.wd)
+		assert.Equal(t, c.out, quantities(g)[QuantitySpinePitchDiam], "q/Dm %g", c.qd)
 	}
+	ulo, uhi := spinePitchDiam(UShape)
+	require.Equal(t, []float64{ulo, uhi}, []float64{0.08 / 0.75, 0.2 / 0.75}, "Validity names the U table's range")
 	tr := g
 	tr.Profile, tr.FlatFraction = Trapezoid, 0.4
-	tr.Depth = 0.14 * dm
 	assert.True(t, quantities(tr)[QuantitySpine], "a spined trapezoid has no spine factor")
 }

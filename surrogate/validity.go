@@ -16,7 +16,7 @@ const (
 	QuantityOpening      = "e/w"  // largest opening of one convolution over its depth
 	// spined bellows only (SpineWidth > 0): the spine's torsion factor
 	QuantitySpine           = "b_s/(π·Dm)"   // spine arc fraction
-	QuantitySpineDepthDiam  = "w/Dm (spine)" // depth over mean diameter of a spined bellows
+	QuantitySpinePitchDiam  = "q/Dm (spine)" // pitch over mean diameter of a spined bellows
 	QuantitySpineDepthPitch = "w/q (spine)"  // depth over pitch of a spined bellows
 )
 
@@ -65,7 +65,9 @@ var Validity = []Limit{
 	{Quantity: QuantitySpine, Profiles: []Profile{Trapezoid}, Min: 0, Max: 0,
 		Model: "torsion of a spined bellows (no generated factor for a trapezoid)",
 		Basis: "no 3-D shell runs of a spined trapezoid"},
-	{Quantity: QuantitySpineDepthDiam, Profiles: []Profile{Sinusoid, UShape}, Min: spineWdMin, Max: spineWdMax,
+	{Quantity: QuantitySpinePitchDiam, Profiles: []Profile{Sinusoid}, Min: 0.16, Max: 0.4,
+		Model: spineModel, Basis: spineBasis},
+	{Quantity: QuantitySpinePitchDiam, Profiles: []Profile{UShape}, Min: 0.08 / 0.75, Max: 0.2 / 0.75,
 		Model: spineModel, Basis: spineBasis},
 	{Quantity: QuantitySpineDepthPitch, Profiles: []Profile{Sinusoid}, Min: spineSineWQ[0], Max: spineSineWQ[1],
 		Model: spineModel, Basis: spineBasis},
@@ -159,8 +161,8 @@ func CheckLimit(quantity string, p Profile, v float64) []RangeNote {
 }
 
 // OutOfRange returns the geometric limits of Validity (t/w, t/2ρ, w/Dm,
-// w/q; and for a spined bellows the spine arc fraction, w/Dm and w/q of
-// the spine's torsion factor) the geometry lies outside, in the order of
+// w/q; and for a spined bellows the spine arc fraction,
+// q/Dm and w/q of the spine's torsion factor) the geometry lies outside, in the order of
 // Validity.
 func (g Geometry) OutOfRange() []RangeNote {
 	var out []RangeNote
@@ -170,7 +172,7 @@ func (g Geometry) OutOfRange() []RangeNote {
 	out = append(out, CheckLimit(QuantityDepthPitch, g.Profile, g.Depth/g.Pitch)...)
 	if g.SpineWidth > 0 {
 		out = append(out, CheckLimit(QuantitySpine, g.Profile, g.SpineFraction())...)
-		out = append(out, CheckLimit(QuantitySpineDepthDiam, g.Profile, g.Depth/(2*g.MeanRadius()))...)
+		out = append(out, CheckLimit(QuantitySpinePitchDiam, g.Profile, g.Pitch/(2*g.MeanRadius()))...)
 		out = append(out, CheckLimit(QuantitySpineDepthPitch, g.Profile, g.Depth/g.Pitch)...)
 	}
 	return out

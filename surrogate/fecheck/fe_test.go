@@ -191,7 +191,7 @@ func TestFEWindingSpineMaterial(t *testing.T) {
 // spineChecks are spined bellows the generated spine torsion factor
 // (surrogate/internal/spinegen) was not built from: other mean diameters,
 // walls and w/q (the tables hold one w/q per profile), interior values of
-// the spine arc fraction β and w/Dm, U and sinusoid, inside the range
+// the spine arc fraction β and q/Dm, U and sinusoid, inside the range
 // surrogate.Validity states for the spine. TestFEWindingSpineMaterial's
 // resin-spine case is a third such geometry, and plica verify -fe runs a
 // fourth (spineVerify).

@@ -9,7 +9,7 @@
 // f to its own GJ. It needs ccx on PATH (Debian package calculix-ccx).
 //
 // Run from the surrogate directory with `go run ./internal/spinegen`
-// (about five minutes on two cores); it is not a go:generate step so that
+// (about 15 minutes on two cores); it is not a go:generate step so that
 // `go generate ./surrogate` stays fast and needs no FE engine.
 package main
 
@@ -33,8 +33,8 @@ import (
 // no-spine limit, f = 1 exactly) × w/Dm, per profile at one depth-to-pitch
 // ratio (sinusoid w/q = 0.5; U w/q = 0.75 with rm = q/4). Dm = 27 mm,
 // t = 0.4 mm, isotropic wall E = 2 GPa, ν = 0.35: the ratio does not
-// depend on E, and on t only through the small bending share of the
-// wall's torsion.
+// depend on E; its dependence on t, ν and orthotropy is not tabulated
+// (fecheck's TestFESpineGJ checks other walls).
 var (
 	betaAxis = []float64{0, 0.05, 0.15}
 	wdAxis   = []float64{0.08, 0.14, 0.2}
