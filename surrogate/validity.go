@@ -89,7 +89,7 @@ const (
 // The w/q ranges over which the spine's torsion factor, generated at one
 // w/q per profile, was tested against CalculiX (fecheck TestFESpineGJ).
 var (
-	spineSineWQ = [2]float64{0.4, 0.65}
+	spineSineWQ = [2]float64{0.5, 0.65}
 	spineUWQ    = [2]float64{0.75, 0.9}
 )
 

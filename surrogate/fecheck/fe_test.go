@@ -193,8 +193,8 @@ func TestFEWindingSpineMaterial(t *testing.T) {
 // walls and w/q (the tables hold one w/q per profile), interior values of
 // the spine arc fraction β and q/Dm, U and sinusoid, inside the range
 // surrogate.Validity states for the spine. TestFEWindingSpineMaterial's
-// resin-spine case is a third such geometry, and plica verify -fe runs a
-// fourth (spineVerify).
+// resin-spine case is a third such geometry (plica verify -fe runs it,
+// spineVerify).
 var spineChecks = []spineCheck{
 	{"u-spine-0.85", surrogate.UShape, 0.026, 0.85, 0.13, 0.07, 0.0004},
 	{"sine-spine-0.62", surrogate.Sinusoid, 0.024, 0.62, 0.17, 0.12, 0.00035},

@@ -89,14 +89,13 @@ var ringGeometries = []ringGeometry{
 var verifyRings = []string{"u-1.0-0.15", "sine-0.6-0.5"}
 
 // spineVerify is the spined bellows plica verify -fe runs (not a grid
-// point of the generated spine factor): a sinusoid, Dm = 30 mm, w/Dm
-// 0.15, w/q 0.42, t = 0.5 mm, a spine of arc fraction β = 0.11; about a
-// minute of ccx on one core.
+// point of the generated spine factor): a sinusoid, OD 30 mm, w 3 mm,
+// q 6 mm, t 0.4 mm, a 5 mm spine (β 0.06), the geometry of
+// TestFEWindingSpineMaterial's resin-spine case; about a minute and a
+// half of ccx on one core.
 func spineVerify() surrogate.Bellows {
-	const dm, wdm, wq, t, beta = 0.030, 0.15, 0.42, 0.0005, 0.11
-	w := wdm * dm
-	g := surrogate.Geometry{OuterDiameter: dm + w + t, Depth: w, Pitch: w / wq, Wall: t, Profile: surrogate.Sinusoid,
-		SpineWidth: beta * math.Pi * dm}
+	g := surrogate.Geometry{OuterDiameter: 0.030, Depth: 0.003, Pitch: 0.006, Wall: 0.0004, Profile: surrogate.Sinusoid,
+		SpineWidth: 0.005}
 	return surrogate.Bellows{Geometry: g, Material: ringMaterial}
 }
 
@@ -251,7 +250,7 @@ func VerificationCases() []VerificationCase {
 		}
 		return [2]float64{sec.GJ, r.Shell.GJNm2}, nil
 	}}
-	cases = append(cases, VerificationCase{Area: "fe", Name: "sinusoid w/q 0.42, w/Dm 0.15, spine β 0.11: surrogate (strip) GJ with the spine factor ÷ CalculiX 3-D shell",
+	cases = append(cases, VerificationCase{Area: "fe", Name: "sinusoid w/q 0.5, w/Dm 0.11, spine β 0.06: surrogate (strip) GJ with the spine factor ÷ CalculiX 3-D shell",
 		Unit: "ratio", Published: 1, Tolerance: 0.05, Relative: true, Source: spineSource,
 		Compute: func(ctx context.Context) (float64, error) {
 			v, err := spine.get(ctx)
