@@ -341,7 +341,27 @@ func FrontHeader(s *problems.Spec) []string {
 		h = append(h, "check_"+n+u, "limit_"+n+u, "pass_"+n)
 	}
 	h = append(h, c.Constraints...)
-	return append(h, "pass", "design_file")
+	return append(h, "pass", WarningsColumn, "design_file")
+}
+
+// WarningsColumn is the front.csv column that names, separated by ";",
+// the warn-only checks (objective.Check.Warn, e.g. validated_range[1]) a
+// design did not pass: their pass_NAME is false while pass stays true.
+// Empty when every warn-only check passed.
+const WarningsColumn = "warnings"
+
+// warnedChecks returns the WarningsColumn cell of a result.
+func warnedChecks(r *objective.Result) string {
+	if r == nil {
+		return ""
+	}
+	var names []string
+	for _, c := range r.Checks {
+		if c.Warn && !c.Pass {
+			names = append(names, c.Name)
+		}
+	}
+	return strings.Join(names, ";")
 }
 
 // WriteFront writes front.csv and designs/front-NNN.toml for each row.
@@ -379,7 +399,7 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 			row = append(row, formatFloat(g))
 		}
 		pass := r.Result != nil && r.Result.Pass
-		row = append(row, strconv.FormatBool(pass), name)
+		row = append(row, strconv.FormatBool(pass), warnedChecks(r.Result), name)
 		w.Write(row)
 	}
 	w.Flush()

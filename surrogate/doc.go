@@ -27,7 +27,9 @@
 // Both fidelities correct the thin-shell wall with the axisymmetric solid
 // model of package solid (thick-wall strain, bending strain and EI from
 // the bending of the convolution itself; wall_table_gen.go for Strip,
-// written by internal/wallgen; surrogate/REFERENCE.md §6). Validity is the validated
+// written by internal/wallgen; surrogate/REFERENCE.md §6). A spine multiplies GJ by a factor
+// generated with CalculiX's 3-D shell model (spine_table_gen.go, written by
+// internal/spinegen; surrogate/REFERENCE.md §6.4). Validity is the validated
 // range of every model; Section.OutOfRange names the limits a geometry
 // lies outside.
 //

@@ -38,10 +38,12 @@ import "math"
 // c_x alone multiplies EI_x, c_y alone EI_y, and c_x = c_y = c multiplies
 // the whole tensor. PrincipalEI and PrincipalAngle are those of EI'.
 //
-// GJ = 2π·G·t·q / ∫_pitch ds/r³ with G = E_across/(2(1+ν)) (surrogate/REFERENCE.md §2.6); for
-// helical convolutions 1/GJ = cos²(2α)/GJ_rev + sin²(2α)/(2·EI_0),
-// α = atan(q/(π·Dm)), EI_0 = k_conv·q·Dm²/8 (surrogate/REFERENCE.md §2.7). The spine is ignored
-// in GJ.
+// GJ_rev = f_s·2π·G·t·q / ∫_pitch ds/r³ with G = E_across/(2(1+ν)) (surrogate/REFERENCE.md §2.6)
+// and f_s the spine's torsion factor GJ(spine)/GJ(no spine), generated
+// from the 3-D shell model (Geometry.SpineTorsionFactor, surrogate/REFERENCE.md §6.4; 1
+// without a spine); for helical convolutions 1/GJ = cos²(2α)/GJ_rev +
+// sin²(2α)/(2·EI_0), α = atan(q/(π·Dm)), EI_0 = k_conv·q·Dm²/8 (surrogate/REFERENCE.md §2.7),
+// so the spine lowers the revolved (shear) part only.
 //
 // MassPerLength = ρ·t·((2π − Δφ)/q·∫_pitch r ds + Rm·Δφ), Δφ = SpineWidth/Rm
 // (surrogate/REFERENCE.md §2.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
@@ -172,6 +174,9 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	// Torsion (surrogate/REFERENCE.md §2.6, §2.7).
 	gm := mtl.ModulusAcross / (2 * (1 + mtl.Poisson))
 	gj := 2 * math.Pi * gm * t * q / st.mom.Am3
+	// the spine's torsion factor acts on the revolved wall; the helical
+	// formula then adds unwinding in series (surrogate/REFERENCE.md §6.4)
+	gj *= g.SpineTorsionFactor()
 	if g.Helical {
 		a := math.Atan(q / (math.Pi * dm))
 		s2, c2 := math.Sincos(2 * a)

@@ -14,6 +14,10 @@ const (
 	QuantityDepthPitch   = "w/q"  // depth over pitch
 	QuantityConvolutions = "N"    // convolutions along the bellows (length/pitch)
 	QuantityOpening      = "e/w"  // largest opening of one convolution over its depth
+	// spined bellows only (SpineWidth > 0): the spine's torsion factor
+	QuantitySpine           = "b_s/(π·Dm)"   // spine arc fraction
+	QuantitySpinePitchDiam  = "q/Dm (spine)" // pitch over mean diameter of a spined bellows
+	QuantitySpineDepthPitch = "w/q (spine)"  // depth over pitch of a spined bellows
 )
 
 // Limit is one edge pair of the validated range: inside [Min, Max] the
@@ -56,6 +60,19 @@ var Validity = []Limit{
 	{Quantity: QuantityDepthPitch, Profiles: []Profile{UShape}, Min: 0.6, Max: 1.6,
 		Model: "wall strain and EI of the U profile (solid model tables)",
 		Basis: "CalculiX 3-D solid model"},
+	{Quantity: QuantitySpine, Profiles: []Profile{Sinusoid, UShape}, Min: spineBetaMin, Max: spineBetaMax,
+		Model: spineModel, Basis: spineBasis},
+	{Quantity: QuantitySpine, Profiles: []Profile{Trapezoid}, Min: 0, Max: 0,
+		Model: "torsion of a spined bellows (no generated factor for a trapezoid)",
+		Basis: "no 3-D shell runs of a spined trapezoid"},
+	{Quantity: QuantitySpinePitchDiam, Profiles: []Profile{Sinusoid}, Min: 0.16, Max: 0.4,
+		Model: spineModel, Basis: spineBasis},
+	{Quantity: QuantitySpinePitchDiam, Profiles: []Profile{UShape}, Min: 0.08 / 0.75, Max: 0.2 / 0.75,
+		Model: spineModel, Basis: spineBasis},
+	{Quantity: QuantitySpineDepthPitch, Profiles: []Profile{Sinusoid}, Min: spineSineWQ[0], Max: spineSineWQ[1],
+		Model: spineModel, Basis: spineBasis},
+	{Quantity: QuantitySpineDepthPitch, Profiles: []Profile{UShape}, Min: spineUWQ[0], Max: spineUWQ[1],
+		Model: spineModel, Basis: spineBasis},
 	{Quantity: QuantityConvolutions, Min: 5, Max: math.Inf(1),
 		Model: "beam analogy (end effects of the end rings negligible)",
 		Basis: "common practice"},
@@ -63,6 +80,18 @@ var Validity = []Limit{
 		Model: "linear elastic wall (small movement per convolution, no contact)",
 		Basis: "common practice"},
 }
+
+const (
+	spineModel = "torsion of a spined bellows (generated 3-D shell factor)"
+	spineBasis = "CalculiX 3-D shell model with the spine and its blends (spinegen table; fecheck TestFESpineGJ on other geometries)"
+)
+
+// The w/q ranges over which the spine's torsion factor, generated at one
+// w/q per profile, was tested against CalculiX (fecheck TestFESpineGJ).
+var (
+	spineSineWQ = [2]float64{0.5, 0.65}
+	spineUWQ    = [2]float64{0.75, 0.9}
+)
 
 // RangeNote is one limit of Validity a bellows lies outside.
 type RangeNote struct {
@@ -132,12 +161,19 @@ func CheckLimit(quantity string, p Profile, v float64) []RangeNote {
 }
 
 // OutOfRange returns the geometric limits of Validity (t/w, t/2ρ, w/Dm,
-// w/q) the geometry lies outside, in the order of Validity.
+// w/q; and for a spined bellows the spine arc fraction,
+// q/Dm and w/q of the spine's torsion factor) the geometry lies outside, in the order of
+// Validity.
 func (g Geometry) OutOfRange() []RangeNote {
 	var out []RangeNote
 	out = append(out, CheckLimit(QuantityWallDepth, g.Profile, g.Wall/g.Depth)...)
 	out = append(out, CheckLimit(QuantityFold, g.Profile, g.FoldRatio())...)
 	out = append(out, CheckLimit(QuantityDepthDiam, g.Profile, g.Depth/(2*g.MeanRadius()))...)
 	out = append(out, CheckLimit(QuantityDepthPitch, g.Profile, g.Depth/g.Pitch)...)
+	if g.SpineWidth > 0 {
+		out = append(out, CheckLimit(QuantitySpine, g.Profile, g.SpineFraction())...)
+		out = append(out, CheckLimit(QuantitySpinePitchDiam, g.Profile, g.Pitch/(2*g.MeanRadius()))...)
+		out = append(out, CheckLimit(QuantitySpineDepthPitch, g.Profile, g.Depth/g.Pitch)...)
+	}
 	return out
 }

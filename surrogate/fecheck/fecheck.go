@@ -194,12 +194,21 @@ func shellFor(b *surrogate.Bellows, m Mesh) shellSpec {
 		spineWidth: b.SpineWidth, spineAngle: b.SpineAngle,
 		pitches: Pitches, around: around, perPitch: per, ringA: RingOffset, ring: Pitches - 2*RingOffset}
 	if b.SpineWidth > 0 {
-		// the wall blends into the spine over one convolution depth; at
-		// least one element across the spine and across each blend (the
-		// grid is centred on the spine)
+		// the wall blends into the spine over one convolution depth. The
+		// blends get 2.5 S8R elements across (draft 1.5, fine 4) and the
+		// spine 2 (1.5, 3): GJ is then converged to about 0.3 %, where one
+		// element across each blend reads about 2 % stiff
+		// (surrogate/REFERENCE.md §6.4). The grid is centred on the spine.
 		s.spineBlendWidth = b.Depth
-		need := int(math.Ceil(2 * math.Pi * b.MeanRadius() / min(b.SpineWidth, b.Depth)))
-		s.around = max(s.around, min(need, 96))
+		across, spine, most := 2.5, 2.0, 96
+		switch m {
+		case draft:
+			across, spine, most = 1.5, 1.5, 64
+		case Fine:
+			across, spine, most = 4, 3, 160
+		}
+		need := int(math.Ceil(2 * math.Pi * b.MeanRadius() / min(b.SpineWidth/spine, b.Depth/across)))
+		s.around = max(s.around, min(need, most))
 	}
 	return s
 }

@@ -88,6 +88,20 @@ var ringGeometries = []ringGeometry{
 // thick-fold sinusoid, each about 15 s of ccx on one core.
 var verifyRings = []string{"u-1.0-0.15", "sine-0.6-0.5"}
 
+// spineVerify is the spined bellows plica verify -fe runs (not a grid
+// point of the generated spine factor): a sinusoid, OD 30 mm, w 3 mm,
+// q 6 mm, t 0.4 mm, a 5 mm spine (β 0.06), the geometry of
+// TestFEWindingSpineMaterial's resin-spine case; about a minute and a
+// half of ccx on one core.
+func spineVerify() surrogate.Bellows {
+	g := surrogate.Geometry{OuterDiameter: 0.030, Depth: 0.003, Pitch: 0.006, Wall: 0.0004, Profile: surrogate.Sinusoid,
+		SpineWidth: 0.005}
+	return surrogate.Bellows{Geometry: g, Material: ringMaterial}
+}
+
+// spineSource is the source of the spine comparison.
+const spineSource = "CalculiX S8R 3-D shell model of the wall with its spine and blends (surrogate/fecheck/REFERENCE.md); spine factor surrogate/REFERENCE.md §6.4"
+
 // The thin cylinder of the shell-path case: mean radius R, wall t,
 // modulus E, Poisson ν; 8 "pitches" of 5 mm.
 const (
@@ -147,7 +161,8 @@ type ringOutcome struct {
 // cylinder through the shell path (EI, GJ, EA against the closed forms)
 // and, on the geometries of verifyRings, the solid model and the
 // surrogate against the CalculiX 3-D solid with the accuracy targets of
-// TestFESolidVsCalculiX. Each call gives a fresh list whose cases share
+// TestFESolidVsCalculiX, and the surrogate's GJ of a spined bellows
+// (spineVerify) against the 3-D shell model within ±5 %. Each call gives a fresh list whose cases share
 // their ccx runs (one per model).
 func VerificationCases() []VerificationCase {
 	cyl := &memo[*ShellResult]{f: func(ctx context.Context) (*ShellResult, error) {
@@ -223,5 +238,26 @@ func VerificationCases() []VerificationCase {
 			ratio("surrogate (strip) GJ", 0, 0.05, func(o ringOutcome) float64 { return o.sec.GJ / o.fe.GJNm2 }),
 		)
 	}
+	spine := &memo[[2]float64]{f: func(ctx context.Context) ([2]float64, error) {
+		b := spineVerify()
+		sec, err := b.Section(surrogate.Strip)
+		if err != nil {
+			return [2]float64{}, err
+		}
+		r, err := Run(ctx, b, Options{Shell: true})
+		if err != nil {
+			return [2]float64{}, err
+		}
+		return [2]float64{sec.GJ, r.Shell.GJNm2}, nil
+	}}
+	cases = append(cases, VerificationCase{Area: "fe", Name: "sinusoid w/q 0.5, w/Dm 0.11, spine β 0.06: surrogate (strip) GJ with the spine factor ÷ CalculiX 3-D shell",
+		Unit: "ratio", Published: 1, Tolerance: 0.05, Relative: true, Source: spineSource,
+		Compute: func(ctx context.Context) (float64, error) {
+			v, err := spine.get(ctx)
+			if err != nil {
+				return math.NaN(), err
+			}
+			return v[0] / v[1], nil
+		}})
 	return cases
 }

@@ -5,6 +5,8 @@ import (
 	"testing"
 
 	"github.com/stretchr/testify/assert"
+
+	"plica/surrogate"
 )
 
 // TestVerificationCaseList checks the FE cases plica verify -fe runs
@@ -22,7 +24,7 @@ func TestVerificationCaseList(t *testing.T) {
 	}
 	seen := map[string]bool{}
 	cases := VerificationCases()
-	assert.Len(t, cases, 3+4*len(verifyRings))
+	assert.Len(t, cases, 3+4*len(verifyRings)+1)
 	for _, c := range cases {
 		assert.False(t, seen[c.Name], "%s: name used twice", c.Name)
 		seen[c.Name] = true
@@ -32,4 +34,7 @@ func TestVerificationCaseList(t *testing.T) {
 		assert.True(t, c.Relative && c.Tolerance > 0 && c.Below >= 0 && c.Below < 1, c.Name)
 	}
 	assert.True(t, slices.ContainsFunc(cases, func(c VerificationCase) bool { return c.Below > 0 }), "the strain band is asymmetric")
+	sec, err := spineVerify().Section(surrogate.Strip)
+	assert.NoError(t, err)
+	assert.Empty(t, sec.OutOfRange, "the spined verification bellows lies inside the validated range")
 }

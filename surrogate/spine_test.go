@@ -1,0 +1,134 @@
+package surrogate
+
+import (
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// TestSpineNoSpineLimit: without a spine the torsion factor is exactly 1
+// and GJ is exactly the shell-of-revolution value 2π·G·t·q/∫ds/r³
+// (surrogate/REFERENCE.md §2.6, derived from the membrane shear flow of a shell of
+// revolution, Timoshenko & Woinowsky-Krieger, Theory of Plates and Shells,
+// 1959, from memory) for every profile, revolved and helical; with a
+// spine only the revolved GJ is multiplied by the factor, and the helical
+// formula (surrogate/REFERENCE.md §2.7) combines the result with the same unwinding term.
+func TestSpineNoSpineLimit(t *testing.T) {
+	for _, p := range []Profile{Sinusoid, UShape, Trapezoid} {
+		for _, hel := range []bool{false, true} {
+			b := validBellows()
+			b.Profile, b.Helical = p, hel
+			if p == Trapezoid {
+				b.FlatFraction = 0.4
+			}
+			assert.Equal(t, 1.0, b.SpineTorsionFactor())
+			s, err := b.Section(Strip)
+			require.NoError(t, err)
+			st := stripModel(&b.Geometry, b.Material.ModulusAcross, b.Material.Poisson)
+			gm := b.Material.ModulusAcross / (2 * (1 + b.Material.Poisson))
+			rev := 2 * math.Pi * gm * b.Wall * b.Pitch / st.mom.Am3
+			dm := 2 * b.MeanRadius()
+			ei0 := s.WallFactors.EI * s.AxialRatePerConvolution * b.Pitch * dm * dm / 8
+			helGJ := func(gjRev float64) float64 {
+				a := math.Atan(b.Pitch / (math.Pi * dm))
+				return 1 / (math.Pow(math.Cos(2*a), 2)/gjRev + math.Pow(math.Sin(2*a), 2)/(2*ei0))
+			}
+			want := rev
+			if hel {
+				want = helGJ(rev)
+			}
+			assert.Equal(t, want, s.GJ, "%v helical=%v: no spine, GJ unchanged", p, hel)
+
+			b.SpineWidth = 0.08 * math.Pi * dm
+			f := b.SpineTorsionFactor()
+			sp, err := b.Section(Strip)
+			require.NoError(t, err)
+			want = rev * f
+			if hel {
+				want = helGJ(rev * f)
+			}
+			assert.InEpsilon(t, want, sp.GJ, 1e-12, "%v helical=%v: spine factor on the revolved GJ", p, hel)
+		}
+	}
+}
+
+// TestSpineTableLookup: the lookup returns the generated entries at the
+// grid nodes, is bilinear between them (checked at the cell centre
+// against the mean of its four corners), takes the first spined column
+// below it and clamps beyond the grid. The β = 0 column is 1.
+func TestSpineTableLookup(t *testing.T) {
+	for _, tb := range []*SpineTable{&spineSinusoid, &spineUShape} {
+		nb := len(tb.Beta)
+		require.Equal(t, nb*len(tb.DepthDiam), len(tb.Factor))
+		require.Equal(t, 0.0, tb.Beta[0])
+		for j, wd := range tb.DepthDiam {
+			assert.Equal(t, 1.0, tb.Factor[j*nb])
+			assert.Equal(t, 1.0, tb.Lookup(0, wd))
+			for i := 1; i < nb; i++ {
+				assert.InDelta(t, tb.Factor[j*nb+i], tb.Lookup(tb.Beta[i], wd), 1e-12)
+				// plausible: between half and 1.1 times the unspined GJ
+				assert.True(t, tb.Factor[j*nb+i] > 0.5 && tb.Factor[j*nb+i] < 1.1, "%g", tb.Factor[j*nb+i])
+			}
+			assert.Equal(t, tb.Lookup(tb.Beta[1], wd), tb.Lookup(tb.Beta[1]/10, wd), "narrow spine takes the first spined column")
+			assert.Equal(t, tb.Lookup(tb.Beta[nb-1], wd), tb.Lookup(2*tb.Beta[nb-1], wd), "clamped above")
+		}
+		b := (tb.Beta[1] + tb.Beta[2]) / 2
+		w := (tb.DepthDiam[0] + tb.DepthDiam[1]) / 2
+		mean := (tb.Factor[1] + tb.Factor[2] + tb.Factor[nb+1] + tb.Factor[nb+2]) / 4
+		assert.InDelta(t, mean, tb.Lookup(b, w), 1e-12)
+	}
+}
+
+// TestSpineValidity: a spined bellows reports the spine limits of
+// Validity at their edges (arc fraction, q/Dm and w/q of the generated
+// factor), a spined trapezoid always; an unspined one none of them.
+func TestSpineValidity(t *testing.T) {
+	quantities := func(g Geometry) map[string]bool {
+		m := map[string]bool{}
+		for _, n := range g.OutOfRange() {
+			m[n.Quantity] = true
+		}
+		return m
+	}
+	// sinusoid, Dm = 27 mm, w/Dm 0.14, w/q 0.5
+	dm := 0.027
+	g := Geometry{Depth: 0.14 * dm, Wall: 0.0004, Profile: Sinusoid}
+	g.OuterDiameter = dm + g.Depth + g.Wall
+	g.Pitch = g.Depth / 0.5
+	assert.NotContains(t, quantities(g), QuantitySpine)
+	for _, c := range []struct {
+		beta float64
+		out  bool
+	}{{spineBetaMin * 0.99, true}, {spineBetaMin * 1.01, false}, {spineBetaMax * 0.99, false}, {spineBetaMax * 1.01, true}} {
+		g.SpineWidth = c.beta * math.Pi * dm
+		assert.Equal(t, c.out, quantities(g)[QuantitySpine], "β %g", c.beta)
+	}
+	g.SpineWidth = 0.1 * math.Pi * dm
+	for _, c := range []struct {
+		wq  float64
+		out bool
+	}{{spineSineWQ[0] * 0.99, true}, {spineSineWQ[0] * 1.01, false}, {spineSineWQ[1] * 0.99, false}, {spineSineWQ[1] * 1.01, true}} {
+		g.Pitch = g.Depth / c.wq
+		assert.Equal(t, c.out, quantities(g)[QuantitySpineDepthPitch], "w/q %g", c.wq)
+	}
+	g.Pitch = g.Depth / 0.5
+	lo, hi := spinePitchDiam(Sinusoid)
+	require.InDelta(t, 0.16, lo, 1e-12)
+	require.InDelta(t, 0.4, hi, 1e-12)
+	for _, c := range []struct {
+		qd  float64
+		out bool
+	}{{lo * 0.99, true}, {lo * 1.01, false}, {hi * 0.99, false}, {hi * 1.01, true}} {
+		g.Pitch = c.qd * dm
+		g.Depth = 0.5 * g.Pitch
+		g.OuterDiameter = dm + g.Depth + g.Wall
+		assert.Equal(t, c.out, quantities(g)[QuantitySpinePitchDiam], "q/Dm %g", c.qd)
+	}
+	ulo, uhi := spinePitchDiam(UShape)
+	require.Equal(t, []float64{ulo, uhi}, []float64{0.08 / 0.75, 0.2 / 0.75}, "Validity names the U table's range")
+	tr := g
+	tr.Profile, tr.FlatFraction = Trapezoid, 0.4
+	assert.True(t, quantities(tr)[QuantitySpine], "a spined trapezoid has no spine factor")
+}
