@@ -95,6 +95,10 @@ type RunInfo struct {
 	// MergedFrom lists the runs of a merged run (method "merge"); see
 	// Merge.
 	MergedFrom []MergedRun `json:"merged_from,omitempty"`
+	// Robust says, for a problem with [scatter], how the search scored
+	// candidates (first_order or nominal) and how the front's robust
+	// columns were computed (monte_carlo).
+	Robust *RobustInfo `json:"robust,omitempty"`
 }
 
 // runInfoJSON is run.json on disk: RunInfo with the time budget as text.
