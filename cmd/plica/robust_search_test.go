@@ -73,6 +73,15 @@ func TestRobustSearchDeterministic(t *testing.T) {
 	assert.Equal(t, "30", row[col["robust_samples"]])
 	assert.Equal(t, "first_order", row[col["search_estimate"]])
 
+	// pick -where filters on the robust columns like on any other.
+	code, out, errOut = runCLI(t, "pick", a, "-where", "pass_probability>=0.5", "-where", "tip_sag_mm_p95<1000")
+	require.Equal(t, 0, code, "pick: %s %s", out, errOut)
+	assert.Contains(t, out, "tip_sag_mm_q95 (min)", "pick names the quantile objective it ranks by")
+	assert.Contains(t, out, "filters: pass_probability>=0.5")
+	code, _, errOut = runCLI(t, "pick", a, "-where", "pass_probability>1.5")
+	assert.NotEqual(t, 0, code, "no design has a probability above 1")
+	_ = errOut
+
 	var info struct {
 		Objectives []string `json:"objectives"`
 		Robust     struct {
