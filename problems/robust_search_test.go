@@ -1,6 +1,7 @@
 package problems
 
 import (
+	"context"
 	"math"
 	"os"
 	"strings"
@@ -15,7 +16,7 @@ import (
 
 // robustProblem is the demo search with a print scatter, a chance
 // constraint and a quantile objective added.
-func robustProblem(t *testing.T, edits ...[2]string) ([]byte, *Spec, error) {
+func robustProblem(t testing.TB, edits ...[2]string) ([]byte, *Spec, error) {
 	t.Helper()
 	data, err := os.ReadFile("examples/boom-search.toml")
 	require.NoError(t, err)
@@ -125,4 +126,53 @@ func TestFillRobustNormal(t *testing.T) {
 		assert.Equal(t, g0[k], g[k], s.Checks[k])
 	}
 	assert.False(t, math.IsNaN(g[0]))
+}
+
+// BenchmarkRobustCandidate measures one search evaluation of the demo
+// problem scored nominally and under scatter by the first-order estimate
+// (chance constraint and quantile objective): model evaluations per
+// candidate, ns per candidate and the cost relative to the nominal one.
+func BenchmarkRobustCandidate(b *testing.B) {
+	_, robust, err := robustProblem(b)
+	if err != nil {
+		b.Fatal(err)
+	}
+	data, err := os.ReadFile("examples/boom-search.toml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	nominal, err := ParseProblem(data, "p.toml")
+	if err != nil {
+		b.Fatal(err)
+	}
+	run := func(b *testing.B, s *Spec) float64 {
+		p := s.SearchProblem()
+		x := s.Midpoint()
+		f, g := make([]float64, p.NumObjectives), make([]float64, p.NumConstraints)
+		b.ResetTimer()
+		for i := 0; i < b.N; i++ {
+			if err := p.Evaluate(context.Background(), int64(i), x, f, g); err != nil {
+				b.Fatal(err)
+			}
+		}
+		ns := float64(b.Elapsed().Nanoseconds()) / float64(b.N)
+		b.ReportMetric(ns, "ns/candidate")
+		return ns
+	}
+	var nominalNS float64
+	b.Run("nominal", func(b *testing.B) {
+		nominalNS = run(b, nominal)
+		b.ReportMetric(1, "evaluations/candidate")
+	})
+	b.Run("first-order", func(b *testing.B) {
+		ns := run(b, robust)
+		d, _, err := robust.Design(robust.Midpoint())
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportMetric(float64(objective.FirstOrderEvaluations(d, robust.Scatter)), "evaluations/candidate")
+		if nominalNS > 0 {
+			b.ReportMetric(ns/nominalNS, "x-nominal")
+		}
+	})
 }
