@@ -253,7 +253,7 @@ type RobustCheck struct {
 	SE   float64
 	Warn bool
 	// Value and SD are, for the first-order estimate, the nominal check
-	// value and its first-order standard deviation (NaN for Monte Carlo).
+	// value and its first-order standard deviation (0 for Monte Carlo).
 	Value, SD float64
 }
 
@@ -369,7 +369,7 @@ func summarise(d *Design, sc *Scenario, results []*Result, errs []error) *Robust
 	}
 	for i, c := range list {
 		p := float64(passCount[i]) / float64(n)
-		r.Checks = append(r.Checks, RobustCheck{Name: c.Name, PassProbability: p, SE: ProportionSE(p, n), Warn: c.Warn, Value: math.NaN(), SD: math.NaN()})
+		r.Checks = append(r.Checks, RobustCheck{Name: c.Name, PassProbability: p, SE: ProportionSE(p, n), Warn: c.Warn})
 	}
 	r.PassProbability = float64(all) / float64(n)
 	r.PassSE = ProportionSE(r.PassProbability, n)
