@@ -82,7 +82,7 @@ func robustRow(ctx context.Context, spec *problems.Spec, s *objective.Scatter, r
 	if err != nil {
 		return
 	}
-	row.Robust = r
+	row.Robust, row.ScatterSeed = r, s.Seed
 }
 
 // RobustColumns are front.csv's robust columns of a problem with

@@ -329,6 +329,8 @@ type FrontRow struct {
 	// Robust is the row's Monte Carlo under the problem's [scatter] (nil:
 	// no scatter, or not scored).
 	Robust *objective.Robust
+	// ScatterSeed is the seed of Robust's draws.
+	ScatterSeed uint64
 }
 
 // FrontHeader is the header of front.csv.
@@ -357,6 +359,9 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 	for _, r := range rows {
 		name := DesignFileName(r.ID)
 		text, err := s.DesignTOML(r.Design.X, comment(r))
+		if r.Robust != nil {
+			text, err = s.DesignTOMLSeeded(r.Design.X, comment(r), r.ScatterSeed)
+		}
 		if err != nil {
 			return err
 		}

@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -86,6 +87,20 @@ func TestRobustSearchDeterministic(t *testing.T) {
 	svg, err := os.ReadFile(filepath.Join(a, "plots", "front.svg"))
 	require.NoError(t, err)
 	assert.Contains(t, string(svg), "stroke:#456DC7", "range bars drawn")
+
+	// check -robust on a front design repeats the front row's numbers: the
+	// design file's [scatter] carries the run's seed.
+	code, out, errOut = runCLI(t, "check", filepath.Join(a, "designs", "front-001.toml"), "-robust", "-json")
+	require.Contains(t, []int{0, 1}, code, errOut)
+	var chk struct {
+		Robust struct {
+			Seed            uint64  `json:"seed"`
+			PassProbability float64 `json:"pass_probability"`
+		} `json:"robust"`
+	}
+	require.NoError(t, json.Unmarshal([]byte(out), &chk), out)
+	assert.Equal(t, uint64(1), chk.Robust.Seed, "the problem's search seed")
+	assert.Equal(t, row[col["pass_probability"]], strconv.FormatFloat(chk.Robust.PassProbability, 'g', -1, 64))
 
 	// pick -where filters on the robust columns like on any other.
 	code, out, errOut = runCLI(t, "pick", a, "-where", "pass_probability>=0.5", "-where", "tip_sag_mm_p95<1000")
