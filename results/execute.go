@@ -246,6 +246,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	if res.Status == search.Interrupted {
 		return res, context.Canceled
 	}
+	if info.Robust != nil && info.Robust.Front == RobustNotScored {
+		// stopped while the front was scored under scatter: resume scores it
+		return res, context.Canceled
+	}
 	return res, nil
 }
 

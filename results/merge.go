@@ -308,6 +308,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
+	info.Robust = newRobustInfo(spec, spec.Search.Seed)
 	info.Reference, res.ReferenceReason = mergeReference(ins, merged, len(spec.Objectives))
 	info.Hypervolume = finiteOr0(hypervolumeOf(merged, info.Reference))
 	for r, in := range ins {
