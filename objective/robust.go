@@ -252,6 +252,9 @@ type RobustCheck struct {
 	// sqrt(p(1−p)/n) for Monte Carlo; NaN for the first-order estimate.
 	SE   float64
 	Warn bool
+	// Value and SD are, for the first-order estimate, the nominal check
+	// value and its first-order standard deviation (0 for Monte Carlo).
+	Value, SD float64
 }
 
 // Robust is the outcome of a design under scatter.
@@ -431,10 +434,19 @@ func Quantile(sorted []float64, p float64) float64 {
 // is Φ of its margin over that standard deviation. All-pass takes the
 // worst check (a lower bound would need the correlations).
 func FirstOrder(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Robust, error) {
+	_, r, err := FirstOrderNominal(ctx, d, sc, s)
+	return r, err
+}
+
+// FirstOrderNominal is FirstOrder that also returns the nominal
+// evaluation it starts from (what a search needs for its other
+// constraints); Robust.Checks carry the nominal value and first-order
+// standard deviation of every check.
+func FirstOrderNominal(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Result, *Robust, error) {
 	vars := s.vars(d)
 	nom, err := EvaluateContext(ctx, d, sc)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	st := TruncatedNormalSD(TruncationSD)
 	scoreVar := map[string]float64{}
@@ -450,12 +462,12 @@ func FirstOrder(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Robu
 		if err != nil {
 			var ie *InternalError
 			if errors.As(err, &ie) || (ctx != nil && ctx.Err() != nil) {
-				return nil, err
+				return nil, nil, err
 			}
 			// a step out of the model's range: fall back to a backward step
 			z[j] = -step
 			if res, err = EvaluateContext(ctx, perturbed(d, vars, z), sc); err != nil {
-				return nil, err
+				return nil, nil, err
 			}
 		}
 		h := z[j]
@@ -496,10 +508,16 @@ func FirstOrder(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Robu
 		case c.Pass:
 			p = 1
 		}
-		r.Checks = append(r.Checks, RobustCheck{Name: c.Name, PassProbability: p, SE: math.NaN(), Warn: c.Warn})
+		r.Checks = append(r.Checks, RobustCheck{Name: c.Name, PassProbability: p, SE: math.NaN(), Warn: c.Warn, Value: c.Value, SD: sd})
 		if !c.Warn && p < r.PassProbability {
 			r.PassProbability = p
 		}
 	}
-	return r, nil
+	return nom, r, nil
 }
+
+// FirstOrderEvaluations is the number of model evaluations FirstOrder
+// makes for d under s: the nominal one and one per scattered variable
+// (a backward step, when a forward one leaves the model's range, adds
+// one).
+func FirstOrderEvaluations(d *Design, s *Scatter) int { return 1 + len(s.vars(d)) }

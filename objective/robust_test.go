@@ -244,3 +244,34 @@ func BenchmarkRobust(b *testing.B) {
 		b.ReportMetric(50, "evaluations/op")
 	})
 }
+
+// TestFirstOrderNominalCheckSD: the chance constraint of a robust search
+// reads each check's nominal value and first-order standard deviation. On
+// the straight cantilever the sag is δ₀/f with f the EI factor (Roark's
+// Formulas for Stress and Strain, 7th ed., Table 8.1, cases 1a and 2a), so
+// the forward difference of one standard deviation is δ₀/(1 + σ) − δ₀ and
+// the first-order sd is δ₀·σ/(1 + σ)·σ_T; the pass probability is Φ of the
+// margin over it (gonum's unit normal).
+func TestFirstOrderNominalCheckSD(t *testing.T) {
+	d, sc := straightCantilever()
+	nom0, err := Evaluate(d, sc)
+	require.NoError(t, err)
+	sc.Requirements.MaxTipSag = nom0.Scores.TipSag * 1.1
+	const sigma = 0.05
+	s := &Scatter{StiffnessPct: 100 * sigma}
+	nom, r, err := FirstOrderNominal(context.Background(), d, sc, s)
+	require.NoError(t, err)
+	assert.Equal(t, 2, FirstOrderEvaluations(d, s))
+	var c RobustCheck
+	for _, x := range r.Checks {
+		if x.Name == "tip_sag" {
+			c = x
+		}
+	}
+	d0 := findCheck(nom, "tip_sag").Value
+	assert.Equal(t, d0, c.Value, "the nominal check value")
+	want := d0 * sigma / (1 + sigma) * TruncatedNormalSD(TruncationSD)
+	assert.InEpsilon(t, want, c.SD, 2e-3, "first-order sd of the sag (the large-deflection sag is nearly δ₀/f at this load)")
+	limit := findCheck(nom, "tip_sag").Limit
+	assert.InDelta(t, distuv.UnitNormal.CDF((limit-d0)/c.SD), c.PassProbability, 1e-12)
+}

@@ -159,6 +159,11 @@ type Requirements struct {
 	MinTaskCoverageSet bool
 	MaxMass            float64 // kg
 	MinPayloadToWeight float64 // payload mass / bellows mass
+	// MinPassProbability is the chance constraint of a robust search and
+	// plica check -robust: every check passes with at least this
+	// probability under the scenario's Scatter (0: none). The nominal
+	// checks do not read it.
+	MinPassProbability float64
 	// OutsideValidatedRange switches off the validated_range checks:
 	// bellows outside surrogate.Validity are still warned about, but a
 	// search no longer treats leaving the range as a constraint.

@@ -63,7 +63,10 @@ func ParseDesign(data []byte, file string) (*objective.Design, *objective.Scenar
 		}
 	}
 	sc.Scatter = readScatter(root)
-	root.finish(append(append([]string{}, topKeys...), designOnlyKeys...))
+	if sc.Requirements.MinPassProbability > 0 && !sc.Scatter.Active() {
+		r.errorf("requirements.min_pass_probability", "a pass probability needs print scatter but the file has no [scatter] that scatters anything (expected a [scatter] table with modulus_pct, wall_pct, precurvature_pct or stiffness_pct > 0)")
+	}
+	root.finish(append(append([]string{}, topKeys...), scatterTopKeys...))
 	if len(r.errs) > 0 {
 		return nil, nil, r.errs.sorted()
 	}

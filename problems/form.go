@@ -167,6 +167,7 @@ type problemForm struct {
 	Objective    []objectiveForm     `toml:"objective"`
 	Printer      *printerForm        `toml:"printer"`
 	Requirements *requirementsForm   `toml:"requirements"`
+	Scatter      *scatterForm        `toml:"scatter"`
 	Search       *searchForm         `toml:"search"`
 	TaskPoint    []taskForm          `toml:"task_point"`
 	Workspace    *workspaceForm      `toml:"workspace"`
@@ -174,7 +175,7 @@ type problemForm struct {
 
 func (p *problemForm) design() designForm {
 	return designForm{Fidelity: p.Fidelity, Name: p.Name, Bellows: p.Bellows, Load: p.Load, Material: p.Material,
-		Printer: p.Printer, Requirements: p.Requirements, TaskPoint: p.TaskPoint, Workspace: p.Workspace}
+		Printer: p.Printer, Requirements: p.Requirements, TaskPoint: p.TaskPoint, Workspace: p.Workspace, Scatter: p.Scatter}
 }
 
 type bellowsForm struct {
@@ -278,6 +279,7 @@ type requirementsForm struct {
 	MaxTipSag            *num  `toml:"max_tip_sag_mm"`
 	MinBendAngleRange    *num  `toml:"min_bend_angle_range_deg"`
 	MinClearance         *num  `toml:"min_clearance_mm"`
+	MinPassProbability   *num  `toml:"min_pass_probability"`
 	MinPayloadToWeight   *num  `toml:"min_payload_to_weight"`
 	MinReach             *num  `toml:"min_reach_mm"`
 	MinStabilityMargin   *num  `toml:"min_stability_margin"`
@@ -303,8 +305,9 @@ type workspaceForm struct {
 }
 
 type objectiveForm struct {
-	Goal  *Goal   `toml:"goal"`
-	Score *string `toml:"score"`
+	Goal     *Goal   `toml:"goal"`
+	Quantile *num    `toml:"quantile"`
+	Score    *string `toml:"score"`
 }
 
 type constraintForm struct {

@@ -65,7 +65,7 @@ var categoricalVariables = map[string]bool{"material": true, "profile": true, "w
 
 var (
 	problemOnlyKeys = []string{"objective", "constraint", "search"}
-	objectiveKeys   = []string{"score", "goal"}
+	objectiveKeys   = []string{"score", "goal", "quantile"}
 	constraintKeys  = []string{"score", "min", "max"}
 	searchKeys      = []string{"method", "population", "evaluations", "time", "seed", "workers",
 		"stall_generations", "stall_tolerance", "checkpoint_every", "weights"}
@@ -111,6 +111,18 @@ func (s *Spec) Midpoint() []float64 {
 type Objective struct {
 	Score    string
 	Maximize bool
+	// Quantile, in (0, 1), makes the objective the score's quantile under
+	// the problem's [scatter] instead of its nominal value (0: nominal).
+	Quantile float64
+}
+
+// Column is the objective's column name: the score, or the score and
+// its quantile in percent ("tip_sag_mm_q95", "reach_mm_q2.5").
+func (o Objective) Column() string {
+	if o.Quantile == 0 {
+		return o.Score
+	}
+	return o.Score + "_q" + strconv.FormatFloat(o.Quantile*100, 'g', 6, 64)
 }
 
 // Goal is the objective's goal, whose String is the file's word
@@ -150,6 +162,13 @@ type Spec struct {
 	Objectives  []Objective
 	Constraints []Constraint
 	Search      SearchSettings
+	// Scatter is the problem's [scatter] (nil: none). Its Seed is the
+	// file's, or 0 when the file gives none: ScatterSeeded fills in the
+	// run's seed.
+	Scatter *objective.Scatter
+	// MinPassProbability is [requirements] min_pass_probability (0: none):
+	// every check must pass with at least this probability under Scatter.
+	MinPassProbability float64
 	// Checks are the requirement checks of every candidate (constraint
 	// slots), from objective.CheckNames; CheckUnits their units.
 	Checks     []string
@@ -186,11 +205,10 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	s.readSearch(root.sub("search"))
 	base := map[string]any{}
 	for k, v := range root.m {
-		if !contains(problemOnlyKeys, k) && !contains(designOnlyKeys, k) {
+		if !contains(problemOnlyKeys, k) {
 			base[k] = v
 		}
 	}
-	rejectScatter(r, root)
 	s.findVariables(r, root)
 	if len(r.errs) > 0 {
 		return nil, r.errs.sorted()
@@ -216,7 +234,8 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 		d, ins, ms := readDesign(rr, t)
 		scn := readScenario(t)
 		scn.Workspace.Insertion = ins
-		t.finish(append(append([]string{}, topKeys...), problemOnlyKeys...))
+		scn.Scatter = readScatter(t)
+		t.finish(append(append(append([]string{}, topKeys...), problemOnlyKeys...), scatterTopKeys...))
 		for _, e := range rr.errs {
 			if !seen[e.Error()] {
 				seen[e.Error()] = true
@@ -237,6 +256,12 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 	}
 	if _, err := toml.Decode(string(data), &s.form); err != nil {
 		return nil, &Error{File: file, Msg: "cannot read the checked file back: " + err.Error()}
+	}
+	s.Scatter = sc.Scatter
+	s.MinPassProbability = sc.Requirements.MinPassProbability
+	s.checkRobust(r, root)
+	if len(r.errs) > 0 {
+		return nil, r.errs.sorted()
 	}
 	if err := s.compile(tmpl, sc, materials); err != nil {
 		return nil, err
@@ -272,6 +297,13 @@ func (s *Spec) readObjectives(root *table) {
 		var goal Goal
 		t.enum("goal", &goal, goalNames)
 		o.Maximize = goal == Maximize
+		if q, ok := t.number("quantile", "a probability strictly between 0 and 1, e.g. 0.95", false); ok {
+			if q <= 0 || q >= 1 {
+				t.r.errorf(t.key("quantile"), "%s is out of range (expected a probability strictly between 0 and 1, e.g. 0.95)", fmtNum(q))
+			} else {
+				o.Quantile = q
+			}
+		}
 		for j, prev := range s.Objectives {
 			if ok && prev.Score == name {
 				var how string

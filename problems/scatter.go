@@ -9,9 +9,10 @@ import (
 	"plica/objective"
 )
 
-// designOnlyKeys are the top-level tables only a design file holds:
-// [scatter] feeds plica check -robust.
-var designOnlyKeys = []string{"scatter"}
+// scatterTopKeys are the top-level tables beyond topKeys that design and
+// problem files both accept: [scatter] feeds plica check -robust and a
+// robust search.
+var scatterTopKeys = []string{"scatter"}
 
 // scatterKeys are the keys of the [scatter] table.
 var scatterKeys = []string{"modulus_pct", "wall_pct", "precurvature_pct", "stiffness_pct", "samples", "seed", "correlated"}
@@ -93,12 +94,55 @@ func (r *reader) recordCalibrationSE(path string, c *Calibration) {
 	r.calSE[path] = se
 }
 
-// rejectScatter reports a [scatter] table in a problem file: the search
-// scores candidates at their nominal values, so a scatter there would be
-// silently ignored.
-func rejectScatter(r *reader, root *table) {
-	if root.has("scatter") {
-		root.get("scatter")
-		r.errorf("scatter", "plica search scores nominal designs and does not read [scatter] (expected [scatter] in a design file, for plica check -robust)")
+// checkRobust reports quantile objectives and a min_pass_probability
+// without a [scatter] that scatters anything: there would be no odds to
+// put on them.
+func (s *Spec) checkRobust(r *reader, root *table) {
+	if s.Scatter.Active() {
+		return
 	}
+	why := "no [scatter] table"
+	if s.Scatter != nil {
+		why = "[scatter] scatters nothing"
+	}
+	for i, o := range s.Objectives {
+		if o.Quantile != 0 {
+			r.errorf(fmt.Sprintf("objective[%d].quantile", i+1), "a quantile needs print scatter but the file has %s (expected a [scatter] table with modulus_pct, wall_pct, precurvature_pct or stiffness_pct > 0)", why)
+		}
+	}
+	if s.MinPassProbability != 0 {
+		r.errorf("requirements.min_pass_probability", "a pass probability needs print scatter but the file has %s (expected a [scatter] table with modulus_pct, wall_pct, precurvature_pct or stiffness_pct > 0)", why)
+	}
+}
+
+// Robust reports whether the search scores candidates under scatter (a
+// quantile objective or a min_pass_probability): each candidate then
+// costs objective.FirstOrderEvaluations model evaluations.
+func (s *Spec) Robust() bool {
+	if !s.Scatter.Active() {
+		return false
+	}
+	if s.MinPassProbability > 0 {
+		return true
+	}
+	for _, o := range s.Objectives {
+		if o.Quantile != 0 {
+			return true
+		}
+	}
+	return false
+}
+
+// ScatterSeeded is the problem's scatter with the seed the front's Monte
+// Carlo draws from: the [scatter] seed when the file gives one, else the
+// run's seed (nil when the problem has no active scatter).
+func (s *Spec) ScatterSeeded(runSeed uint64) *objective.Scatter {
+	if !s.Scatter.Active() {
+		return nil
+	}
+	c := *s.Scatter
+	if s.form.Scatter == nil || s.form.Scatter.Seed == nil {
+		c.Seed = runSeed
+	}
+	return &c
 }

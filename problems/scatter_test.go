@@ -36,11 +36,6 @@ func TestScatterTable(t *testing.T) {
 	_, sc, err := LoadDesign("examples/boom-measured.toml")
 	require.NoError(t, err)
 	assert.Nil(t, sc.Scatter, "no table, no scatter")
-	prob, err := os.ReadFile("examples/boom-search.toml")
-	require.NoError(t, err)
-	_, err = ParseProblem(append(prob, "\n[scatter]\nmodulus_pct = 5\n"...), "p.toml")
-	require.Error(t, err)
-	assert.Regexp(t, `^p.toml:\d+:1: scatter: plica search scores nominal designs`, err.Error(), "[scatter] is a design-file table")
 }
 
 // TestCalibrationSEChangesOdds: a calibrated bellows scatters its EI by

@@ -13,7 +13,7 @@ var (
 	taskKeys        = []string{"position_mm", "tolerance_mm", "direction", "direction_tolerance_deg", "loaded"}
 	requirementKeys = []string{"max_tip_sag_mm", "min_reach_mm", "min_bend_angle_range_deg",
 		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
-		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight",
+		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight", "min_pass_probability",
 		"within_validated_range"}
 )
 
@@ -166,6 +166,13 @@ func readRequirements(t *table, q *objective.Requirements) {
 		}
 		q.MinTaskCoverage = v
 		q.MinTaskCoverageSet = true
+	}
+	if v, ok := t.number("min_pass_probability", "a probability strictly between 0 and 1, e.g. 0.9", false); ok {
+		if v <= 0 || v >= 1 {
+			t.r.errorf(t.key("min_pass_probability"), "%s is out of range (expected a probability strictly between 0 and 1, e.g. 0.9)", fmtNum(v))
+		} else {
+			q.MinPassProbability = v
+		}
 	}
 	q.MaxMass = pos("max_mass_g", "a mass in g", gram)
 	q.MinPayloadToWeight = pos("min_payload_to_weight", "a ratio", 1)

@@ -45,8 +45,8 @@ func TestFormMatchesReaders(t *testing.T) {
 		form   any
 		reader []string
 	}{
-		{"design file (top level)", designForm{}, union(topKeys, designOnlyKeys)},
-		{"problem file (top level)", problemForm{}, union(topKeys, problemOnlyKeys)},
+		{"design file (top level)", designForm{}, union(topKeys, scatterTopKeys)},
+		{"problem file (top level)", problemForm{}, union(topKeys, scatterTopKeys, problemOnlyKeys)},
 		{"[[bellows]]", bellowsForm{}, union(commonBellowsKeys, geometryKeys, measuredKeys)},
 		{"[[material]]", materialForm{}, materialKeys},
 		{"[load]", loadForm{}, loadKeys},

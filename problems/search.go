@@ -75,6 +75,14 @@ func (s *Spec) SearchProblem() search.Problem {
 			return err
 		}
 		stage = "evaluation"
+		if s.Robust() {
+			res, rob, err := objective.FirstOrderNominal(ctx, d, sc, s.Scatter)
+			if err != nil {
+				return err
+			}
+			stage = "filling objectives and constraints"
+			return s.FillRobust(res, rob, f, g)
+		}
 		res, err := objective.EvaluateContext(ctx, d, sc)
 		if err != nil {
 			return err
@@ -83,6 +91,43 @@ func (s *Spec) SearchProblem() search.Problem {
 		return s.Fill(res, f, g)
 	}
 	return p
+}
+
+// FillRobust writes the objectives and constraint values of a candidate
+// scored under scatter by the first-order estimate (objective/REFERENCE.md
+// §9.7): a quantile objective is mean + z_q·sd, z_q = Φ⁻¹(q); with a
+// min_pass_probability p each check's value is moved k = Φ⁻¹(p) standard
+// deviations toward its limit before its margin is taken, so g ≤ 0 is
+// exactly Φ(margin/sd) ≥ p. [[constraint]] limits apply to nominal scores.
+func (s *Spec) FillRobust(res *objective.Result, rob *objective.Robust, f, g []float64) error {
+	if err := s.Fill(res, f, g); err != nil {
+		return err
+	}
+	for i, o := range s.Objectives {
+		if o.Quantile == 0 {
+			continue
+		}
+		st, ok := rob.Scores[o.Score]
+		if !ok {
+			return fmt.Errorf("score %s is not available for this design", o.Score)
+		}
+		f[i] = o.Minimised(st.Mean + st.SD*objective.NormalQuantile(o.Quantile))
+	}
+	if s.MinPassProbability > 0 {
+		k := objective.NormalQuantile(s.MinPassProbability)
+		for i, c := range res.Checks {
+			if i >= len(rob.Checks) || rob.Checks[i].Name != c.Name {
+				return fmt.Errorf("check %d has no first-order estimate", i+1)
+			}
+			sd := rob.Checks[i].SD
+			if c.Max {
+				g[i] = margin(c.Value+k*sd, c.Limit, c.Limit)
+			} else {
+				g[i] = margin(c.Limit, c.Value-k*sd, c.Limit)
+			}
+		}
+	}
+	return nil
 }
 
 // Evaluate scores the candidate at x.

@@ -231,7 +231,24 @@ func (s *Spec) check(d *objective.Design, x []float64) error {
 // 9 significant digits) and every calibration_file replaced by the
 // calibration_factor it stands for.
 func (s *Spec) DesignTOML(x []float64, comment string) ([]byte, error) {
+	return s.designTOML(x, comment, nil)
+}
+
+// DesignTOMLSeeded is DesignTOML whose [scatter], when the problem's gives
+// no seed, gets seed: the run's, from which the front's Monte Carlo drew,
+// so that plica check -robust on the file repeats the front's numbers.
+func (s *Spec) DesignTOMLSeeded(x []float64, comment string, seed uint64) ([]byte, error) {
+	return s.designTOML(x, comment, &seed)
+}
+
+func (s *Spec) designTOML(x []float64, comment string, seed *uint64) ([]byte, error) {
 	form := s.form.design()
+	if form.Scatter != nil && form.Scatter.Seed == nil && seed != nil {
+		sf := *form.Scatter
+		v := int(*seed)
+		sf.Seed = &v
+		form.Scatter = &sf
+	}
 	form.Bellows = cloneBellows(form.Bellows)
 	for j, v := range s.Variables {
 		b := &form.Bellows[v.Table]

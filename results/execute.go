@@ -222,7 +222,14 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	if err := f.WriteHistory(res.History); err != nil {
 		return fail(res, err)
 	}
-	if err := f.WriteFront(spec, frontRows(spec, res.Front, set.Workers), frontComment(spec, info)); err != nil {
+	rows := frontRows(spec, res.Front, set.Workers)
+	if info.Robust = newRobustInfo(spec, set.Seed); info.Robust != nil {
+		scoreFrontRobust(ctx, spec, rows, spec.ScatterSeeded(set.Seed), set.Workers, opt.Progress)
+		if ctx.Err() != nil {
+			info.Robust.Front = RobustNotScored
+		}
+	}
+	if err := f.WriteFront(spec, rows, frontComment(spec, info)); err != nil {
 		return fail(res, err)
 	}
 	info.Status = StatusOf(res.Status)
@@ -243,6 +250,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		return res, runErr
 	}
 	if res.Status == search.Interrupted {
+		return res, context.Canceled
+	}
+	if info.Robust != nil && info.Robust.Front == RobustNotScored {
+		// stopped while the front was scored under scatter: resume scores it
 		return res, context.Canceled
 	}
 	return res, nil
@@ -293,7 +304,7 @@ func frontComment(spec *problems.Spec, info *RunInfo) func(FrontRow) string {
 		var b strings.Builder
 		fmt.Fprintf(&b, "plica design %d of the front of a search on %s (seed %d, evaluation %d).\n", r.ID, info.ProblemFile, info.Seed, r.Design.Index)
 		for i, o := range spec.Objectives {
-			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, o.Natural(r.Design.F[i]))
+			fmt.Fprintf(&b, "%s = %.6g\n", o.Column(), o.Natural(r.Design.F[i]))
 		}
 		b.WriteString("Check it with: plica check THIS_FILE\n")
 		b.WriteString(Caution)

@@ -154,7 +154,7 @@ func ObjectiveLabels(s *problems.Spec) []string {
 		if o.Maximize {
 			goal = "max"
 		}
-		out[i] = fmt.Sprintf("%s (%s)", o.Score, goal)
+		out[i] = fmt.Sprintf("%s (%s)", o.Column(), goal)
 	}
 	return out
 }

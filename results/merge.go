@@ -297,11 +297,18 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 	}
 	merged := front.ParetoFront(designs, (*search.Design).Point)
 	res.Front = FrontRows(spec, merged)
+	if s := spec.ScatterSeeded(spec.Search.Seed); s != nil {
+		scoreFrontRobust(ctx, spec, res.Front, s, 0, nil)
+		if err := ctx.Err(); err != nil {
+			return nil, err
+		}
+	}
 	info := &RunInfo{Program: "plica", Version: version, ProblemName: ins[0].info.ProblemName, ProblemFile: ins[0].info.ProblemFile,
 		ProblemHash: spec.Hash(), Method: MergeMethod, Started: time.Now().UTC(), Status: StatusMerged, Evaluations: next,
 		Failures: failures, FrontSize: len(merged), Caution: Caution}
 	c := NewColumns(spec)
 	info.Variables, info.Objectives, info.Constraints = c.Variables, c.Objectives, c.Constraints
+	info.Robust = newRobustInfo(spec, spec.Search.Seed)
 	info.Reference, res.ReferenceReason = mergeReference(ins, merged, len(spec.Objectives))
 	info.Hypervolume = finiteOr0(hypervolumeOf(merged, info.Reference))
 	for r, in := range ins {
@@ -330,7 +337,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		fmt.Fprintf(&b, "plica design %d of the front merged from %d runs of %s: run %s%s, evaluation %s.\n",
 			fr.ID, len(ins), src.info.ProblemFile, o.srcRun, seed, o.index)
 		for i, ob := range spec.Objectives {
-			fmt.Fprintf(&b, "%s = %.6g\n", ob.Score, ob.Natural(fr.Design.F[i]))
+			fmt.Fprintf(&b, "%s = %.6g\n", ob.Column(), ob.Natural(fr.Design.F[i]))
 		}
 		b.WriteString("Check it with: plica check THIS_FILE\n")
 		b.WriteString(Caution)

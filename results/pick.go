@@ -367,7 +367,7 @@ func (rf *RunFront) WritePicks(dir string, res *PickResult) error {
 			fmt.Fprintf(&b, "filters: %s\n", strings.Join(res.Where, " and "))
 		}
 		for k, o := range rf.Spec.Objectives {
-			fmt.Fprintf(&b, "%s = %.6g\n", o.Score, p.Objectives[k])
+			fmt.Fprintf(&b, "%s = %.6g\n", o.Column(), p.Objectives[k])
 		}
 		fmt.Fprintf(&b, "Check it with: plica check THIS_FILE; polish it with: plica refine %s -design %d\n", rf.Dir, p.ID)
 		b.WriteString(Caution)

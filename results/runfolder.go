@@ -98,6 +98,10 @@ type RunInfo struct {
 	// Diagnosis says what blocked a run whose front holds fewer than
 	// FewFeasible designs (this session's evaluations).
 	Diagnosis *Diagnosis `json:"diagnosis,omitempty"`
+	// Robust says, for a problem with [scatter], how the search scored
+	// candidates (first_order or nominal) and how the front's robust
+	// columns were computed (monte_carlo).
+	Robust *RobustInfo `json:"robust,omitempty"`
 }
 
 // runInfoJSON is run.json on disk: RunInfo with the time budget as text.

@@ -32,7 +32,7 @@ func NewColumns(s *problems.Spec) Columns {
 		c.Variables = append(c.Variables, fmt.Sprintf("bellows%d_%s", v.Table+1, v.Key))
 	}
 	for _, o := range s.Objectives {
-		c.Objectives = append(c.Objectives, o.Score)
+		c.Objectives = append(c.Objectives, o.Column())
 	}
 	for _, n := range s.ConstraintNames() {
 		c.Constraints = append(c.Constraints, "g_"+n)
@@ -326,6 +326,11 @@ type FrontRow struct {
 	Design search.Design
 	Result *objective.Result // nil when re-evaluation failed
 	Err    string
+	// Robust is the row's Monte Carlo under the problem's [scatter] (nil:
+	// no scatter, or not scored).
+	Robust *objective.Robust
+	// ScatterSeed is the seed of Robust's draws.
+	ScatterSeed uint64
 }
 
 // FrontHeader is the header of front.csv.
@@ -341,7 +346,9 @@ func FrontHeader(s *problems.Spec) []string {
 		h = append(h, "check_"+n+u, "limit_"+n+u, "pass_"+n)
 	}
 	h = append(h, c.Constraints...)
-	return append(h, "pass", WarningsColumn, "design_file")
+	h = append(h, "pass", WarningsColumn)
+	h = append(h, RobustColumns(s)...)
+	return append(h, "design_file")
 }
 
 // WarningsColumn is the front.csv column that names, separated by ";",
@@ -372,6 +379,9 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 	for _, r := range rows {
 		name := DesignFileName(r.ID)
 		text, err := s.DesignTOML(r.Design.X, comment(r))
+		if r.Robust != nil {
+			text, err = s.DesignTOMLSeeded(r.Design.X, comment(r), r.ScatterSeed)
+		}
 		if err != nil {
 			return err
 		}
@@ -399,7 +409,9 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 			row = append(row, formatFloat(g))
 		}
 		pass := r.Result != nil && r.Result.Pass
-		row = append(row, strconv.FormatBool(pass), warnedChecks(r.Result), name)
+		row = append(row, strconv.FormatBool(pass), warnedChecks(r.Result))
+		row = append(row, robustCells(s, r)...)
+		row = append(row, name)
 		w.Write(row)
 	}
 	w.Flush()

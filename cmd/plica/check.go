@@ -81,7 +81,7 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 		enc.SetIndent("", "  ")
 		out := newCheckOutput(res)
 		if rob != nil {
-			out.Robust = newRobustOutput(rob, scat)
+			out.Robust = newRobustOutput(rob, scat, sc.Requirements.MinPassProbability)
 		}
 		if err := enc.Encode(out); err != nil {
 			return err
@@ -93,7 +93,7 @@ func runCheck(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 		}
 		writeCheck(stdout, name, res)
 		if rob != nil {
-			writeRobust(stdout, rob, scat)
+			writeRobust(stdout, rob, scat, sc.Requirements.MinPassProbability)
 		}
 	}
 	if !res.Pass {

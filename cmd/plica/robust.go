@@ -23,8 +23,12 @@ type robustOutput struct {
 	Checks          []robustCheckOutput       `json:"checks"`
 	Scores          map[string]robustScoreOut `json:"scores"`
 	FailedSamples   int                       `json:"failed_samples"`
-	FailureReasons  []string                  `json:"failure_reasons,omitempty"`
-	Caution         string                    `json:"caution"`
+	// MinPassProbability is [requirements] min_pass_probability (absent:
+	// none) and MeetsMinPass whether every check reaches it.
+	MinPassProbability num      `json:"min_pass_probability,omitempty"`
+	MeetsMinPass       *bool    `json:"meets_min_pass_probability,omitempty"`
+	FailureReasons     []string `json:"failure_reasons,omitempty"`
+	Caution            string   `json:"caution"`
 }
 
 type robustCheckOutput struct {
@@ -61,10 +65,26 @@ func runRobust(ctx context.Context, stderr io.Writer, file string, d *objective.
 	return r, &s, err
 }
 
-func newRobustOutput(r *objective.Robust, s *objective.Scatter) *robustOutput {
+// meetsMinPass reports whether every check passes with probability at
+// least pmin, and the check with the lowest probability.
+func meetsMinPass(r *objective.Robust, pmin float64) (bool, objective.RobustCheck) {
+	low := objective.RobustCheck{PassProbability: 2}
+	for _, c := range r.Checks {
+		if c.PassProbability < low.PassProbability {
+			low = c
+		}
+	}
+	return low.PassProbability >= pmin, low
+}
+
+func newRobustOutput(r *objective.Robust, s *objective.Scatter, pmin float64) *robustOutput {
 	o := &robustOutput{Method: r.Method, Samples: r.Samples, Seed: s.Seed, Correlated: s.Correlated,
 		PassProbability: num(r.PassProbability), PassSE: num(r.PassSE), Scores: map[string]robustScoreOut{},
 		FailedSamples: r.Failed, FailureReasons: r.Reasons, Caution: robustCaution}
+	if pmin > 0 {
+		ok, _ := meetsMinPass(r, pmin)
+		o.MinPassProbability, o.MeetsMinPass = num(pmin), &ok
+	}
 	for _, c := range r.Checks {
 		o.Checks = append(o.Checks, robustCheckOutput{Name: c.Name, PassProbability: num(c.PassProbability), SE: num(c.SE), Warn: c.Warn})
 	}
@@ -75,7 +95,7 @@ func newRobustOutput(r *objective.Robust, s *objective.Scatter) *robustOutput {
 }
 
 // writeRobust prints the probability table and the score statistics.
-func writeRobust(w io.Writer, r *objective.Robust, s *objective.Scatter) {
+func writeRobust(w io.Writer, r *objective.Robust, s *objective.Scatter, pmin float64) {
 	corr := "independent per bellows"
 	if s.Correlated {
 		corr = "one draw for all bellows"
@@ -93,6 +113,14 @@ func writeRobust(w io.Writer, r *objective.Robust, s *objective.Scatter) {
 	}
 	fmt.Fprintf(tw, "all checks\t%.4f\t%.4f\n", r.PassProbability, r.PassSE)
 	tw.Flush()
+	if pmin > 0 && len(r.Checks) > 0 {
+		ok, low := meetsMinPass(r, pmin)
+		verdict := "PASS"
+		if !ok {
+			verdict = "FAIL"
+		}
+		fmt.Fprintf(w, "min_pass_probability %g: lowest check %s %.4f  %s\n", pmin, low.Name, low.PassProbability, verdict)
+	}
 	fmt.Fprintln(w)
 	tw = tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "score\tmean\tsd\tp05\tp50\tp95")

@@ -78,6 +78,9 @@ func scoreAxis(key string) (name, unit string) {
 func (r *Data) objectiveLabel(i int) string {
 	o := r.Spec.Objectives[i]
 	name, unit := scoreAxis(o.Score)
+	if o.Quantile != 0 {
+		name += fmt.Sprintf(", %g %% quantile", o.Quantile*100)
+	}
 	return fmt.Sprintf("%s (%s), %s", name, unit, o.Goal())
 }
 
@@ -199,6 +202,9 @@ func (r *Data) frontPanel(i, j int, chosen []int, legend bool) (*plot.Plot, erro
 	if err != nil {
 		return nil, err
 	}
+	if _, err := r.rangeBars(p, i, j); err != nil {
+		return nil, err
+	}
 	sf, err := scatter(p, fr, frontColor, vg.Points(2.5))
 	if err != nil {
 		return nil, err
@@ -257,6 +263,10 @@ func (r *Data) FrontFigure(chosen []int) (Figure, error) {
 				names = append(names, fmt.Sprintf("#%d", id))
 			}
 		}
+		if _, err := r.rangeBars(p, 0, -1); err != nil {
+			return fig, err
+		}
+		fig.Caption += r.rangeCaption()
 		for _, s := range []struct {
 			pts plotter.XYs
 			c   color.Color
@@ -276,7 +286,7 @@ func (r *Data) FrontFigure(chosen []int) (Figure, error) {
 		fig.SVG = b
 		return fig, err
 	case m == 2:
-		fig.Caption = "Front designs (blue) over the feasible evaluations (grey); the designs shown below in red, labelled with their front id."
+		fig.Caption = "Front designs (blue) over the feasible evaluations (grey); the designs shown below in red, labelled with their front id." + r.rangeCaption()
 		p, err := r.frontPanel(0, 1, chosen, true)
 		if err != nil {
 			return fig, err
@@ -285,7 +295,7 @@ func (r *Data) FrontFigure(chosen []int) (Figure, error) {
 		fig.SVG = b
 		return fig, err
 	}
-	fig.Caption = "Pairs of objectives: front designs (blue) over the feasible evaluations (grey); the designs shown below in red, labelled with their front id."
+	fig.Caption = "Pairs of objectives: front designs (blue) over the feasible evaluations (grey); the designs shown below in red, labelled with their front id." + r.rangeCaption()
 	rows := make([][]*plot.Plot, m-1)
 	for a := range m - 1 {
 		rows[a] = make([]*plot.Plot, m-1)

@@ -82,6 +82,7 @@ type designSection struct {
 	Objectives              []keyValue
 	Variables               []keyValue
 	HasResult               bool
+	Robust                  *robustSection
 }
 
 type htmlPage struct {
@@ -196,9 +197,9 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 			return nil, err
 		}
 		row, _ := r.FrontRow(id)
-		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id)}
+		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id), Robust: newRobustSection(r.Spec, row.Robust)}
 		for i, o := range r.Spec.Objectives {
-			d.Objectives = append(d.Objectives, keyValue{o.Score, num(row.F[i])})
+			d.Objectives = append(d.Objectives, keyValue{o.Column(), num(row.F[i])})
 		}
 		for j, name := range results.NewColumns(r.Spec).Variables {
 			cell := row.Cells[j]
@@ -517,6 +518,7 @@ nav a { margin-right: 1rem; }
 {{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else if .Warn}}<span class="warn">WARN</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
 {{end}}</table>
 <ul>{{range .Models}}<li>model: {{.}}</li>{{end}}{{range .Warnings}}<li class="problem">warning: {{.}}</li>{{end}}</ul>
+{{if .Robust}}{{template "robust" .Robust}}{{end}}
 {{if .CheckText}}<details><summary>full check output (as <code>plica check {{.File}}</code> prints it)</summary><pre>{{.CheckText}}</pre></details>{{end}}
 {{end}}
 {{range .Figures}}{{template "figure" .}}{{end}}

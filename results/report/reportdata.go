@@ -48,6 +48,8 @@ type Row struct {
 	// objectives are not negated).
 	F    []float64
 	Pass bool
+	// Robust holds a front row's robust columns (nil: none).
+	Robust *RowRobust
 }
 
 // Load reads a run folder for plots and the report. A run
@@ -158,6 +160,7 @@ func (r *Data) readRows(ctx context.Context, name string, front bool) ([]Row, er
 				return nil, fmt.Errorf("%s: id %q is not a whole number", where, at(ei[1]))
 			}
 			row.Pass = at(ei[2]) == "true"
+			row.Robust = readRowRobust(s, header, rec)
 		}
 		for j, v := range s.Variables {
 			cell := at(vi[j])
