@@ -124,7 +124,14 @@ type evaluator struct {
 	// fine makes the workspace compliance use fineRule instead of rankRule.
 	fine bool
 	// tipsOnly skips the compliance of the shapes (WorkspaceTips).
-	tipsOnly   bool
+	tipsOnly bool
+	// screen makes evalShape compute the sag bound of a shape instead of
+	// its compliance, which the sag scan then computes where the bound
+	// can reach the worst sag (screenSag); gravity is the scenario's.
+	screen     bool
+	gravity    [3]float64
+	linkStarts [][3]float64 // link start positions of the shape being sampled
+	order      []int        // scratch of the sag scan
 	shapes     []*shape
 	slab       []shape   // storage of shapes (newShape)
 	strainSlab []float64 // storage of their strains
@@ -260,6 +267,8 @@ type scratch struct {
 	linkBuf    []kinematics.Link
 	voxels     []uint64
 	touched    []int32
+	linkStarts [][3]float64
+	order      []int
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -268,13 +277,15 @@ func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
+	e.linkStarts, e.order = s.linkStarts, s.order
 }
 
 func (e *evaluator) putScratch() {
 	clear(e.shapePtrs[:cap(e.shapePtrs)])
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
-		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0]})
+		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
+		linkStarts: e.linkStarts[:0], order: e.order[:0]})
 	e.shapes = nil
 }
 
@@ -319,6 +330,8 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	p := plan(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
+	e.gravity = e.sc.Load.GravityVector()
+	e.screen = screenSag && e.gravity != ([3]float64{})
 	e.reserve(len(p.acts))
 	if cap(e.shapePtrs) < len(p.acts) {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))

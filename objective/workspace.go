@@ -22,6 +22,12 @@ type shape struct {
 	// comp is the linear tip compliance to a unit gravity vector: the tip
 	// displacement under self-weight plus payload is comp·g (objective/statics/REFERENCE.md §3).
 	comp [3][3]float64
+	// hasComp is false while comp is not computed: the sag scan computes
+	// it only for the shapes whose bound can reach the worst sag.
+	hasComp bool
+	// bound is an upper bound on the linear sag |g| hᵀ C h over every
+	// common rotation (sagBound), m; set when the sag scan screens.
+	bound float64
 	// kmax is the largest curvature magnitude over the nested section
 	// (links where two or more bellows are present; all links for a
 	// single bellows), 1/m.
@@ -292,7 +298,14 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 	}
 	sh := e.newShape(a)
 	tip := kinematics.Identity()
+	screen := e.screen && !e.tipsOnly
+	if screen {
+		e.linkStarts = e.linkStarts[:0]
+	}
 	for _, l := range links {
+		if screen {
+			e.linkStarts = append(e.linkStarts, tip.P)
+		}
 		tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
 		if l.Present&(l.Present-1) != 0 || len(e.robot.Tubes) == 1 {
 			sh.kmax = math.Max(sh.kmax, math.Hypot(l.U[0], l.U[1]))
@@ -314,8 +327,12 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 	}
 	sh.tip = tip
-	if !e.tipsOnly {
+	switch {
+	case screen:
+		sh.bound = e.sagBound(links, e.linkStarts, tip.P)
+	case !e.tipsOnly:
 		sh.comp = e.compliance(links, e.rule())
+		sh.hasComp = true
 	}
 	if what := sh.nonFinite(); what != "" {
 		return nil, nonFinite(what + " at angles " + degList(a.Theta))
