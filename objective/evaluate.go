@@ -428,6 +428,7 @@ func revolvedArea(shapes []*shape) float64 {
 // voxelKey (tested against each other).
 func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (float64, error) {
 	sins, coss := baseTable(baseSteps)
+	coss = coss[:len(sins)]
 	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
 	for _, sh := range shapes {
 		p := sh.tip.P
@@ -454,15 +455,25 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 				e.clearVoxels(bits)
 				return 0, err
 			}
+			// the voxel of voxelKey(turnedBy(p, sin, cos), h), written out:
+			// the common rotation leaves z, so its layer is the shape's
 			p := sh.tip.P
-			for j := range baseSteps {
-				key := voxelKey(turnedBy(p, sins[j], coss[j]), h)
-				ix, iy, iz := int64(key[0])-x0, int64(key[1])-x0, int64(key[2])-z0
-				if ix < 0 || ix >= nx || iy < 0 || iy >= nx || iz < 0 || iz >= nz {
+			p0, p1 := p[0], p[1]
+			iz := int64(int32(math.Floor(p[2]/h))) - z0
+			if iz < 0 || iz >= nz {
+				inside = false
+				break loop
+			}
+			layer := nx * nx * iz
+			for j, s := range sins {
+				c := coss[j]
+				ix := int64(int32(math.Floor((c*p0-s*p1)/h))) - x0
+				iy := int64(int32(math.Floor((s*p0+c*p1)/h))) - x0
+				if ix < 0 || ix >= nx || iy < 0 || iy >= nx {
 					inside = false
 					break loop
 				}
-				i := ix + nx*(iy+nx*iz)
+				i := ix + nx*iy + layer
 				w, b := i>>6, uint64(1)<<(i&63)
 				if bits[w]&b == 0 {
 					if bits[w] == 0 {

@@ -50,7 +50,11 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 		if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
 			return math.Inf(1)
 		}
-		lam := math.Min(K[2][2], 0.5*(K[0][0]+K[1][1])-math.Hypot(0.5*(K[0][0]-K[1][1]), K[0][1]))
+		dk := 0.5 * (K[0][0] - K[1][1])
+		lam := 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
+		if K[2][2] < lam {
+			lam = K[2][2]
+		}
 		if !(lam > 0) {
 			return math.Inf(1)
 		}
@@ -73,7 +77,11 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 			}
 			mj := links[j].MassPerLength * lj
 			E := perpBound(sub(starts[j], end), gz, hs)
-			alpha += mj * (lj/2 + math.Min(E, d[j+1]+D))
+			via := d[j+1] + D
+			if E < via {
+				via = E
+			}
+			alpha += mj * (lj/2 + via)
 			beta += mj
 		}
 		// (D + u)(A + B u + C u²) integrated over u in [0, l]: the 2- and
@@ -118,22 +126,53 @@ func (e *evaluator) worstSag(hh [][6]float64) (*shape, int, error) {
 		worst, j, _ := scanShapes(e.shapes, hh, math.Inf(1))
 		return worst, j, nil
 	}
-	order := e.order[:0]
-	for k := range e.shapes {
-		order = append(order, k)
-	}
-	// decreasing bound, NaN first (never screened out), ties in sample order
-	slices.SortStableFunc(order, func(a, b int) int {
-		ba, bb := e.shapes[a].bound, e.shapes[b].bound
-		if math.IsNaN(ba) || math.IsNaN(bb) {
-			return cmp.Compare(boolInt(!math.IsNaN(ba)), boolInt(!math.IsNaN(bb)))
+	// Candidates: the shapes whose bound reaches the largest sag of the
+	// shape with the largest bound (a lower bound on the worst), or all of
+	// them; then in decreasing bound, NaN first (never screened out),
+	// ties in sample order.
+	first, top0 := 0, math.Inf(-1)
+	for k, sh := range e.shapes {
+		if !(sh.bound <= e.shapes[first].bound) {
+			first = k
 		}
-		return cmp.Compare(bb, ba)
-	})
-	e.order = order
+	}
+	if b := e.shapes[first].bound; isFinite(b) {
+		if err := e.shapeCompliance(e.shapes[first]); err != nil {
+			return nil, 0, err
+		}
+		top0 = shapeMaxSag(e.shapes[first], hh)
+	}
+	order := e.order[:0]
+	collect := func(T float64) {
+		order = order[:0]
+		for k, sh := range e.shapes {
+			if !(sh.bound < T) {
+				order = append(order, k)
+			}
+		}
+		slices.SortFunc(order, func(a, b int) int {
+			ba, bb := e.shapes[a].bound, e.shapes[b].bound
+			if na, nb := math.IsNaN(ba), math.IsNaN(bb); na || nb {
+				if na && nb {
+					return cmp.Compare(a, b)
+				}
+				return cmp.Compare(boolInt(!na), boolInt(!nb))
+			}
+			if c := cmp.Compare(bb, ba); c != 0 {
+				return c
+			}
+			return cmp.Compare(a, b)
+		})
+	}
 	factor := 1 / (1 + 1e-6)
-	top := math.Inf(-1) // largest sag found
-	T := math.Inf(-1)   // until the first shape is computed
+	all := !(top0 > 0)
+	if all {
+		collect(math.Inf(-1))
+	} else {
+		collect(threshold(top0, factor))
+	}
+	top := top0       // largest sag found
+	T := math.Inf(-1) // until the first shape is computed
 	next := 0
 	for {
 		for ; next < len(order); next++ {
@@ -151,11 +190,15 @@ func (e *evaluator) worstSag(hh [][6]float64) (*shape, int, error) {
 			T = threshold(top, factor)
 		}
 		worst, j, band := scanShapes(e.shapes, hh, T)
-		if !band || next == len(order) {
+		if !band || next == len(order) && all {
+			e.order = order
 			return worst, j, nil
 		}
+		// lower T: take every shape again (those computed are kept)
 		factor /= 1 + 1e-6
 		T = threshold(top, factor)
+		collect(math.Inf(-1))
+		all, next = true, 0
 	}
 }
 
@@ -212,7 +255,9 @@ func shapeMaxSag(sh *shape, hh [][6]float64) float64 {
 	sym := symPart(&sh.comp)
 	m := math.Inf(-1)
 	for j := range hh {
-		m = math.Max(m, sagAt(&sym, &hh[j]))
+		if v := sagAt(&sym, &hh[j]); v > m {
+			m = v
+		}
 	}
 	return m
 }
