@@ -128,18 +128,21 @@ type evaluator struct {
 	// screen makes evalShape compute the sag bound of a shape instead of
 	// its compliance, which the sag scan then computes where the bound
 	// can reach the worst sag (screenSag); gravity is the scenario's.
-	screen     bool
-	gravity    [3]float64
-	linkStarts [][3]float64 // link start positions of the shape being sampled
-	order      []int        // scratch of the sag scan
-	shapes     []*shape
-	slab       []shape   // storage of shapes (newShape)
-	strainSlab []float64 // storage of their strains
-	shapePtrs  []*shape  // storage of the list of shapes
-	voxels     []uint64  // bitset of voxelVolume, all zero between uses
-	touched    []int32   // words of voxels set during one count
-	solver     *kinematics.Solver
-	linkBuf    []kinematics.Link
+	screen  bool
+	gravity [3]float64
+	// |g| and the parts of ĝ along and across the base axis (sagBound)
+	gravityNorm, gravityZ, gravityXY float64
+	linkStarts                       [][3]float64 // link start positions of the shape being sampled
+	precurv                          [][2]float64 // turned pre-curvatures of the shape being sampled
+	order                            []int        // scratch of the sag scan
+	shapes                           []*shape
+	slab                             []shape   // storage of shapes (newShape)
+	strainSlab                       []float64 // storage of their strains
+	shapePtrs                        []*shape  // storage of the list of shapes
+	voxels                           []uint64  // bitset of voxelVolume, all zero between uses
+	touched                          []int32   // words of voxels set during one count
+	solver                           *kinematics.Solver
+	linkBuf                          []kinematics.Link
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -332,6 +335,12 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	sc.DOF = p.dof
 	e.gravity = e.sc.Load.GravityVector()
 	e.screen = screenSag && e.gravity != ([3]float64{})
+	if e.screen {
+		g := e.gravity
+		e.gravityNorm = math.Sqrt(g[0]*g[0] + g[1]*g[1] + g[2]*g[2])
+		e.gravityZ = math.Abs(g[2]) / e.gravityNorm
+		e.gravityXY = math.Hypot(g[0], g[1]) / e.gravityNorm
+	}
 	e.reserve(len(p.acts))
 	if cap(e.shapePtrs) < len(p.acts) {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))

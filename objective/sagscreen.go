@@ -25,23 +25,22 @@ var screenSag = true
 // product exactly. +Inf when a link stiffness is not of the form Links gives
 // (bending block and torsion) or not positive definite.
 func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [3]float64) float64 {
-	g := e.gravity
-	gn := math.Sqrt(g[0]*g[0] + g[1]*g[1] + g[2]*g[2])
-	gz := math.Abs(g[2]) / gn
-	hs := math.Hypot(g[0], g[1]) / gn
+	gz, hs := e.gravityZ, e.gravityXY
 	n := len(links)
 	// d[i] bounds |(p_L − p_i) × h|, p_i the start of link i (d[n] = 0).
-	var dbuf [2*kinematics.MaxTubes + 2]float64
+	var dbuf [17]float64
+	d := dbuf[:]
 	if n+1 > len(dbuf) {
-		return math.Inf(1)
+		d = make([]float64, n+1)
 	}
-	d := dbuf[:n+1]
+	d = d[:n+1]
 	for i := range n {
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	mp := e.payload
 	sum := 0.0
-	for i, l := range links {
+	for i := range links {
+		l := &links[i]
 		li := l.End - l.Start
 		if !(li > 0) {
 			continue
@@ -91,7 +90,7 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 	}
 	// margin for rounding: the scan's products are within 1e-14 of the
 	// sum of their magnitudes, which the bound exceeds
-	return gn * sum * (1 + 1e-12)
+	return e.gravityNorm * sum * (1 + 1e-12)
 }
 
 // perpBound bounds |x × h| for every unit h with |h_z| = gz and horizontal
@@ -99,10 +98,12 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 // distance of x from the z axis.
 func perpBound(x [3]float64, gz, hs float64) float64 {
 	r := math.Sqrt(x[0]*x[0] + x[1]*x[1] + x[2]*x[2])
-	if gz == 0 {
-		return r
+	if gz != 0 {
+		if v := gz*math.Sqrt(x[0]*x[0]+x[1]*x[1]) + hs*r; v < r {
+			return v
+		}
 	}
-	return math.Min(r, gz*math.Hypot(x[0], x[1])+hs*r)
+	return r
 }
 
 func sub(a, b [3]float64) [3]float64 { return [3]float64{a[0] - b[0], a[1] - b[1], a[2] - b[2]} }

@@ -63,7 +63,8 @@ func TestSagBoundHolds(t *testing.T) {
 		}
 		for _, fine := range []bool{false, true} {
 			e := &evaluator{d: c.d, robot: robot, st: st, payload: c.sc.Load.PayloadMass,
-				strainPerCurvature: make([]float64, len(st)), gravity: g, screen: true, fine: fine}
+				strainPerCurvature: make([]float64, len(st)), gravity: g, screen: true, fine: fine,
+				gravityNorm: gn, gravityZ: math.Abs(g[2]) / gn, gravityXY: math.Hypot(g[0], g[1]) / gn}
 			worstRatio, count := 0.0, 0
 			for _, a := range buildPlan(len(st), w).acts {
 				sh, err := e.evalShape(a)
