@@ -9,13 +9,13 @@ import (
 )
 
 // screenSag makes Evaluate screen the worst-sag scan with sagBound
-// (objective/REFERENCE.md §4.1); tests turn it off to compare with the
+// (objective/REFERENCE.md §4.4); tests turn it off to compare with the
 // straightforward scan that computes every shape's compliance.
 var screenSag = true
 
 // sagBound returns an upper bound on the linear sag |g| hᵀ C h of a shape
 // over every common rotation, where C is its compliance from either Gauss
-// rule and h = R_z(−φ) ĝ (objective/REFERENCE.md §4.1, derived). It needs
+// rule and h = R_z(−φ) ĝ (objective/REFERENCE.md §4.4, derived). It needs
 // only the links and their start positions: with a(s) and c(s) as in
 // compliance, every quadrature node contributes w (c×h)ᵀ R K⁻¹ Rᵀ (a×h),
 // at most w |c×h| |a×h| / λmin(K); on each link |c×h| and |a×h| are at most
@@ -121,7 +121,7 @@ func sub(a, b [3]float64) [3]float64 { return [3]float64{a[0] - b[0], a[1] - b[1
 // or above T(1 + 1e-9), after which they agree; an element in [T,
 // T(1 + 1e-9)) could be taken by one and not the other, so when one
 // exists T is lowered and more shapes are computed (objective/REFERENCE.md
-// §4.1).
+// §4.4).
 func (e *evaluator) worstSag(hh [][6]float64) (*shape, int, error) {
 	if !e.screen {
 		worst, j, _ := scanShapes(e.shapes, hh, math.Inf(1))

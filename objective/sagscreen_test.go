@@ -46,7 +46,7 @@ func sagCases() []struct {
 
 // TestSagBoundHolds: sagBound is at least the largest linear sag of the
 // shape over the common rotations, for every sampled shape and both Gauss
-// rules (the inequality objective/REFERENCE.md §4.1 derives).
+// rules (the inequality objective/REFERENCE.md §4.4 derives).
 func TestSagBoundHolds(t *testing.T) {
 	for _, c := range sagCases() {
 		robot, st, err := c.d.Robot()
