@@ -60,14 +60,10 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 		// At arc length u before the end of link i: |c × h| ≤ D + u with
 		// D = d[i+1]; |a × h| ≤ m_p (D + u) + ∫_s^L m'(σ) |(p(σ) − p(s)) × h| dσ,
 		// where within the link |p(σ) − p(s)| ≤ σ − s (m u²/2) and on a
-		// later link j it is at most (σ − s_j) + E + u, E bounding the
-		// part from the end of link i to the start of link j, or
+		// later link j it is at most (σ − s_j) + E + u, E = s_j − s_i+1
+		// the arc from the end of link i to the start of link j, or
 		// (d[j+1] + s_j+1 − σ) + (D + u) through the tip.
 		D := d[i+1]
-		end := tip
-		if i+1 < n {
-			end = starts[i+1]
-		}
 		alpha, beta := 0.0, 0.0
 		for j := i + 1; j < n; j++ {
 			lj := links[j].End - links[j].Start
@@ -75,7 +71,7 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 				continue
 			}
 			mj := links[j].MassPerLength * lj
-			E := perpBound(sub(starts[j], end), gz, hs)
+			E := links[j].Start - l.End // chord ≤ arc
 			via := d[j+1] + D
 			if E < via {
 				via = E
