@@ -271,6 +271,7 @@ type scratch struct {
 	voxels     []uint64
 	touched    []int32
 	linkStarts [][3]float64
+	precurv    [][2]float64
 	order      []int
 }
 
@@ -280,7 +281,7 @@ func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
-	e.linkStarts, e.order = s.linkStarts, s.order
+	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
 }
 
 func (e *evaluator) putScratch() {
@@ -288,7 +289,7 @@ func (e *evaluator) putScratch() {
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
-		linkStarts: e.linkStarts[:0], order: e.order[:0]})
+		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0]})
 	e.shapes = nil
 }
 
