@@ -129,15 +129,25 @@ type evaluator struct {
 	// fine makes the workspace compliance use fineRule instead of rankRule.
 	fine bool
 	// tipsOnly skips the compliance of the shapes (WorkspaceTips).
-	tipsOnly   bool
-	shapes     []*shape
-	slab       []shape   // storage of shapes (newShape)
-	strainSlab []float64 // storage of their strains
-	shapePtrs  []*shape  // storage of the list of shapes
-	voxels     []uint64  // bitset of voxelVolume, all zero between uses
-	touched    []int32   // words of voxels set during one count
-	solver     *kinematics.Solver
-	linkBuf    []kinematics.Link
+	tipsOnly bool
+	// screen makes evalShape compute the sag bound of a shape instead of
+	// its compliance, which the sag scan then computes where the bound
+	// can reach the worst sag (screenSag); gravity is the scenario's.
+	screen  bool
+	gravity [3]float64
+	// |g| and the parts of ĝ along and across the base axis (sagBound)
+	gravityNorm, gravityZ, gravityXY float64
+	linkStarts                       [][3]float64 // link start positions of the shape being sampled
+	precurv                          [][2]float64 // turned pre-curvatures of the shape being sampled
+	order                            []int        // scratch of the sag scan
+	shapes                           []*shape
+	slab                             []shape   // storage of shapes (newShape)
+	strainSlab                       []float64 // storage of their strains
+	shapePtrs                        []*shape  // storage of the list of shapes
+	voxels                           []uint64  // bitset of voxelVolume, all zero between uses
+	touched                          []int32   // words of voxels set during one count
+	solver                           *kinematics.Solver
+	linkBuf                          []kinematics.Link
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -265,6 +275,9 @@ type scratch struct {
 	linkBuf    []kinematics.Link
 	voxels     []uint64
 	touched    []int32
+	linkStarts [][3]float64
+	precurv    [][2]float64
+	order      []int
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -273,13 +286,15 @@ func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
+	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
 }
 
 func (e *evaluator) putScratch() {
 	clear(e.shapePtrs[:cap(e.shapePtrs)])
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
-		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0]})
+		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
+		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0]})
 	e.shapes = nil
 }
 
@@ -324,6 +339,14 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	p := plan(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
+	e.gravity = e.sc.Load.GravityVector()
+	e.screen = screenSag && e.gravity != ([3]float64{})
+	if e.screen {
+		g := e.gravity
+		e.gravityNorm = math.Sqrt(g[0]*g[0] + g[1]*g[1] + g[2]*g[2])
+		e.gravityZ = math.Abs(g[2]) / e.gravityNorm
+		e.gravityXY = math.Hypot(g[0], g[1]) / e.gravityNorm
+	}
 	e.reserve(len(p.acts))
 	if cap(e.shapePtrs) < len(p.acts) {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))
@@ -420,6 +443,7 @@ func revolvedArea(shapes []*shape) float64 {
 // voxelKey (tested against each other).
 func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (float64, error) {
 	sins, coss := baseTable(baseSteps)
+	coss = coss[:len(sins)]
 	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
 	for _, sh := range shapes {
 		p := sh.tip.P
@@ -446,15 +470,25 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 				e.clearVoxels(bits)
 				return 0, err
 			}
+			// the voxel of voxelKey(turnedBy(p, sin, cos), h), written out:
+			// the common rotation leaves z, so its layer is the shape's
 			p := sh.tip.P
-			for j := range baseSteps {
-				key := voxelKey(turnedBy(p, sins[j], coss[j]), h)
-				ix, iy, iz := int64(key[0])-x0, int64(key[1])-x0, int64(key[2])-z0
-				if ix < 0 || ix >= nx || iy < 0 || iy >= nx || iz < 0 || iz >= nz {
+			p0, p1 := p[0], p[1]
+			iz := int64(int32(math.Floor(p[2]/h))) - z0
+			if iz < 0 || iz >= nz {
+				inside = false
+				break loop
+			}
+			layer := nx * nx * iz
+			for j, s := range sins {
+				c := coss[j]
+				ix := int64(int32(math.Floor((c*p0-s*p1)/h))) - x0
+				iy := int64(int32(math.Floor((s*p0+c*p1)/h))) - x0
+				if ix < 0 || ix >= nx || iy < 0 || iy >= nx {
 					inside = false
 					break loop
 				}
-				i := ix + nx*(iy+nx*iz)
+				i := ix + nx*iy + layer
 				w, b := i>>6, uint64(1)<<(i&63)
 				if bits[w]&b == 0 {
 					if bits[w] == 0 {

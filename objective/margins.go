@@ -28,8 +28,6 @@ func (e *evaluator) sag(res *Result) error {
 	}
 	gh := [3]float64{g[0] / gn, g[1] / gn, g[2] / gn}
 	w := defaults(e.sc.Workspace)
-	var worst *shape
-	worstPhi, worstSag := 0.0, math.Inf(-1)
 	// v(φ) = ĝᵀ R_z(φ) C R_z(φ)ᵀ g = |g| hᵀ C h with h = R_z(−φ) ĝ: only
 	// the symmetric part of C counts, and the six products of h are the
 	// same for every shape.
@@ -39,20 +37,11 @@ func (e *evaluator) sag(res *Result) error {
 		h := [3]float64{c*gh[0] + s*gh[1], -s*gh[0] + c*gh[1], gh[2]}
 		hh[j] = [6]float64{gn * h[0] * h[0], gn * h[1] * h[1], gn * h[2] * h[2], gn * h[0] * h[1], gn * h[0] * h[2], gn * h[1] * h[2]}
 	}
-	for k, sh := range e.shapes {
-		if err := e.tick(k, len(e.shapes)); err != nil {
-			return err
-		}
-		C := &sh.comp
-		sym := [6]float64{C[0][0], C[1][1], C[2][2], C[0][1] + C[1][0], C[0][2] + C[2][0], C[1][2] + C[2][1]}
-		for j := range hh {
-			q := &hh[j]
-			v := (q[0]*sym[0] + q[1]*sym[1]) + (q[2]*sym[2] + q[3]*sym[3]) + (q[4]*sym[4] + q[5]*sym[5])
-			if worst == nil || v > worstSag+1e-9*math.Abs(worstSag) { // ties (symmetric shapes): keep the first
-				worst, worstPhi, worstSag = sh, 2*math.Pi*float64(j)/float64(w.BaseSteps), v
-			}
-		}
+	worst, wj, err := e.worstSag(hh)
+	if err != nil {
+		return err
 	}
+	worstPhi := 2 * math.Pi * float64(wj) / float64(w.BaseSteps)
 	act := kinematics.Actuation{Theta: make([]float64, len(worst.act.Theta)), Beta: append([]float64(nil), worst.act.Beta...)}
 	for i, th := range worst.act.Theta {
 		act.Theta[i] = th + worstPhi

@@ -22,6 +22,12 @@ type shape struct {
 	// comp is the linear tip compliance to a unit gravity vector: the tip
 	// displacement under self-weight plus payload is comp·g (objective/statics/REFERENCE.md §3).
 	comp [3][3]float64
+	// hasComp is false while comp is not computed: the sag scan computes
+	// it only for the shapes whose bound can reach the worst sag.
+	hasComp bool
+	// bound is an upper bound on the linear sag |g| hᵀ C h over every
+	// common rotation (sagBound), m; set when the sag scan screens.
+	bound float64
 	// kmax is the largest curvature magnitude over the nested section
 	// (links where two or more bellows are present; all links for a
 	// single bellows), 1/m.
@@ -292,10 +298,24 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 	}
 	sh := e.newShape(a)
 	tip := kinematics.Identity()
-	for _, l := range links {
+	screen := e.screen && !e.tipsOnly
+	if screen {
+		e.linkStarts = e.linkStarts[:0]
+	}
+	// each curved bellows' pre-curvature turned by its angle, once per shape
+	if cap(e.precurv) < len(e.robot.Tubes) {
+		e.precurv = make([][2]float64, len(e.robot.Tubes))
+	}
+	pre := e.precurv[:len(e.robot.Tubes)]
+	var turned uint64
+	for li := range links {
+		l := &links[li]
+		if screen {
+			e.linkStarts = append(e.linkStarts, tip.P)
+		}
 		tip = tip.Mul(kinematics.LinkTransform(l.U, l.End-l.Start))
 		if l.Present&(l.Present-1) != 0 || len(e.robot.Tubes) == 1 {
-			sh.kmax = math.Max(sh.kmax, math.Hypot(l.U[0], l.U[1]))
+			sh.kmax = maxNaN(sh.kmax, math.Hypot(l.U[0], l.U[1]))
 		}
 		// Wall strain: each present bellows is bent from its own
 		// pre-curvature to the link curvature (objective/kinematics/REFERENCE.md §3.6, surrogate/REFERENCE.md §2.9).
@@ -305,22 +325,38 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 			}
 			var ux, uy float64
 			if l.Curved&(1<<uint(i)) != 0 {
-				s, c := math.Sincos(a.Theta[i])
-				ux = c*t.Precurvature[0] - s*t.Precurvature[1]
-				uy = s*t.Precurvature[0] + c*t.Precurvature[1]
+				if turned&(1<<uint(i)) == 0 {
+					s, c := math.Sincos(a.Theta[i])
+					pre[i] = [2]float64{c*t.Precurvature[0] - s*t.Precurvature[1], s*t.Precurvature[0] + c*t.Precurvature[1]}
+					turned |= 1 << uint(i)
+				}
+				ux, uy = pre[i][0], pre[i][1]
 			}
 			dk := math.Hypot(l.U[0]-ux, l.U[1]-uy)
-			sh.strain[i] = math.Max(sh.strain[i], e.strainPerCurvature[i]*dk)
+			sh.strain[i] = maxNaN(sh.strain[i], e.strainPerCurvature[i]*dk)
 		}
 	}
 	sh.tip = tip
-	if !e.tipsOnly {
+	switch {
+	case screen:
+		sh.bound = e.sagBound(links, e.linkStarts, tip.P)
+	case !e.tipsOnly:
 		sh.comp = e.compliance(links, e.rule())
+		sh.hasComp = true
 	}
 	if what := sh.nonFinite(); what != "" {
 		return nil, nonFinite(what + " at angles " + degList(a.Theta))
 	}
 	return sh, nil
+}
+
+// maxNaN is math.Max without its call and signed-zero rule: NaN wins, so
+// a non-finite value is not lost (the values here are never −0).
+func maxNaN(m, v float64) float64 {
+	if v > m || v != v {
+		return v
+	}
+	return m
 }
 
 // newShape returns a zeroed shape for actuation a, from the evaluator's
