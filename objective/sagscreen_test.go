@@ -40,6 +40,11 @@ func sagCases() []struct {
 		{"three tilted no payload", threeBellows(), &Scenario{Load: Load{Gravity: [3]float64{3, -4, -8}}, Workspace: ws}},
 		{"three insertion", threeBellows(), &Scenario{Load: Load{PayloadMass: 0.1},
 			Workspace: Workspace{RelativeSteps: 12, BaseSteps: 16, InsertionSteps: 3, Insertion: [][2]float64{{-0.03, 0}}}}},
+		// loaded task points screen every shape with its compliance
+		// (task.go), including those the sag screen skipped
+		{"two loaded task points", two, &Scenario{Load: Load{PayloadMass: 0.05}, Tasks: []TaskPoint{
+			{Position: [3]float64{0.02, 0.01, 0.2}, Tolerance: 0.002},
+			{Position: [3]float64{-0.01, 0.03, 0.18}, Tolerance: 0.002}}}},
 		{"four", fourBellows(), &Scenario{Load: Load{PayloadMass: 0.05}, Workspace: Workspace{RelativeSteps: 12, BaseSteps: 24}}},
 	}
 }

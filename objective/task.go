@@ -123,6 +123,14 @@ func (e *evaluator) taskMisses(shapes []*shape) ([]TaskMiss, error) {
 		best := taskCandidate{cost: math.Inf(1)}
 		bestK := -1
 		for k, sh := range shapes {
+			if loaded {
+				// the sag scan computes compliances only where the worst
+				// sag can lie (sagscreen.go); a loaded task point needs
+				// every shape's
+				if err := e.shapeCompliance(sh); err != nil {
+					return nil, err
+				}
+			}
 			phi := e.bestTurn(sh.tip, &sh.comp, t, loaded)
 			p, tan := e.screenedTip(sh.tip, &sh.comp, phi, loaded)
 			if _, _, c := taskCost(p, tan, t, dirTol, arm); c < best.cost {
