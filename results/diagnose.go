@@ -52,6 +52,9 @@ type DiagnosedDesign struct {
 	Violation  float64            `json:"violation"`
 	Variables  map[string]string  `json:"variables"`
 	Margins    map[string]float64 `json:"margins"`
+	// DesignFile is the design's file in the run folder
+	// (closest/design-N.toml), which check and pose accept.
+	DesignFile string `json:"design_file,omitempty"`
 }
 
 // Diagnose builds the diagnosis from a run's diagnoser; nil when nothing
@@ -127,7 +130,11 @@ func WriteDiagnosis(w interface{ Write([]byte) (int, error) }, d *Diagnosis) {
 	}
 	if len(d.LeastInfeasible) > 0 {
 		l := d.LeastInfeasible[0]
-		fmt.Fprintf(w, "  least infeasible: evaluation %d, overall violation %.4g\n", l.Evaluation, finite(l.Violation))
+		fmt.Fprintf(w, "  least infeasible: evaluation %d, overall violation %.4g", l.Evaluation, finite(l.Violation))
+		if l.DesignFile != "" {
+			fmt.Fprintf(w, " (design files %s/design-1.toml to design-%d.toml)", ClosestDir, len(d.LeastInfeasible))
+		}
+		fmt.Fprintln(w)
 	}
 }
 
