@@ -30,6 +30,12 @@ type Diagnosis struct {
 	// Sentences say in one line per blocking constraint how much it
 	// blocks.
 	Sentences []string `json:"sentences"`
+	// Explanations say, for the blocking constraints it can, in the
+	// checks' units what blocks: the best value seen against the limit,
+	// and for a reach the task points or min_reach_mm need, the
+	// constraint that caps it (a session's own evaluations: a resumed run
+	// explains from the evaluations since it resumed).
+	Explanations []string `json:"explanations,omitempty"`
 }
 
 // BlockingConstraint is one constraint's record over the evaluations.
@@ -123,6 +129,9 @@ func WriteDiagnosis(w interface{ Write([]byte) (int, error) }, d *Diagnosis) {
 	}
 	fmt.Fprintf(w, "diagnosis: %d feasible of %d evaluations\n", d.Feasible, d.Evaluations)
 	for _, s := range d.Sentences {
+		fmt.Fprintf(w, "  %s\n", s)
+	}
+	for _, s := range d.Explanations {
 		fmt.Fprintf(w, "  %s\n", s)
 	}
 	if len(d.AtBound) > 0 {

@@ -202,7 +202,12 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.Files = f.Written()
 		return f.WriteInfo(info)
 	}
-	res, runErr := search.Run(ctx, spec.SearchProblem(), &set, method)
+	ex := newExplainer(spec)
+	problem := spec.SearchProblem()
+	if ex != nil {
+		problem = spec.ObservedSearchProblem(ex.add)
+	}
+	res, runErr := search.Run(ctx, problem, &set, method)
 	bar.finish()
 	if res == nil {
 		if runErr == nil {
@@ -232,6 +237,9 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	info.Diagnosis = nil
 	if len(res.Front) < FewFeasible {
 		info.Diagnosis = Diagnose(spec, diag)
+		if info.Diagnosis != nil {
+			info.Diagnosis.Explanations = ex.sentences(info.Diagnosis.Blocking)
+		}
 		if err := writeClosest(f, spec, info, info.Diagnosis, diag.Least); err != nil {
 			return fail(res, err)
 		}

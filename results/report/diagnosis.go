@@ -19,6 +19,9 @@ func diagnosisLines(d *results.Diagnosis) []string {
 	for _, s := range d.Sentences {
 		out = append(out, "Diagnosis: "+s+".")
 	}
+	for _, s := range d.Explanations {
+		out = append(out, "Diagnosis: "+s+".")
+	}
 	if len(d.AtBound) > 0 {
 		out = append(out, "Diagnosis: the least-infeasible designs hold "+strings.Join(d.AtBound, ", ")+"; widening those ranges may help.")
 	}
