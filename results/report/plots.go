@@ -621,6 +621,12 @@ func figureTips(robot *kinematics.Robot, w objective.Workspace, maxPoints int) (
 // (objective.WorkspaceTips, thinned evenly to MaxWorkspacePoints) projected
 // on the x–z plane (side view) and the x–y plane (top view), to scale.
 func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Workspace) (Figure, error) {
+	return WorkspaceTaskFigure(name, title, robot, w, nil)
+}
+
+// WorkspaceTaskFigure is WorkspaceFigure with the task points drawn over
+// the tips, each with its tolerance.
+func WorkspaceTaskFigure(name, title string, robot *kinematics.Robot, w objective.Workspace, tasks []objective.TaskPoint) (Figure, error) {
 	fig := Figure{Name: name, Title: title}
 	tips, err := figureTips(robot, w, MaxWorkspacePoints)
 	if err != nil {
@@ -644,7 +650,10 @@ func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Wo
 	if _, err := scatter(top, xy, workspaceColor, vg.Points(1.2)); err != nil {
 		return fig, err
 	}
-	fig.Caption = fmt.Sprintf("Tip positions over %d sampled actuations (relative rotations and insertion ranges on a grid, each turned by the common rotation), projected on the x–z plane (side view; the black dot is the base) and the x–y plane (top view), to scale. Unloaded shapes.", len(tips))
+	if err := addTaskPoints(side, top, tasks); err != nil {
+		return fig, err
+	}
+	fig.Caption = fmt.Sprintf("Tip positions over %d sampled actuations (relative rotations and insertion ranges on a grid, each turned by the common rotation), projected on the x–z plane (side view; the black dot is the base) and the x–y plane (top view), to scale. Unloaded shapes.", len(tips)) + taskCaption(tasks)
 	padRange(side)
 	padRange(top)
 	b, err := twoViews(side, top)

@@ -239,7 +239,7 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 				return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
 			})
 			addFig(&d.Figures, func() (Figure, error) {
-				return WorkspaceFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace)
+				return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
 			})
 		}
 		page.Designs = append(page.Designs, d)
