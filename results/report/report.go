@@ -50,7 +50,7 @@ var Cautions = []string{
 	"Every number in this report is a model estimate from the models listed with each design; verify a design on printed prototypes before relying on it.",
 	"Follow the standards that apply to the application, and have any design that carries payloads, works near people or is for medical use reviewed by a qualified engineer.",
 	"The front holds the best designs this search found within its budget, not proven optima: another seed or a larger budget may find better ones.",
-	"The backbone and workspace figures show unloaded shapes; the sag under gravity and payload is in the check tables.",
+	"The backbone and workspace figures show unloaded shapes; the loaded-backbone figure draws the shape under gravity and payload beside the unloaded one, and the worst sag over the workspace is in the check tables.",
 }
 
 type keyValue struct{ Key, Value string }
@@ -237,6 +237,9 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 		} else {
 			addFig(&d.Figures, func() (Figure, error) {
 				return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
+			})
+			addFig(&d.Figures, func() (Figure, error) {
+				return LoadedBackboneFigure(fmt.Sprintf("loaded-%03d.svg", id), fmt.Sprintf("Loaded beside unloaded backbone of design %d", id), robot, sc.Workspace, sc.Load)
 			})
 			addFig(&d.Figures, func() (Figure, error) {
 				return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
