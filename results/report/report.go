@@ -244,6 +244,9 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 			addFig(&d.Figures, func() (Figure, error) {
 				return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
 			})
+			addFig(&d.Figures, func() (Figure, error) {
+				return TipSagFigure(fmt.Sprintf("sag-%03d.svg", id), fmt.Sprintf("Tip sag over the workspace of design %d", id), robot, sc.Workspace, sc.Load)
+			})
 		}
 		page.Designs = append(page.Designs, d)
 	}

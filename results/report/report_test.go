@@ -142,8 +142,8 @@ func TestReport(t *testing.T) {
 	assert.Equal(t, len(r.Front)+1, strings.Count(m[1], "<tr"), "front table rows")
 	assert.Equal(t, len(rep.Designs), strings.Count(m[1], `class="chosen"`), "highlighted rows")
 
-	// figures: front, variables, hypervolume, and backbone, loaded backbone and workspace per design
-	assert.Len(t, rep.Figures, 3+3*len(rep.Designs), "figures")
+	// figures: front, variables, hypervolume, and backbone, loaded backbone, workspace and sag map per design
+	assert.Len(t, rep.Figures, 3+4*len(rep.Designs), "figures")
 	assert.Equal(t, len(rep.Figures), countElements(els, "svg"), "every figure is inlined")
 	assert.Equal(t, len(rep.Figures), countElements(els, "figcaption"), "every figure has a caption")
 	for _, fig := range rep.Figures {
