@@ -78,11 +78,13 @@ func TipSagFigure(name, title string, robot *kinematics.Robot, w objective.Works
 		}
 		label := fmt.Sprintf("%.3g mm", lo*1e3)
 		if hi > lo {
-			label = fmt.Sprintf("%.3g–%.3g mm", (lo+float64(b)*width)*1e3, (lo+float64(b+1)*width)*1e3)
+			d := sagDigits(hi, width)
+			label = fmt.Sprintf("%.*g–%.*g mm", d, (lo+float64(b)*width)*1e3, d, (lo+float64(b+1)*width)*1e3)
 		}
-		top.Legend.Add(label, s)
+		side.Legend.Add(label, s) // the side view has room above the arm
 	}
-	top.Legend.Top = true
+	side.Legend.Top, side.Legend.Left = true, true
+	side.Legend.XOffs = vg.Points(30)
 	fig.Caption = fmt.Sprintf("Sag along gravity over the workspace: the %d sampled tips of the workspace figure, each coloured by the tip displacement along gravity of its configuration under self-weight and payload (linear compliance estimate; the tip_sag check re-solves the worst one with the exact rod model), from %.3g mm (blue) to %.3g mm (red), to scale. Unloaded tip positions.",
 		len(pts), lo*1e3, hi*1e3)
 	padRange(side)
@@ -95,4 +97,13 @@ func TipSagFigure(name, title string, robot *kinematics.Robot, w objective.Works
 // sagColor is band b's colour: blue (smallest sag) to red (largest).
 func sagColor(b int) color.RGBA {
 	return hue(0.66 * (1 - float64(b)/float64(SagBands-1)))
+}
+
+// sagDigits is the number of significant digits that tells band edges of
+// width apart up to hi: at least 3.
+func sagDigits(hi, width float64) int {
+	if !(width > 0) || !(hi > 0) {
+		return 3
+	}
+	return max(3, int(math.Ceil(math.Log10(hi/width)))+1)
 }

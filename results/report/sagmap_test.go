@@ -21,6 +21,10 @@ func TestSagBand(t *testing.T) {
 		assert.Equal(t, c.want, sagBand(c.s, 0, 5, 5), "band of %g over [0, 5]", c.s)
 	}
 	assert.Equal(t, 0, sagBand(3, 3, 3, 5), "a single value: one band")
+	// band edges 1.27, 1.272, ... need 4 digits; wide bands keep 3
+	assert.Equal(t, 4, sagDigits(1.28e-3, 0.002e-3))
+	assert.Equal(t, 3, sagDigits(5e-3, 1e-3))
+	assert.Equal(t, 3, sagDigits(0, 0))
 }
 
 // TestTipSagFigure: on the shipped geometry every tip the workspace figure
