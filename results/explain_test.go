@@ -161,4 +161,13 @@ func TestBlockedDemoExplanation(t *testing.T) {
 	assert.Equal(t, g3(bestReach), m[2], "best reach")
 	assert.Equal(t, limit, m[3], "the limiting constraint")
 	assert.Equal(t, g3(least), m[4], "best reach meeting the limit")
+
+	// same seed, one worker: the same explanations (evaluation order does not matter)
+	dir1 := filepath.Join(t.TempDir(), "run1")
+	_, err = runTo(t, spec, dir1, 200, 1, context.Background(), false)
+	require.NoError(t, err)
+	var info1 RunInfo
+	require.NoError(t, json.Unmarshal([]byte(readFile(t, filepath.Join(dir1, RunFile))), &info1))
+	require.NotNil(t, info1.Diagnosis)
+	assert.Equal(t, info.Diagnosis.Explanations, info1.Diagnosis.Explanations, "explanations whatever the worker count")
 }

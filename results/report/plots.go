@@ -580,7 +580,7 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	if _, err := pointLabels(top, tips, names, color.Black); err != nil {
 		return fig, err
 	}
-	fig.Caption = fmt.Sprintf("Backbone at %d relative rotations of bellows 1 (every %d°, labelled at the tip in the top view; the other bellows at 0°), to scale. Unloaded shape: the sag under gravity and payload is not drawn.",
+	fig.Caption = fmt.Sprintf("Backbone at %d relative rotations of bellows 1 (every %d°, labelled at the tip in the top view; the other bellows at 0°), to scale. Unloaded shape: the loaded-backbone figure draws the shape under gravity and payload.",
 		drawn, 360/BackboneRotations)
 	if drawn < BackboneRotations {
 		fig.Caption += fmt.Sprintf(" %d rotations break the nesting rules and are left out.", BackboneRotations-drawn)
