@@ -207,28 +207,76 @@ func FixedInsertion(n int, w Workspace) []float64 {
 // (actuation by actuation, the common rotation innermost). Evaluate samples
 // exactly these.
 func WorkspaceTips(robot *kinematics.Robot, w Workspace) ([][3]float64, error) {
+	tips, _, err := workspaceSamples(robot, w, nil)
+	return tips, err
+}
+
+// WorkspaceSags returns the tips of WorkspaceTips (the same samples, in the
+// same order) and, for each, the sag along gravity of that configuration
+// under the self-weight and payload of ld, m: |g| ĥᵀ C ĥ with C the
+// closed-form linear tip compliance to gravity of the sampled shape
+// (objective/statics/REFERENCE.md §3) and ĥ the gravity direction in the
+// turned shape's frame, as the tip_sag score ranks the configurations
+// before it solves the worst one with the exact rod model. Tip forces and
+// moments that are not weight are not included.
+func WorkspaceSags(robot *kinematics.Robot, w Workspace, ld Load) ([][3]float64, []float64, error) {
+	return workspaceSamples(robot, w, &ld)
+}
+
+// workspaceSamples is the one sampling behind WorkspaceTips and
+// WorkspaceSags; ld nil samples the tips only.
+func workspaceSamples(robot *kinematics.Robot, w Workspace, ld *Load) ([][3]float64, []float64, error) {
 	w = defaults(w)
 	n := len(robot.Tubes)
-	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n), tipsOnly: true}
+	e := &evaluator{robot: robot, strainPerCurvature: make([]float64, n), tipsOnly: ld == nil}
+	var g [3]float64
+	if ld != nil {
+		e.payload = ld.PayloadMass
+		g = ld.GravityVector()
+	}
 	var tips [][3]float64
+	var sags []float64
 	acts := plan(n, w).acts
 	e.reserve(len(acts))
 	for _, a := range acts {
 		sh, err := e.evalShape(a)
 		if err != nil {
-			return nil, err
+			return nil, nil, err
 		}
 		if sh == nil {
 			continue
 		}
 		for j := range w.BaseSteps {
 			tips = append(tips, turned(sh.tip.P, j, w.BaseSteps))
+			if ld != nil {
+				sags = append(sags, sagAlong(&sh.comp, g, j, w.BaseSteps))
+			}
 		}
 	}
 	if len(tips) == 0 {
-		return nil, errors.New("no sampled actuation satisfies the nesting rules")
+		return nil, nil, errors.New("no sampled actuation satisfies the nesting rules")
 	}
-	return tips, nil
+	return tips, sags, nil
+}
+
+// sagAlong is the displacement along gravity g of a shape of tip
+// compliance C turned by the j-th of steps common rotations: ĝᵀ R C Rᵀ g
+// = |g| hᵀ C h with h = R_z(−φ) ĝ.
+func sagAlong(C *[3][3]float64, g [3]float64, j, steps int) float64 {
+	gn := math.Sqrt(g[0]*g[0] + g[1]*g[1] + g[2]*g[2])
+	if gn == 0 {
+		return 0
+	}
+	s, c := math.Sincos(2 * math.Pi * float64(j) / float64(steps))
+	gh := [3]float64{g[0] / gn, g[1] / gn, g[2] / gn}
+	h := [3]float64{c*gh[0] + s*gh[1], -s*gh[0] + c*gh[1], gh[2]}
+	v := 0.0
+	for r := range 3 {
+		for q := range 3 {
+			v += h[r] * C[r][q] * h[q]
+		}
+	}
+	return gn * v
 }
 
 // turned is p turned about the base z axis by the j-th of steps common

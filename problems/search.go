@@ -44,7 +44,13 @@ func (s *Spec) ConstraintNames() []string {
 // are negated. Constraint values are margins relative to the limit, g ≤ 0
 // feasible: (value − limit)/|limit| for an upper limit and
 // (limit − value)/|limit| for a lower one (not divided for a zero limit).
-func (s *Spec) SearchProblem() search.Problem {
+func (s *Spec) SearchProblem() search.Problem { return s.ObservedSearchProblem(nil) }
+
+// ObservedSearchProblem is SearchProblem whose evaluator also hands every
+// successful evaluation (its index, result and constraint values) to
+// observe, when not nil. observe is called from the search's workers, so
+// concurrently; it must not keep g.
+func (s *Spec) ObservedSearchProblem(observe func(index int64, res *objective.Result, g []float64)) search.Problem {
 	p := search.Problem{
 		Dim:            len(s.Variables),
 		Lower:          make([]float64, len(s.Variables)),
@@ -88,7 +94,14 @@ func (s *Spec) SearchProblem() search.Problem {
 			return err
 		}
 		stage = "filling objectives and constraints"
-		return s.Fill(res, f, g)
+		if err := s.Fill(res, f, g); err != nil {
+			return err
+		}
+		if observe != nil {
+			stage = "recording the evaluation"
+			observe(index, res, g)
+		}
+		return nil
 	}
 	return p
 }

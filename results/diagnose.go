@@ -30,6 +30,12 @@ type Diagnosis struct {
 	// Sentences say in one line per blocking constraint how much it
 	// blocks.
 	Sentences []string `json:"sentences"`
+	// Explanations say, for the blocking constraints it can, in the
+	// checks' units what blocks: the best value seen against the limit,
+	// and for a reach the task points or min_reach_mm need, the
+	// constraint that caps it (a session's own evaluations: a resumed run
+	// explains from the evaluations since it resumed).
+	Explanations []string `json:"explanations,omitempty"`
 }
 
 // BlockingConstraint is one constraint's record over the evaluations.
@@ -52,6 +58,9 @@ type DiagnosedDesign struct {
 	Violation  float64            `json:"violation"`
 	Variables  map[string]string  `json:"variables"`
 	Margins    map[string]float64 `json:"margins"`
+	// DesignFile is the design's file in the run folder
+	// (closest/design-N.toml), which check and pose accept.
+	DesignFile string `json:"design_file,omitempty"`
 }
 
 // Diagnose builds the diagnosis from a run's diagnoser; nil when nothing
@@ -122,12 +131,19 @@ func WriteDiagnosis(w interface{ Write([]byte) (int, error) }, d *Diagnosis) {
 	for _, s := range d.Sentences {
 		fmt.Fprintf(w, "  %s\n", s)
 	}
+	for _, s := range d.Explanations {
+		fmt.Fprintf(w, "  %s\n", s)
+	}
 	if len(d.AtBound) > 0 {
 		fmt.Fprintf(w, "  least-infeasible designs hold %s\n", strings.Join(d.AtBound, ", "))
 	}
 	if len(d.LeastInfeasible) > 0 {
 		l := d.LeastInfeasible[0]
-		fmt.Fprintf(w, "  least infeasible: evaluation %d, overall violation %.4g\n", l.Evaluation, finite(l.Violation))
+		fmt.Fprintf(w, "  least infeasible: evaluation %d, overall violation %.4g", l.Evaluation, finite(l.Violation))
+		if l.DesignFile != "" {
+			fmt.Fprintf(w, " (design files %s/design-1.toml to design-%d.toml)", ClosestDir, len(d.LeastInfeasible))
+		}
+		fmt.Fprintln(w)
 	}
 }
 

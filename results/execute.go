@@ -61,12 +61,14 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	var logData []byte // evaluations.csv to start a resumed run from
 	var files map[string][]byte
 	var text []byte
+	var earlierFiles []string // the files of a resumed run's earlier sessions
 	if opt.Resume {
 		old, err := f.ReadInfo()
 		if err != nil {
 			return nil, err
 		}
 		info = old
+		earlierFiles = old.Files
 		if f.HasCheckpoint() {
 			cp, why, err := f.readCheckpoint()
 			if err != nil {
@@ -93,7 +95,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		// The files of the earlier sessions stay, but for the front,
 		// which this session writes anew.
 		for _, name := range info.Files {
-			if name != FrontFile && !strings.HasPrefix(name, DesignsDir+"/") && Exists(f.Path(name)) {
+			if name != FrontFile && !strings.HasPrefix(name, DesignsDir+"/") && !strings.HasPrefix(name, ClosestDir+"/") && Exists(f.Path(name)) {
 				f.wrote(name)
 			}
 		}
@@ -200,7 +202,12 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.Files = f.Written()
 		return f.WriteInfo(info)
 	}
-	res, runErr := search.Run(ctx, spec.SearchProblem(), &set, method)
+	ex := newExplainer(spec)
+	problem := spec.SearchProblem()
+	if ex != nil {
+		problem = spec.ObservedSearchProblem(ex.add)
+	}
+	res, runErr := search.Run(ctx, problem, &set, method)
 	bar.finish()
 	if res == nil {
 		if runErr == nil {
@@ -237,6 +244,15 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	info.Diagnosis = nil
 	if len(res.Front) < FewFeasible {
 		info.Diagnosis = Diagnose(spec, diag)
+		if info.Diagnosis != nil {
+			info.Diagnosis.Explanations = ex.sentences(info.Diagnosis.Blocking)
+		}
+		if err := writeClosest(f, spec, info, info.Diagnosis, diag.Least); err != nil {
+			return fail(res, err)
+		}
+	}
+	if err := removeStaleClosest(f, earlierFiles); err != nil {
+		return fail(res, err)
 	}
 	info.Updated = time.Now().UTC()
 	info.Files = f.Written()

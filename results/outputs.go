@@ -12,7 +12,7 @@ import (
 
 // runNames are the files and folders plica writes in a run folder.
 var runNames = []string{RunFile, ProblemFile, EvaluationsFile, HistoryFile, FrontFile, DesignsDir, CheckpointFile, PrevCheckpoint,
-	LockFile, "calibration", "plots", "report.html", PickedDir}
+	LockFile, "calibration", "plots", "report.html", PickedDir, ClosestDir}
 
 // SamePath reports whether a and b name the same file or folder: the
 // same file when both exist (links followed), else the same absolute

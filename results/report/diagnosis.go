@@ -19,6 +19,9 @@ func diagnosisLines(d *results.Diagnosis) []string {
 	for _, s := range d.Sentences {
 		out = append(out, "Diagnosis: "+s+".")
 	}
+	for _, s := range d.Explanations {
+		out = append(out, "Diagnosis: "+s+".")
+	}
 	if len(d.AtBound) > 0 {
 		out = append(out, "Diagnosis: the least-infeasible designs hold "+strings.Join(d.AtBound, ", ")+"; widening those ranges may help.")
 	}
@@ -30,7 +33,11 @@ func diagnosisLines(d *results.Diagnosis) []string {
 				m = append(m, fmt.Sprintf("%s %.4g", k, l.Margins[k]))
 			}
 		}
-		out = append(out, fmt.Sprintf("Diagnosis: the least-infeasible design is evaluation %d of %s; it violates %s.", l.Evaluation, results.EvaluationsFile, strings.Join(m, ", ")))
+		line := fmt.Sprintf("Diagnosis: the least-infeasible design is evaluation %d of %s; it violates %s", l.Evaluation, results.EvaluationsFile, strings.Join(m, ", "))
+		if l.DesignFile != "" {
+			line += fmt.Sprintf("; it and the next closest are design files (%s/design-1.toml to design-%d.toml) that plica check accepts", results.ClosestDir, len(d.LeastInfeasible))
+		}
+		out = append(out, line+".")
 	}
 	return out
 }

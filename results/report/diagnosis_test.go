@@ -23,4 +23,10 @@ func TestDiagnosisLines(t *testing.T) {
 		"Diagnosis: the least-infeasible designs hold bellows1_wall_mm at its upper bound; widening those ranges may help.",
 		"Diagnosis: the least-infeasible design is evaluation 7 of evaluations.csv; it violates task_miss 3.",
 	}, lines)
+
+	// with design files, the last line names them
+	d.LeastInfeasible = append(d.LeastInfeasible, results.DiagnosedDesign{Evaluation: 9, Violation: 4})
+	d.LeastInfeasible[0].DesignFile = results.ClosestFileName(1)
+	lines = diagnosisLines(d)
+	assert.Equal(t, "Diagnosis: the least-infeasible design is evaluation 7 of evaluations.csv; it violates task_miss 3; it and the next closest are design files (closest/design-1.toml to design-2.toml) that plica check accepts.", lines[len(lines)-1])
 }

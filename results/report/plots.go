@@ -590,7 +590,7 @@ func BackboneFigure(name, title string, robot *kinematics.Robot, w objective.Wor
 	if _, err := pointLabels(top, tips, names, color.Black); err != nil {
 		return fig, err
 	}
-	fig.Caption = fmt.Sprintf("Backbone at %d relative rotations of bellows 1 (every %d°, labelled at the tip in the top view; the other bellows at 0°), to scale. Unloaded shape: the sag under gravity and payload is not drawn.",
+	fig.Caption = fmt.Sprintf("Backbone at %d relative rotations of bellows 1 (every %d°, labelled at the tip in the top view; the other bellows at 0°), to scale. Unloaded shape: the loaded-backbone figure draws the shape under gravity and payload.",
 		drawn, 360/BackboneRotations)
 	if drawn < BackboneRotations {
 		fig.Caption += fmt.Sprintf(" %d rotations break the nesting rules and are left out.", BackboneRotations-drawn)
@@ -631,6 +631,12 @@ func figureTips(robot *kinematics.Robot, w objective.Workspace, maxPoints int) (
 // (objective.WorkspaceTips, thinned evenly to MaxWorkspacePoints) projected
 // on the x–z plane (side view) and the x–y plane (top view), to scale.
 func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Workspace) (Figure, error) {
+	return WorkspaceTaskFigure(name, title, robot, w, nil)
+}
+
+// WorkspaceTaskFigure is WorkspaceFigure with the task points drawn over
+// the tips, each with its tolerance.
+func WorkspaceTaskFigure(name, title string, robot *kinematics.Robot, w objective.Workspace, tasks []objective.TaskPoint) (Figure, error) {
 	fig := Figure{Name: name, Title: title}
 	tips, err := figureTips(robot, w, MaxWorkspacePoints)
 	if err != nil {
@@ -654,7 +660,10 @@ func WorkspaceFigure(name, title string, robot *kinematics.Robot, w objective.Wo
 	if _, err := scatter(top, xy, workspaceColor, vg.Points(1.2)); err != nil {
 		return fig, err
 	}
-	fig.Caption = fmt.Sprintf("Tip positions over %d sampled actuations (relative rotations and insertion ranges on a grid, each turned by the common rotation), projected on the x–z plane (side view; the black dot is the base) and the x–y plane (top view), to scale. Unloaded shapes.", len(tips))
+	if err := addTaskPoints(side, top, tasks); err != nil {
+		return fig, err
+	}
+	fig.Caption = fmt.Sprintf("Tip positions over %d sampled actuations (relative rotations and insertion ranges on a grid, each turned by the common rotation), projected on the x–z plane (side view; the black dot is the base) and the x–y plane (top view), to scale. Unloaded shapes.", len(tips)) + taskCaption(tasks)
 	padRange(side)
 	padRange(top)
 	b, err := twoViews(side, top)

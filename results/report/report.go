@@ -50,7 +50,7 @@ var Cautions = []string{
 	"Every number in this report is a model estimate from the models listed with each design; verify a design on printed prototypes before relying on it.",
 	"Follow the standards that apply to the application, and have any design that carries payloads, works near people or is for medical use reviewed by a qualified engineer.",
 	"The front holds the best designs this search found within its budget, not proven optima: another seed or a larger budget may find better ones.",
-	"The backbone and workspace figures show unloaded shapes; the sag under gravity and payload is in the check tables.",
+	"The backbone and workspace figures show unloaded shapes; the loaded-backbone figure draws the shape under gravity and payload beside the unloaded one, and the worst sag over the workspace is in the check tables.",
 }
 
 type keyValue struct{ Key, Value string }
@@ -97,9 +97,12 @@ type htmlPage struct {
 	Checks, Constraints         []string
 	FrontHeader                 []string
 	FrontRows                   []frontTableRow
-	Figures                     []figureSection
-	Designs                     []designSection
-	Problems                    []string
+	// Lead holds the figures shown first (the front); Figures the rest.
+	Lead, Figures []figureSection
+	// Diagnosis says why the search found no feasible design, or few.
+	Diagnosis []string
+	Designs   []designSection
+	Problems  []string
 }
 
 type frontTableRow struct {
@@ -185,7 +188,7 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 		*dst = append(*dst, rf)
 	}
 	if len(r.Front) > 0 {
-		addFig(&page.Figures, func() (Figure, error) { return r.FrontFigure(ids) })
+		addFig(&page.Lead, func() (Figure, error) { return r.FrontFigure(ids) })
 		addFig(&page.Figures, func() (Figure, error) { return r.VariablesFigure(ids) })
 	}
 	if len(r.History) > 0 {
@@ -237,7 +240,13 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 				return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
 			})
 			addFig(&d.Figures, func() (Figure, error) {
-				return WorkspaceFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace)
+				return LoadedBackboneFigure(fmt.Sprintf("loaded-%03d.svg", id), fmt.Sprintf("Loaded beside unloaded backbone of design %d", id), robot, sc.Workspace, sc.Load)
+			})
+			addFig(&d.Figures, func() (Figure, error) {
+				return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
+			})
+			addFig(&d.Figures, func() (Figure, error) {
+				return TipSagFigure(fmt.Sprintf("sag-%03d.svg", id), fmt.Sprintf("Tip sag over the workspace of design %d", id), robot, sc.Workspace, sc.Load)
 			})
 		}
 		page.Designs = append(page.Designs, d)
@@ -436,7 +445,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.NoFront = "The front is empty: no feasible design was found."
 		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
 	}
-	p.Cautions = append(p.Cautions, diagnosisLines(info.Diagnosis)...)
+	p.Diagnosis = diagnosisLines(info.Diagnosis)
 	return p
 }
 
@@ -469,8 +478,40 @@ nav a { margin-right: 1rem; }
 <h1>{{.Title}}</h1>
 <p>Run folder <code>{{.Folder}}</code>.</p>
 <p class="caution"><strong>Caution.</strong> {{.Caution}}</p>
-<nav><a href="#summary">summary</a><a href="#front">front</a><a href="#figures">figures</a><a href="#designs">designs</a><a href="#cautions">cautions</a><a href="#problem">problem file</a></nav>
+<nav><a href="#overview">overview</a><a href="#designs">designs</a><a href="#figures">figures</a><a href="#summary">problem and run</a><a href="#front">front table</a><a href="#cautions">cautions</a><a href="#problem">problem file</a></nav>
 {{if .Problems}}<div class="problem"><p>Parts of this report could not be built:</p><ul>{{range .Problems}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+
+<h2 id="overview">Front, chosen designs and diagnosis</h2>
+{{range .Lead}}{{template "figure" .}}{{end}}
+{{if not .FrontRows}}<p class="fail">{{.NoFront}}</p>{{end}}
+{{if .Designs}}<table id="chosen-table"><tr><th>design</th><th>why shown</th><th>objectives</th><th>result</th><th>design file</th></tr>
+{{range .Designs}}<tr><td><a href="#design-{{.ID}}">{{.ID}}</a></td><td>{{.Reason}}</td><td>{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}</td><td>{{if not .HasResult}}<span class="problem">not checked</span>{{else if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}}){{end}}</td><td><code>{{.File}}</code></td></tr>
+{{end}}</table>{{end}}
+{{if .Diagnosis}}<div id="diagnosis"><h3>Why the search found {{if .FrontRows}}few{{else}}no{{end}} feasible designs</h3><ul>{{range .Diagnosis}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+
+<h2 id="designs">Designs</h2>
+{{if not .Designs}}<p>No design to show.</p>{{end}}
+{{range .Designs}}<section id="design-{{.ID}}">
+<h3>Design {{.ID}}{{if .Reason}}: {{.Reason}}{{end}}</h3>
+<p>Design file <code>{{.File}}</code>.
+{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}.</p>
+<p>Variables: {{range $i, $v := .Variables}}{{if $i}}, {{end}}<code>{{$v.Key}}</code> = {{$v.Value}}{{end}}.</p>
+{{if .Problem}}<p class="problem">{{.Problem}}</p>{{end}}
+{{if .HasResult}}
+<p>Result: {{if .Pass}}<span class="pass">PASS</span> ({{.NumChecks}} checks{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}} checks failed{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{end}}</p>
+<table class="checks"><tr><th>check</th><th>value</th><th>limit</th><th>unit</th><th>result</th><th>note</th></tr>
+{{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else if .Warn}}<span class="warn">WARN</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
+{{end}}</table>
+<ul>{{range .Models}}<li>model: {{.}}</li>{{end}}{{range .Warnings}}<li class="problem">warning: {{.}}</li>{{end}}</ul>
+{{if .Robust}}{{template "robust" .Robust}}{{end}}
+{{if .CheckText}}<details><summary>full check output (as <code>plica check {{.File}}</code> prints it)</summary><pre>{{.CheckText}}</pre></details>{{end}}
+{{end}}
+{{range .Figures}}{{template "figure" .}}{{end}}
+</section>
+{{end}}
+
+<h2 id="figures">More figures</h2>
+{{range .Figures}}{{template "figure" .}}{{else}}<p>No further figure.</p>{{end}}
 
 <h2 id="summary">Problem and run</h2>
 <h3>Design variables</h3>
@@ -495,35 +536,12 @@ nav a { margin-right: 1rem; }
 {{if .Reference}}<p>The hypervolume is measured in the objectives as the search minimises them (maximised objectives negated) against the reference point:</p>
 <table><tr><th>objective</th><th>reference</th></tr>{{range .Reference}}<tr><td><code>{{.Key}}</code></td><td>{{.Value}}</td></tr>{{end}}</table>{{end}}
 
-<h2 id="front">Front</h2>
-{{if .FrontRows}}<p>{{len .FrontRows}} designs; objectives in each score's own sign. Highlighted rows are shown in detail below. Each design is a design file in the run folder that <code>plica check</code> and <code>plica pose</code> accept.</p>
+<h2 id="front">Front table</h2>
+{{if .FrontRows}}<details id="front-details"><summary>all {{len .FrontRows}} front designs (objectives in each score's own sign; highlighted rows are the designs shown above)</summary>
+<p>Each design is a design file in the run folder that <code>plica check</code> and <code>plica pose</code> accept.</p>
 <div class="wide"><table id="front-table"><tr>{{range .FrontHeader}}<th>{{.}}</th>{{end}}</tr>
 {{range .FrontRows}}<tr{{if .Chosen}} class="chosen"{{end}}>{{range .Cells}}<td>{{.}}</td>{{end}}</tr>
-{{end}}</table></div>{{else}}<p class="fail">{{.NoFront}}</p>{{end}}
-
-<h2 id="figures">Figures</h2>
-{{range .Figures}}{{template "figure" .}}{{end}}
-
-<h2 id="designs">Designs</h2>
-{{if not .Designs}}<p>No design to show.</p>{{end}}
-{{range .Designs}}<section id="design-{{.ID}}">
-<h3>Design {{.ID}}{{if .Reason}}: {{.Reason}}{{end}}</h3>
-<p>Design file <code>{{.File}}</code>.
-{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}.</p>
-<p>Variables: {{range $i, $v := .Variables}}{{if $i}}, {{end}}<code>{{$v.Key}}</code> = {{$v.Value}}{{end}}.</p>
-{{if .Problem}}<p class="problem">{{.Problem}}</p>{{end}}
-{{if .HasResult}}
-<p>Result: {{if .Pass}}<span class="pass">PASS</span> ({{.NumChecks}} checks{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}} checks failed{{if .WarnChecks}}; {{.WarnChecks}} with a warning{{end}}){{end}}</p>
-<table class="checks"><tr><th>check</th><th>value</th><th>limit</th><th>unit</th><th>result</th><th>note</th></tr>
-{{range .Checks}}<tr><td><code>{{.Name}}</code></td><td class="num">{{.Value}}</td><td class="num">{{.Limit}}</td><td>{{.Unit}}</td><td>{{if .Pass}}<span class="pass">PASS</span>{{else if .Warn}}<span class="warn">WARN</span>{{else}}<span class="fail">FAIL</span>{{end}}</td><td>{{.Note}}</td></tr>
-{{end}}</table>
-<ul>{{range .Models}}<li>model: {{.}}</li>{{end}}{{range .Warnings}}<li class="problem">warning: {{.}}</li>{{end}}</ul>
-{{if .Robust}}{{template "robust" .Robust}}{{end}}
-{{if .CheckText}}<details><summary>full check output (as <code>plica check {{.File}}</code> prints it)</summary><pre>{{.CheckText}}</pre></details>{{end}}
-{{end}}
-{{range .Figures}}{{template "figure" .}}{{end}}
-</section>
-{{end}}
+{{end}}</table></div></details>{{else}}<p class="fail">{{.NoFront}}</p>{{end}}
 
 <h2 id="cautions">Cautions</h2>
 <ul class="caution"><li>{{.Caution}}</li>{{range .Cautions}}<li>{{.}}</li>{{end}}</ul>

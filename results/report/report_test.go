@@ -142,8 +142,8 @@ func TestReport(t *testing.T) {
 	assert.Equal(t, len(r.Front)+1, strings.Count(m[1], "<tr"), "front table rows")
 	assert.Equal(t, len(rep.Designs), strings.Count(m[1], `class="chosen"`), "highlighted rows")
 
-	// figures: front, variables, hypervolume, and backbone and workspace per design
-	assert.Len(t, rep.Figures, 3+2*len(rep.Designs), "figures")
+	// figures: front, variables, hypervolume, and backbone, loaded backbone, workspace and sag map per design
+	assert.Len(t, rep.Figures, 3+4*len(rep.Designs), "figures")
 	assert.Equal(t, len(rep.Figures), countElements(els, "svg"), "every figure is inlined")
 	assert.Equal(t, len(rep.Figures), countElements(els, "figcaption"), "every figure has a caption")
 	for _, fig := range rep.Figures {
@@ -163,6 +163,25 @@ func TestReport(t *testing.T) {
 		assert.Equal(t, len(r.Spec.Checks)+1, strings.Count(tb[1], "<tr>"), "check table: a header and every check")
 	}
 	assert.Contains(t, page, `id="plica-selfcheck"`, "self-check element")
+
+	// order: what a designer looks at first leads (the front figure, the
+	// chosen designs), the design sections follow, and the full front table
+	// comes near the end, folded
+	at := func(s string) int {
+		i := strings.Index(page, s)
+		require.GreaterOrEqual(t, i, 0, "page holds %s", s)
+		return i
+	}
+	assert.Less(t, at(`id="fig-front"`), at(`id="chosen-table"`), "the front figure leads")
+	assert.Less(t, at(`id="chosen-table"`), at(`<section id="design-`), "the chosen designs come before their sections")
+	assert.Less(t, at(`<section id="design-`), at(`id="summary"`), "designs before the problem summary")
+	assert.Less(t, at(`id="summary"`), at(`id="front-table"`), "the full front table near the end")
+	assert.Less(t, at(`<details id="front-details">`), at(`id="front-table"`), "the full front table is folded")
+	assert.Less(t, at(`id="front-table"`), at(`id="cautions"`), "the front table before the cautions")
+	for _, id := range rep.Designs {
+		assert.Contains(t, page, fmt.Sprintf(`<a href="#design-%d">%d</a>`, id, id), "the chosen-designs table links design %d", id)
+	}
+	assert.Less(t, at(`id="fig-front"`), at(`<table class="checks">`), "no table of numbers before the front figure")
 }
 
 func TestReportRequestedDesigns(t *testing.T) {
@@ -198,6 +217,11 @@ func TestReportEmptyFront(t *testing.T) {
 	assertSelfContained(t, page, els)
 	assert.Contains(t, page, "The front is empty")
 	assert.Contains(t, page, "No feasible design was found")
+	// the diagnosis leads the page, before the problem summary
+	require.True(t, findID(els, "diagnosis"), "an empty front carries its diagnosis")
+	assert.Less(t, strings.Index(page, `id="diagnosis"`), strings.Index(page, `id="summary"`), "the diagnosis comes first")
+	assert.Contains(t, page, "Why the search found no feasible designs")
+	assert.Contains(t, page, "max_tip_sag", "the diagnosis names the blocking constraint")
 	assert.Contains(t, page, results.Caution)
 	assert.Equal(t, len(rep.Figures), countElements(els, "svg"), "figures")
 }
@@ -257,7 +281,8 @@ func TestReportWarnCheck(t *testing.T) {
 		out := b.String()
 		i := strings.Index(out, `<section id="design-1">`)
 		require.GreaterOrEqual(t, i, 0)
-		return out[i:] // the design's section
+		out = out[i:]
+		return out[:strings.Index(out, "</section>")] // the design's section
 	}
 	out := render(true, rows, failed, warned)
 	assert.Contains(t, out, `<td><code>validated_range[1]</code></td><td class="num">0.3</td><td class="num">≤ 0</td><td></td><td><span class="warn">WARN</span></td>`)

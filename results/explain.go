@@ -1,0 +1,238 @@
+package results
+
+import (
+	"fmt"
+	"math"
+	"strings"
+	"sync"
+
+	"plica/objective"
+	"plica/problems"
+)
+
+// An explainer gathers, from every successful evaluation of a search, what
+// the diagnosis needs to say in a designer's terms why a constraint blocks:
+// the best value of each check in its own unit, and the best reach among
+// the evaluations meeting each constraint, so that a reach the task points
+// or the reach requirement need can be traced to the constraint that caps
+// it. search's Diagnoser sees only margins; this is the bellows side.
+//
+// Aggregates are maxima and minima with ties broken by the smaller
+// evaluation index, so the result does not depend on the worker count.
+type explainer struct {
+	mu    sync.Mutex
+	names []string // constraint names (the checks first)
+	// needReach is the lateral reach the task points need (m): the largest
+	// distance of a point from the base axis less its tolerance; 0 when
+	// the problem has no task points.
+	needReach float64
+	// minReach is the reach requirement (m); 0 when none.
+	minReach float64
+
+	reachAll reachRecord
+	// reachMeeting[j] is the best reach among the evaluations meeting
+	// constraint j; reachOthers the best among those meeting every
+	// constraint but the ones that ask for reach (task_miss, task_coverage
+	// and reach).
+	reachMeeting []reachRecord
+	reachOthers  reachRecord
+	// best[j] is check j's best value (smallest for an upper limit,
+	// largest for a lower one).
+	best []checkRecord
+}
+
+type reachRecord struct {
+	Reach float64 // m
+	Index int64
+	OK    bool
+}
+
+func (r *reachRecord) offer(reach float64, index int64) {
+	if !r.OK || reach > r.Reach || (reach == r.Reach && index < r.Index) {
+		*r = reachRecord{Reach: reach, Index: index, OK: true}
+	}
+}
+
+type checkRecord struct {
+	Check objective.Check
+	Index int64
+	OK    bool
+}
+
+// reachNames are the constraints that ask for reach.
+var reachNames = map[string]bool{"task_miss": true, "task_coverage": true, "reach": true}
+
+// newExplainer prepares an explainer for a problem; nil when the problem's
+// scenario cannot be built (the diagnosis then has no explanations).
+func newExplainer(spec *problems.Spec) *explainer {
+	_, sc, err := spec.Design(spec.Midpoint())
+	if err != nil {
+		return nil
+	}
+	ex := &explainer{names: spec.ConstraintNames(), minReach: sc.Requirements.MinReach}
+	for _, t := range sc.Tasks {
+		tol := t.Tolerance
+		if tol == 0 {
+			tol = 1e-3 // objective.TaskPoint: zero means 1 mm
+		}
+		ex.needReach = math.Max(ex.needReach, math.Hypot(t.Position[0], t.Position[1])-tol)
+	}
+	ex.reachMeeting = make([]reachRecord, len(ex.names))
+	ex.best = make([]checkRecord, len(spec.Checks))
+	return ex
+}
+
+// add records one evaluation (problems.Spec.ObservedSearchProblem's
+// observer).
+func (ex *explainer) add(index int64, res *objective.Result, g []float64) {
+	if len(g) != len(ex.names) || len(res.Checks) != len(ex.best) {
+		return
+	}
+	for _, v := range g {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return // the search counts it as failed
+		}
+	}
+	reach := res.Scores.Reach
+	haveReach := !math.IsNaN(reach) && !math.IsInf(reach, 0)
+	ex.mu.Lock()
+	defer ex.mu.Unlock()
+	others := true
+	for j, v := range g {
+		if v <= 0 && haveReach {
+			ex.reachMeeting[j].offer(reach, index)
+		}
+		if v > 0 && !reachNames[ex.names[j]] {
+			others = false
+		}
+	}
+	if haveReach {
+		ex.reachAll.offer(reach, index)
+		if others {
+			ex.reachOthers.offer(reach, index)
+		}
+	}
+	for j, c := range res.Checks {
+		if math.IsNaN(c.Value) {
+			continue
+		}
+		b := &ex.best[j]
+		better := !b.OK || (c.Max && c.Value < b.Check.Value) || (!c.Max && c.Value > b.Check.Value) ||
+			(c.Value == b.Check.Value && index < b.Index)
+		if better {
+			*b = checkRecord{Check: c, Index: index, OK: true}
+		}
+	}
+}
+
+// sentences gives one sentence per blocking constraint it can explain in
+// units, in the order of blocking.
+func (ex *explainer) sentences(blocking []BlockingConstraint) []string {
+	if ex == nil {
+		return nil
+	}
+	ex.mu.Lock()
+	defer ex.mu.Unlock()
+	index := map[string]int{}
+	for j, n := range ex.names {
+		index[n] = j
+	}
+	var out []string
+	for _, b := range blocking {
+		j, ok := index[b.Name]
+		if !ok {
+			continue
+		}
+		switch b.Name {
+		case "task_miss", "task_coverage":
+			if ex.needReach <= 0 {
+				continue
+			}
+			s := ""
+			if j < len(ex.best) && ex.best[j].OK {
+				c := ex.best[j].Check
+				if b.Name == "task_miss" {
+					s = fmt.Sprintf("%s: best miss %.3g mm (evaluation %d); ", b.Name, c.Value, ex.best[j].Index)
+				} else {
+					s = fmt.Sprintf("%s: best coverage %.3g against %.3g needed (evaluation %d); ", b.Name, c.Value, c.Limit, ex.best[j].Index)
+				}
+			}
+			out = append(out, s+ex.reachClause(ex.needReach, "the task points"))
+		case "reach":
+			if ex.minReach <= 0 {
+				continue
+			}
+			out = append(out, "reach: "+ex.reachClause(ex.minReach, "min_reach_mm"))
+		default:
+			if b.BestMargin <= 0 || j >= len(ex.best) || !ex.best[j].OK {
+				continue // met by some evaluation: the generic sentence says so
+			}
+			c := ex.best[j].Check
+			op := "at most"
+			if !c.Max {
+				op = "at least"
+			}
+			out = append(out, fmt.Sprintf("%s: no evaluation met it; the best was %s against %s %s (evaluation %d)",
+				b.Name, withUnit(c.Value, c.Unit), op, withUnit(c.Limit, c.Unit), ex.best[j].Index))
+		}
+	}
+	return out
+}
+
+// reachClause says what caps the reach need (m) of who: the constraint
+// whose satisfying evaluations reach least, when they fall short of it.
+func (ex *explainer) reachClause(need float64, who string) string {
+	mm := func(x float64) string { return fmt.Sprintf("%.3g mm", x*1e3) }
+	if !ex.reachAll.OK {
+		return fmt.Sprintf("%s need a reach of %s; no evaluation had one", who, mm(need))
+	}
+	if ex.reachAll.Reach < need {
+		s := fmt.Sprintf("%s need a reach of %s, but no evaluation reached beyond %s (evaluation %d)", who, mm(need), mm(ex.reachAll.Reach), ex.reachAll.Index)
+		return s + ex.limiter(need)
+	}
+	s := fmt.Sprintf("%s need a reach of %s; the best reach seen is %s (evaluation %d)", who, mm(need), mm(ex.reachAll.Reach), ex.reachAll.Index)
+	switch {
+	case !ex.reachOthers.OK:
+		return s + "; no evaluation met the other constraints" + ex.limiter(need)
+	case ex.reachOthers.Reach < need:
+		return s + fmt.Sprintf(", but only %s while meeting every other constraint", mm(ex.reachOthers.Reach)) + ex.limiter(need)
+	default:
+		return s + fmt.Sprintf(", and %s while meeting every other constraint: reach is not what blocks, the shape or direction is", mm(ex.reachOthers.Reach))
+	}
+}
+
+// limiter names the constraint (not one asking for reach) whose satisfying
+// evaluations reach least, when that falls short of need.
+func (ex *explainer) limiter(need float64) string {
+	worst, at := -1, math.Inf(1)
+	for j, r := range ex.reachMeeting {
+		if reachNames[ex.names[j]] || !r.OK {
+			continue
+		}
+		if r.Reach < at && r.Reach < ex.reachAll.Reach {
+			worst, at = j, r.Reach
+		}
+	}
+	if worst < 0 || at >= need {
+		return ""
+	}
+	name := ex.names[worst]
+	var also []string // constraints that cap the reach just as much
+	for j, r := range ex.reachMeeting {
+		if j != worst && !reachNames[ex.names[j]] && r.OK && r.Reach == at {
+			also = append(also, ex.names[j])
+		}
+	}
+	if len(also) > 0 {
+		name += " (and equally " + strings.Join(also, ", ") + ")"
+	}
+	return fmt.Sprintf("; reach limited by %s: best reach %.3g mm among the evaluations meeting it (evaluation %d) against %.3g mm needed",
+		name, at*1e3, ex.reachMeeting[worst].Index, need*1e3)
+}
+
+func withUnit(v float64, unit string) string {
+	if unit == "" {
+		return fmt.Sprintf("%.3g", v)
+	}
+	return fmt.Sprintf("%.3g %s", v, unit)
+}
