@@ -165,15 +165,7 @@ func (a *archive) addAllM(ds []*Design) {
 	for i, q := range a.items {
 		byF1 = append(byF1, crowdKey{q.F[0], int32(i)})
 	}
-	slices.SortFunc(byF1, func(x, y crowdKey) int { // finite values: plain comparisons
-		switch {
-		case x.v < y.v:
-			return -1
-		case x.v > y.v:
-			return 1
-		}
-		return int(x.i - y.i)
-	})
+	slices.SortFunc(byF1, compareCrowdKeys)
 	af := resize(a.flatF, len(byF1)*m)
 	for j, e := range byF1 {
 		copy(af[j*m:j*m+m], a.items[e.i].F)
@@ -411,15 +403,7 @@ func sortByObjective(ds []*Design, order []int32, k int, keys []crowdKey) []crow
 	for _, i := range order {
 		keys = append(keys, crowdKey{ds[i].F[k], i})
 	}
-	slices.SortFunc(keys, func(a, b crowdKey) int { // archive members: finite values
-		switch {
-		case a.v < b.v:
-			return -1
-		case a.v > b.v:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
+	slices.SortFunc(keys, compareCrowdKeys)
 	for j, key := range keys {
 		order[j] = key.i
 	}
@@ -448,6 +432,19 @@ func sumParts(parts []float64) float64 {
 type crowdKey struct {
 	v float64
 	i int32
+}
+
+// compareCrowdKeys orders keys by value, then by index (a total order for
+// the finite values of feasible designs and archive members: plain
+// comparisons, no NaN handling).
+func compareCrowdKeys(a, b crowdKey) int {
+	switch {
+	case a.v < b.v:
+		return -1
+	case a.v > b.v:
+		return 1
+	}
+	return int(a.i - b.i)
 }
 
 type crowdEntry struct {

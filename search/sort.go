@@ -186,15 +186,7 @@ func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []fl
 		for j, i := range front {
 			order[j] = crowdKey{ds[i].F[k], int32(j)}
 		}
-		slices.SortFunc(order, func(a, b crowdKey) int { // finite values: plain comparisons
-			switch {
-			case a.v < b.v:
-				return -1
-			case a.v > b.v:
-				return 1
-			}
-			return int(a.i - b.i)
-		})
+		slices.SortFunc(order, compareCrowdKeys)
 		span := order[l-1].v - order[0].v
 		if !(span > 0) {
 			continue
@@ -227,15 +219,7 @@ func (s *scratch) crowdingDistance2(ds []*Design, front []int32, dist []float64)
 	for j, i := range front {
 		o1[j] = crowdKey{ds[i].F[0], int32(j)}
 	}
-	slices.SortFunc(o1, func(a, b crowdKey) int { // finite values: plain comparisons
-		switch {
-		case a.v < b.v:
-			return -1
-		case a.v > b.v:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
+	slices.SortFunc(o1, compareCrowdKeys)
 	f2 := func(k crowdKey) float64 { return ds[front[k.i]].F[1] }
 	for end, n := l, 0; end > 0; {
 		start := end - 1
