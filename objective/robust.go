@@ -503,3 +503,29 @@ func FirstOrder(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Robu
 	}
 	return r, nil
 }
+
+// StiffnessSamples computes the sections of every bellows for each of the
+// s.Samples scattered copies of d (DefaultScatterSamples when 0), with the
+// same draws as MonteCarlo (sample k depends on the seed and k only). A
+// copy whose section cannot be computed is left out.
+func StiffnessSamples(ctx context.Context, d *Design, s *Scatter) ([][]Stiffness, error) {
+	n := s.Samples
+	if n <= 0 {
+		n = DefaultScatterSamples
+	}
+	vars := s.vars(d)
+	z := make([]float64, len(vars))
+	out := make([][]Stiffness, 0, n)
+	for k := 0; k < n; k++ {
+		if ctx != nil && ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		sampleZ(s.Seed, k, z)
+		st, err := perturbed(d, vars, z).Stiffness()
+		if err != nil {
+			continue
+		}
+		out = append(out, st)
+	}
+	return out, nil
+}

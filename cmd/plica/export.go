@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 
+	"plica/objective"
 	"plica/problems"
 	"plica/results/export"
 )
@@ -51,6 +52,7 @@ type exportPart struct {
 type exportOutput struct {
 	Design  string       `json:"design"`
 	Parts   []exportPart `json:"parts"`
+	Files   []string     `json:"files,omitempty"`
 	Skipped []string     `json:"skipped,omitempty"`
 }
 
@@ -80,10 +82,23 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	} else if err != nil && !os.IsNotExist(err) {
 		return usagef("export: -o %s: %v", *dir, err)
 	}
-	d, _, err := problems.LoadDesign(pos[0])
+	d, sc, err := problems.LoadDesign(pos[0])
 	if err != nil {
 		return err
 	}
+	stiff, err := d.Stiffness()
+	if err != nil {
+		return err
+	}
+	var samples [][]objective.Stiffness
+	banded := sc != nil && sc.Scatter.Active()
+	if banded {
+		if samples, err = objective.StiffnessSamples(ctx, d, sc.Scatter); err != nil {
+			return err
+		}
+		banded = len(samples) > 0
+	}
+	var plan []problems.PlanRow
 	parent := filepath.Dir(filepath.Clean(*dir))
 	tmp, err := os.MkdirTemp(parent, ".plica-export-")
 	if err != nil {
@@ -118,6 +133,14 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		if err := os.WriteFile(filepath.Join(tmp, name), buf.Bytes(), 0o644); err != nil {
 			return err
 		}
+		for axis := 0; axis < 2; axis++ {
+			var ks []float64
+			for _, st := range samples {
+				ks = append(ks, problems.EffectiveEI(st[i].EI, axis))
+			}
+			plan = append(plan, problems.PlanBench(fmt.Sprintf("bellows-%d", i+1), axis,
+				problems.EffectiveEI(stiff[i].EI, axis), float64(n)*g.Pitch, ks)...)
+		}
 		lo, hi := m.Bounds()
 		vol := m.Volume()
 		out.Parts = append(out.Parts, exportPart{Bellows: i + 1, File: name, Convolutions: n,
@@ -125,6 +148,16 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 			BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
 			ODmm: g.OuterDiameter * 1e3, DepthMM: g.Depth * 1e3, PitchMM: g.Pitch * 1e3, WallMM: g.Wall * 1e3,
 			CollarMM: *collar, Sides: *sides})
+	}
+	if len(plan) > 0 {
+		var buf bytes.Buffer
+		if err := problems.WriteBenchPlan(&buf, benchComments(banded), plan, banded); err != nil {
+			return err
+		}
+		if err := os.WriteFile(filepath.Join(tmp, "bench.csv"), buf.Bytes(), 0o644); err != nil {
+			return err
+		}
+		out.Files = append(out.Files, "bench.csv")
 	}
 	js, err := json.MarshalIndent(out, "", "  ")
 	if err != nil {
@@ -150,4 +183,24 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		fmt.Fprintln(stdout, "note:", s)
 	}
 	return nil
+}
+
+// benchComments heads bench.csv: how to run the test and what the
+// predictions are.
+func benchComments(banded bool) []string {
+	c := []string{
+		"plica bench plan: tip-load cantilever test of each printed bellows, read by plica calibrate",
+		"clamp the bottom collar rigidly, bellows horizontal; hang each load where the convolutions meet the top collar;",
+		"free_length_mm is from the clamp to the load (the convolutions); zero the gauge at load 0;",
+		"direction x bends about the bellows' own x axis (load along its own y), y the other way: turn the specimen 90 degrees;",
+		"fill in deflection_mm (tip deflection along the load, mm); rows left empty are not yet measured and are skipped.",
+		"loads keep the predicted deflection within 10 % of the free length, the small-deflection range of",
+		"delta = P L^3 / (3 EI) (Roark Table 8.1 case 1a; surrogate/REFERENCE.md section 4.1)",
+	}
+	if banded {
+		c = append(c, "predicted_deflection_mm is nominal; predicted_p5_mm and predicted_p95_mm bound 90 % of the design's [scatter] draws")
+	} else {
+		c = append(c, "predicted_deflection_mm is nominal (the design gives no [scatter], so no band)")
+	}
+	return append(c, "model estimates only: verify on prototypes before use; payloads near people need applicable standards and qualified review")
 }

@@ -3,9 +3,14 @@ package main
 import (
 	"bytes"
 	"encoding/binary"
+	"encoding/csv"
 	"encoding/json"
+	"fmt"
+	"math"
 	"os"
 	"path/filepath"
+	"plica/problems"
+	"strconv"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -62,4 +67,74 @@ func TestExportRefusesBadInput(t *testing.T) {
 	ents, err := os.ReadDir(dir)
 	require.NoError(t, err)
 	assert.Len(t, ents, 1, "only the pre-made folder remains")
+}
+
+// TestExportBenchPlan: bench.csv is read by the calibrate reader (every
+// deflection_mm empty: nothing measured yet), holds five loads per bellows
+// and direction, and its predictions are the linear cantilever deflection
+// δ = PL³/(3EI) (Roark, Formulas for Stress and Strain, Table 8.1 case 1a)
+// with the design's own EI and the printed convolution length; with a
+// [scatter] table the 5–95 % band brackets the nominal value.
+func TestExportBenchPlan(t *testing.T) {
+	dir := t.TempDir()
+	src, err := os.ReadFile(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	scattered := filepath.Join(dir, "scattered.toml")
+	require.NoError(t, os.WriteFile(scattered, append(src, []byte("\n[scatter]\nmodulus_pct = 5\nwall_pct = 3\nsamples = 200\n")...), 0o644))
+	d, _, err := problems.LoadDesign(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	st, err := d.Stiffness()
+	require.NoError(t, err)
+	for _, c := range []struct {
+		design string
+		banded bool
+	}{{examples + "boom-geometry.toml", false}, {scattered, true}} {
+		out := filepath.Join(dir, fmt.Sprintf("out-%v", c.banded))
+		code, _, errOut := runCLI(t, "export", c.design, "-o", out, "-segments", "12")
+		require.Equal(t, 0, code, errOut)
+		data, err := os.ReadFile(filepath.Join(out, "bench.csv"))
+		require.NoError(t, err)
+		_, err = problems.ParseBench(data, "bench.csv")
+		require.ErrorContains(t, err, "no measurements: every deflection_mm cell is empty", "the reader takes the plan")
+		cr := csv.NewReader(bytes.NewReader(data))
+		cr.Comment = '#'
+		recs, err := cr.ReadAll()
+		require.NoError(t, err)
+		head := recs[0]
+		require.Equal(t, []string{"specimen", "direction", "free_length_mm", "load_g", "deflection_mm", "predicted_deflection_mm"}, head[:6])
+		if c.banded {
+			require.Equal(t, []string{"predicted_p5_mm", "predicted_p95_mm"}, head[6:])
+		} else {
+			require.Len(t, head, 6)
+		}
+		require.Len(t, recs, 1+len(d.Bellows)*2*5)
+		for _, r := range recs[1:] {
+			var i, axis int
+			_, err := fmt.Sscanf(r[0], "bellows-%d", &i)
+			require.NoError(t, err)
+			if r[1] == "y" {
+				axis = 1
+			}
+			l, _ := strconv.ParseFloat(r[2], 64)
+			g, _ := strconv.ParseFloat(r[3], 64)
+			pred, _ := strconv.ParseFloat(r[5], 64)
+			b := d.Bellows[i-1]
+			assert.InDelta(t, math.Round((b.StraightLength+b.CurvedLength)/b.Model.Pitch)*b.Model.Pitch*1e3, l, 1e-9, "free length: the printed convolutions")
+			ei := st[i-1].EI[axis][axis] * 1e6 // N·mm²
+			want := g * 9.80665e-3 * l * l * l / (3 * ei)
+			if g == 0 {
+				assert.Zero(t, pred, "row %v: no load, no deflection", r)
+			} else {
+				assert.InEpsilon(t, want, pred, 1e-5, "row %v: δ = PL³/(3EI)", r) // 6 printed digits
+			}
+			assert.LessOrEqual(t, pred, 0.1*l*(1+1e-5), "row %v: small-deflection range", r)
+			assert.Empty(t, r[4], "measured column left empty")
+			if c.banded && g > 0 {
+				lo, _ := strconv.ParseFloat(r[6], 64)
+				hi, _ := strconv.ParseFloat(r[7], 64)
+				assert.Less(t, lo, pred, "row %v: 5 %% below nominal", r)
+				assert.Greater(t, hi, pred, "row %v: 95 %% above nominal", r)
+			}
+		}
+	}
 }
