@@ -7,6 +7,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"path/filepath"
 
@@ -18,14 +19,17 @@ import (
 func init() {
 	register(&command{
 		name:  "export",
-		usage: "DESIGN.toml -o DIR [-collar-mm L] [-segments N] [-json]",
+		usage: "DESIGN.toml -o DIR [-collar-mm L] [-segments N] [-jig-clearance-mm C] [-json]",
 		short: "write printable bellows meshes (binary STL, mm) and export.json",
 		long: `Writes bellows-N.stl for each bellows given by geometry: the wall printed
 straight along +z from z = 0, whole convolutions over the straight plus
 curved length, the wall offset by half its thickness both ways from the
 centreline, plain collars of -collar-mm at both ends. -segments sets the
 polygon sides about the axis (3 to 4096; the k-gon carries the area factor
-k·sin(2π/k)/(2π)). A bellows in measured form has no geometry and is
+k·sin(2π/k)/(2π)). Each pre-curved bellows also gets jig-N.stl, a rod to
+heat-set it on: centreline radius 1/(κ0·setting_overbend), diameter the
+bore less twice -jig-clearance-mm (default 0.3), a straight handle.
+bench.csv plans the tip-load test for plica calibrate. A bellows in measured form has no geometry and is
 skipped with a note. DIR must not exist or be empty; the files appear
 together or not at all. Exit status 0, or 2 on bad input.`,
 		run: runExport,
@@ -47,6 +51,26 @@ type exportPart struct {
 	WallMM       float64    `json:"wall_mm"`
 	CollarMM     float64    `json:"collar_mm"`
 	Sides        int        `json:"segments"`
+	Jig          *jigPart   `json:"jig,omitempty"`
+}
+
+// jigGripMM is the straight handle beyond the bellows' base collar, mm.
+const jigGripMM = 40
+
+type jigPart struct {
+	File            string     `json:"file"`
+	VolumeMM3       float64    `json:"volume_mm3"`
+	MassG           float64    `json:"mass_g"`
+	BoxMinMM        [3]float64 `json:"bbox_min_mm"`
+	BoxMaxMM        [3]float64 `json:"bbox_max_mm"`
+	Triangles       int        `json:"triangles"`
+	RadiusMM        float64    `json:"centreline_radius_mm"`
+	ArcDeg          float64    `json:"arc_deg"`
+	RodDiameterMM   float64    `json:"rod_diameter_mm"`
+	BoreMM          float64    `json:"bellows_bore_mm"`
+	ClearanceMM     float64    `json:"radial_clearance_mm"`
+	SettingOverbend float64    `json:"setting_overbend"`
+	HandleMM        float64    `json:"handle_mm"`
 }
 
 type exportOutput struct {
@@ -60,6 +84,7 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	dir := fs.String("o", "", "output folder (must not exist or be empty)")
 	collar := fs.Float64("collar-mm", 5, "plain collar length at each end, mm (0: none)")
 	sides := fs.Int("segments", export.DefaultSides, "polygon sides about the axis")
+	clearance := fs.Float64("jig-clearance-mm", 0.3, "radial clearance of the heat-setting rod in the bellows' bore, mm")
 	asJSON := fs.Bool("json", false, "print JSON instead of a table")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
@@ -76,6 +101,9 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	}
 	if !(*collar >= 0 && *collar <= 1000) {
 		return usagef("export: -collar-mm %g is out of range (expected 0 to 1000 mm)", *collar)
+	}
+	if !(*clearance >= 0 && *clearance <= 100) {
+		return usagef("export: -jig-clearance-mm %g is out of range (expected 0 to 100 mm)", *clearance)
 	}
 	if ents, err := os.ReadDir(*dir); err == nil && len(ents) > 0 {
 		return usagef("export: -o %s exists and is not empty", *dir)
@@ -133,6 +161,23 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		if err := os.WriteFile(filepath.Join(tmp, name), buf.Bytes(), 0o644); err != nil {
 			return err
 		}
+		part := exportPart{Bellows: i + 1, File: name, Convolutions: n}
+		if k0 := math.Hypot(b.Precurvature[0], b.Precurvature[1]); k0 > 0 && b.CurvedLength > 0 {
+			jp, jm, err := heatSettingJig(b, k0, *collar, *clearance, *sides)
+			if err != nil {
+				return usagef("%s: bellows %d: heat-setting jig: %v", pos[0], i+1, err)
+			}
+			jp.File = fmt.Sprintf("jig-%d.stl", i+1)
+			jp.MassG = jp.VolumeMM3 * 1e-9 * b.Model.Material.Density * 1e3
+			var buf bytes.Buffer
+			if err := jm.WriteSTL(&buf, fmt.Sprintf("plica jig %d, mm", i+1)); err != nil {
+				return err
+			}
+			if err := os.WriteFile(filepath.Join(tmp, jp.File), buf.Bytes(), 0o644); err != nil {
+				return err
+			}
+			part.Jig = jp
+		}
 		for axis := 0; axis < 2; axis++ {
 			var ks []float64
 			for _, st := range samples {
@@ -143,7 +188,8 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		}
 		lo, hi := m.Bounds()
 		vol := m.Volume()
-		out.Parts = append(out.Parts, exportPart{Bellows: i + 1, File: name, Convolutions: n,
+		part.VolumeMM3 = vol
+		out.Parts = append(out.Parts, exportPart{Bellows: part.Bellows, File: name, Convolutions: n, Jig: part.Jig,
 			VolumeMM3: vol, MassG: vol * 1e-9 * b.Model.Material.Density * 1e3,
 			BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
 			ODmm: g.OuterDiameter * 1e3, DepthMM: g.Depth * 1e3, PitchMM: g.Pitch * 1e3, WallMM: g.Wall * 1e3,
@@ -179,6 +225,11 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	for _, p := range out.Parts {
 		fmt.Fprintf(stdout, "%s  %d convolutions  %.1f mm³  %.2f g  %d triangles\n", filepath.Join(*dir, p.File), p.Convolutions, p.VolumeMM3, p.MassG, p.Triangles)
 	}
+	for _, p := range out.Parts {
+		if j := p.Jig; j != nil {
+			fmt.Fprintf(stdout, "%s  rod %.2f mm on a %.1f mm centreline radius, %.1f°  %.1f mm³  %d triangles\n", filepath.Join(*dir, j.File), j.RodDiameterMM, j.RadiusMM, j.ArcDeg, j.VolumeMM3, j.Triangles)
+		}
+	}
 	for _, s := range out.Skipped {
 		fmt.Fprintln(stdout, "note:", s)
 	}
@@ -203,4 +254,36 @@ func benchComments(banded bool) []string {
 		c = append(c, "predicted_deflection_mm is nominal (the design gives no [scatter], so no band)")
 	}
 	return append(c, "model estimates only: verify on prototypes before use; payloads near people need applicable standards and qualified review")
+}
+
+// heatSettingJig meshes the rod the bellows is heat-set on: a straight
+// handle through the base collar and the straight part plus a grip, an arc
+// of centreline radius 1/(κ0·setting_overbend) over the curved length, and
+// a straight tip through the top collar; its diameter is the bellows'
+// bore less twice the radial clearance.
+func heatSettingJig(b objective.Bellows, k0, collarMM, clearanceMM float64, sides int) (*jigPart, export.Mesh, error) {
+	ob := b.SettingOverbend
+	if ob == 0 {
+		ob = 1
+	}
+	bore, err := export.Bore(b.Model.Geometry)
+	if err != nil {
+		return nil, export.Mesh{}, err
+	}
+	d := bore - 2*clearanceMM*1e-3
+	if d <= 0 {
+		return nil, export.Mesh{}, fmt.Errorf("the bore %.3g mm leaves no rod at a radial clearance of %g mm (expected -jig-clearance-mm below %.3g)", bore*1e3, clearanceMM, bore*1e3/2)
+	}
+	path := export.JigPath{Handle: (jigGripMM+collarMM)*1e-3 + b.StraightLength, Radius: 1 / (k0 * ob), Arc: b.CurvedLength, Tip: collarMM * 1e-3}
+	m, err := export.Jig(path, d, sides)
+	if err != nil {
+		return nil, export.Mesh{}, err
+	}
+	if err := m.Check(); err != nil {
+		return nil, export.Mesh{}, fmt.Errorf("mesh is not closed: %w", err)
+	}
+	lo, hi := m.Bounds()
+	return &jigPart{VolumeMM3: m.Volume(), BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
+		RadiusMM: path.Radius * 1e3, ArcDeg: path.Angle() * 180 / math.Pi, RodDiameterMM: d * 1e3, BoreMM: bore * 1e3,
+		ClearanceMM: clearanceMM, SettingOverbend: ob, HandleMM: path.Handle * 1e3}, m, nil
 }

@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"plica/problems"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -58,6 +59,8 @@ func TestExportRefusesBadInput(t *testing.T) {
 		"segments":     {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "s"), "-segments", "100000"},
 		"collar":       {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "c"), "-collar-mm", "-1"},
 		"no -o":        {"export", examples + "boom-geometry.toml"},
+		"clearance":    {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "j"), "-jig-clearance-mm", "-1"},
+		"no rod left":  {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "k"), "-jig-clearance-mm", "7"},
 		"missing file": {"export", filepath.Join(dir, "none.toml"), "-o", filepath.Join(dir, "m")},
 	} {
 		code, _, errOut := runCLI(t, args...)
@@ -136,5 +139,44 @@ func TestExportBenchPlan(t *testing.T) {
 				assert.Greater(t, hi, pred, "row %v: 95 %% above nominal", r)
 			}
 		}
+	}
+}
+
+// TestExportJig: each pre-curved bellows gets a heat-setting rod whose
+// centreline radius is 1/(κ0·setting_overbend) and whose arc covers the
+// curved length; the rod is the bore less twice the clearance, and its
+// volume is Pappus' (area × centreline length: the cylinder on the
+// straight parts, the torus section on the arc) within the k-gon and chord
+// factors (results/export/REFERENCE.md §1, §4).
+func TestExportJig(t *testing.T) {
+	dir := t.TempDir()
+	src, err := os.ReadFile(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	text := strings.Replace(string(src), "precurvature_per_m = 4.0", "precurvature_per_m = 4.0\nsetting_overbend = 1.25", 1)
+	require.NotEqual(t, string(src), text)
+	design := filepath.Join(dir, "overbent.toml")
+	require.NoError(t, os.WriteFile(design, []byte(text), 0o644))
+	out := filepath.Join(dir, "o")
+	code, _, errOut := runCLI(t, "export", design, "-o", out, "-segments", "32", "-collar-mm", "5", "-jig-clearance-mm", "0.25")
+	require.Equal(t, 0, code, errOut)
+	js, err := os.ReadFile(filepath.Join(out, "export.json"))
+	require.NoError(t, err)
+	var res exportOutput
+	require.NoError(t, json.Unmarshal(js, &res))
+	require.Len(t, res.Parts, 2)
+	for i, want := range []struct{ radius, overbend, od, depth, wall float64 }{{200, 1.25, 20, 3, 0.5}, {1000 / 1.3, 1, 30, 3, 0.6}} {
+		j := res.Parts[i].Jig
+		require.NotNil(t, j, "bellows %d is pre-curved", i+1)
+		assert.InEpsilon(t, want.radius, j.RadiusMM, 1e-12, "bellows %d: 1/(κ0·overbend)", i+1)
+		assert.Equal(t, want.overbend, j.SettingOverbend)
+		assert.InEpsilon(t, 100/want.radius*180/math.Pi, j.ArcDeg, 1e-12, "bellows %d: arc over the curved length", i+1)
+		assert.InDelta(t, want.od-2*want.depth-2*want.wall-0.5, j.RodDiameterMM, 0.01, "bellows %d: bore less 2 × clearance", i+1) // the mesh bore: a few µm of miter at the root vertex (TestBore)
+		assert.InDelta(t, 40+5+150, j.HandleMM, 1e-9, "grip + collar + straight length")
+		x, err := os.ReadFile(filepath.Join(out, j.File))
+		require.NoError(t, err)
+		require.Len(t, x, 84+50*j.Triangles, "binary STL layout")
+		a := j.RodDiameterMM / 2
+		pappus := math.Pi * a * a * (j.HandleMM + 100 + 5)
+		assert.InDelta(t, 1, j.VolumeMM3/pappus, 1-math.Pow(math.Sin(2*math.Pi/32)/(2*math.Pi/32), 2), "bellows %d: Pappus", i+1)
 	}
 }

@@ -48,3 +48,17 @@ func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, er
 	m, err := Revolve(s, k)
 	return m, n, err
 }
+
+// Bore returns the smallest inner diameter of the printed wall, m: twice
+// the smallest radius of the wall section (at the roots and collars).
+func Bore(g surrogate.Geometry) (float64, error) {
+	s, err := Wall(g.HalfMeridian(), 1, g.Wall, 0, DefaultPerPiece)
+	if err != nil {
+		return 0, err
+	}
+	r := math.Inf(1)
+	for _, p := range s {
+		r = math.Min(r, p[0])
+	}
+	return 2 * r * 1e-3, nil
+}
