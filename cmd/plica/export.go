@@ -19,7 +19,7 @@ import (
 func init() {
 	register(&command{
 		name:  "export",
-		usage: "DESIGN.toml -o DIR [-collar-mm L] [-segments N] [-jig-clearance-mm C] [-json]",
+		usage: "DESIGN.toml -o DIR [-collar-mm L] [-segments N] [-jig-clearance-mm C] [-filament-mm D] [-json]",
 		short: "write printable bellows meshes (binary STL, mm) and export.json",
 		long: `Writes bellows-N.stl for each bellows given by geometry: the wall printed
 straight along +z from z = 0, whole convolutions over the straight plus
@@ -29,7 +29,9 @@ polygon sides about the axis (3 to 4096; the k-gon carries the area factor
 k·sin(2π/k)/(2π)). Each pre-curved bellows also gets jig-N.stl, a rod to
 heat-set it on: centreline radius 1/(κ0·setting_overbend), diameter the
 bore less twice -jig-clearance-mm (default 0.3), a straight handle.
-bench.csv plans the tip-load test for plica calibrate. A bellows in measured form has no geometry and is
+bench.csv plans the tip-load test for plica calibrate; print.txt gives the
+printer settings, orientation, mass and filament length (-filament-mm,
+default 1.75) per part and the printability checks. A bellows in measured form has no geometry and is
 skipped with a note. DIR must not exist or be empty; the files appear
 together or not at all. Exit status 0, or 2 on bad input.`,
 		run: runExport,
@@ -84,6 +86,7 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	dir := fs.String("o", "", "output folder (must not exist or be empty)")
 	collar := fs.Float64("collar-mm", 5, "plain collar length at each end, mm (0: none)")
 	sides := fs.Int("segments", export.DefaultSides, "polygon sides about the axis")
+	filament := fs.Float64("filament-mm", 1.75, "filament diameter for the print sheet's filament lengths, mm")
 	clearance := fs.Float64("jig-clearance-mm", 0.3, "radial clearance of the heat-setting rod in the bellows' bore, mm")
 	asJSON := fs.Bool("json", false, "print JSON instead of a table")
 	pos, err := parseArgs(fs, args)
@@ -101,6 +104,9 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	}
 	if !(*collar >= 0 && *collar <= 1000) {
 		return usagef("export: -collar-mm %g is out of range (expected 0 to 1000 mm)", *collar)
+	}
+	if !(*filament >= 0.5 && *filament <= 5) {
+		return usagef("export: -filament-mm %g is out of range (expected 0.5 to 5 mm)", *filament)
 	}
 	if !(*clearance >= 0 && *clearance <= 100) {
 		return usagef("export: -jig-clearance-mm %g is out of range (expected 0 to 100 mm)", *clearance)
@@ -205,6 +211,16 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		}
 		out.Files = append(out.Files, "bench.csv")
 	}
+	if len(out.Parts) > 0 {
+		var buf bytes.Buffer
+		if err := printSheet(pos[0], d, sc, out.Parts, *filament).Write(&buf); err != nil {
+			return err
+		}
+		if err := os.WriteFile(filepath.Join(tmp, "print.txt"), buf.Bytes(), 0o644); err != nil {
+			return err
+		}
+		out.Files = append(out.Files, "print.txt")
+	}
 	js, err := json.MarshalIndent(out, "", "  ")
 	if err != nil {
 		return err
@@ -244,7 +260,7 @@ func benchComments(banded bool) []string {
 		"clamp the bottom collar rigidly, bellows horizontal; hang each load where the convolutions meet the top collar;",
 		"free_length_mm is from the clamp to the load (the convolutions); zero the gauge at load 0;",
 		"direction x bends about the bellows' own x axis (load along its own y), y the other way: turn the specimen 90 degrees;",
-		"fill in deflection_mm (tip deflection along the load, mm); rows left empty are not yet measured and are skipped.",
+		"test before heat-setting (the predictions are for a straight specimen); fill in deflection_mm (tip deflection along the load, mm); rows left empty are not yet measured and are skipped.",
 		"loads keep the predicted deflection within 10 % of the free length, the small-deflection range of",
 		"delta = P L^3 / (3 EI) (Roark Table 8.1 case 1a; surrogate/REFERENCE.md section 4.1)",
 	}
@@ -286,4 +302,26 @@ func heatSettingJig(b objective.Bellows, k0, collarMM, clearanceMM float64, side
 	return &jigPart{VolumeMM3: m.Volume(), BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
 		RadiusMM: path.Radius * 1e3, ArcDeg: path.Angle() * 180 / math.Pi, RodDiameterMM: d * 1e3, BoreMM: bore * 1e3,
 		ClearanceMM: clearanceMM, SettingOverbend: ob, HandleMM: path.Handle * 1e3}, m, nil
+}
+
+// printSheet gathers print.txt: the design's printer with its defaults,
+// the parts, and the evaluator's own printability checks.
+func printSheet(design string, d *objective.Design, sc *objective.Scenario, parts []exportPart, filamentMM float64) export.PrintSheet {
+	var pr objective.Printer
+	if sc != nil {
+		pr = sc.Printer
+	}
+	p := pr.Resolved()
+	s := export.PrintSheet{Design: design, Process: p.Process.String(), NozzleMM: p.Nozzle * 1e3, LineWidthMM: p.LineWidth * 1e3,
+		LayerHeightMM: p.LayerHeight * 1e3, OverhangDeg: p.OverhangLimit * 180 / math.Pi, MinWallMM: p.MinWall * 1e3, FilamentMM: filamentMM}
+	for _, q := range parts {
+		s.Parts = append(s.Parts, export.PrintPart{File: q.File, VolumeMM3: q.VolumeMM3, MassG: q.MassG, Orientation: "upright, collar on the bed", WallMM: q.WallMM})
+		if j := q.Jig; j != nil {
+			s.Parts = append(s.Parts, export.PrintPart{File: j.File, VolumeMM3: j.VolumeMM3, MassG: j.MassG, Orientation: "flat, supported"})
+		}
+	}
+	for _, c := range objective.PrintabilityChecks(d, pr) {
+		s.Checks = append(s.Checks, export.PrintCheck{Name: c.Name, Value: c.Value, Limit: c.Limit, Unit: c.Unit, Max: c.Max, Pass: c.Pass, Note: c.Note})
+	}
+	return s
 }

@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"plica/problems"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -60,6 +61,7 @@ func TestExportRefusesBadInput(t *testing.T) {
 		"collar":       {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "c"), "-collar-mm", "-1"},
 		"no -o":        {"export", examples + "boom-geometry.toml"},
 		"clearance":    {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "j"), "-jig-clearance-mm", "-1"},
+		"filament":     {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "f"), "-filament-mm", "0"},
 		"no rod left":  {"export", examples + "boom-geometry.toml", "-o", filepath.Join(dir, "k"), "-jig-clearance-mm", "7"},
 		"missing file": {"export", filepath.Join(dir, "none.toml"), "-o", filepath.Join(dir, "m")},
 	} {
@@ -178,5 +180,36 @@ func TestExportJig(t *testing.T) {
 		a := j.RodDiameterMM / 2
 		pappus := math.Pi * a * a * (j.HandleMM + 100 + 5)
 		assert.InDelta(t, 1, j.VolumeMM3/pappus, 1-math.Pow(math.Sin(2*math.Pi/32)/(2*math.Pi/32), 2), "bellows %d: Pappus", i+1)
+	}
+}
+
+// TestExportPrintSheet: print.txt names every part with its filament
+// length volume/(π d²/4) for the -filament-mm diameter (cylinder volume,
+// common practice), the design's printer settings and the evaluator's
+// printability checks, and the cautions.
+func TestExportPrintSheet(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "o")
+	code, _, errOut := runCLI(t, "export", examples+"boom-geometry.toml", "-o", out, "-segments", "16", "-filament-mm", "2.85")
+	require.Equal(t, 0, code, errOut)
+	txt, err := os.ReadFile(filepath.Join(out, "print.txt"))
+	require.NoError(t, err)
+	js, err := os.ReadFile(filepath.Join(out, "export.json"))
+	require.NoError(t, err)
+	var res exportOutput
+	require.NoError(t, json.Unmarshal(js, &res))
+	sheet := string(txt)
+	assert.Contains(t, res.Files, "print.txt")
+	for _, p := range res.Parts {
+		for _, f := range []struct {
+			file string
+			vol  float64
+		}{{p.File, p.VolumeMM3}, {p.Jig.File, p.Jig.VolumeMM3}} {
+			metres := f.vol / (math.Pi * 2.85 * 2.85 / 4) / 1000
+			assert.Regexp(t, regexp.MustCompile(regexp.QuoteMeta(f.file)+`\s+`+fmt.Sprintf("%.1f", f.vol)+`\s+[0-9.]+\s+`+fmt.Sprintf("%.3f", metres)), sheet, "%s: volume and filament", f.file)
+		}
+	}
+	for _, want := range []string{"line width      0.45 mm", "layer height    0.2 mm", "overhang limit  45°", "filament        2.85 mm",
+		"overhang[1]", "wall[2]", "layer_height", "qualified person", "model estimate"} {
+		assert.Contains(t, sheet, want)
 	}
 }
