@@ -31,15 +31,28 @@ func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, er
 	if g.Helical {
 		return Mesh{}, 0, fmt.Errorf("helical convolutions: not meshed by this version of plica export")
 	}
-	if g.SpineWidth > 0 {
-		return Mesh{}, 0, fmt.Errorf("spine: not meshed by this version of plica export")
-	}
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)
 	}
 	n := int(math.Round(length / g.Pitch))
 	if n < 1 {
 		n = 1
+	}
+	if g.SpineWidth > 0 {
+		// the spine: plain wall on the mean radius over the arc
+		// SpineWidth/Rm centred at SpineAngle (surrogate/REFERENCE.md §2.8)
+		rm := g.MeanRadius()
+		s, plain, err := wallAndPlain(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece, rm)
+		if err != nil {
+			return Mesh{}, 0, err
+		}
+		half := g.SpineWidth / rm / 2
+		in := func(phi float64) bool {
+			d := math.Remainder(phi-g.SpineAngle, 2*math.Pi)
+			return math.Abs(d) <= half
+		}
+		m, err := revolveBlend(s, plain, in, k)
+		return m, n, err
 	}
 	s, err := Wall(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece)
 	if err != nil {

@@ -60,6 +60,10 @@ func TestAdmeshAgrees(t *testing.T) {
 	admeshAgrees(t, tool, f, m)
 	f, m = smallJigSTL(t)
 	admeshAgrees(t, tool, f, m)
+	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 4.5e-3, Wall: 0.45e-3, Profile: surrogate.Sinusoid, SpineWidth: 5e-3}
+	m, _, err := Bellows(g, 9e-3, 3e-3, 64)
+	require.NoError(t, err)
+	admeshAgrees(t, tool, writeSTL(t, m), m)
 }
 
 func admeshAgrees(t *testing.T, tool, f string, m Mesh) {
