@@ -507,8 +507,9 @@ func FirstOrder(ctx context.Context, d *Design, sc *Scenario, s *Scatter) (*Robu
 // StiffnessSamples computes the sections of every bellows for each of the
 // s.Samples scattered copies of d (DefaultScatterSamples when 0), with the
 // same draws as MonteCarlo (sample k depends on the seed and k only). A
-// copy whose section cannot be computed is left out.
-func StiffnessSamples(ctx context.Context, d *Design, s *Scatter) ([][]Stiffness, error) {
+// copy whose section cannot be computed is left out. progress, if not
+// nil, is called after each sample.
+func StiffnessSamples(ctx context.Context, d *Design, s *Scatter, progress func(Progress)) ([][]Stiffness, error) {
 	n := s.Samples
 	if n <= 0 {
 		n = DefaultScatterSamples
@@ -522,6 +523,9 @@ func StiffnessSamples(ctx context.Context, d *Design, s *Scatter) ([][]Stiffness
 		}
 		sampleZ(s.Seed, k, z)
 		st, err := perturbed(d, vars, z).Stiffness()
+		if progress != nil {
+			progress(Progress{Stage: "scatter samples", Done: k + 1, Total: n})
+		}
 		if err != nil {
 			continue
 		}

@@ -127,7 +127,10 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 	var samples [][]objective.Stiffness
 	banded := sc != nil && sc.Scatter.Active()
 	if banded {
-		if samples, err = objective.StiffnessSamples(ctx, d, sc.Scatter); err != nil {
+		prog := newProgressLine(stderr, "export")
+		samples, err = objective.StiffnessSamples(ctx, d, sc.Scatter, prog.report)
+		prog.clear()
+		if err != nil {
 			return err
 		}
 		banded = len(samples) > 0
