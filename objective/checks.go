@@ -165,54 +165,78 @@ func (e *evaluator) validatedRange(res *Result) {
 // printability checks each bellows with geometry against the printer
 // (surrogate/REFERENCE.md §3.1, common practice).
 func (e *evaluator) printability(res *Result, add func(string, float64, float64, string, bool, string)) {
-	p := e.sc.Printer
-	process := p.Process
-	nozzle := p.Nozzle
-	if nozzle == 0 {
-		nozzle = 0.4e-3
+	for _, c := range PrintabilityChecks(e.d, e.sc.Printer) {
+		add(c.Name, c.Value, c.Limit, c.Unit, c.Max, c.Note)
 	}
-	line := p.LineWidth
-	if line == 0 {
-		line = 1.2 * nozzle
+}
+
+// Resolved returns the printer with every zero field set to the default
+// the printability checks use: nozzle 0.4 mm, line width 1.2 × nozzle,
+// layer 0.2 mm, overhang limit 45° for FFF (none for resin and powder:
+// zero), minimum wall one line width (FFF), 0.8 mm (powder), 0.5 mm
+// (resin).
+func (p Printer) Resolved() Printer {
+	if p.Nozzle == 0 {
+		p.Nozzle = 0.4e-3
 	}
-	layer := p.LayerHeight
-	if layer == 0 {
-		layer = 0.2e-3
+	if p.LineWidth == 0 {
+		p.LineWidth = 1.2 * p.Nozzle
 	}
-	minWall := p.MinWall
-	if minWall == 0 {
-		switch process {
+	if p.LayerHeight == 0 {
+		p.LayerHeight = 0.2e-3
+	}
+	if p.MinWall == 0 {
+		switch p.Process {
 		case FFF:
-			minWall = line
+			p.MinWall = p.LineWidth
 		case Powder:
-			minWall = 0.8e-3
+			p.MinWall = 0.8e-3
 		default:
-			minWall = 0.5e-3
+			p.MinWall = 0.5e-3
 		}
 	}
-	if process == FFF {
-		add("layer_height", layer*mmPerM, 0.8*nozzle*mmPerM, "mm", true, "at most 80 % of the nozzle diameter")
+	if p.OverhangLimit == 0 && p.Process == FFF {
+		p.OverhangLimit = math.Pi / 4
 	}
-	for i, b := range e.d.Bellows {
+	return p
+}
+
+// PrintabilityChecks checks each bellows of d with geometry against the
+// printer (objective/REFERENCE.md §5.4): the wall against the process
+// minimum; for fused filament also the layer height against 80 % of the
+// nozzle and the steepest wall of the profile against the overhang limit,
+// lowered to atan(b/(2h)) when single-wall layers would not overlap.
+func PrintabilityChecks(d *Design, printer Printer) []Check {
+	p := printer.Resolved()
+	var out []Check
+	add := func(name string, value, limit float64, unit string, max bool, note string) {
+		pass := value <= limit
+		if !max {
+			pass = value >= limit
+		}
+		out = append(out, Check{Name: name, Value: value, Limit: limit, Unit: unit, Max: max, Pass: pass && !math.IsNaN(value), Note: note})
+	}
+	if p.Process == FFF {
+		add("layer_height", p.LayerHeight*mmPerM, 0.8*p.Nozzle*mmPerM, "mm", true, "at most 80 % of the nozzle diameter")
+	}
+	for i, b := range d.Bellows {
 		if b.Model == nil {
 			continue
 		}
 		g := b.Model.Geometry
-		add(fmt.Sprintf("wall[%d]", i+1), g.Wall*mmPerM, minWall*mmPerM, "mm", false, process.String()+" minimum wall")
-		if process == FFF {
+		add(fmt.Sprintf("wall[%d]", i+1), g.Wall*mmPerM, p.MinWall*mmPerM, "mm", false, p.Process.String()+" minimum wall")
+		if p.Process == FFF {
 			limit := p.OverhangLimit
-			if limit == 0 {
-				limit = math.Pi / 4
-			}
 			// single-wall layers must overlap: h tan θ ≤ b/2
 			note := "wall angle from vertical"
-			if vase := math.Atan(0.5 * line / layer); vase < limit {
+			if vase := math.Atan(0.5 * p.LineWidth / p.LayerHeight); vase < limit {
 				limit = vase
 				note += ", limited by layer overlap h·tan θ ≤ line width/2"
 			}
 			add(fmt.Sprintf("overhang[%d]", i+1), overhang(g)*degPerR, limit*degPerR, "deg", true, note)
 		}
 	}
+	return out
 }
 
 // models records the models and fidelity behind the numbers.

@@ -40,6 +40,10 @@ type Bellows struct {
 	// ThreadLead couples this bellows to the next outer one by a helical
 	// thread, m per turn; 0 means not threaded.
 	ThreadLead float64
+	// SettingOverbend multiplies the pre-curvature the heat-setting jig
+	// bends the bellows to, for the spring-back measured after setting
+	// (1 or 0: none). It does not enter the scores.
+	SettingOverbend float64
 }
 
 // Measured is stiffness measured on a bench (or given by hand).

@@ -521,3 +521,33 @@ func FirstOrderNominal(ctx context.Context, d *Design, sc *Scenario, s *Scatter)
 // (a backward step, when a forward one leaves the model's range, adds
 // one).
 func FirstOrderEvaluations(d *Design, s *Scatter) int { return 1 + len(s.vars(d)) }
+
+// StiffnessSamples computes the sections of every bellows for each of the
+// s.Samples scattered copies of d (DefaultScatterSamples when 0), with the
+// same draws as MonteCarlo (sample k depends on the seed and k only). A
+// copy whose section cannot be computed is left out. progress, if not
+// nil, is called after each sample.
+func StiffnessSamples(ctx context.Context, d *Design, s *Scatter, progress func(Progress)) ([][]Stiffness, error) {
+	n := s.Samples
+	if n <= 0 {
+		n = DefaultScatterSamples
+	}
+	vars := s.vars(d)
+	z := make([]float64, len(vars))
+	out := make([][]Stiffness, 0, n)
+	for k := 0; k < n; k++ {
+		if ctx != nil && ctx.Err() != nil {
+			return nil, ctx.Err()
+		}
+		sampleZ(s.Seed, k, z)
+		st, err := perturbed(d, vars, z).Stiffness()
+		if progress != nil {
+			progress(Progress{Stage: "scatter samples", Done: k + 1, Total: n})
+		}
+		if err != nil {
+			continue
+		}
+		out = append(out, st)
+	}
+	return out, nil
+}

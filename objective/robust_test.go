@@ -3,6 +3,7 @@ package objective
 import (
 	"context"
 	"math"
+	"sort"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -274,4 +275,34 @@ func TestFirstOrderNominalCheckSD(t *testing.T) {
 	assert.InEpsilon(t, want, c.SD, 2e-3, "first-order sd of the sag (the large-deflection sag is nearly δ₀/f at this load)")
 	limit := findCheck(nom, "tip_sag").Limit
 	assert.InDelta(t, distuv.UnitNormal.CDF((limit-d0)/c.SD), c.PassProbability, 1e-12)
+}
+
+// TestStiffnessSamples: with measured stiffness scattered by σ the EI of
+// each sample is EI·(1 + σz), so the 5 and 95 % quantiles of EI are those
+// of the truncated normal (checked through gonum's normal quantile); the
+// draws are the same on a second call (common random numbers).
+func TestStiffnessSamples(t *testing.T) {
+	d, _ := straightCantilever()
+	const sigma = 0.1
+	s := &Scatter{StiffnessPct: 100 * sigma, Samples: 2000, Seed: 5}
+	a, err := StiffnessSamples(context.Background(), d, s, nil)
+	require.NoError(t, err)
+	b, err := StiffnessSamples(context.Background(), d, s, nil)
+	require.NoError(t, err)
+	require.Len(t, a, 2000)
+	assert.Equal(t, a, b, "same seed, same draws")
+	nom, err := d.Stiffness()
+	require.NoError(t, err)
+	ei := make([]float64, len(a))
+	for k, st := range a {
+		ei[k] = st[0].EI[0][0] / nom[0].EI[0][0]
+	}
+	sort.Float64s(ei)
+	for _, p := range []float64{0.05, 0.95} {
+		assert.InDelta(t, 1+sigma*truncQ(p, TruncationSD), Quantile(ei, p), 0.01, "p%02.0f of EI", 100*p) // about 2 standard errors of a sample quantile at n = 2000 (sqrt(p(1−p)/n)/density)
+	}
+	ctx, cancel := context.WithCancel(context.Background())
+	cancel()
+	_, err = StiffnessSamples(ctx, d, s, nil)
+	assert.ErrorIs(t, err, context.Canceled)
 }

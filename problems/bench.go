@@ -48,6 +48,10 @@ type BenchRow struct {
 type Bench struct {
 	File string
 	Rows []BenchRow // file order
+	// Unmeasured lists the lines of rows whose deflection_mm cell is empty:
+	// rows of a test plan (plica export's bench.csv) not yet measured. They
+	// are checked like any row and left out of the fit.
+	Unmeasured []int
 	// LoadColumn is "load_n" or "load_g" (grams-force, converted with
 	// standard gravity 9.80665 m/s²).
 	LoadColumn string
@@ -74,7 +78,9 @@ func LoadBench(path string) (*Bench, error) {
 // matched without case and surrounding spaces. Columns:
 //
 //	load_n or load_g   tip load in N, or in grams-force (× 9.80665e-3 N/g); >= 0
-//	deflection_mm      tip deflection along the load, mm (any sign)
+//	deflection_mm      tip deflection along the load, mm (any sign); an
+//	                   empty cell marks a planned row not yet measured
+//	                   (listed in Unmeasured, not fitted)
 //	free_length_mm     free length from the clamp to the load, mm; > 0
 //	direction          x or y: the bellows' own axis the bending is about
 //	                   (x: EI_x, load along the bellows' own y)
@@ -138,6 +144,8 @@ func ParseBench(data []byte, file string) (*Bench, error) {
 	switch {
 	case !haveHeader && len(errs) == 0:
 		add(1, 1, "", "empty file (expected a header row with %s)", benchExpected)
+	case haveHeader && b.cols != nil && len(b.Rows) == 0 && len(b.Unmeasured) > 0 && len(errs) == 0:
+		add(b.Unmeasured[0], b.cols[colDeflection]+1, colDeflection, "no measurements: every deflection_mm cell is empty (expected the measured tip deflections in mm; an empty cell marks a planned row not yet measured)")
 	case haveHeader && b.cols != nil && len(b.Rows) == 0 && len(errs) == 0:
 		add(b.header, 1, "", "no measurements (expected one row per load below the header)")
 	}
@@ -308,7 +316,10 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 		}
 		row.Load = v * scale
 	}
-	if v, _, _, found := number(colDeflection, "a tip deflection in mm"); found {
+	unmeasured := false
+	if s, _, _, found := cell(colDeflection); found && s == "" {
+		unmeasured = true // a planned row not yet measured
+	} else if v, _, _, found := number(colDeflection, "a tip deflection in mm"); found {
 		row.Deflection = v * mm
 	}
 	if v, l, col, found := number(colLength, "a free length in mm, > 0"); found {
@@ -334,7 +345,10 @@ func (b *Bench) readRow(cr *csv.Reader, rec []string, line int, add addFunc) {
 			row.Specimen = s
 		}
 	}
-	if ok {
+	switch {
+	case ok && unmeasured:
+		b.Unmeasured = append(b.Unmeasured, line)
+	case ok:
 		b.Rows = append(b.Rows, row)
 	}
 }

@@ -30,7 +30,7 @@ var (
 	commonBellowsKeys = []string{"straight_length_mm", "curved_length_mm", "precurvature_per_m",
 		"precurvature_xy_per_m", "thread_lead_mm", "threaded", "outer_diameter_mm", "insertion_range_mm"}
 	geometryKeys = []string{"material", "depth_mm", "pitch_mm", "wall_mm", "profile",
-		"crest_radius_mm", "flat_fraction", "winding", "spine_width_mm", "spine_angle_deg", "calibration_factor", "calibration_file"}
+		"crest_radius_mm", "flat_fraction", "winding", "spine_width_mm", "spine_angle_deg", "calibration_factor", "calibration_file", "setting_overbend"}
 	measuredKeys = []string{"bending_stiffness_n_mm2", "torsional_stiffness_n_mm2", "linear_density_kg_per_m"}
 	materialKeys = []string{"name", "modulus_across_layers_mpa", "modulus_in_layer_mpa", "poisson_ratio",
 		"density_kg_per_m3", "allowable_strain"}
@@ -313,6 +313,10 @@ func readBellows(t *table, materials map[string]surrogate.Material) objective.Be
 		mb.Calibration = [2]float64{v[0], v[1]}
 	}
 	t.calibrationFile(mb) // calibration.go
+	b.SettingOverbend = 1
+	if v, ok := t.positive("setting_overbend", "a factor on the pre-curvature the heat-setting jig bends to (1: none)", false, false); ok {
+		b.SettingOverbend = v
+	}
 	switch {
 	case hasLead:
 		b.ThreadLead = lead * mm

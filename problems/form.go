@@ -194,6 +194,7 @@ type bellowsForm struct {
 	Precurvature      *numParam  `toml:"precurvature_per_m"`
 	PrecurvatureXY    []num      `toml:"precurvature_xy_per_m"`
 	Profile           *nameParam `toml:"profile"`
+	SettingOverbend   *num       `toml:"setting_overbend"`
 	SpineAngle        *numParam  `toml:"spine_angle_deg"`
 	SpineWidth        *numParam  `toml:"spine_width_mm"`
 	StraightLength    *numParam  `toml:"straight_length_mm"`

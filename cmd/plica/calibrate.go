@@ -340,6 +340,9 @@ type factorOutput struct {
 
 func newCalibrateOutput(b *problems.Bench, fits [2]*problems.BenchFit, cal *problems.Calibration) *calibrateOutput {
 	o := &calibrateOutput{BenchFile: b.File, LoadColumn: b.LoadColumn, Fits: []fitOutput{}, Warnings: []string{}}
+	if n := len(b.Unmeasured); n > 0 {
+		o.Warnings = append(o.Warnings, fmt.Sprintf("%s:%d: %d row(s) with an empty deflection_mm left out as not yet measured (first on this line)", b.File, b.Unmeasured[0], n))
+	}
 	for axis, bf := range fits {
 		if bf == nil {
 			continue

@@ -31,9 +31,6 @@ func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, er
 	if g.Helical {
 		return Mesh{}, 0, fmt.Errorf("helical convolutions: not meshed by this version of plica export")
 	}
-	if g.SpineWidth > 0 {
-		return Mesh{}, 0, fmt.Errorf("spine: not meshed by this version of plica export")
-	}
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)
 	}
@@ -41,10 +38,40 @@ func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, er
 	if n < 1 {
 		n = 1
 	}
+	if g.SpineWidth > 0 {
+		// the spine: plain wall on the mean radius over the arc
+		// SpineWidth/Rm centred at SpineAngle (surrogate/REFERENCE.md §2.8)
+		rm := g.MeanRadius()
+		s, plain, err := wallAndPlain(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece, rm)
+		if err != nil {
+			return Mesh{}, 0, err
+		}
+		half := g.SpineWidth / rm / 2
+		in := func(phi float64) bool {
+			d := math.Remainder(phi-g.SpineAngle, 2*math.Pi)
+			return math.Abs(d) <= half
+		}
+		m, err := revolveBlend(s, plain, in, k)
+		return m, n, err
+	}
 	s, err := Wall(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece)
 	if err != nil {
 		return Mesh{}, 0, err
 	}
 	m, err := Revolve(s, k)
 	return m, n, err
+}
+
+// Bore returns the smallest inner diameter of the printed wall, m: twice
+// the smallest radius of the wall section (at the roots and collars).
+func Bore(g surrogate.Geometry) (float64, error) {
+	s, err := Wall(g.HalfMeridian(), 1, g.Wall, 0, DefaultPerPiece)
+	if err != nil {
+		return 0, err
+	}
+	r := math.Inf(1)
+	for _, p := range s {
+		r = math.Min(r, p[0])
+	}
+	return 2 * r * 1e-3, nil
 }

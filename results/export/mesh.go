@@ -38,6 +38,12 @@ func (s Section) signedArea() float64 {
 // k·sin(2π/k)/(2π) (common practice), so the volume of the revolved solid
 // falls short of the true solid of revolution by at most that factor.
 func Revolve(s Section, k int) (Mesh, error) {
+	return revolveBlend(s, nil, nil, k)
+}
+
+// revolveBlend is Revolve with the section alt (same vertex count and
+// order) at the angles where use(φ) holds: the strip of a spine.
+func revolveBlend(s, alt Section, use func(phi float64) bool, k int) (Mesh, error) {
 	if k < 3 {
 		return Mesh{}, fmt.Errorf("revolve: %d sides, need at least 3", k)
 	}
@@ -49,11 +55,21 @@ func Revolve(s Section, k int) (Mesh, error) {
 			return Mesh{}, fmt.Errorf("revolve: section point at r = %g, need r > 0", p[0])
 		}
 	}
-	pts := s
-	if s.signedArea() < 0 {
-		pts = make(Section, len(s))
+	if alt != nil && (len(alt) != len(s) || (alt.signedArea() < 0) != (s.signedArea() < 0)) {
+		return Mesh{}, fmt.Errorf("revolve: the alternative section does not match the section")
+	}
+	reverse := func(s Section) Section {
+		out := make(Section, len(s))
 		for i := range s {
-			pts[i] = s[len(s)-1-i]
+			out[i] = s[len(s)-1-i]
+		}
+		return out
+	}
+	pts, altPts := s, alt
+	if s.signedArea() < 0 {
+		pts = reverse(s)
+		if alt != nil {
+			altPts = reverse(alt)
 		}
 	}
 	m := len(pts)
@@ -62,7 +78,11 @@ func Revolve(s Section, k int) (Mesh, error) {
 	for j := 0; j < k; j++ {
 		phi := 2 * math.Pi * float64(j) / float64(k)
 		c, sn := math.Cos(phi), math.Sin(phi)
-		for _, p := range pts {
+		sec := pts
+		if use != nil && use(phi) {
+			sec = altPts
+		}
+		for _, p := range sec {
 			out.V = append(out.V, [3]float64{p[0] * c, p[0] * sn, p[1]})
 		}
 	}
@@ -182,8 +202,18 @@ func (m Mesh) WriteSTL(w io.Writer, header string) error {
 // normal, plain collars of length collar (m) at root radius at both ends,
 // with perPiece points on each meridian piece. Output in mm.
 func Wall(mer convolution.Meridian, n int, t, collar float64, perPiece int) (Section, error) {
+	s, _, err := wallAndPlain(mer, n, t, collar, perPiece, 0)
+	return s, err
+}
+
+// wallAndPlain returns the wall section and, for rPlain > 0, the plain
+// wall of a spine with the same vertices: the convolutions' centreline
+// replaced by the straight line r = rPlain, its points spaced evenly in z
+// within each convolution (so they stay in order for any profile), offset
+// by ±t/2 along r; the collars' ends stay where they are.
+func wallAndPlain(mer convolution.Meridian, n int, t, collar float64, perPiece int, rPlain float64) (Section, Section, error) {
 	if n < 1 || perPiece < 2 {
-		return nil, fmt.Errorf("wall: %d convolutions, %d points a piece", n, perPiece)
+		return nil, nil, fmt.Errorf("wall: %d convolutions, %d points a piece", n, perPiece)
 	}
 	q := mer.Pitch()
 	var half [][2]float64
@@ -219,18 +249,40 @@ func Wall(mer convolution.Meridian, n int, t, collar float64, perPiece int) (Sec
 	}
 	outer := offset(c, +t/2)
 	inner := offset(c, -t/2)
-	var s Section
 	shift := 0.0
 	if collar > 0 {
 		shift = collar
 	}
-	for _, p := range outer {
-		s = append(s, [2]float64{p[0] * 1e3, (p[1] + shift) * 1e3})
+	section := func(outer, inner [][2]float64) Section {
+		var s Section
+		for _, p := range outer {
+			s = append(s, [2]float64{p[0] * 1e3, (p[1] + shift) * 1e3})
+		}
+		for i := len(inner) - 1; i >= 0; i-- {
+			s = append(s, [2]float64{inner[i][0] * 1e3, (inner[i][1] + shift) * 1e3})
+		}
+		return s
 	}
-	for i := len(inner) - 1; i >= 0; i-- {
-		s = append(s, [2]float64{inner[i][0] * 1e3, (inner[i][1] + shift) * 1e3})
+	s := section(outer, inner)
+	if rPlain <= 0 {
+		return s, nil, nil
 	}
-	return s, nil
+	// the plain strip: per convolution 2(len(half)−1) evenly spaced points
+	per := 2 * (len(half) - 1)
+	po, pi := make([][2]float64, len(c)), make([][2]float64, len(c))
+	first := 0
+	if collar > 0 {
+		first = 1
+	}
+	for i := range c {
+		if collar > 0 && (i == 0 || i == len(c)-1) {
+			po[i], pi[i] = outer[i], inner[i]
+			continue
+		}
+		z := q * float64(i-first) / float64(per)
+		po[i], pi[i] = [2]float64{rPlain + t/2, z}, [2]float64{rPlain - t/2, z}
+	}
+	return s, section(po, pi), nil
 }
 
 // offset moves each point of a polyline in (r, z) by d along the unit

@@ -34,18 +34,39 @@ func smallBellowsSTL(t *testing.T) (string, Mesh) {
 	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 4.5e-3, Wall: 0.45e-3, Profile: surrogate.Sinusoid}
 	m, _, err := Bellows(g, 9e-3, 3e-3, 64)
 	require.NoError(t, err)
+	return writeSTL(t, m), m
+}
+
+func smallJigSTL(t *testing.T) (string, Mesh) {
+	m, err := Jig(JigPath{Handle: 0.03, Radius: 0.05, Arc: 0.06, Tip: 0.005}, 0.01, 48)
+	require.NoError(t, err)
+	return writeSTL(t, m), m
+}
+
+func writeSTL(t *testing.T, m Mesh) string {
 	var buf bytes.Buffer
 	require.NoError(t, m.WriteSTL(&buf, "plica test"))
 	f := filepath.Join(t.TempDir(), "b.stl")
 	require.NoError(t, os.WriteFile(f, buf.Bytes(), 0o644))
-	return f, m
+	return f
 }
 
 // admesh, a general-purpose STL checker (Debian package admesh), finds
-// no disconnected facets and the same volume (float32 vertices: 1e-5).
+// no disconnected facets and the same volume (float32 vertices: 1e-5), for
+// a bellows and a heat-setting jig.
 func TestAdmeshAgrees(t *testing.T) {
 	tool := needTool(t, "admesh")
 	f, m := smallBellowsSTL(t)
+	admeshAgrees(t, tool, f, m)
+	f, m = smallJigSTL(t)
+	admeshAgrees(t, tool, f, m)
+	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 4.5e-3, Wall: 0.45e-3, Profile: surrogate.Sinusoid, SpineWidth: 5e-3}
+	m, _, err := Bellows(g, 9e-3, 3e-3, 64)
+	require.NoError(t, err)
+	admeshAgrees(t, tool, writeSTL(t, m), m)
+}
+
+func admeshAgrees(t *testing.T, tool, f string, m Mesh) {
 	out, err := exec.Command(tool, f).CombinedOutput()
 	require.NoError(t, err, string(out))
 	dis := regexp.MustCompile(`Total disconnected facets\s*:\s*(\d+)`).FindSubmatch(out)
@@ -83,6 +104,8 @@ func TestPrusaSlicerSlices(t *testing.T) {
 	}
 	f, _ := smallBellowsSTL(t)
 	assert.Greater(t, slice(f), 0.0)
+	f, _ = smallJigSTL(t)
+	assert.Greater(t, slice(f), 0.0, "the jig slices too")
 	tube, err := Revolve(Section{{8, 0}, {11, 0}, {11, 10}, {8, 10}}, 128)
 	require.NoError(t, err)
 	var buf bytes.Buffer
