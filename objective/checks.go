@@ -92,6 +92,10 @@ func (e *evaluator) checks(res *Result) {
 			}
 			add(fmt.Sprintf("clearance[%d-%d]", i+1, i+2), c*mmPerM, minGap*mmPerM, "mm", false, kind+" clearance, radial")
 			in, out := e.d.Bellows[i], e.d.Bellows[i+1]
+			if wall := out.Model.Wall; c < -wall {
+				res.MisorderedPairs = append(res.MisorderedPairs, i+1)
+				res.Warnings = append(res.Warnings, orderHint(i, c, wall))
+			}
 			if in.ThreadLead > 0 && in.Model != nil && out.Model != nil {
 				// The inner bellows screws along the outer one's helix:
 				// its lead must be the outer pitch.
@@ -248,4 +252,13 @@ func (e *evaluator) models(res *Result) {
 			}
 		}
 	}
+}
+
+// orderHint is the warning for a nesting clearance of pair i (0-based inner
+// bellows) that fails by more than the outer wall: bellows are numbered
+// from the inside out, so a list written outermost first puts the wide
+// bellows inside the narrow one.
+func orderHint(i int, c, wall float64) string {
+	return fmt.Sprintf("clearance[%d-%d] fails by %.3g mm, more than the %.3g mm wall of bellows %d: bellows are listed innermost first ([[bellows]] 1 is the innermost, each next one goes around it); if bellows %d is meant to be the outer one, reverse the order of the [[bellows]] tables",
+		i+1, i+2, -c*mmPerM, wall*mmPerM, i+2, i+1)
 }

@@ -241,6 +241,14 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	info.Status = StatusOf(res.Status)
 	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
+	stallTol := set.Stall.Tolerance
+	if stallTol == 0 {
+		stallTol = search.DefaultStallTolerance
+	}
+	info.Warnings = frontWarnings(spec, res.Front, res.History, stallTol)
+	if w, ok := ex.orderWarning(); ok {
+		info.Warnings = append(info.Warnings, w)
+	}
 	info.Diagnosis = nil
 	if len(res.Front) < FewFeasible {
 		info.Diagnosis = Diagnose(spec, diag)

@@ -98,6 +98,10 @@ type RunInfo struct {
 	// Diagnosis says what blocked a run whose front holds fewer than
 	// FewFeasible designs (this session's evaluations).
 	Diagnosis *Diagnosis `json:"diagnosis,omitempty"`
+	// Warnings are findings about the run a designer should act on (a
+	// front variable at a bound, a front still improving, bellows that
+	// look listed outermost first); empty when none.
+	Warnings []Warning `json:"warnings"`
 	// Robust says, for a problem with [scatter], how the search scored
 	// candidates (first_order or nominal) and how the front's robust
 	// columns were computed (monte_carlo).

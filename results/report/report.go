@@ -101,6 +101,8 @@ type htmlPage struct {
 	Lead, Figures []figureSection
 	// Diagnosis says why the search found no feasible design, or few.
 	Diagnosis []string
+	// RunWarnings are run.json's warnings (results.Warning messages).
+	RunWarnings []string
 	Designs   []designSection
 	Problems  []string
 }
@@ -446,6 +448,9 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
 	}
 	p.Diagnosis = diagnosisLines(info.Diagnosis)
+	for _, w := range info.Warnings {
+		p.RunWarnings = append(p.RunWarnings, w.Message)
+	}
 	return p
 }
 
@@ -488,6 +493,7 @@ nav a { margin-right: 1rem; }
 {{range .Designs}}<tr><td><a href="#design-{{.ID}}">{{.ID}}</a></td><td>{{.Reason}}</td><td>{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}</td><td>{{if not .HasResult}}<span class="problem">not checked</span>{{else if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}}){{end}}</td><td><code>{{.File}}</code></td></tr>
 {{end}}</table>{{end}}
 {{if .Diagnosis}}<div id="diagnosis"><h3>Why the search found {{if .FrontRows}}few{{else}}no{{end}} feasible designs</h3><ul>{{range .Diagnosis}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+{{if .RunWarnings}}<div id="warnings"><h3>Warnings</h3><ul>{{range .RunWarnings}}<li class="warn">warning: {{.}}</li>{{end}}</ul></div>{{end}}
 
 <h2 id="designs">Designs</h2>
 {{if not .Designs}}<p>No design to show.</p>{{end}}
