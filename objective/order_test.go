@@ -13,7 +13,7 @@ import (
 // TestBellowsOrderHint: the nesting clearance is the outer bellows' root
 // radius inside its wall less the inner bellows' outer radius (objective/
 // margins.go clearance; derived by hand here). Listed innermost first, a
-// 24 mm bellows inside a 30 mm one (depth 3 mm, wall 0.6 mm) clears by
+// 23.6 mm bellows inside a 30 mm one (depth 3 mm, wall 0.6 mm) clears by
 // 15 − 3 − 0.6 − 11.8 = −0.4 mm: a failed check, by less than the wall, and
 // no hint. Listed outermost first, the 30 mm one "inside" the 23.6 mm one
 // clears by 11.8 − 3 − 0.6 − 15 = −6.8 mm, more than the 0.6 mm wall: the
