@@ -103,8 +103,8 @@ type htmlPage struct {
 	Diagnosis []string
 	// RunWarnings are run.json's warnings (results.Warning messages).
 	RunWarnings []string
-	Designs   []designSection
-	Problems  []string
+	Designs     []designSection
+	Problems    []string
 }
 
 type frontTableRow struct {
