@@ -92,9 +92,9 @@ func (e *evaluator) checks(res *Result) {
 			}
 			add(fmt.Sprintf("clearance[%d-%d]", i+1, i+2), c*mmPerM, minGap*mmPerM, "mm", false, kind+" clearance, radial")
 			in, out := e.d.Bellows[i], e.d.Bellows[i+1]
-			if wall := out.Model.Wall; c < -wall {
+			if hint, ok := OrderHint(i+1, c, out.Model.Wall); ok {
 				res.MisorderedPairs = append(res.MisorderedPairs, i+1)
-				res.Warnings = append(res.Warnings, orderHint(i, c, wall))
+				res.Warnings = append(res.Warnings, hint)
 			}
 			if in.ThreadLead > 0 && in.Model != nil && out.Model != nil {
 				// The inner bellows screws along the outer one's helix:
@@ -254,11 +254,15 @@ func (e *evaluator) models(res *Result) {
 	}
 }
 
-// orderHint is the warning for a nesting clearance of pair i (0-based inner
-// bellows) that fails by more than the outer wall: bellows are numbered
-// from the inside out, so a list written outermost first puts the wide
-// bellows inside the narrow one.
-func orderHint(i int, c, wall float64) string {
+// OrderHint is the hint for the nesting clearance c (m) between bellows
+// inner and inner+1 (1-based) when it fails by more than the outer
+// bellows' wall (m), too much for a tight fit: bellows are numbered from
+// the inside out, and a list written outermost first puts the wide bellows
+// inside the narrow one. ok is false, and the hint empty, otherwise.
+func OrderHint(inner int, c, wall float64) (hint string, ok bool) {
+	if !(c < -wall) {
+		return "", false
+	}
 	return fmt.Sprintf("clearance[%d-%d] fails by %.3g mm, more than the %.3g mm wall of bellows %d: bellows are listed innermost first ([[bellows]] 1 is the innermost, each next one goes around it); if bellows %d is meant to be the outer one, reverse the order of the [[bellows]] tables",
-		i+1, i+2, -c*mmPerM, wall*mmPerM, i+2, i+1)
+		inner, inner+1, -c*mmPerM, wall*mmPerM, inner+1, inner), true
 }
