@@ -123,6 +123,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	info.Status = StatusRunning
 	info.Reason = ""
 	info.Workers = set.Workers
+	info.Population = set.Population
+	if info.Population == 0 {
+		info.Population = search.DefaultPopulation
+	}
 	info.MaxEvaluations = set.MaxEvaluations
 	info.TimeBudget = set.Runtime
 	info.Updated = time.Now().UTC()

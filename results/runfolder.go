@@ -76,6 +76,9 @@ type RunInfo struct {
 	Objectives  []string  `json:"objectives"`
 	Constraints []string  `json:"constraints"`
 	Workers     int       `json:"workers"`
+	// Population is the population size the search ran with (a merged
+	// run: 0, see MergedFrom and Sources).
+	Population int `json:"population,omitempty"`
 	// MaxEvaluations and TimeBudget are the budgets of the latest
 	// (possibly resumed) run.
 	// TimeBudget is written as Go duration text ("10m0s"; "0s" for
@@ -118,6 +121,9 @@ type plainRunInfo RunInfo
 
 // MarshalJSON writes run.json, the time budget as duration text.
 func (r RunInfo) MarshalJSON() ([]byte, error) {
+	if r.Warnings == nil {
+		r.Warnings = []Warning{} // an array, empty when none
+	}
 	return json.Marshal(runInfoJSON{plainRunInfo(r), r.TimeBudget.String()})
 }
 
@@ -171,6 +177,11 @@ type RunSource struct {
 	Seed        uint64    `json:"seed"`
 	Method      string    `json:"method"`
 	Started     time.Time `json:"started"`
+	// Population and Evaluations are the search's population size and
+	// the evaluations its folder held when merged (0: not recorded, a
+	// merge written before they were).
+	Population  int   `json:"population,omitempty"`
+	Evaluations int64 `json:"evaluations,omitempty"`
 }
 
 // RunStatus is the status of run.json: StatusRunning while a search writes

@@ -99,6 +99,9 @@ type Stall struct {
 	Tolerance float64
 }
 
+// DefaultPopulation is Settings.Population when zero (Deb et al. 2002).
+const DefaultPopulation = 100
+
 // DefaultStallTolerance is Stall.Tolerance when zero.
 const DefaultStallTolerance = 1e-4
 
@@ -118,7 +121,7 @@ func resolve(s *Settings, dim int) config {
 		c.Settings = *s
 	}
 	if c.Population == 0 {
-		c.Population = 100
+		c.Population = DefaultPopulation
 	}
 	switch {
 	case c.MaxEvaluations > 0:
