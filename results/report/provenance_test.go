@@ -40,12 +40,26 @@ func TestReportMergedProvenance(t *testing.T) {
 		assert.Greater(t, isl.Hypervolume, 0.0, "island %d found feasible designs", i+1)
 	}
 	assert.False(t, findID(els, "warnings") && len(m.Info.Warnings) == 0, "no warnings block without warnings")
+	// the hypervolume per island as a figure: one labelled bar per island
+	var islands *Figure
+	for i := range rep.Figures {
+		if rep.Figures[i].Name == "islands.svg" {
+			islands = &rep.Figures[i]
+		}
+	}
+	require.NotNil(t, islands, "a merged report draws the hypervolume per island")
+	assert.True(t, findID(els, "fig-islands"), "and shows it")
+	for _, isl := range m.Info.MergedFrom {
+		assert.Contains(t, string(islands.SVG), fmt.Sprintf("%s (seed %d)", filepath.Base(isl.Run), isl.Seed), "bar label of %s", isl.Run)
+	}
+	assert.Contains(t, islands.Caption, "merged run's reference point")
 
 	// a single run's report: no islands; its warnings shown
 	one, err := Build(context.Background(), a, Options{})
 	require.NoError(t, err)
 	oels := parseReport(t, one.HTML)
 	assert.False(t, findID(oels, "islands-table"), "a single run has no islands table")
+	assert.False(t, findID(oels, "fig-islands"), "nor the islands figure")
 	info, err := a.ReadInfo()
 	require.NoError(t, err)
 	require.NotNil(t, info.Warnings, "run.json warnings read back")

@@ -202,6 +202,9 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 	if len(r.History) > 0 {
 		addFig(&page.Figures, r.HypervolumeFigure)
 	}
+	if len(r.Info.MergedFrom) > 0 {
+		addFig(&page.Figures, r.IslandsFigure)
+	}
 	reasons := r.reasons(ids, opt.Designs != nil)
 	for _, id := range ids {
 		if err := ctx.Err(); err != nil {
