@@ -92,6 +92,10 @@ func (e *evaluator) checks(res *Result) {
 			}
 			add(fmt.Sprintf("clearance[%d-%d]", i+1, i+2), c*mmPerM, minGap*mmPerM, "mm", false, kind+" clearance, radial")
 			in, out := e.d.Bellows[i], e.d.Bellows[i+1]
+			if hint, ok := OrderHint(i+1, c, out.Model.Wall); ok {
+				res.MisorderedPairs = append(res.MisorderedPairs, i+1)
+				res.Warnings = append(res.Warnings, hint)
+			}
 			if in.ThreadLead > 0 && in.Model != nil && out.Model != nil {
 				// The inner bellows screws along the outer one's helix:
 				// its lead must be the outer pitch.
@@ -272,4 +276,17 @@ func (e *evaluator) models(res *Result) {
 			}
 		}
 	}
+}
+
+// OrderHint is the hint for the nesting clearance c (m) between bellows
+// inner and inner+1 (1-based) when it fails by more than the outer
+// bellows' wall (m), too much for a tight fit: bellows are numbered from
+// the inside out, and a list written outermost first puts the wide bellows
+// inside the narrow one. ok is false, and the hint empty, otherwise.
+func OrderHint(inner int, c, wall float64) (hint string, ok bool) {
+	if !(c < -wall) {
+		return "", false
+	}
+	return fmt.Sprintf("clearance[%d-%d] fails by %.3g mm, more than the %.3g mm wall of bellows %d: bellows are listed innermost first ([[bellows]] 1 is the innermost, each next one goes around it); if bellows %d is meant to be the outer one, reverse the order of the [[bellows]] tables",
+		inner, inner+1, -c*mmPerM, wall*mmPerM, inner+1, inner), true
 }

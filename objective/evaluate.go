@@ -115,6 +115,11 @@ type Result struct {
 	Models []string
 	// Warnings are findings that do not fail a check but need attention.
 	Warnings []string
+	// MisorderedPairs lists, by their inner bellows (1-based), the
+	// neighbouring pairs whose nesting clearance fails by more than the
+	// outer bellows' wall: too much for a tight fit, as when the bellows
+	// are listed outermost first (Warnings carries the hint).
+	MisorderedPairs []int
 }
 
 type evaluator struct {

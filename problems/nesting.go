@@ -65,8 +65,12 @@ func checkNesting(r *reader, lo, hi *objective.Design, ins [][2]float64) {
 			}
 		}
 		if gap < 0 {
-			r.errorf(fmt.Sprintf("bellows[%d].outer_diameter_mm", in+1), "the ranges can never nest: bellows %d is at least %s mm across but bellows %d around it has %s (expected ranges in which the inner bellows fits inside the outer one)",
+			msg := fmt.Sprintf("the ranges can never nest: bellows %d is at least %s mm across but bellows %d around it has %s (expected ranges in which the inner bellows fits inside the outer one)",
 				in+1, fmtNum(odIn*m2mm), out+1, what)
+			if hint, ok := objective.OrderHint(in+1, gap, oLo.Wall); ok {
+				msg += "; even at its best, " + hint
+			}
+			r.errorf(fmt.Sprintf("bellows[%d].outer_diameter_mm", in+1), "%s", msg)
 		}
 	}
 }

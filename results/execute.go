@@ -123,6 +123,10 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	info.Status = StatusRunning
 	info.Reason = ""
 	info.Workers = set.Workers
+	info.Population = set.Population
+	if info.Population == 0 {
+		info.Population = search.DefaultPopulation
+	}
 	info.MaxEvaluations = set.MaxEvaluations
 	info.TimeBudget = set.Runtime
 	info.Updated = time.Now().UTC()
@@ -241,6 +245,14 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	info.Status = StatusOf(res.Status)
 	info.FrontSize, info.Hypervolume, info.Reference = len(res.Front), res.Hypervolume, res.Reference
+	stallTol := set.Stall.Tolerance
+	if stallTol == 0 {
+		stallTol = search.DefaultStallTolerance
+	}
+	info.Warnings = frontWarnings(spec, res.Front, res.History, stallTol)
+	if w, ok := ex.orderWarning(); ok {
+		info.Warnings = append(info.Warnings, w)
+	}
 	info.Diagnosis = nil
 	if len(res.Front) < FewFeasible {
 		info.Diagnosis = Diagnose(spec, diag)

@@ -2,7 +2,9 @@ package results
 
 import (
 	"fmt"
+	"maps"
 	"math"
+	"slices"
 	"strings"
 	"sync"
 
@@ -39,6 +41,10 @@ type explainer struct {
 	// best[j] is check j's best value (smallest for an upper limit,
 	// largest for a lower one).
 	best []checkRecord
+	// evals counts the evaluations recorded, misordered[i] those whose
+	// pair of bellows i+1 and i+2 was objective.Result.MisorderedPairs.
+	evals      int64
+	misordered map[int]int64
 }
 
 type reachRecord struct {
@@ -97,6 +103,13 @@ func (ex *explainer) add(index int64, res *objective.Result, g []float64) {
 	haveReach := !math.IsNaN(reach) && !math.IsInf(reach, 0)
 	ex.mu.Lock()
 	defer ex.mu.Unlock()
+	ex.evals++
+	for _, i := range res.MisorderedPairs {
+		if ex.misordered == nil {
+			ex.misordered = map[int]int64{}
+		}
+		ex.misordered[i]++
+	}
 	others := true
 	for j, v := range g {
 		if v <= 0 && haveReach {
@@ -235,4 +248,38 @@ func withUnit(v float64, unit string) string {
 		return fmt.Sprintf("%.3g", v)
 	}
 	return fmt.Sprintf("%.3g %s", v, unit)
+}
+
+// misorderedShare is the share of the evaluations at or above which a pair
+// whose clearance fails by more than the wall is reported as a likely
+// ordering mistake (a designer's choice: most evaluations, not a few
+// outliers of a wide range).
+const misorderedShare = 0.8
+
+// orderWarning is the WarnBellowsOrder warning when, in at least
+// misorderedShare of the evaluations, a neighbouring pair's clearance
+// failed by more than the outer wall; false otherwise.
+func (ex *explainer) orderWarning() (Warning, bool) {
+	if ex == nil {
+		return Warning{}, false
+	}
+	ex.mu.Lock()
+	defer ex.mu.Unlock()
+	if ex.evals == 0 {
+		return Warning{}, false
+	}
+	var pairs []string
+	worst := 0.0
+	for _, i := range slices.Sorted(maps.Keys(ex.misordered)) {
+		n := ex.misordered[i]
+		if share := float64(n) / float64(ex.evals); n > 0 && share >= misorderedShare {
+			pairs = append(pairs, fmt.Sprintf("clearance[%d-%d]", i, i+1))
+			worst = math.Max(worst, share)
+		}
+	}
+	if len(pairs) == 0 {
+		return Warning{}, false
+	}
+	return Warning{Kind: WarnBellowsOrder, Message: fmt.Sprintf("%s failed by more than the outer bellows' wall in up to %.0f %% of the evaluations: bellows are listed innermost first ([[bellows]] 1 is the innermost, each next one goes around it); if the first bellows is meant to be the outer one, reverse the order of the [[bellows]] tables",
+		strings.Join(pairs, ", "), 100*worst)}, true
 }

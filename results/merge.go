@@ -37,6 +37,8 @@ type MergedRun struct {
 	ProblemHash string    `json:"problem_hash"`
 	Method      string    `json:"method"`
 	Status      RunStatus `json:"status"`
+	// Population is its population size (0 for a merged run).
+	Population int `json:"population,omitempty"`
 	// Evaluations counts the rows of its evaluations.csv merged.
 	Evaluations int64 `json:"evaluations"`
 	// FrontSize is the size of the front of its own evaluations.
@@ -76,7 +78,8 @@ type mergeInput struct {
 // not merges themselves).
 func runSources(dir string, info *RunInfo) []RunSource {
 	if info.Method != MergeMethod {
-		return []RunSource{{Run: dir, ProblemHash: info.ProblemHash, Seed: info.Seed, Method: info.Method, Started: info.Started}}
+		return []RunSource{{Run: dir, ProblemHash: info.ProblemHash, Seed: info.Seed, Method: info.Method, Started: info.Started,
+			Population: info.Population, Evaluations: info.Evaluations}}
 	}
 	if len(info.Sources) > 0 {
 		return info.Sources
@@ -84,10 +87,30 @@ func runSources(dir string, info *RunInfo) []RunSource {
 	var out []RunSource
 	for _, m := range info.MergedFrom {
 		if m.Method != MergeMethod {
-			out = append(out, RunSource{Run: m.Run, ProblemHash: m.ProblemHash, Seed: m.Seed, Method: m.Method})
+			out = append(out, RunSource{Run: m.Run, ProblemHash: m.ProblemHash, Seed: m.Seed, Method: m.Method, Population: m.Population, Evaluations: m.Evaluations})
 		}
 	}
 	return out
+}
+
+// runPopulation is the population size of a run: run.json's, or for a
+// search recorded before run.json kept it, its problem's; 0 for a merge.
+func runPopulation(info *RunInfo, spec *problems.Spec) int {
+	switch {
+	case info.Method == MergeMethod:
+		return 0
+	case info.Population > 0:
+		return info.Population
+	}
+	return specPopulation(spec)
+}
+
+// specPopulation is the population size a search of spec runs with.
+func specPopulation(spec *problems.Spec) int {
+	if spec.Search.Population > 0 {
+		return spec.Search.Population
+	}
+	return search.DefaultPopulation
 }
 
 // overlap refuses two runs of a merge that hold the evaluations of one
@@ -314,7 +337,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 	for r, in := range ins {
 		own := front.ParetoFront(perRun[r], (*search.Design).Point)
 		src := MergedRun{Run: in.dir, Seed: in.info.Seed, ProblemHash: in.info.ProblemHash, Method: in.info.Method, Status: in.info.Status,
-			Evaluations: counts[r], FrontSize: len(own), Hypervolume: finiteOr0(hypervolumeOf(own, info.Reference))}
+			Population: runPopulation(in.info, in.spec), Evaluations: counts[r], FrontSize: len(own), Hypervolume: finiteOr0(hypervolumeOf(own, info.Reference))}
 		for _, d := range merged {
 			if origins[d.Index].run == r {
 				src.UnionFront++
@@ -325,6 +348,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 		info.RuntimeSec += in.info.RuntimeSec
 		info.Generations = max(info.Generations, in.info.Generations)
 	}
+	info.Warnings = frontWarnings(spec, merged, nil, 0)
 	info.Updated = time.Now().UTC()
 	comment := func(fr FrontRow) string {
 		o := origins[fr.Design.Index]

@@ -80,8 +80,34 @@ func TestMergeArchives(t *testing.T) {
 
 	// merge of a merge: the source columns name the first runs
 	abc := filepath.Join(tmp, "abc")
-	_, err = Merge(context.Background(), []string{ab, c}, abc, "test")
+	mres, err := Merge(context.Background(), []string{ab, c}, abc, "test")
 	require.NoError(t, err)
+
+	// provenance in run.json: each merged run's seed, population and
+	// evaluations, and the searches behind a merged merge
+	info, err := (&Folder{Dir: abc}).ReadInfo()
+	require.NoError(t, err)
+	assert.Equal(t, mres.Info.MergedFrom, info.MergedFrom, "merged_from reads back")
+	require.Len(t, info.MergedFrom, 2)
+	pop := smallProblem(t).Search.Population
+	require.Equal(t, 12, pop, "the small problem's population")
+	assert.Equal(t, MergeMethod, info.MergedFrom[0].Method)
+	assert.Equal(t, 0, info.MergedFrom[0].Population, "a merge has no population")
+	assert.Equal(t, int64(240), info.MergedFrom[0].Evaluations, "evaluations of the merged merge")
+	assert.Equal(t, uint64(3), info.MergedFrom[1].Seed)
+	assert.Equal(t, pop, info.MergedFrom[1].Population, "population of run c")
+	assert.Equal(t, int64(120), info.MergedFrom[1].Evaluations, "evaluations of run c")
+	for _, m := range info.MergedFrom {
+		assert.Greater(t, m.Hypervolume, 0.0, "hypervolume of %s's own front at the merged reference", m.Run)
+		assert.LessOrEqual(t, m.Hypervolume, info.Hypervolume*(1+1e-12), "a run's front is dominated by the merged front: %s", m.Run)
+	}
+	require.Len(t, info.Sources, 3, "the three searches")
+	for i, s := range info.Sources {
+		assert.Equal(t, uint64(i+1), s.Seed, "seed of search %s", s.Run)
+		assert.Equal(t, pop, s.Population, "population of search %s", s.Run)
+		assert.Equal(t, int64(120), s.Evaluations, "evaluations of search %s", s.Run)
+	}
+	assert.NotNil(t, info.Warnings, "run.json carries a warnings array")
 	h, rows, err := (&Folder{Dir: abc}).ReadCSV(EvaluationsFile)
 	require.NoError(t, err)
 	src := slices.Index(h, SourceRunColumn)

@@ -76,6 +76,9 @@ type RunInfo struct {
 	Objectives  []string  `json:"objectives"`
 	Constraints []string  `json:"constraints"`
 	Workers     int       `json:"workers"`
+	// Population is the population size the search ran with (a merged
+	// run: 0, see MergedFrom and Sources).
+	Population int `json:"population,omitempty"`
 	// MaxEvaluations and TimeBudget are the budgets of the latest
 	// (possibly resumed) run.
 	// TimeBudget is written as Go duration text ("10m0s"; "0s" for
@@ -98,6 +101,10 @@ type RunInfo struct {
 	// Diagnosis says what blocked a run whose front holds fewer than
 	// FewFeasible designs (this session's evaluations).
 	Diagnosis *Diagnosis `json:"diagnosis,omitempty"`
+	// Warnings are findings about the run a designer should act on (a
+	// front variable at a bound, a front still improving, bellows that
+	// look listed outermost first); empty when none.
+	Warnings []Warning `json:"warnings"`
 	// Robust says, for a problem with [scatter], how the search scored
 	// candidates (first_order or nominal) and how the front's robust
 	// columns were computed (monte_carlo).
@@ -114,6 +121,9 @@ type plainRunInfo RunInfo
 
 // MarshalJSON writes run.json, the time budget as duration text.
 func (r RunInfo) MarshalJSON() ([]byte, error) {
+	if r.Warnings == nil {
+		r.Warnings = []Warning{} // an array, empty when none
+	}
 	return json.Marshal(runInfoJSON{plainRunInfo(r), r.TimeBudget.String()})
 }
 
@@ -167,6 +177,11 @@ type RunSource struct {
 	Seed        uint64    `json:"seed"`
 	Method      string    `json:"method"`
 	Started     time.Time `json:"started"`
+	// Population and Evaluations are the search's population size and
+	// the evaluations its folder held when merged (0: not recorded, a
+	// merge written before they were).
+	Population  int   `json:"population,omitempty"`
+	Evaluations int64 `json:"evaluations,omitempty"`
 }
 
 // RunStatus is the status of run.json: StatusRunning while a search writes

@@ -95,9 +95,15 @@ type Stall struct {
 	// Generations is the window W. Zero disables the criterion.
 	Generations int
 	// Tolerance is the relative improvement at or below which the run has stalled. Zero means
-	// 1e-4.
+	// DefaultStallTolerance.
 	Tolerance float64
 }
+
+// DefaultPopulation is Settings.Population when zero (Deb et al. 2002).
+const DefaultPopulation = 100
+
+// DefaultStallTolerance is Stall.Tolerance when zero.
+const DefaultStallTolerance = 1e-4
 
 // config is a Settings with defaults applied.
 type config struct {
@@ -115,7 +121,7 @@ func resolve(s *Settings, dim int) config {
 		c.Settings = *s
 	}
 	if c.Population == 0 {
-		c.Population = 100
+		c.Population = DefaultPopulation
 	}
 	switch {
 	case c.MaxEvaluations > 0:
@@ -129,7 +135,7 @@ func resolve(s *Settings, dim int) config {
 		c.Workers = runtime.NumCPU()
 	}
 	if c.Stall.Generations > 0 && c.Stall.Tolerance == 0 {
-		c.Stall.Tolerance = 1e-4
+		c.Stall.Tolerance = DefaultStallTolerance
 	}
 	if c.ArchiveSize == 0 {
 		c.ArchiveSize = 2 * c.Population

@@ -65,16 +65,21 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	fmt.Fprintf(stdout, "merged %d runs into %s: %d evaluations (%d failed), front of %d designs\n",
 		len(info.MergedFrom), res.Folder.Dir, info.Evaluations, info.Failures, info.FrontSize)
 	tw := tabwriter.NewWriter(stdout, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "run\tseed\tstatus\tevaluations\tits front\tin merged front\thypervolume\n")
+	fmt.Fprintf(tw, "run\tseed\tpopulation\tstatus\tevaluations\tits front\tin merged front\thypervolume\n")
 	for _, s := range info.MergedFrom {
-		fmt.Fprintf(tw, "%s\t%d\t%s\t%d\t%d\t%d\t%.6g\n", s.Run, s.Seed, s.Status, s.Evaluations, s.FrontSize, s.UnionFront, s.Hypervolume)
+		pop := "-"
+		if s.Population > 0 {
+			pop = fmt.Sprint(s.Population)
+		}
+		fmt.Fprintf(tw, "%s\t%d\t%s\t%s\t%d\t%d\t%d\t%.6g\n", s.Run, s.Seed, pop, s.Status, s.Evaluations, s.FrontSize, s.UnionFront, s.Hypervolume)
 	}
-	fmt.Fprintf(tw, "merged\t\t\t%d\t%d\t%d\t%.6g\n", info.Evaluations, info.FrontSize, info.FrontSize, info.Hypervolume)
+	fmt.Fprintf(tw, "merged\t\t\t\t%d\t%d\t%d\t%.6g\n", info.Evaluations, info.FrontSize, info.FrontSize, info.Hypervolume)
 	tw.Flush()
 	fmt.Fprintf(stdout, "hypervolume at reference %v (%s)\n", info.Reference, res.ReferenceReason)
 	for _, n := range res.Notes {
 		fmt.Fprintf(stdout, "note: %s\n", n)
 	}
+	results.WriteWarnings(stdout, info.Warnings)
 	fmt.Fprintf(stdout, "files: %s, %s, %s/front-NNN.toml\n", res.Folder.Path(results.FrontFile), res.Folder.Path(results.EvaluationsFile), res.Folder.Path(results.DesignsDir))
 	fmt.Fprintf(stdout, "caution: %s\n", results.Caution)
 	return nil

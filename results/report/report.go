@@ -101,8 +101,16 @@ type htmlPage struct {
 	Lead, Figures []figureSection
 	// Diagnosis says why the search found no feasible design, or few.
 	Diagnosis []string
-	Designs   []designSection
-	Problems  []string
+	// RunWarnings are run.json's warnings (results.Warning messages).
+	RunWarnings []string
+	// Islands are the runs a merged run joins (run.json merged_from), and
+	// Sources the searches behind them (merges of merges flattened);
+	// HypervolumeUnit names the hypervolume's reference.
+	Islands         []islandRow
+	Sources         []sourceRow
+	HypervolumeUnit string
+	Designs         []designSection
+	Problems        []string
 }
 
 type frontTableRow struct {
@@ -193,6 +201,9 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 	}
 	if len(r.History) > 0 {
 		addFig(&page.Figures, r.HypervolumeFigure)
+	}
+	if len(r.Info.MergedFrom) > 0 {
+		addFig(&page.Figures, r.IslandsFigure)
 	}
 	reasons := r.reasons(ids, opt.Designs != nil)
 	for _, id := range ids {
@@ -446,7 +457,40 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
 	}
 	p.Diagnosis = diagnosisLines(info.Diagnosis)
+	for _, w := range info.Warnings {
+		p.RunWarnings = append(p.RunWarnings, w.Message)
+	}
+	p.HypervolumeUnit = r.hypervolumeUnit()
+	for _, m := range info.MergedFrom {
+		p.Islands = append(p.Islands, islandRow{Run: m.Run, Method: m.Method, Status: m.Status.String(), Seed: fmt.Sprint(m.Seed),
+			Population: countOrDash(int64(m.Population)), Evaluations: fmt.Sprint(m.Evaluations), FrontSize: fmt.Sprint(m.FrontSize),
+			Hypervolume: num(m.Hypervolume), UnionFront: fmt.Sprint(m.UnionFront)})
+	}
+	if len(info.MergedFrom) > 0 {
+		for _, s := range info.Sources {
+			p.Sources = append(p.Sources, sourceRow{Run: s.Run, Method: s.Method, Seed: fmt.Sprint(s.Seed),
+				Population: countOrDash(int64(s.Population)), Evaluations: countOrDash(s.Evaluations)})
+		}
+	}
 	return p
+}
+
+// islandRow is one run of a merged run, as the report shows it.
+type islandRow struct {
+	Run, Method, Status, Seed, Population, Evaluations, FrontSize, Hypervolume, UnionFront string
+}
+
+// sourceRow is one search behind a merged run.
+type sourceRow struct {
+	Run, Method, Seed, Population, Evaluations string
+}
+
+// countOrDash writes a count, or a dash for one not recorded (0).
+func countOrDash(n int64) string {
+	if n == 0 {
+		return "–"
+	}
+	return fmt.Sprint(n)
 }
 
 var reportTemplate = template.Must(template.New("report").Parse(`<!DOCTYPE html>
@@ -488,6 +532,7 @@ nav a { margin-right: 1rem; }
 {{range .Designs}}<tr><td><a href="#design-{{.ID}}">{{.ID}}</a></td><td>{{.Reason}}</td><td>{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}</td><td>{{if not .HasResult}}<span class="problem">not checked</span>{{else if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}}){{end}}</td><td><code>{{.File}}</code></td></tr>
 {{end}}</table>{{end}}
 {{if .Diagnosis}}<div id="diagnosis"><h3>Why the search found {{if .FrontRows}}few{{else}}no{{end}} feasible designs</h3><ul>{{range .Diagnosis}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+{{if .RunWarnings}}<div id="warnings"><h3>Warnings</h3><ul>{{range .RunWarnings}}<li class="warn">warning: {{.}}</li>{{end}}</ul></div>{{end}}
 
 <h2 id="designs">Designs</h2>
 {{if not .Designs}}<p>No design to show.</p>{{end}}
@@ -533,6 +578,15 @@ nav a { margin-right: 1rem; }
 <h3>Run</h3>
 <table>{{range .Run}}<tr><th>{{.Key}}</th><td>{{.Value}}</td></tr>
 {{end}}</table>
+{{if .Islands}}<h3 id="islands">Merged from</h3>
+<p>This run merges the evaluations of {{len .Islands}} runs. The hypervolume of each run's own front is measured at the merged run's reference point, in {{.HypervolumeUnit}}, so the runs compare with each other and with the merged front.</p>
+<table id="islands-table"><tr><th>run</th><th>method</th><th>status</th><th>seed</th><th>population</th><th>evaluations merged</th><th>own front</th><th>hypervolume of its front</th><th>designs on the merged front</th></tr>
+{{range .Islands}}<tr><td><code>{{.Run}}</code></td><td>{{.Method}}</td><td>{{.Status}}</td><td class="num">{{.Seed}}</td><td class="num">{{.Population}}</td><td class="num">{{.Evaluations}}</td><td class="num">{{.FrontSize}}</td><td class="num">{{.Hypervolume}}</td><td class="num">{{.UnionFront}}</td></tr>
+{{end}}</table>
+{{if .Sources}}<p>The searches behind them:</p>
+<table id="sources-table"><tr><th>search</th><th>method</th><th>seed</th><th>population</th><th>evaluations</th></tr>
+{{range .Sources}}<tr><td><code>{{.Run}}</code></td><td>{{.Method}}</td><td class="num">{{.Seed}}</td><td class="num">{{.Population}}</td><td class="num">{{.Evaluations}}</td></tr>
+{{end}}</table>{{end}}{{end}}
 {{if .Reference}}<p>The hypervolume is measured in the objectives as the search minimises them (maximised objectives negated) against the reference point:</p>
 <table><tr><th>objective</th><th>reference</th></tr>{{range .Reference}}<tr><td><code>{{.Key}}</code></td><td>{{.Value}}</td></tr>{{end}}</table>{{end}}
 
