@@ -119,7 +119,9 @@ type BellowsError struct {
 }
 
 func (e *BellowsError) Error() string {
-	return fmt.Sprintf("bellows %d: %v", e.Index+1, e.Err)
+	// Several reasons (errors.Join) stay on one line: a failure is one
+	// line in evaluations.csv and on the terminal.
+	return fmt.Sprintf("bellows %d: %s", e.Index+1, strings.ReplaceAll(e.Err.Error(), "\n", "; "))
 }
 
 func (e *BellowsError) Unwrap() error { return e.Err }
