@@ -193,7 +193,9 @@ func calibrationKeys(source CalibrationSource) []string {
 // N·mm² with six significant digits, factors with six.
 func (c *Calibration) Format() []byte {
 	var b strings.Builder
-	g := func(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+	// x + 0 turns a negative zero into 0: TOML reads "-0" back as the
+	// integer 0, and the file must read back to what was written
+	g := func(x float64) string { return strconv.FormatFloat(x+0, 'g', 6, 64) }
 	if c.Source == SourceFE {
 		c.formatFE(&b, g)
 		return []byte(b.String())
@@ -260,7 +262,7 @@ func (c *Calibration) formatFE(b *strings.Builder, g func(float64) string) {
 		fmt.Fprintf(b, "ei_%s_fe_ci95_n_mm2 = [%s, %s]\n", a, g(c.FittedCI[axis][0]/nmm2), g(c.FittedCI[axis][1]/nmm2))
 		fmt.Fprintf(b, "ei_%s_predicted_n_mm2 = %s\n", a, g(c.PredictedEI[axis]/nmm2))
 		// all digits: a change just under MaxFEChange must not round up to it
-		fmt.Fprintf(b, "ei_%s_fe_mesh_change = %s   # (EI − EI on the next coarser mesh) / EI\n", a, strconv.FormatFloat(c.FEChange[axis], 'g', -1, 64))
+		fmt.Fprintf(b, "ei_%s_fe_mesh_change = %s   # (EI − EI on the next coarser mesh) / EI\n", a, strconv.FormatFloat(c.FEChange[axis]+0, 'g', -1, 64))
 	}
 }
 
