@@ -10,6 +10,10 @@ import (
 	"github.com/stretchr/testify/require"
 )
 
+// cantileverDesign is the straight measured cantilever the tests of
+// cmd/plica and results/report share (its header gives the tip sag).
+const cantileverDesign = "../../testdata/cantilever.toml"
+
 // TestCheckJSONTaskPoints: a straight measured cantilever, EI = 1 N·m²,
 // L = 0.3 m, m' = 0.05 kg/m, payload 20 g, gravity across it. A task point
 // at its unloaded tip is missed on the loaded shape by the tip sag
@@ -18,20 +22,10 @@ import (
 // tolerance; the same point with loaded = false is reached. check -json
 // gives both in "task_points".
 func TestCheckJSONTaskPoints(t *testing.T) {
-	dir := t.TempDir()
-	path := filepath.Join(dir, "cantilever.toml")
-	require.NoError(t, os.WriteFile(path, []byte(`name = "cantilever"
-[[bellows]]
-straight_length_mm = 300.0
-curved_length_mm = 0.0
-precurvature_per_m = 0.0
-bending_stiffness_n_mm2 = [1.0e6, 1.0e6]
-torsional_stiffness_n_mm2 = 5.0e7
-linear_density_kg_per_m = 0.05
-
-[load]
-payload_g = 20
-
+	base, err := os.ReadFile(cantileverDesign)
+	require.NoError(t, err)
+	path := filepath.Join(t.TempDir(), "cantilever.toml")
+	require.NoError(t, os.WriteFile(path, append(base, `
 [[task_point]]
 position_mm = [0, 0, 300]
 tolerance_mm = 1.0
@@ -40,7 +34,7 @@ tolerance_mm = 1.0
 position_mm = [0, 0, 300]
 tolerance_mm = 1.0
 loaded = false
-`), 0o644))
+`...), 0o644))
 	_, out, errOut := runCLI(t, "check", path, "-json")
 	var o struct {
 		TaskPoints []struct {
@@ -79,19 +73,7 @@ loaded = false
 // Stress and Strain, 7th ed., Table 8.1, cases 1a and 2a), and pose without
 // -loaded keeps it on the axis.
 func TestPoseLoadedCantilever(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "cantilever.toml")
-	require.NoError(t, os.WriteFile(path, []byte(`name = "cantilever"
-[[bellows]]
-straight_length_mm = 300.0
-curved_length_mm = 0.0
-precurvature_per_m = 0.0
-bending_stiffness_n_mm2 = [1.0e6, 1.0e6]
-torsional_stiffness_n_mm2 = 5.0e7
-linear_density_kg_per_m = 0.05
-
-[load]
-payload_g = 20
-`), 0o644))
+	path := cantileverDesign
 	for _, c := range []struct {
 		args []string
 		y    float64

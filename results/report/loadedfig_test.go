@@ -1,8 +1,6 @@
 package report
 
 import (
-	"os"
-	"path/filepath"
 	"regexp"
 	"testing"
 
@@ -16,20 +14,10 @@ import (
 // dashPattern matches a dashed stroke in an SVG style.
 var dashPattern = regexp.MustCompile(`stroke-dasharray:\s*[0-9.]`)
 
-// cantileverDesign is a straight measured cantilever: EI = 1 N·m²,
-// L = 0.3 m, m' = 0.05 kg/m, payload 20 g, gravity across it.
-const cantileverDesign = `name = "cantilever"
-[[bellows]]
-straight_length_mm = 300.0
-curved_length_mm = 0.0
-precurvature_per_m = 0.0
-bending_stiffness_n_mm2 = [1.0e6, 1.0e6]
-torsional_stiffness_n_mm2 = 5.0e7
-linear_density_kg_per_m = 0.05
-
-[load]
-payload_g = 20
-`
+// cantileverDesign is the straight measured cantilever the tests of
+// cmd/plica and results/report share: EI = 1 N·m², L = 0.3 m,
+// m' = 0.05 kg/m, payload 20 g, gravity across it.
+const cantileverDesign = "../../testdata/cantilever.toml"
 
 // TestLoadedBackboneFigure: for the straight cantilever every rotation
 // sags by δ = m_p g L³/(3EI) + m' g L⁴/(8EI) = 2.2617 mm (Roark's Formulas
@@ -39,9 +27,7 @@ payload_g = 20
 // a dashed unloaded and a solid loaded backbone in both views for each,
 // with the sag in its caption. Without gravity or payload, nothing sags.
 func TestLoadedBackboneFigure(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "cantilever.toml")
-	require.NoError(t, os.WriteFile(path, []byte(cantileverDesign), 0o644))
-	d, sc, err := problems.LoadDesign(path)
+	d, sc, err := problems.LoadDesign(cantileverDesign)
 	require.NoError(t, err)
 	robot, _, err := d.Robot()
 	require.NoError(t, err)

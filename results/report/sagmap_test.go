@@ -1,8 +1,6 @@
 package report
 
 import (
-	"os"
-	"path/filepath"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
@@ -52,9 +50,7 @@ func TestTipSagFigure(t *testing.T) {
 	assert.Equal(t, 2*len(tips), n-used, "every tip of the workspace figure in both views")
 	assert.Equal(t, 1, countGlyphs(els, baseColor), "the base")
 
-	path := filepath.Join(t.TempDir(), "cantilever.toml")
-	require.NoError(t, os.WriteFile(path, []byte(cantileverDesign), 0o644))
-	cd, csc, err := problems.LoadDesign(path)
+	cd, csc, err := problems.LoadDesign(cantileverDesign)
 	require.NoError(t, err)
 	crobot, _, err := cd.Robot()
 	require.NoError(t, err)
