@@ -1,8 +1,6 @@
 package results
 
 import (
-	"context"
-	"encoding/json"
 	"math"
 	"os"
 	"path/filepath"
@@ -23,14 +21,7 @@ import (
 // digits, so the margins agree to 1e-6 relative; the round trip is the
 // reference, the search's own evaluation of the same candidate).
 func TestClosestDesignFiles(t *testing.T) {
-	spec, err := problems.LoadProblem("../problems/examples/boom-blocked.toml")
-	require.NoError(t, err)
-	dir := filepath.Join(t.TempDir(), "run")
-	_, err = runTo(t, spec, dir, 200, 1, context.Background(), false)
-	require.NoError(t, err)
-	var info RunInfo
-	require.NoError(t, json.Unmarshal([]byte(readFile(t, filepath.Join(dir, RunFile))), &info))
-	require.NotNil(t, info.Diagnosis)
+	spec, dir, info := blockedRun(t, 1)
 	least := info.Diagnosis.LeastInfeasible
 	require.NotEmpty(t, least)
 	names := spec.ConstraintNames()

@@ -88,6 +88,22 @@ func TestExplainerSentences(t *testing.T) {
 	assert.Nil(t, none.sentences(nil), "no explainer, no sentences")
 }
 
+// blockedRun runs 200 evaluations of the shipped blocked demo with the given
+// number of workers into a fresh run folder and returns the problem, the
+// folder and its run.json, which holds a diagnosis.
+func blockedRun(t *testing.T, workers int) (*problems.Spec, string, RunInfo) {
+	t.Helper()
+	spec, err := problems.LoadProblem("../problems/examples/boom-blocked.toml")
+	require.NoError(t, err)
+	dir := filepath.Join(t.TempDir(), "run")
+	_, err = runTo(t, spec, dir, 200, workers, context.Background(), false)
+	require.NoError(t, err)
+	var info RunInfo
+	require.NoError(t, json.Unmarshal([]byte(readFile(t, filepath.Join(dir, RunFile))), &info))
+	require.NotNil(t, info.Diagnosis)
+	return spec, dir, info
+}
+
 // TestBlockedDemoExplanation: on the shipped blocked demo, the explanation
 // of task_miss agrees with what evaluations.csv says, scanned here on its
 // own: the smallest task_miss_mm, the largest reach_mm, and for the named
@@ -96,14 +112,7 @@ func TestExplainerSentences(t *testing.T) {
 // reach the points need is the demo's 60 mm off-axis points less their
 // 2 mm tolerance (problem file; hand calculation).
 func TestBlockedDemoExplanation(t *testing.T) {
-	spec, err := problems.LoadProblem("../problems/examples/boom-blocked.toml")
-	require.NoError(t, err)
-	dir := filepath.Join(t.TempDir(), "run")
-	_, err = runTo(t, spec, dir, 200, 2, context.Background(), false)
-	require.NoError(t, err)
-	var info RunInfo
-	require.NoError(t, json.Unmarshal([]byte(readFile(t, filepath.Join(dir, RunFile))), &info))
-	require.NotNil(t, info.Diagnosis)
+	spec, dir, info := blockedRun(t, 2)
 	require.NotEmpty(t, info.Diagnosis.Explanations)
 	s := info.Diagnosis.Explanations[0]
 	m := regexp.MustCompile(`^task_miss: best miss (\S+) mm \(evaluation \d+\); the task points need a reach of 58 mm, but no evaluation reached beyond (\S+) mm \(evaluation \d+\); reach limited by (.+?): best reach (\S+) mm among`).FindStringSubmatch(s)
