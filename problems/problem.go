@@ -234,7 +234,13 @@ func ParseProblem(data []byte, file string) (*Spec, error) {
 		d, ins, ms := readDesign(rr, t)
 		scn := readScenario(t)
 		scn.Workspace.Insertion = ins
-		scn.Scatter = readScatter(t)
+		if pass == 0 {
+			scn.Scatter = readScatter(t)
+		} else {
+			// variables are bellows keys: [scatter] is the same at both
+			// bounds, read (and its problems reported) once
+			t.get("scatter")
+		}
 		t.finish(append(append(append([]string{}, topKeys...), problemOnlyKeys...), scatterTopKeys...))
 		for _, e := range rr.errs {
 			if !seen[e.Error()] {
