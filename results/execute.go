@@ -378,7 +378,7 @@ func newBar(w io.Writer, set search.Settings) *bar {
 		progressbar.OptionSetDescription("evaluating"),
 		progressbar.OptionOnCompletion(func() { fmt.Fprintln(w) }),
 	)
-	return &bar{pb: pb, start: time.Now(), first: -1}
+	return &bar{pb: pb, start: time.Now(), first: evaluationsBefore(set)}
 }
 
 func (b *bar) update(p search.Progress) {
@@ -389,14 +389,7 @@ func (b *bar) update(p search.Progress) {
 	if b.pb == nil {
 		return
 	}
-	if b.first < 0 {
-		b.first = p.Evaluations
-		b.start = time.Now()
-	}
-	rate := 0.0
-	if dt := time.Since(b.start).Seconds(); dt > 0 {
-		rate = float64(p.Evaluations-b.first) / dt
-	}
+	rate := sessionRate(p.Evaluations, b.first, b.start, time.Now())
 	b.pb.Describe(fmt.Sprintf("gen %d, %.0f evals/s, feasible %d, front %d, HV %.4g", p.Generation, rate, p.Feasible, p.ArchiveSize, finiteOr0(p.Hypervolume)))
 	b.pb.Set64(p.Evaluations)
 }

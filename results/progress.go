@@ -32,22 +32,39 @@ type plainLog struct {
 	every   time.Duration
 	now     func() time.Time
 
-	start    time.Time
-	first    int64
+	start    time.Time // when this session began
+	first    int64     // evaluations done before it (a resumed run's checkpoint)
 	lastLine time.Time
 	last     search.Progress
 	seen     bool
 }
 
 func newPlainLog(w io.Writer, set search.Settings, now func() time.Time) *plainLog {
-	return &plainLog{w: w, max: set.MaxEvaluations, runtime: set.Runtime, every: PlainProgressEvery, now: now, first: -1}
+	return &plainLog{w: w, max: set.MaxEvaluations, runtime: set.Runtime, every: PlainProgressEvery, now: now,
+		start: now(), first: evaluationsBefore(set)}
+}
+
+// evaluationsBefore is the number of evaluations done before this session:
+// those of the checkpoint a resumed run starts from, else none. The rate
+// shown is this session's: evaluations since it began over the time since.
+func evaluationsBefore(set search.Settings) int64 {
+	if set.Resume != nil {
+		return set.Resume.Evaluations
+	}
+	return 0
+}
+
+// sessionRate is the evaluations per second of a session that began at
+// start with first evaluations done (0 at its very first instant).
+func sessionRate(evaluations, first int64, start, t time.Time) float64 {
+	if dt := t.Sub(start).Seconds(); dt > 0 {
+		return float64(evaluations-first) / dt
+	}
+	return 0
 }
 
 func (l *plainLog) update(p search.Progress) {
 	t := l.now()
-	if l.first < 0 {
-		l.first, l.start = p.Evaluations, t
-	}
 	l.last, l.seen = p, true
 	if !l.lastLine.IsZero() && t.Sub(l.lastLine) < l.every {
 		return
@@ -66,10 +83,7 @@ func (l *plainLog) finish() {
 // line formats evaluations, rate, feasible count, front size,
 // hypervolume and the estimated time left.
 func (l *plainLog) line(what string, p search.Progress, t time.Time) {
-	rate := 0.0
-	if dt := t.Sub(l.start).Seconds(); dt > 0 {
-		rate = float64(p.Evaluations-l.first) / dt
-	}
+	rate := sessionRate(p.Evaluations, l.first, l.start, t)
 	evals := fmt.Sprintf("%d evaluations", p.Evaluations)
 	if l.max > 0 {
 		evals = fmt.Sprintf("%d/%d evaluations", p.Evaluations, l.max)
