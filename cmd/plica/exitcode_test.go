@@ -31,4 +31,5 @@ func TestExitCodeInputErrors(t *testing.T) {
 	assert.Equal(t, exitFail, exitCode(errors.New("disk full")))
 	assert.Equal(t, exitInterrupt, exitCode(fmt.Errorf("search: %w", context.Canceled)))
 	assert.Equal(t, exitOK, exitCode(nil))
+	assert.Equal(t, exitInterrupt, exitCode(&reported{fmt.Errorf("search: %w", context.Canceled)}), "an error already told keeps its status")
 }

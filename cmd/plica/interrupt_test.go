@@ -164,8 +164,9 @@ func TestInterruptLongCheck(t *testing.T) {
 }
 
 // TestInterruptLongSearch cancels a search in its first generations: exit
-// status 130 and a checkpoint to resume from, and every row of
-// evaluations.csv whole (as wide as its header).
+// status 130, one line on standard error saying how to resume (no second
+// line with the bare cancellation), a checkpoint to resume from, and every
+// row of evaluations.csv whole (as wide as its header).
 func TestInterruptLongSearch(t *testing.T) {
 	if testing.Short() {
 		t.Skip("runs a search")
@@ -179,7 +180,7 @@ func TestInterruptLongSearch(t *testing.T) {
 	code := run(ctx, []string{"search", problem, "-o", out, "-quiet", "-evals", "100000"}, &o, &e)
 	cancel()
 	assert.Equal(t, exitInterrupt, code, "stderr %q", e.String())
-	assert.Contains(t, e.String(), "plica resume "+out)
+	assert.Equal(t, "plica: interrupted; checkpoint saved: continue with plica resume "+out+"\n", e.String())
 	b, err := os.ReadFile(filepath.Join(out, "evaluations.csv"))
 	require.NoError(t, err)
 	lines := strings.Split(strings.TrimSuffix(string(b), "\n"), "\n")

@@ -51,6 +51,14 @@ type failure struct{ msg string }
 
 func (e *failure) Error() string { return e.msg }
 
+// reported is an error the verb has already told the user about in its own
+// words (an interrupted search's checkpoint message): run prints nothing
+// more, and the exit status is the wrapped error's.
+type reported struct{ err error }
+
+func (e *reported) Error() string { return e.err.Error() }
+func (e *reported) Unwrap() error { return e.err }
+
 // run executes one invocation and returns the exit status; tests call it
 // directly.
 func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
@@ -96,7 +104,8 @@ func run(ctx context.Context, args []string, stdout, stderr io.Writer) int {
 		printCommandHelp(stderr, c, fs)
 		return exitOK
 	}
-	if err != nil {
+	var told *reported
+	if err != nil && !errors.As(err, &told) {
 		var f *failure
 		if !errors.As(err, &f) || f.msg != "" {
 			for _, line := range strings.Split(err.Error(), "\n") {

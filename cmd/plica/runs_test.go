@@ -69,6 +69,8 @@ func TestRunFolderLock(t *testing.T) {
 	}()
 	code = run(ctx, []string{"resume", rdir, "-quiet", "-evals", "100000"}, &o, &e)
 	assert.Equal(t, 130, code, e.String())
+	assert.True(t, strings.HasSuffix(e.String(), "plica: interrupted; checkpoint saved: continue with plica resume "+rdir+"\n"),
+		"the resume message is the last line, no bare cancellation after it: %q", e.String())
 	assert.NoFileExists(t, filepath.Join(rdir, results.LockFile), "released after Ctrl-C")
 
 	code, _, errOut = runCLI(t, "resume", rdir, "-quiet", "-evals", "12")

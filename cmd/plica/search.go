@@ -181,7 +181,7 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 	}
 	if errors.Is(err, context.Canceled) {
 		fmt.Fprintf(stderr, "plica: interrupted; checkpoint saved: continue with plica resume %s\n", folder.Dir)
-		return err
+		return &reported{err}
 	}
 	if err == nil {
 		// The run is complete and saved; a report that cannot be written
@@ -189,7 +189,7 @@ func finishRun(ctx context.Context, spec *problems.Spec, folder *results.Folder,
 		rerr := writeReport(ctx, folder, "", nil, stdout, stderr)
 		if errors.Is(rerr, context.Canceled) {
 			fmt.Fprintf(stderr, "plica: interrupted while writing the report; the run is saved (write it with plica report %s)\n", folder.Dir)
-			return rerr
+			return &reported{rerr}
 		}
 		if rerr != nil {
 			fmt.Fprintf(stderr, "plica: warning: report not written: %v (the run is saved; retry with plica report %s)\n", rerr, folder.Dir)
