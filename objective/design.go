@@ -19,6 +19,7 @@ import (
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
+	"plica/surrogate/shell"
 )
 
 // Design is one fully specified manipulator of nested bellows.
@@ -159,18 +160,19 @@ func (d *Design) Stiffness() ([]Stiffness, error) {
 
 // modelFailure words a stiffness-model failure for the user: an invalid
 // input stays as it is (its key positions it); a model that cannot compute
-// an accepted geometry says so in plain words, without the model package's
-// own prefix.
+// an accepted geometry says so in plain words, with the shell solver's bare
+// reason rather than its package-named message.
 func modelFailure(err error) error {
 	var ie *surrogate.InputError
 	if errors.As(err, &ie) {
 		return err
 	}
-	msg := err.Error()
-	for _, f := range []surrogate.Fidelity{surrogate.Strip, surrogate.Shell} {
-		msg = strings.TrimPrefix(msg, f.String()+": ")
+	reason := err.Error()
+	var se *shell.SolveError
+	if errors.As(err, &se) {
+		reason = se.Reason
 	}
-	return fmt.Errorf("the stiffness model cannot compute this geometry: %s", msg)
+	return fmt.Errorf("the stiffness model cannot compute this geometry: %s", reason)
 }
 
 // Largest and smallest values a design may hold. They lie far beyond any

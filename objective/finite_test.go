@@ -14,6 +14,7 @@ import (
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
+	"plica/surrogate/shell"
 )
 
 // boomPair is a two-bellows design with measured stiffness, the numbers
@@ -232,8 +233,10 @@ func TestWorkspaceCaps(t *testing.T) {
 // TestModelFailureWording: a stiffness-model failure reaches the user
 // without the model package's prefix; an input error keeps its key.
 func TestModelFailureWording(t *testing.T) {
-	err := modelFailure(errors.New("shell: stiffness matrix is not positive definite"))
+	err := modelFailure(&shell.SolveError{Reason: "stiffness matrix is not positive definite"})
 	assert.EqualError(t, err, "the stiffness model cannot compute this geometry: stiffness matrix is not positive definite")
+	err = modelFailure(errors.New("another model's reason"))
+	assert.EqualError(t, err, "the stiffness model cannot compute this geometry: another model's reason")
 	in := &surrogate.InputError{Key: "wall_mm", Msg: "0 is not a positive finite number (expected > 0)"}
 	assert.Same(t, in, modelFailure(in))
 }

@@ -5,7 +5,6 @@
 package shell
 
 import (
-	"errors"
 	"math"
 
 	"gonum.org/v1/gonum/blas/blas64"
@@ -129,11 +128,19 @@ type Problem struct {
 
 const shellBand = 5 // half bandwidth: an element couples 6 consecutive DOFs
 
-// Solve returns the displacements and the reactions K·d − Load.
+// SolveError is a shell problem Solve cannot solve (too few nodes, a
+// stiffness matrix that is not positive definite, a non-finite result).
+// Its message names the package; Reason is the bare reason.
+type SolveError struct{ Reason string }
+
+func (e *SolveError) Error() string { return "shell: " + e.Reason }
+
+// Solve returns the displacements and the reactions K·d − Load; a failure
+// is a *SolveError.
 func (p *Problem) Solve() (d, react []float64, err error) {
 	nn := len(p.R)
 	if nn < 2 {
-		return nil, nil, errors.New("shell: mesh needs at least two nodes")
+		return nil, nil, &SolveError{Reason: "mesh needs at least two nodes"}
 	}
 	n := 3 * nn
 	bw := shellBand + 1
@@ -188,13 +195,13 @@ func (p *Problem) Solve() (d, react []float64, err error) {
 	a := mat.NewSymBandDense(n, shellBand, kb).RawSymBand()
 	u, ok := lapack64.Pbtrf(a)
 	if !ok {
-		return nil, nil, errors.New("shell: stiffness matrix is not positive definite")
+		return nil, nil, &SolveError{Reason: "stiffness matrix is not positive definite"}
 	}
 	d = rhs
 	lapack64.Pbtrs(u, blas64.General{Rows: n, Cols: 1, Stride: 1, Data: d})
 	for _, v := range d {
 		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return nil, nil, errors.New("shell: solve produced a non-finite displacement")
+			return nil, nil, &SolveError{Reason: "solve produced a non-finite displacement"}
 		}
 	}
 	react = make([]float64, n)
