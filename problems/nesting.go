@@ -48,29 +48,37 @@ func checkNesting(r *reader, lo, hi *objective.Design, ins [][2]float64) {
 		crownInside := oHi.OuterDiameter/2 - oLo.Wall
 		rootInside := crownInside - oLo.Depth
 		threaded := lo.Bellows[in].ThreadLead > 0 && lo.Bellows[in].Model != nil
-		gap := rootInside - odIn/2
+		crest, root := nestGaps(crownInside, rootInside, odIn, depthIn, threaded)
+		gap := math.Min(crest, root)
+		if gap >= 0 {
+			continue
+		}
 		what := fmt.Sprintf("the inside of its roots at most %s mm across", fmtNum(2*rootInside*m2mm))
-		if threaded {
-			// The inner crowns run in the outer crowns, the inner roots
-			// inside the outer roots (as the clearance check measures).
-			crest := crownInside - odIn/2
-			root := rootInside - (odIn/2 - depthIn)
-			gap = math.Min(crest, root)
+		switch {
+		case threaded && crest >= 0:
+			what = fmt.Sprintf("the inside of its roots at most %s mm across, around inner roots at least %s mm", fmtNum(2*rootInside*m2mm), fmtNum((odIn-2*depthIn)*m2mm))
+		case threaded:
 			what = fmt.Sprintf("the inside of its crowns at most %s mm across and of its roots %s mm", fmtNum(2*crownInside*m2mm), fmtNum(2*rootInside*m2mm))
-			if crest >= 0 && root < 0 {
-				what = fmt.Sprintf("the inside of its roots at most %s mm across, around inner roots at least %s mm", fmtNum(2*rootInside*m2mm), fmtNum((odIn-2*depthIn)*m2mm))
-			}
-			if crest >= 0 && root >= 0 {
-				continue
-			}
 		}
-		if gap < 0 {
-			msg := fmt.Sprintf("the ranges can never nest: bellows %d is at least %s mm across but bellows %d around it has %s (expected ranges in which the inner bellows fits inside the outer one)",
-				in+1, fmtNum(odIn*m2mm), out+1, what)
-			if hint, ok := objective.OrderHint(in+1, gap, oLo.Wall); ok {
-				msg += "; even at its best, " + hint
-			}
-			r.errorf(fmt.Sprintf("bellows[%d].outer_diameter_mm", in+1), "%s", msg)
+		msg := fmt.Sprintf("the ranges can never nest: bellows %d is at least %s mm across but bellows %d around it has %s (expected ranges in which the inner bellows fits inside the outer one)",
+			in+1, fmtNum(odIn*m2mm), out+1, what)
+		if hint, ok := objective.OrderHint(in+1, gap, oLo.Wall); ok {
+			msg += "; even at its best, " + hint
 		}
+		r.errorf(fmt.Sprintf("bellows[%d].outer_diameter_mm", in+1), "%s", msg)
 	}
+}
+
+// nestGaps are the radial gaps, m, of an inner bellows of outer diameter
+// od and depth depth inside an outer bellows whose inside radii are
+// crownInside at its crowns and rootInside at its roots, by the
+// inequalities of the clearance check (objective/margins.go). Unthreaded,
+// the inner crowns must clear the outer roots (root; crest is +Inf);
+// threaded, the inner crowns run in the outer crowns (crest) and the inner
+// roots inside the outer roots (root). They nest when both are >= 0.
+func nestGaps(crownInside, rootInside, od, depth float64, threaded bool) (crest, root float64) {
+	if !threaded {
+		return math.Inf(1), rootInside - od/2
+	}
+	return crownInside - od/2, rootInside - (od/2 - depth)
 }
