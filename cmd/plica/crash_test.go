@@ -40,6 +40,19 @@ func smallProblemFile(t *testing.T, dir string) string {
 	return p
 }
 
+// smallRun writes smallProblemFile into dir, searches it for evals
+// evaluations (and any further flags) into dir/name and fails the test
+// unless the search succeeds. It returns the problem file and the run
+// folder.
+func smallRun(t *testing.T, dir, name, evals string, flags ...string) (prob, run string) {
+	t.Helper()
+	prob = smallProblemFile(t, dir)
+	run = filepath.Join(dir, name)
+	code, stdout, stderr := runCLI(t, append([]string{"search", prob, "-o", run, "-quiet", "-evals", evals}, flags...)...)
+	require.Equal(t, 0, code, "search: %s %s", stdout, stderr)
+	return prob, run
+}
+
 func countLines(path string) int {
 	b, err := os.ReadFile(path)
 	if err != nil {

@@ -123,10 +123,7 @@ func looksOf(t *testing.T, want int, args ...string) int64 {
 // it was. The interrupted merge leaves no output folder.
 func TestInterruptMidRun(t *testing.T) {
 	dir := t.TempDir()
-	prob := smallProblemFile(t, dir)
-	small := filepath.Join(dir, "small")
-	code, _, errOut := runCLI(t, "search", prob, "-o", small, "-quiet", "-evals", "24", "-workers", "1")
-	require.Equal(t, 0, code, errOut)
+	_, small := smallRun(t, dir, "small", "24", "-workers", "1")
 	big := filepath.Join(dir, "big")
 	inflate(t, small, big, 40*1024, 0)
 	wide := filepath.Join(dir, "wide")
@@ -184,10 +181,7 @@ func TestInterruptMidRun(t *testing.T) {
 // write nothing; pick -o elsewhere only checks the lock.
 func TestReadersRespectLock(t *testing.T) {
 	dir := t.TempDir()
-	prob := smallProblemFile(t, dir)
-	rdir := filepath.Join(dir, "run")
-	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "24", "-workers", "1")
-	require.Equal(t, 0, code, errOut)
+	_, rdir := smallRun(t, dir, "run", "24", "-workers", "1")
 	writeLockFile(t, rdir, os.Getpid())
 	for _, args := range [][]string{
 		{"report", rdir},
@@ -203,7 +197,7 @@ func TestReadersRespectLock(t *testing.T) {
 		assert.Equal(t, before, snapshot(t, dir), "%v: nothing written", args)
 	}
 	require.NoError(t, os.Remove(filepath.Join(rdir, results.LockFile)))
-	code, _, errOut = runCLI(t, "pick", rdir, "-knee")
+	code, _, errOut := runCLI(t, "pick", rdir, "-knee")
 	require.Equal(t, 0, code, errOut)
 	assert.NoFileExists(t, filepath.Join(rdir, results.LockFile), "pick releases the lock")
 }

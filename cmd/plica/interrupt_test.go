@@ -88,10 +88,7 @@ func TestInterruptEveryVerb(t *testing.T) {
 		t.Skip("runs a small search first")
 	}
 	dir := t.TempDir()
-	problem := smallProblemFile(t, dir)
-	run1 := filepath.Join(dir, "run1")
-	code, _, errOut := runCLI(t, "search", problem, "-o", run1, "-quiet", "-evals", "24")
-	require.Equal(t, 0, code, errOut)
+	problem, run1 := smallRun(t, dir, "run1", "24")
 	design := filepath.Join(dir, "design.toml")
 	b, err := os.ReadFile(examples + "boom-geometry.toml")
 	require.NoError(t, err)

@@ -88,16 +88,13 @@ func fileHasLines(path string, n int) bool {
 // with one line (exit 2), the folder left as it was.
 func TestResumeRefusesTruncatedLog(t *testing.T) {
 	dir := t.TempDir()
-	prob := smallProblemFile(t, dir)
-	rdir := filepath.Join(dir, "rdir")
-	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "48")
-	require.Equal(t, 0, code, errOut)
+	_, rdir := smallRun(t, dir, "rdir", "48")
 	path := filepath.Join(rdir, results.EvaluationsFile)
 	b, err := os.ReadFile(path)
 	require.NoError(t, err)
 	cut := b[:len(b)/2]
 	require.NoError(t, os.WriteFile(path, cut, 0o644))
-	code, _, errOut = runCLI(t, "resume", rdir, "-quiet", "-evals", "96")
+	code, _, errOut := runCLI(t, "resume", rdir, "-quiet", "-evals", "96")
 	assert.Equal(t, 2, code)
 	assert.Contains(t, errOut, "evaluations.csv")
 	assert.Contains(t, errOut, "the checkpoint counts 48 evaluations")
@@ -141,10 +138,7 @@ func TestSearchFailureSaysFailed(t *testing.T) {
 // unwritable is refused with exit status 2 before anything is written.
 func TestOutputsNeverInputs(t *testing.T) {
 	dir := t.TempDir()
-	prob := smallProblemFile(t, dir)
-	rdir := filepath.Join(dir, "rdir")
-	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "24")
-	require.Equal(t, 0, code, errOut)
+	prob, rdir := smallRun(t, dir, "rdir", "24")
 	bench, design := filepath.Join(dir, "bench.csv"), filepath.Join(dir, "design.toml")
 	for src, dst := range map[string]string{calExamples + "boom-bench.csv": bench, calExamples + "boom-geometry.toml": design} {
 		b, err := os.ReadFile(src)
@@ -204,7 +198,7 @@ func TestOutputsNeverInputs(t *testing.T) {
 
 	// a design naming a calibration file: -o may not replace it
 	calFile := filepath.Join(dir, "cal.toml")
-	code, _, errOut = runCLI(t, append(cal, "-o", calFile)...)
+	code, _, errOut := runCLI(t, append(cal, "-o", calFile)...)
 	require.Equal(t, 0, code, errOut)
 	d2 := strings.Replace(string(designText), "outer_diameter_mm = 30.0\n", "outer_diameter_mm = 30.0\ncalibration_file = \"cal.toml\"\n", 1)
 	require.NotEqual(t, string(designText), d2)
@@ -276,10 +270,7 @@ func TestSearchFullDisk(t *testing.T) {
 // naming file, line, column and column name), the folder left as it was.
 func TestBadCellRefused(t *testing.T) {
 	dir := t.TempDir()
-	prob := smallProblemFile(t, dir)
-	rdir := filepath.Join(dir, "rdir")
-	code, _, errOut := runCLI(t, "search", prob, "-o", rdir, "-quiet", "-evals", "48")
-	require.Equal(t, 0, code, errOut)
+	_, rdir := smallRun(t, dir, "rdir", "48")
 	path := filepath.Join(rdir, results.EvaluationsFile)
 	b, err := os.ReadFile(path)
 	require.NoError(t, err)
