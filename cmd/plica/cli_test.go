@@ -26,6 +26,15 @@ func runCLI(t *testing.T, args ...string) (code int, stdout, stderr string) {
 	return code, o.String(), e.String()
 }
 
+// refused runs plica with args and checks that it refuses them as bad
+// input: exit status 2, and want on standard error.
+func refused(t *testing.T, want string, args ...string) {
+	t.Helper()
+	code, out, errOut := runCLI(t, args...)
+	assert.Equal(t, exitUsage, code, "exit status of plica %s (stdout %q, stderr %q)", strings.Join(args, " "), out, errOut)
+	assert.Contains(t, errOut, want, "stderr of plica %s", strings.Join(args, " "))
+}
+
 // TestREADMEExamples runs the commands the README shows and compares their
 // output with the goldens in the top-level testdata/ (rewrite with -update).
 func TestREADMEExamples(t *testing.T) {
