@@ -30,18 +30,11 @@ func (s *Spec) Portable() (text []byte, files map[string][]byte, err error) {
 	}
 	renamed := map[string]string{}
 	used := map[string]bool{}
-	form := s.form
-	form.Bellows = cloneBellows(form.Bellows)
-	for i := range form.Bellows {
-		b := &form.Bellows[i]
-		if b.CalibrationFile == nil {
-			continue
-		}
-		rel := *b.CalibrationFile
+	form, err := s.formWithCalibrations(func(rel string) (string, error) {
 		if renamed[rel] == "" {
 			f := s.cals[s.resolveRel(rel)]
 			if f == nil || f.err != nil {
-				return nil, nil, fmt.Errorf("calibration file %s was not read with the problem", rel)
+				return "", fmt.Errorf("calibration file %s was not read with the problem", rel)
 			}
 			name := "calibration/" + filepath.Base(rel)
 			for k := 2; used[name]; k++ {
@@ -51,8 +44,10 @@ func (s *Spec) Portable() (text []byte, files map[string][]byte, err error) {
 			renamed[rel] = name
 			files[name] = f.data
 		}
-		name := renamed[rel]
-		b.CalibrationFile = &name
+		return renamed[rel], nil
+	})
+	if err != nil {
+		return nil, nil, err
 	}
 	var buf bytes.Buffer
 	buf.WriteString("# plica problem, as read from the file the run was started with; calibration files in calibration/.\n")
@@ -69,6 +64,25 @@ func (s *Spec) Portable() (text []byte, files map[string][]byte, err error) {
 // hashes like the original, wherever the folder is moved, and a changed
 // calibration changes the hash. Comments and layout do not count.
 func (s *Spec) Hash() string {
+	form, _ := s.formWithCalibrations(func(rel string) (string, error) { // never fails
+		if f := s.cals[s.resolveRel(rel)]; f != nil {
+			h := sha256.Sum256(f.data)
+			return "sha256:" + hex.EncodeToString(h[:]), nil
+		}
+		return rel, nil
+	})
+	var buf bytes.Buffer
+	if err := encodeForm(&buf, form); err != nil {
+		buf.WriteString(err.Error())
+	}
+	h := sha256.Sum256(buf.Bytes())
+	return hex.EncodeToString(h[:8])
+}
+
+// formWithCalibrations is a copy of the problem's typed form in which the
+// calibration_file of every bellows that names one is replaced by what
+// replace returns for it (the path as written); the first error stops it.
+func (s *Spec) formWithCalibrations(replace func(rel string) (string, error)) (problemForm, error) {
 	form := s.form
 	form.Bellows = cloneBellows(form.Bellows)
 	for i := range form.Bellows {
@@ -76,16 +90,11 @@ func (s *Spec) Hash() string {
 		if b.CalibrationFile == nil {
 			continue
 		}
-		if f := s.cals[s.resolveRel(*b.CalibrationFile)]; f != nil {
-			h := sha256.Sum256(f.data)
-			ref := "sha256:" + hex.EncodeToString(h[:])
-			b.CalibrationFile = &ref
+		name, err := replace(*b.CalibrationFile)
+		if err != nil {
+			return problemForm{}, err
 		}
+		b.CalibrationFile = &name
 	}
-	var buf bytes.Buffer
-	if err := encodeForm(&buf, form); err != nil {
-		buf.WriteString(err.Error())
-	}
-	h := sha256.Sum256(buf.Bytes())
-	return hex.EncodeToString(h[:8])
+	return form, nil
 }
