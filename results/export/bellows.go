@@ -28,15 +28,16 @@ func AreaFactor(k int) float64 {
 // with plain collars of length collar (m) at both ends, k sides about
 // the axis. The axis is +z from z = 0; output in mm.
 func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, error) {
-	if g.Helical {
-		return Mesh{}, 0, fmt.Errorf("helical convolutions: not meshed by this version of plica export")
-	}
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)
 	}
 	n := int(math.Round(length / g.Pitch))
 	if n < 1 {
 		n = 1
+	}
+	if g.Helical {
+		m, err := helical(g, n, collar, k)
+		return m, n, err
 	}
 	if g.SpineWidth > 0 {
 		// the spine: plain wall on the mean radius over the arc
