@@ -11,9 +11,16 @@ import (
 // k-gon carries the area factor k·sin(2π/k)/(2π) = 1 − 4.0e-4 at k = 128
 // (common practice), so with DefaultPerPiece meridian points the mesh
 // volume stays within 0.5 % of the surrogate's wall volume.
+//
+// HelicalPerPiece is the same for a helical wall, whose two run-out turns
+// would otherwise take a 25-turn bellows over 20 MB; the meridian
+// polygon's volume shortfall grows as the inverse square of the points a
+// piece, and stays under 0.2 % on the tested profiles at 14
+// (results/export/REFERENCE.md §5).
 const (
 	DefaultSides    = 128
 	DefaultPerPiece = 16
+	HelicalPerPiece = 14
 	MaxSides        = 4096
 )
 

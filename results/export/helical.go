@@ -19,7 +19,7 @@ type helix struct {
 func newHelix(g surrogate.Geometry, n int, collar float64, k int) helix {
 	mer := g.HalfMeridian()
 	q := mer.Pitch()
-	half := halfPoints(mer, DefaultPerPiece, g.Wall)
+	half := halfPoints(mer, HelicalPerPiece, g.Wall)
 	per := 2 * (len(half) - 1)
 	conv := make([][2]float64, per)
 	for l := range conv {
