@@ -24,7 +24,9 @@ func init() {
 		long: `Writes bellows-N.stl for each bellows given by geometry: the wall printed
 straight along +z from z = 0, whole convolutions over the straight plus
 curved length, the wall offset by half its thickness both ways from the
-centreline, plain collars of -collar-mm at both ends. -segments sets the
+centreline, plain collars of -collar-mm at both ends; a helical bellows
+(lead = pitch, right-handed) has a run-out of one pitch between its
+full-depth turns and each collar. -segments sets the
 polygon sides about the axis (3 to 4096; the k-gon carries the area factor
 k·sin(2π/k)/(2π)). Each pre-curved bellows also gets jig-N.stl, a rod to
 heat-set it on: centreline radius 1/(κ0·setting_overbend), diameter the
