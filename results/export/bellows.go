@@ -30,10 +30,12 @@ func AreaFactor(k int) float64 {
 	return float64(k) * math.Sin(2*math.Pi/float64(k)) / (2 * math.Pi)
 }
 
-// Bellows meshes a revolved bellows of the geometry over length (m, whole
+// Bellows meshes a bellows of the geometry over length (m, whole
 // convolutions: the length rounded to the nearest pitch, at least one)
 // with plain collars of length collar (m) at both ends, k sides about
-// the axis. The axis is +z from z = 0; output in mm.
+// the axis. The axis is +z from z = 0; output in mm. A helical geometry
+// gets that many full-depth turns and a run-out of one pitch at each end
+// between them and the collars (results/export/REFERENCE.md §5).
 func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, error) {
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)

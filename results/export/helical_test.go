@@ -290,3 +290,36 @@ func TestHelicalWholeVolume(t *testing.T) {
 		assert.Less(t, runout, turn, c.name)
 	}
 }
+
+// BenchmarkHelicalBellows meshes the shipped boom's inner bellows made
+// helical at the defaults (25 full-depth turns, 5 mm collars, 128 sides)
+// and reports the STL size.
+func BenchmarkHelicalBellows(b *testing.B) {
+	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 10e-3, Wall: 0.5e-3, Profile: surrogate.Sinusoid, Helical: true}
+	var m Mesh
+	for i := 0; i < b.N; i++ {
+		var err error
+		m, _, err = Bellows(g, 0.25, 5e-3, DefaultSides)
+		if err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(84+50*len(m.T))/1e6, "MB")
+	b.ReportMetric(float64(len(m.T)), "triangles")
+}
+
+// TestHelicalSizeAtDefaults: the shipped boom's bellows (25 turns of
+// 10 mm pitch) made helical stay under 20 MB of STL at the defaults, and
+// closed at full resolution.
+func TestHelicalSizeAtDefaults(t *testing.T) {
+	for _, g := range []surrogate.Geometry{
+		{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 10e-3, Wall: 0.5e-3, Profile: surrogate.Sinusoid, Helical: true},
+		{OuterDiameter: 30e-3, Depth: 3e-3, Pitch: 10e-3, Wall: 0.6e-3, Profile: surrogate.Sinusoid, Helical: true, SpineWidth: 4e-3},
+	} {
+		m, n, err := Bellows(g, 0.25, 5e-3, DefaultSides)
+		require.NoError(t, err)
+		require.Equal(t, 25, n)
+		require.NoError(t, m.Check())
+		assert.Less(t, 84+50*len(m.T), 20_000_000, "OD %g mm", g.OuterDiameter*1e3)
+	}
+}
