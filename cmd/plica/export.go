@@ -24,7 +24,9 @@ func init() {
 		long: `Writes bellows-N.stl for each bellows given by geometry: the wall printed
 straight along +z from z = 0, whole convolutions over the straight plus
 curved length, the wall offset by half its thickness both ways from the
-centreline, plain collars of -collar-mm at both ends. -segments sets the
+centreline, plain collars of -collar-mm at both ends; a helical bellows
+(lead = pitch, right-handed) has a run-out of one pitch between its
+full-depth turns and each collar. -segments sets the
 polygon sides about the axis (3 to 4096; the k-gon carries the area factor
 k·sin(2π/k)/(2π)). Each pre-curved bellows also gets jig-N.stl, a rod to
 heat-set it on: centreline radius 1/(κ0·setting_overbend), diameter the
@@ -38,41 +40,73 @@ together or not at all. Exit status 0, or 2 on bad input.`,
 	})
 }
 
+// meshPart is what export.json gives for every mesh it writes.
+type meshPart struct {
+	VolumeMM3 float64    `json:"volume_mm3"`
+	MassG     float64    `json:"mass_g"`
+	BoxMinMM  [3]float64 `json:"bbox_min_mm"`
+	BoxMaxMM  [3]float64 `json:"bbox_max_mm"`
+	Triangles int        `json:"triangles"`
+}
+
+func newMeshPart(m export.Mesh, density float64) meshPart {
+	lo, hi := m.Bounds()
+	v := m.Volume()
+	return meshPart{VolumeMM3: v, MassG: v * 1e-9 * density * 1e3, BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T)}
+}
+
 type exportPart struct {
-	Bellows      int        `json:"bellows"`
-	File         string     `json:"file"`
-	Convolutions int        `json:"convolutions"`
-	VolumeMM3    float64    `json:"volume_mm3"`
-	MassG        float64    `json:"mass_g"`
-	BoxMinMM     [3]float64 `json:"bbox_min_mm"`
-	BoxMaxMM     [3]float64 `json:"bbox_max_mm"`
-	Triangles    int        `json:"triangles"`
-	ODmm         float64    `json:"outer_diameter_mm"`
-	DepthMM      float64    `json:"depth_mm"`
-	PitchMM      float64    `json:"pitch_mm"`
-	WallMM       float64    `json:"wall_mm"`
-	CollarMM     float64    `json:"collar_mm"`
-	Sides        int        `json:"segments"`
-	Jig          *jigPart   `json:"jig,omitempty"`
+	Bellows      int    `json:"bellows"`
+	File         string `json:"file"`
+	Convolutions int    `json:"convolutions"`
+	meshPart
+	ODmm     float64    `json:"outer_diameter_mm"`
+	DepthMM  float64    `json:"depth_mm"`
+	PitchMM  float64    `json:"pitch_mm"`
+	WallMM   float64    `json:"wall_mm"`
+	CollarMM float64    `json:"collar_mm"`
+	Sides    int        `json:"segments"`
+	Profile  string     `json:"profile"`
+	Winding  string     `json:"winding"`
+	Helix    *helixPart `json:"helix,omitempty"`
+	Spine    *spinePart `json:"spine,omitempty"`
+	Jig      *jigPart   `json:"jig,omitempty"`
+}
+
+// helixPart is the thread of a helical bellows (results/export/REFERENCE.md
+// §5): a run-out of runout_mm at each end, between the full-depth turns
+// and the collar, where the depth grows from zero.
+type helixPart struct {
+	LeadMM    float64 `json:"lead_mm"`
+	Hand      string  `json:"hand"`
+	RunoutMM  float64 `json:"runout_mm"`
+	FullTurns int     `json:"full_depth_turns"`
+	HeightMM  float64 `json:"height_mm"`
+}
+
+// spinePart is the spine as the mass model has it (surrogate/REFERENCE.md
+// §2.8): plain wall on the mean radius over an arc about the axis.
+type spinePart struct {
+	WidthMM  float64 `json:"width_mm"`
+	ArcDeg   float64 `json:"arc_deg"`
+	AngleDeg float64 `json:"angle_deg"`
+	RadiusMM float64 `json:"radius_mm"`
+	WallMM   float64 `json:"wall_mm"`
 }
 
 // jigGripMM is the straight handle beyond the bellows' base collar, mm.
 const jigGripMM = 40
 
 type jigPart struct {
-	File            string     `json:"file"`
-	VolumeMM3       float64    `json:"volume_mm3"`
-	MassG           float64    `json:"mass_g"`
-	BoxMinMM        [3]float64 `json:"bbox_min_mm"`
-	BoxMaxMM        [3]float64 `json:"bbox_max_mm"`
-	Triangles       int        `json:"triangles"`
-	RadiusMM        float64    `json:"centreline_radius_mm"`
-	ArcDeg          float64    `json:"arc_deg"`
-	RodDiameterMM   float64    `json:"rod_diameter_mm"`
-	BoreMM          float64    `json:"bellows_bore_mm"`
-	ClearanceMM     float64    `json:"radial_clearance_mm"`
-	SettingOverbend float64    `json:"setting_overbend"`
-	HandleMM        float64    `json:"handle_mm"`
+	File string `json:"file"`
+	meshPart
+	RadiusMM        float64 `json:"centreline_radius_mm"`
+	ArcDeg          float64 `json:"arc_deg"`
+	RodDiameterMM   float64 `json:"rod_diameter_mm"`
+	BoreMM          float64 `json:"bellows_bore_mm"`
+	ClearanceMM     float64 `json:"radial_clearance_mm"`
+	SettingOverbend float64 `json:"setting_overbend"`
+	HandleMM        float64 `json:"handle_mm"`
 }
 
 type exportOutput struct {
@@ -146,6 +180,7 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		return err
 	}
 	out := exportOutput{Design: pos[0]}
+	helicalParts := false
 	for i, b := range d.Bellows {
 		if b.Model == nil {
 			out.Skipped = append(out.Skipped, fmt.Sprintf("bellows %d: measured form, no geometry to export", i+1))
@@ -170,14 +205,27 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 		if err := os.WriteFile(filepath.Join(tmp, name), buf.Bytes(), 0o644); err != nil {
 			return err
 		}
-		part := exportPart{Bellows: i + 1, File: name, Convolutions: n}
+		part := exportPart{Bellows: i + 1, File: name, Convolutions: n, meshPart: newMeshPart(m, b.Model.Material.Density),
+			ODmm: g.OuterDiameter * 1e3, DepthMM: g.Depth * 1e3, PitchMM: g.Pitch * 1e3, WallMM: g.Wall * 1e3,
+			CollarMM: *collar, Sides: *sides, Profile: g.Profile.String(), Winding: "revolved"}
+		runout := 0.0
+		if g.Helical {
+			helicalParts = true
+			runout = g.Pitch
+			part.Winding = "helical"
+			part.Helix = &helixPart{LeadMM: g.Pitch * 1e3, Hand: "right", RunoutMM: runout * 1e3, FullTurns: n,
+				HeightMM: float64(n+2)*g.Pitch*1e3 + 2*(*collar)}
+		}
+		if g.SpineWidth > 0 {
+			part.Spine = &spinePart{WidthMM: g.SpineWidth * 1e3, ArcDeg: g.SpineWidth / g.MeanRadius() * 180 / math.Pi,
+				AngleDeg: g.SpineAngle * 180 / math.Pi, RadiusMM: g.MeanRadius() * 1e3, WallMM: g.Wall * 1e3}
+		}
 		if k0 := math.Hypot(b.Precurvature[0], b.Precurvature[1]); k0 > 0 && b.CurvedLength > 0 {
-			jp, jm, err := heatSettingJig(b, k0, *collar, *clearance, *sides)
+			jp, jm, err := heatSettingJig(b, k0, *collar+runout*1e3, *clearance, *sides)
 			if err != nil {
 				return usagef("%s: bellows %d: heat-setting jig: %v", pos[0], i+1, err)
 			}
 			jp.File = fmt.Sprintf("jig-%d.stl", i+1)
-			jp.MassG = jp.VolumeMM3 * 1e-9 * b.Model.Material.Density * 1e3
 			var buf bytes.Buffer
 			if err := jm.WriteSTL(&buf, fmt.Sprintf("plica jig %d, mm", i+1)); err != nil {
 				return err
@@ -195,18 +243,16 @@ func runExport(ctx context.Context, fs *flag.FlagSet, args []string, stdout, std
 			plan = append(plan, problems.PlanBench(fmt.Sprintf("bellows-%d", i+1), axis,
 				problems.EffectiveEI(stiff[i].EI, axis), float64(n)*g.Pitch, ks)...)
 		}
-		lo, hi := m.Bounds()
-		vol := m.Volume()
-		part.VolumeMM3 = vol
-		out.Parts = append(out.Parts, exportPart{Bellows: part.Bellows, File: name, Convolutions: n, Jig: part.Jig,
-			VolumeMM3: vol, MassG: vol * 1e-9 * b.Model.Material.Density * 1e3,
-			BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
-			ODmm: g.OuterDiameter * 1e3, DepthMM: g.Depth * 1e3, PitchMM: g.Pitch * 1e3, WallMM: g.Wall * 1e3,
-			CollarMM: *collar, Sides: *sides})
+		out.Parts = append(out.Parts, part)
 	}
 	if len(plan) > 0 {
 		var buf bytes.Buffer
-		if err := problems.WriteBenchPlan(&buf, benchComments(banded), plan, banded); err != nil {
+		comments := benchComments(banded)
+		if helicalParts {
+			comments = append(comments[:len(comments)-1], "helical bellows: a run-out turn at each end (depth growing from zero) lies between the full-depth turns and the collars;",
+				"free_length_mm and the predictions count the full-depth turns only, so the run-outs add compliance the prediction leaves out", comments[len(comments)-1])
+		}
+		if err := problems.WriteBenchPlan(&buf, comments, plan, banded); err != nil {
 			return err
 		}
 		if err := os.WriteFile(filepath.Join(tmp, "bench.csv"), buf.Bytes(), 0o644); err != nil {
@@ -301,8 +347,7 @@ func heatSettingJig(b objective.Bellows, k0, collarMM, clearanceMM float64, side
 	if err := m.Check(); err != nil {
 		return nil, export.Mesh{}, fmt.Errorf("mesh is not closed: %w", err)
 	}
-	lo, hi := m.Bounds()
-	return &jigPart{VolumeMM3: m.Volume(), BoxMinMM: lo, BoxMaxMM: hi, Triangles: len(m.T),
+	return &jigPart{meshPart: newMeshPart(m, b.Model.Material.Density),
 		RadiusMM: path.Radius * 1e3, ArcDeg: path.Angle() * 180 / math.Pi, RodDiameterMM: d * 1e3, BoreMM: bore * 1e3,
 		ClearanceMM: clearanceMM, SettingOverbend: ob, HandleMM: path.Handle * 1e3}, m, nil
 }

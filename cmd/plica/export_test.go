@@ -213,3 +213,52 @@ func TestExportPrintSheet(t *testing.T) {
 		assert.Contains(t, sheet, want)
 	}
 }
+
+// TestExportHelicalWithSpine: a helical bellows with a spine is meshed
+// (the surrogate models the combination, surrogate/REFERENCE.md §2.7),
+// 2·collar + (n+2)·pitch high with its two run-out turns, and export.json
+// gives the thread and the spine with units in the key names; the spine's
+// arc is its width over the mean radius (surrogate/REFERENCE.md §2.8);
+// the jig's tip and handle also cover the run-outs.
+func TestExportHelicalWithSpine(t *testing.T) {
+	dir := t.TempDir()
+	src, err := os.ReadFile(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	text := strings.Replace(string(src), "wall_mm = 0.5\n", "wall_mm = 0.5\nwinding = \"helical\"\nspine_width_mm = 4\nspine_angle_deg = 90\n", 1)
+	require.NotEqual(t, string(src), text)
+	design := filepath.Join(dir, "helical.toml")
+	require.NoError(t, os.WriteFile(design, []byte(text), 0o644))
+	out := filepath.Join(dir, "o")
+	code, _, errOut := runCLI(t, "export", design, "-o", out, "-segments", "24", "-collar-mm", "4")
+	require.Equal(t, 0, code, errOut)
+	js, err := os.ReadFile(filepath.Join(out, "export.json"))
+	require.NoError(t, err)
+	var res exportOutput
+	require.NoError(t, json.Unmarshal(js, &res))
+	require.Len(t, res.Parts, 2)
+	h := res.Parts[0]
+	assert.Equal(t, "helical", h.Winding)
+	require.NotNil(t, h.Helix)
+	assert.Equal(t, 10.0, h.Helix.LeadMM, "lead = pitch")
+	assert.Equal(t, 10.0, h.Helix.RunoutMM)
+	assert.Equal(t, 25, h.Helix.FullTurns)
+	assert.InDelta(t, 2*4+27*10, h.BoxMaxMM[2]-h.BoxMinMM[2], 1e-6)
+	assert.InDelta(t, h.Helix.HeightMM, h.BoxMaxMM[2], 1e-6)
+	require.NotNil(t, h.Spine)
+	rm := (20 - 0.5 - 3) / 2.0 // mean radius, mm (surrogate.Geometry.MeanRadius)
+	assert.InDelta(t, 4, h.Spine.WidthMM, 1e-12)
+	assert.InDelta(t, 90, h.Spine.AngleDeg, 1e-12)
+	assert.InDelta(t, rm, h.Spine.RadiusMM, 1e-12)
+	assert.InDelta(t, 4/rm*180/math.Pi, h.Spine.ArcDeg, 1e-9)
+	assert.InDelta(t, 0.5, h.Spine.WallMM, 1e-12)
+	assert.Equal(t, "revolved", res.Parts[1].Winding, "the outer bellows is unchanged")
+	assert.Nil(t, res.Parts[1].Helix)
+	assert.Nil(t, res.Parts[1].Spine)
+	assert.InDelta(t, 40+4+10+150, h.Jig.HandleMM, 1e-9, "grip + collar + run-out + straight length")
+	x, err := os.ReadFile(filepath.Join(out, h.File))
+	require.NoError(t, err)
+	require.Len(t, x, 84+50*h.Triangles, "binary STL layout")
+	bench, err := os.ReadFile(filepath.Join(out, "bench.csv"))
+	require.NoError(t, err)
+	assert.Contains(t, string(bench), "run-out", "the bench plan says what its free length leaves out")
+}

@@ -216,16 +216,7 @@ func wallAndPlain(mer convolution.Meridian, n int, t, collar float64, perPiece i
 		return nil, nil, fmt.Errorf("wall: %d convolutions, %d points a piece", n, perPiece)
 	}
 	q := mer.Pitch()
-	var half [][2]float64
-	for _, p := range mer.Pieces() {
-		for i := 0; i < perPiece; i++ {
-			if len(half) > 0 && i == 0 {
-				continue
-			}
-			u := float64(i) / float64(perPiece-1)
-			half = append(half, piecePoint(p, u))
-		}
-	}
+	half := halfPoints(mer, perPiece, t)
 	// full centreline: collar, then root→crown→root for each convolution.
 	var c [][2]float64
 	rRoot := half[0][0]
@@ -319,6 +310,31 @@ func offset(c [][2]float64, d float64) [][2]float64 {
 		out[i] = [2]float64{c[i][0] + d*n[0], c[i][1] + d*n[1]}
 	}
 	return out
+}
+
+// halfPoints samples the half meridian (root to crown, m) with perPiece
+// points on each curved piece, the joints shared. A straight piece gets
+// segments no shorter than the wall t (and at most perPiece − 1): the
+// miter offset moves a corner of turn θ by t/2·tan(θ/2) along each edge,
+// so shorter edges at a sharp corner (a trapezoid's) would fold the
+// offset wall; t is enough for turns up to 2·atan 2 ≈ 127°.
+func halfPoints(mer convolution.Meridian, perPiece int, t float64) [][2]float64 {
+	var half [][2]float64
+	for _, p := range mer.Pieces() {
+		np := perPiece
+		if p.Kind == convolution.Line {
+			l := math.Hypot(p.R1-p.R0, p.Z1-p.Z0)
+			np = 1 + max(1, min(perPiece-1, int(l/t)))
+		}
+		for i := 0; i < np; i++ {
+			if len(half) > 0 && i == 0 {
+				continue
+			}
+			u := float64(i) / float64(np-1)
+			half = append(half, piecePoint(p, u))
+		}
+	}
+	return half
 }
 
 func piecePoint(p convolution.Piece, u float64) [2]float64 {
