@@ -42,6 +42,16 @@ func diagnosisLines(d *results.Diagnosis) []string {
 	return out
 }
 
+// frontLimitLines turns run.json's front limits into report lines, one
+// per objective: what limits the front design best in it.
+func frontLimitLines(ls []results.FrontLimit) []string {
+	var out []string
+	for _, l := range ls {
+		out = append(out, l.Sentence+".")
+	}
+	return out
+}
+
 func sortedKeys(m map[string]float64) []string {
 	keys := make([]string, 0, len(m))
 	for k := range m {
