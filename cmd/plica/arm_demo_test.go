@@ -56,8 +56,8 @@ func TestArmDemo(t *testing.T) {
 		reach = max(reach, num(row, "reach_mm"))
 		bend = max(bend, num(row, "bend_angle_max_deg"))
 	}
-	assert.Greater(t, reach, 25.0, "best reach (mm)")
-	assert.Greater(t, bend, 25.0, "largest bend (deg)")
+	assert.Greater(t, reach, 35.0, "best reach (mm)")
+	assert.Greater(t, bend, 35.0, "largest bend (deg)")
 
 	code, out, errOut = runCLI(t, "check", filepath.Join(rdir, "designs", "front-001.toml"))
 	assert.Equal(t, 0, code, "front-001 passes check:\n%s%s", out, errOut)
