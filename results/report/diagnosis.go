@@ -15,7 +15,12 @@ func diagnosisLines(d *results.Diagnosis) []string {
 	if d == nil {
 		return nil
 	}
-	out := []string{fmt.Sprintf("Diagnosis: %d feasible of %d evaluations.", d.Feasible, d.Evaluations)}
+	first := fmt.Sprintf("Diagnosis: %d feasible of %d evaluations.", d.Feasible, d.Evaluations)
+	if d.SinceEvaluation > 0 {
+		first = fmt.Sprintf("Diagnosis: %d feasible of the %d evaluations after evaluation %d (the run was resumed from a checkpoint without diagnosis counters).",
+			d.Feasible, d.Evaluations, d.SinceEvaluation)
+	}
+	out := []string{first}
 	for _, s := range d.Sentences {
 		out = append(out, "Diagnosis: "+s+".")
 	}

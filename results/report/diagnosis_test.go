@@ -33,6 +33,10 @@ func TestDiagnosisLines(t *testing.T) {
 	d.LeastInfeasible[0].DesignFile = results.ClosestFileName(1)
 	lines = diagnosisLines(d)
 	assert.Equal(t, "Diagnosis: the least-infeasible design is evaluation 7 of evaluations.csv; it violates task_miss 3; it and the next closest are design files (closest/design-1.toml to design-2.toml) that plica check accepts.", lines[len(lines)-1])
+
+	// after a resume from an old checkpoint, the first line says what it covers
+	d.SinceEvaluation = 40
+	assert.Equal(t, "Diagnosis: 0 feasible of the 100 evaluations after evaluation 40 (the run was resumed from a checkpoint without diagnosis counters).", diagnosisLines(d)[0])
 }
 
 // TestReportFrontLimits: the report shows run.json's front limits, one
