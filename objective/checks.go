@@ -42,6 +42,9 @@ func (e *evaluator) checks(res *Result) {
 	if q.MaxStraightTipOffset > 0 {
 		add("straight_tip_offset", sc.StraightTipOffset*mmPerM, q.MaxStraightTipOffset*mmPerM, "mm", true, "at the straightest configuration")
 	}
+	if q.MaxStraightTipAngle > 0 {
+		add("straight_tip_angle", sc.StraightTipAngle*degPerR, q.MaxStraightTipAngle*degPerR, "deg", true, "tip tangent from the base axis, straightest configuration")
+	}
 	if len(e.sc.Tasks) > 0 {
 		min := q.MinTaskCoverage
 		if min == 0 && !q.MinTaskCoverageSet {

@@ -49,11 +49,17 @@ type Scores struct {
 
 	// The curvature scores look at the nested section: links where two or
 	// more bellows are present (all links for a single bellows). A curved
-	// tip that sticks out of the nest shows in StraightTipOffset.
+	// tip that sticks out of the nest shows in StraightTipOffset or
+	// StraightTipAngle.
 	ResidualCurvature float64 // largest nested-section curvature at the straightest configuration, 1/m
 	StraightTipOffset float64 // tip lateral offset at the straightest configuration, m
-	CurvatureMin      float64 // smallest (over the workspace) of the largest nested-section curvature, 1/m
-	CurvatureMax      float64 // largest nested-section curvature over the workspace, 1/m
+	// StraightTipAngle is the angle of the tip tangent from the base axis
+	// at the straightest configuration, rad: a nest that bends back under
+	// a curved tip sticking out of it puts the tip on the axis (small
+	// StraightTipOffset) while the tip still points off it.
+	StraightTipAngle float64
+	CurvatureMin     float64 // smallest (over the workspace) of the largest nested-section curvature, 1/m
+	CurvatureMax     float64 // largest nested-section curvature over the workspace, 1/m
 
 	// PeakStrain is the largest meridional wall strain over the workspace
 	// and all bellows with a wall model (NaN when no bellows has one).
@@ -396,6 +402,7 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	}
 	sc.BendAngleRange = sc.BendAngleMax - sc.BendAngleMin
 	sc.ResidualCurvature = straightest.kmax
+	sc.StraightTipAngle = math.Acos(clamp(straightest.tip.R[2][2], -1, 1))
 	sc.PeakStrain = math.NaN()
 	for i, s := range e.st {
 		if s.Section == nil {

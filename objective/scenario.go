@@ -143,6 +143,7 @@ type Requirements struct {
 	MinBendAngleRange    float64 // rad
 	MaxResidualCurvature float64 // 1/m
 	MaxStraightTipOffset float64 // m
+	MaxStraightTipAngle  float64 // rad, tip tangent from the base axis at the straightest configuration
 	// StrainSafetyFactor divides the material's allowable strain (which is
 	// already a design value). Zero: 1.
 	StrainSafetyFactor float64

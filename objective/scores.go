@@ -27,6 +27,7 @@ var scoreList = []Score{
 	{"task_miss_mm", "largest miss of a task point beyond its tolerance, loaded shape (an angular miss counts as the arc arm length × angle)", func(s *Scores) float64 { return s.TaskMiss * mmPerM }},
 	{"residual_curvature_per_m", "largest nested-section curvature at the straightest configuration", func(s *Scores) float64 { return s.ResidualCurvature }},
 	{"straight_tip_offset_mm", "tip lateral offset at the straightest configuration", func(s *Scores) float64 { return s.StraightTipOffset * mmPerM }},
+	{"straight_tip_angle_deg", "angle of the tip tangent from the base axis at the straightest configuration", func(s *Scores) float64 { return s.StraightTipAngle * degPerR }},
 	{"curvature_min_per_m", "smallest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMin }},
 	{"curvature_max_per_m", "largest nested-section curvature over the workspace", func(s *Scores) float64 { return s.CurvatureMax }},
 	{"peak_strain", "largest meridional wall strain over the workspace", func(s *Scores) float64 { return s.PeakStrain }},

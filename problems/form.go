@@ -276,6 +276,7 @@ type printerForm struct {
 type requirementsForm struct {
 	MaxMass              *num  `toml:"max_mass_g"`
 	MaxResidualCurvature *num  `toml:"max_residual_curvature_per_m"`
+	MaxStraightTipAngle  *num  `toml:"max_straight_tip_angle_deg"`
 	MaxStraightTipOffset *num  `toml:"max_straight_tip_offset_mm"`
 	MaxTipSag            *num  `toml:"max_tip_sag_mm"`
 	MinBendAngleRange    *num  `toml:"min_bend_angle_range_deg"`

@@ -12,7 +12,7 @@ var (
 	workspaceKeys   = []string{"relative_steps", "base_steps", "insertion_steps", "samples", "voxel_mm"}
 	taskKeys        = []string{"position_mm", "tolerance_mm", "direction", "direction_tolerance_deg", "loaded"}
 	requirementKeys = []string{"max_tip_sag_mm", "min_reach_mm", "min_bend_angle_range_deg",
-		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "strain_safety_factor",
+		"max_residual_curvature_per_m", "max_straight_tip_offset_mm", "max_straight_tip_angle_deg", "strain_safety_factor",
 		"min_stability_margin", "min_clearance_mm", "min_task_coverage", "max_mass_g", "min_payload_to_weight", "min_pass_probability",
 		"within_validated_range"}
 )
@@ -146,6 +146,7 @@ func readRequirements(t *table, q *objective.Requirements) {
 	q.MinBendAngleRange = pos("min_bend_angle_range_deg", "an angle in degrees", deg)
 	q.MaxResidualCurvature = pos("max_residual_curvature_per_m", "a curvature in 1/m", 1)
 	q.MaxStraightTipOffset = pos("max_straight_tip_offset_mm", "a distance in mm", mm)
+	q.MaxStraightTipAngle = pos("max_straight_tip_angle_deg", "an angle in degrees", deg)
 	if v, ok := t.number("strain_safety_factor", "a factor >= 1", false); ok {
 		if v < 1 {
 			t.r.errorf(t.key("strain_safety_factor"), "%s is out of range (expected a factor >= 1)", fmtNum(v))

@@ -2,6 +2,7 @@ package results
 
 import (
 	"fmt"
+	"io"
 	"math"
 	"sort"
 	"strings"
@@ -36,6 +37,11 @@ type Diagnosis struct {
 	// constraint that caps it (a session's own evaluations: a resumed run
 	// explains from the evaluations since it resumed).
 	Explanations []string `json:"explanations,omitempty"`
+	// SinceEvaluation is 0 when the diagnosis covers every evaluation of
+	// the run; after a resume from a checkpoint that kept no diagnosis
+	// counters (written by an older plica), the evaluation after which it
+	// starts.
+	SinceEvaluation int64 `json:"since_evaluation,omitempty"`
 }
 
 // BlockingConstraint is one constraint's record over the evaluations.
@@ -127,7 +133,11 @@ func WriteDiagnosis(w interface{ Write([]byte) (int, error) }, d *Diagnosis) {
 	if d == nil {
 		return
 	}
-	fmt.Fprintf(w, "diagnosis: %d feasible of %d evaluations\n", d.Feasible, d.Evaluations)
+	fmt.Fprintf(w, "diagnosis: %d feasible of %d evaluations", d.Feasible, d.Evaluations)
+	if d.SinceEvaluation > 0 {
+		fmt.Fprintf(w, " (only those after evaluation %d: the run was resumed from a checkpoint without diagnosis counters)", d.SinceEvaluation)
+	}
+	fmt.Fprintln(w)
 	for _, s := range d.Sentences {
 		fmt.Fprintf(w, "  %s\n", s)
 	}
@@ -152,4 +162,212 @@ func finite(x float64) float64 {
 		return 0
 	}
 	return x
+}
+
+// activeTolerance is the margin, as a share of the limit, within which a
+// constraint counts as active at a front design (a designer's choice: a
+// limit met with less than 5 % to spare is what stops that design going
+// further).
+const activeTolerance = 0.05
+
+// FrontLimit says what limits the front design that is best in one
+// objective (run.json "front_limits"): the constraints it meets with
+// little to spare and the variables it holds at a bound of their range.
+type FrontLimit struct {
+	// Objective is the objective's column (e.g. "reach_mm"), Goal
+	// "maximize" or "minimize".
+	Objective string `json:"objective"`
+	Goal      string `json:"goal"`
+	// Design is the front design best in it (front-NNN, as in designs/)
+	// and Value its value of the objective.
+	Design string  `json:"design"`
+	Value  float64 `json:"value"`
+	// Active lists the constraints met within activeTolerance of their
+	// limit, the tightest first.
+	Active []ActiveConstraint `json:"active_constraints"`
+	// Nearest is the constraint with the smallest margin when none is
+	// active (nil when the design has no constraint with a margin).
+	Nearest *ActiveConstraint `json:"nearest_constraint,omitempty"`
+	// AtBound names the variables it holds within 1 % of the range of a
+	// bound ("bellows2_wall_mm at its lower bound 0.8").
+	AtBound []string `json:"variables_at_bound"`
+	// Sentence says the above in one line.
+	Sentence string `json:"sentence"`
+}
+
+// ActiveConstraint is one constraint of a front design and its margin.
+type ActiveConstraint struct {
+	Name string `json:"name"`
+	// Margin is the slack, as a share of the limit (0.02: met with 2 %
+	// to spare); in the check's unit for a zero limit.
+	Margin float64 `json:"margin"`
+	// Relative is false for a zero limit, whose margin is in the unit.
+	Relative bool `json:"relative"`
+	// Value and Limit are the check's, in Unit (absent for a
+	// [[constraint]] slot, whose value is the score's).
+	Value float64 `json:"value,omitempty"`
+	Limit float64 `json:"limit,omitempty"`
+	Unit  string  `json:"unit,omitempty"`
+	Max   bool    `json:"max"`
+	// fromCheck says Value, Limit and Unit are a check's.
+	fromCheck bool
+}
+
+// FrontLimits says, for each objective, what limits the front design best
+// in it: the constraints within activeTolerance of their limit and the
+// variables within boundTolerance of a bound. rows are the front as
+// written (front-NNN numbering). A constraint with a zero limit whose
+// margin is exactly zero is left out: such values are clipped at zero
+// (validated_range, task_miss), so meeting them exactly is their normal
+// state, not a sign that they bind.
+func FrontLimits(spec *problems.Spec, rows []FrontRow) []FrontLimit {
+	out := []FrontLimit{}
+	if len(rows) == 0 {
+		return out
+	}
+	names := spec.ConstraintNames()
+	cols := NewColumns(spec)
+	p := spec.SearchProblem()
+	for i, o := range spec.Objectives {
+		best := -1
+		for r := range rows {
+			f := rows[r].Design.F
+			if i < len(f) && (best < 0 || f[i] < rows[best].Design.F[i]) {
+				best = r
+			}
+		}
+		if best < 0 {
+			continue
+		}
+		row := rows[best]
+		goal := "minimize"
+		if o.Maximize {
+			goal = "maximize"
+		}
+		fl := FrontLimit{Objective: cols.Objectives[i], Goal: goal, Design: frontDesignName(row.ID),
+			Value: o.Natural(row.Design.F[i]), Active: []ActiveConstraint{}, AtBound: []string{}}
+		var cands []ActiveConstraint
+		for j, g := range row.Design.G {
+			if j >= len(names) || math.IsNaN(g) || math.IsInf(g, 0) || g > 0 {
+				continue
+			}
+			a := ActiveConstraint{Name: names[j], Margin: -g, Relative: true}
+			if j < len(spec.Checks) && row.Result != nil && j < len(row.Result.Checks) {
+				c := row.Result.Checks[j]
+				a.Value, a.Limit, a.Unit, a.Max, a.fromCheck = c.Value, c.Limit, c.Unit, c.Max, true
+				a.Relative = c.Limit != 0
+			} else if k := j - len(spec.Checks); k >= 0 {
+				a.Relative = constraintLimit(spec, k) != 0
+			} else {
+				a.Relative = g != 0 // a check whose re-evaluation failed: its limit is unknown
+			}
+			if !a.Relative && g == 0 {
+				continue
+			}
+			cands = append(cands, a)
+		}
+		sort.SliceStable(cands, func(a, b int) bool { return cands[a].Margin < cands[b].Margin })
+		for _, a := range cands {
+			if a.Margin <= activeTolerance {
+				fl.Active = append(fl.Active, a)
+			}
+		}
+		if len(fl.Active) == 0 && len(cands) > 0 {
+			n := cands[0]
+			fl.Nearest = &n
+		}
+		for v := 0; v < p.Dim && v < len(row.Design.X); v++ {
+			if p.Categorical != nil && p.Categorical[v] > 0 {
+				continue
+			}
+			span := p.Upper[v] - p.Lower[v]
+			if !(span > 0) || math.IsInf(span, 0) {
+				continue
+			}
+			x := row.Design.X[v]
+			switch {
+			case x-p.Lower[v] <= boundTolerance*span:
+				fl.AtBound = append(fl.AtBound, fmt.Sprintf("%s at its lower bound %s", cols.Variables[v], formatFloat(p.Lower[v])))
+			case p.Upper[v]-x <= boundTolerance*span:
+				fl.AtBound = append(fl.AtBound, fmt.Sprintf("%s at its upper bound %s", cols.Variables[v], formatFloat(p.Upper[v])))
+			}
+		}
+		fl.Sentence = limitSentence(fl)
+		out = append(out, fl)
+	}
+	return out
+}
+
+// constraintLimit is the limit of the k-th [[constraint]] slot.
+func constraintLimit(spec *problems.Spec, k int) float64 {
+	for _, c := range spec.Constraints {
+		for _, lim := range []float64{c.Min, c.Max} {
+			if math.IsNaN(lim) {
+				continue
+			}
+			if k == 0 {
+				return lim
+			}
+			k--
+		}
+	}
+	return math.NaN()
+}
+
+// frontDesignName is the name of front design id (front-001).
+func frontDesignName(id int) string { return fmt.Sprintf("front-%03d", id) }
+
+// describe says one constraint's margin: "peak_strain[1] (0.0488 against
+// at most 0.05, margin 2.4 %)".
+func (a ActiveConstraint) describe() string {
+	m := fmt.Sprintf("margin %.2g %%", 100*a.Margin)
+	if !a.Relative {
+		m = "margin " + withUnit(a.Margin, a.Unit)
+	}
+	if a.fromCheck {
+		op := "at most"
+		if !a.Max {
+			op = "at least"
+		}
+		return fmt.Sprintf("%s (%s against %s %s, %s)", a.Name, withUnit(a.Value, a.Unit), op, withUnit(a.Limit, a.Unit), m)
+	}
+	return fmt.Sprintf("%s (%s)", a.Name, m)
+}
+
+// limitSentence is a front limit's one computed sentence.
+func limitSentence(fl FrontLimit) string {
+	verb := "lowest"
+	if fl.Goal == "maximize" {
+		verb = "highest"
+	}
+	s := fmt.Sprintf("%s, %s in %s (%.4g),", fl.Objective, verb, fl.Design, fl.Value)
+	var parts []string
+	for _, a := range fl.Active {
+		parts = append(parts, a.describe())
+	}
+	switch {
+	case len(parts) > 0:
+		s += " limited by " + strings.Join(parts, ", ")
+		if len(fl.AtBound) > 0 {
+			s += " and " + strings.Join(fl.AtBound, ", ")
+		}
+	case len(fl.AtBound) > 0:
+		s += " limited by " + strings.Join(fl.AtBound, ", ")
+		if fl.Nearest != nil {
+			s += fmt.Sprintf("; no constraint within %.0f %% of its limit (nearest %s)", 100*activeTolerance, fl.Nearest.describe())
+		}
+	default:
+		s += fmt.Sprintf(" has no constraint within %.0f %% of its limit and no variable at a bound, so the trade-off with the other objectives (or a search not yet converged) limits it", 100*activeTolerance)
+		if fl.Nearest != nil {
+			s += fmt.Sprintf("; nearest %s", fl.Nearest.describe())
+		}
+	}
+	return s
+}
+
+// WriteFrontLimits prints the front limits for a terminal, one a line.
+func WriteFrontLimits(w io.Writer, ls []FrontLimit) {
+	for _, l := range ls {
+		fmt.Fprintf(w, "limits: %s\n", l.Sentence)
+	}
 }

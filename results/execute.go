@@ -62,6 +62,8 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	var files map[string][]byte
 	var text []byte
 	var earlierFiles []string // the files of a resumed run's earlier sessions
+	var saved *diagnosisState // the diagnosis gathered before a resume
+	since := int64(0)         // the evaluation the diagnosis starts from (0: all)
 	if opt.Resume {
 		old, err := f.ReadInfo()
 		if err != nil {
@@ -69,14 +71,29 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		}
 		info = old
 		earlierFiles = old.Files
+		if err := sameConstraints(f, old, spec); err != nil {
+			return nil, err
+		}
 		if f.HasCheckpoint() {
-			cp, why, err := f.readCheckpoint()
+			cp, st, why, err := f.readCheckpoint()
 			if err != nil {
 				return nil, err
 			}
 			note(why)
 			set.Resume = cp
 			keep = cp.Evaluations
+			saved = st
+			if st != nil && st.Evaluations+cp.Failures != cp.Evaluations {
+				note(fmt.Sprintf("the saved diagnosis counts %d evaluations, the checkpoint %d: the diagnosis covers only the evaluations since this resume",
+					st.Evaluations, cp.Evaluations-cp.Failures))
+				saved = nil
+			}
+			if saved == nil && keep > 0 {
+				since = keep
+				if st == nil {
+					note(fmt.Sprintf("the checkpoint predates saved diagnosis counters: the diagnosis covers only the evaluations since this resume (after evaluation %d)", keep))
+				}
+			}
 		} else {
 			// Stopped before the first checkpoint: start again from the
 			// beginning with the same seed, which repeats the same
@@ -169,8 +186,16 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 
 	var logErr error
 	diag := &search.Diagnoser{}
+	ex := newExplainer(spec)
+	if saved != nil {
+		if err := saved.restore(diag, ex, spec.NumConstraints()); err != nil {
+			note(fmt.Sprintf("the saved diagnosis does not fit the problem (%v): the diagnosis covers only the evaluations since this resume", err))
+			diag, ex, since = &search.Diagnoser{}, newExplainer(spec), keep
+		}
+	}
 	set.Evaluated = func(d *search.Design) {
 		diag.Add(d)
+		ex.commit(d.Index, d.Failed != "")
 		if err := log.Add(d); err != nil && logErr == nil {
 			logErr = err
 		}
@@ -193,7 +218,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		if logErr != nil {
 			return logErr
 		}
-		if err := f.WriteCheckpoint(c); err != nil {
+		if err := f.writeCheckpoint(c, saveDiagnosis(diag, ex)); err != nil {
 			return err
 		}
 		if err := f.WriteHistory(c.History); err != nil {
@@ -206,7 +231,6 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.Files = f.Written()
 		return f.WriteInfo(info)
 	}
-	ex := newExplainer(spec)
 	problem := spec.SearchProblem()
 	if ex != nil {
 		problem = spec.ObservedSearchProblem(ex.add)
@@ -250,6 +274,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		stallTol = search.DefaultStallTolerance
 	}
 	info.Warnings = frontWarnings(spec, res.Front, res.History, stallTol)
+	info.FrontLimits = FrontLimits(spec, rows)
 	if w, ok := ex.orderWarning(); ok {
 		info.Warnings = append(info.Warnings, w)
 	}
@@ -258,6 +283,7 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 		info.Diagnosis = Diagnose(spec, diag)
 		if info.Diagnosis != nil {
 			info.Diagnosis.Explanations = ex.sentences(info.Diagnosis.Blocking)
+			info.Diagnosis.SinceEvaluation = since
 		}
 		if err := writeClosest(f, spec, info, info.Diagnosis, diag.Least); err != nil {
 			return fail(res, err)
@@ -414,4 +440,31 @@ func finiteOr0(x float64) float64 {
 func Exists(path string) bool {
 	_, err := os.Stat(path)
 	return err == nil
+}
+
+// renamedConstraints maps constraint columns of older plica versions to
+// the column that replaced them and why their margins cannot be carried
+// over.
+var renamedConstraints = map[string]struct{ now, why string }{
+	"g_task_coverage": {"g_task_miss", "the task constraint is now the miss distance in mm, no longer the covered fraction, so the saved margins mean something else"},
+}
+
+// sameConstraints refuses to resume a run whose constraint columns
+// (run.json) differ from those this plica makes of its problem: the
+// checkpoint's margins would be read as other constraints. Run folders
+// written before run.json listed constraints are let through (the
+// evaluations.csv header check catches them).
+func sameConstraints(f *Folder, old *RunInfo, spec *problems.Spec) error {
+	now := NewColumns(spec).Constraints
+	if len(old.Constraints) == 0 || slices.Equal(old.Constraints, now) {
+		return nil
+	}
+	for _, c := range old.Constraints {
+		if r, ok := renamedConstraints[c]; ok && slices.Contains(now, r.now) {
+			return inputErrorf("%s: cannot resume: the run was made by an older plica with constraint %s, which is now %s (%s); start a new search from its problem: plica search %s -o NEW_RUN",
+				f.Dir, c, r.now, r.why, f.Path(ProblemFile))
+		}
+	}
+	return inputErrorf("%s: cannot resume: the run's constraints (%s) differ from those of its problem.toml as this plica reads it (%s); start a new search from its problem: plica search %s -o NEW_RUN",
+		f.Dir, strings.Join(old.Constraints, ", "), strings.Join(now, ", "), f.Path(ProblemFile))
 }

@@ -45,6 +45,8 @@ type explainer struct {
 	// pair of bellows i+1 and i+2 was objective.Result.MisorderedPairs.
 	evals      int64
 	misordered map[int]int64
+	// pending holds the evaluations add saw and commit has not recorded.
+	pending map[int64]*pendingEval
 }
 
 type reachRecord struct {
@@ -88,8 +90,20 @@ func newExplainer(spec *problems.Spec) *explainer {
 	return ex
 }
 
-// add records one evaluation (problems.Spec.ObservedSearchProblem's
-// observer).
+// pendingEval is what add keeps of one evaluation until the search
+// records it (commit): the evaluations of a generation the search
+// abandons (Ctrl-C) are never committed, so the explainer holds exactly
+// the evaluations a checkpoint holds.
+type pendingEval struct {
+	reach      float64
+	haveReach  bool
+	g          []float64
+	checks     []objective.Check
+	misordered []int
+}
+
+// add keeps one evaluation (problems.Spec.ObservedSearchProblem's
+// observer) until commit records it.
 func (ex *explainer) add(index int64, res *objective.Result, g []float64) {
 	if len(g) != len(ex.names) || len(res.Checks) != len(ex.best) {
 		return
@@ -100,32 +114,53 @@ func (ex *explainer) add(index int64, res *objective.Result, g []float64) {
 		}
 	}
 	reach := res.Scores.Reach
-	haveReach := !math.IsNaN(reach) && !math.IsInf(reach, 0)
+	p := &pendingEval{reach: reach, haveReach: !math.IsNaN(reach) && !math.IsInf(reach, 0),
+		g: slices.Clone(g), checks: slices.Clone(res.Checks), misordered: slices.Clone(res.MisorderedPairs)}
 	ex.mu.Lock()
 	defer ex.mu.Unlock()
+	if ex.pending == nil {
+		ex.pending = map[int64]*pendingEval{}
+	}
+	ex.pending[index] = p
+}
+
+// commit records the evaluation index (when failed is false) that add kept, if
+// any, and forgets it (the search's Evaluated hook, for every evaluation
+// it records; a design the search counts as failed is forgotten only).
+func (ex *explainer) commit(index int64, failed bool) {
+	if ex == nil {
+		return
+	}
+	ex.mu.Lock()
+	defer ex.mu.Unlock()
+	p, ok := ex.pending[index]
+	delete(ex.pending, index)
+	if !ok || failed {
+		return
+	}
 	ex.evals++
-	for _, i := range res.MisorderedPairs {
+	for _, i := range p.misordered {
 		if ex.misordered == nil {
 			ex.misordered = map[int]int64{}
 		}
 		ex.misordered[i]++
 	}
 	others := true
-	for j, v := range g {
-		if v <= 0 && haveReach {
-			ex.reachMeeting[j].offer(reach, index)
+	for j, v := range p.g {
+		if v <= 0 && p.haveReach {
+			ex.reachMeeting[j].offer(p.reach, index)
 		}
 		if v > 0 && !reachNames[ex.names[j]] {
 			others = false
 		}
 	}
-	if haveReach {
-		ex.reachAll.offer(reach, index)
+	if p.haveReach {
+		ex.reachAll.offer(p.reach, index)
 		if others {
-			ex.reachOthers.offer(reach, index)
+			ex.reachOthers.offer(p.reach, index)
 		}
 	}
-	for j, c := range res.Checks {
+	for j, c := range p.checks {
 		if math.IsNaN(c.Value) {
 			continue
 		}

@@ -62,6 +62,7 @@ func TestExplainerSentences(t *testing.T) {
 			reachMeeting: make([]reachRecord, len(names)), best: make([]checkRecord, len(names))}
 		for _, i := range order {
 			ex.add(int64(i), evals[i].res, evals[i].g)
+			ex.commit(int64(i), false)
 		}
 		return ex.sentences([]BlockingConstraint{{Name: "task_miss", BestMargin: 20.5}, {Name: "overhang[1]", BestMargin: 0.022},
 			{Name: "tip_sag", BestMargin: -0.25}})
@@ -77,13 +78,27 @@ func TestExplainerSentences(t *testing.T) {
 	// sentence says reach is not what blocks
 	ex := &explainer{names: names[:1], needReach: 0.01, reachMeeting: make([]reachRecord, 1), best: make([]checkRecord, 1)}
 	ex.add(0, synthetic(0.02, miss(3)), []float64{3})
+	ex.commit(0, false)
 	s := ex.sentences([]BlockingConstraint{{Name: "task_miss", BestMargin: 3}})
 	require.Len(t, s, 1)
 	assert.Contains(t, s[0], "reach is not what blocks", "reach beyond the need")
 
 	// a non-finite margin is a failed evaluation: not recorded
 	ex.add(1, synthetic(0.5, miss(1)), []float64{math.NaN()})
+	ex.commit(1, false)
 	assert.Equal(t, s, ex.sentences([]BlockingConstraint{{Name: "task_miss", BestMargin: 3}}), "failed evaluation ignored")
+
+	// an evaluation of a generation the search abandoned (Ctrl-C) is
+	// never committed, and one the search counts as failed is forgotten:
+	// neither is recorded, so the explainer holds what a checkpoint holds
+	ex.add(2, synthetic(0.5, miss(0.5)), []float64{0.5})
+	ex.add(3, synthetic(0.6, miss(0.4)), []float64{0.4})
+	ex.commit(3, true)
+	assert.Equal(t, s, ex.sentences([]BlockingConstraint{{Name: "task_miss", BestMargin: 3}}), "uncommitted evaluations ignored")
+	assert.Equal(t, int64(1), ex.evals)
+	assert.NotContains(t, ex.pending, int64(3), "a failed evaluation is forgotten")
+	ex.commit(2, false)
+	assert.NotEqual(t, s, ex.sentences([]BlockingConstraint{{Name: "task_miss", BestMargin: 3}}), "committed: recorded")
 	var none *explainer
 	assert.Nil(t, none.sentences(nil), "no explainer, no sentences")
 }

@@ -61,7 +61,7 @@ func FuzzRunFiles(f *testing.F) {
 		folder := &Folder{Dir: dir}
 		_, err := folder.ReadInfo()
 		input("run.json", err)
-		c, _, err := folder.readCheckpoint()
+		c, _, _, err := folder.readCheckpoint()
 		input("checkpoint.json", err)
 		keep := int64(3)
 		if c != nil {

@@ -376,6 +376,7 @@ func Merge(ctx context.Context, dirs []string, out, version string) (_ *MergeRes
 	if err := ctx.Err(); err != nil {
 		return nil, err
 	}
+	info.FrontLimits = FrontLimits(spec, res.Front)
 	info.Files = append(folder.Written(), RunFile)
 	if err := folder.WriteInfo(info); err != nil {
 		return nil, err

@@ -33,6 +33,7 @@ import (
 	"os"
 	"path/filepath"
 	"slices"
+	"strings"
 	"time"
 
 	"plica/problems"
@@ -105,6 +106,10 @@ type RunInfo struct {
 	// front variable at a bound, a front still improving, bellows that
 	// look listed outermost first); empty when none.
 	Warnings []Warning `json:"warnings"`
+	// FrontLimits say, for each objective, what limits the front design
+	// best in it (active constraints, variables at a bound); empty when
+	// the front is.
+	FrontLimits []FrontLimit `json:"front_limits"`
 	// Robust says, for a problem with [scatter], how the search scored
 	// candidates (first_order or nominal) and how the front's robust
 	// columns were computed (monte_carlo).
@@ -121,6 +126,9 @@ type plainRunInfo RunInfo
 
 // MarshalJSON writes run.json, the time budget as duration text.
 func (r RunInfo) MarshalJSON() ([]byte, error) {
+	if r.FrontLimits == nil {
+		r.FrontLimits = []FrontLimit{} // an array, empty when none
+	}
 	if r.Warnings == nil {
 		r.Warnings = []Warning{} // an array, empty when none
 	}
@@ -500,7 +508,13 @@ func jsonInputError(path string, data []byte, err error) error {
 // WriteCheckpoint keeps the previous checkpoint and writes the new one
 // atomically.
 func (f *Folder) WriteCheckpoint(c *search.Checkpoint) error {
-	b, err := json.Marshal(c)
+	return f.writeCheckpoint(c, nil)
+}
+
+// writeCheckpoint is WriteCheckpoint with the diagnosis gathered so far
+// (nil: none) saved beside the search's state.
+func (f *Folder) writeCheckpoint(c *search.Checkpoint, st *diagnosisState) error {
+	b, err := checkpointWithDiagnosis(c, st)
 	if err != nil {
 		return err
 	}
@@ -521,14 +535,16 @@ func (f *Folder) HasCheckpoint() bool {
 // ReadCheckpoint reads the latest checkpoint, falling back to the previous
 // one when the latest is missing or unreadable.
 func (f *Folder) ReadCheckpoint() (*search.Checkpoint, error) {
-	c, _, err := f.readCheckpoint()
+	c, _, _, err := f.readCheckpoint()
 	return c, err
 }
 
 // readCheckpoint is ReadCheckpoint that also says, when it fell back to
 // the previous checkpoint, why. A checkpoint whose counters are negative
 // is unusable like one that is not JSON; none usable is an *InputError.
-func (f *Folder) readCheckpoint() (*search.Checkpoint, string, error) {
+// The diagnosis state is the one saved in the same file (nil when the
+// file has none, or an unreadable one, which the note then says).
+func (f *Folder) readCheckpoint() (*search.Checkpoint, *diagnosisState, string, error) {
 	var firstErr error
 	for _, name := range []string{CheckpointFile, PrevCheckpoint} {
 		b, err := os.ReadFile(f.Path(name))
@@ -557,7 +573,12 @@ func (f *Folder) readCheckpoint() (*search.Checkpoint, string, error) {
 		if name == PrevCheckpoint {
 			note = fmt.Sprintf("%s is unusable (%v): resuming from %s (generation %d, %d evaluations)", CheckpointFile, firstErr, PrevCheckpoint, c.Generation, c.Evaluations)
 		}
-		return &c, note, nil
+		st, err := readDiagnosisState(b)
+		if err != nil {
+			st = nil
+			note = strings.TrimPrefix(note+"; ", "; ") + fmt.Sprintf("the diagnosis state in %s is unreadable (%v)", name, err)
+		}
+		return &c, st, note, nil
 	}
-	return nil, "", inputErrorf("no usable checkpoint in %s: %v", f.Dir, firstErr)
+	return nil, nil, "", inputErrorf("no usable checkpoint in %s: %v", f.Dir, firstErr)
 }

@@ -154,6 +154,7 @@ func TestOrderWarning(t *testing.T) {
 				res.MisorderedPairs = []int{1}
 			}
 			ex.add(int64(i), res, []float64{1})
+			ex.commit(int64(i), false)
 		}
 		return ex
 	}

@@ -311,6 +311,7 @@ func writeCheck(w io.Writer, name string, res *objective.Result) {
 	}
 	row("residual_curvature", sc.ResidualCurvature, "1/m", "straightest configuration")
 	row("straight_tip_offset", sc.StraightTipOffset*1e3, "mm", "straightest configuration")
+	row("straight_tip_angle", sc.StraightTipAngle*180/math.Pi, "deg", "tip tangent from the base axis, straightest configuration")
 	row("curvature_range", sc.CurvatureMin, "1/m", fmt.Sprintf("to %.4g 1/m over relative rotation", sc.CurvatureMax))
 	row("peak_strain", sc.PeakStrain, "", "meridional wall strain over the workspace")
 	row("stability_margin", sc.StabilityMargin, "", "1 − L/L_crit (snap-free when > 0)")

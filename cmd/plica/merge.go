@@ -79,6 +79,7 @@ func runMerge(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stde
 	for _, n := range res.Notes {
 		fmt.Fprintf(stdout, "note: %s\n", n)
 	}
+	results.WriteFrontLimits(stdout, info.FrontLimits)
 	results.WriteWarnings(stdout, info.Warnings)
 	fmt.Fprintf(stdout, "files: %s, %s, %s/front-NNN.toml\n", res.Folder.Path(results.FrontFile), res.Folder.Path(results.EvaluationsFile), res.Folder.Path(results.DesignsDir))
 	fmt.Fprintf(stdout, "caution: %s\n", results.Caution)

@@ -19,8 +19,12 @@ reaches the same front as an uninterrupted run with the same seed; a larger
 -evals or -time extends a finished run (an -evals below the evaluations
 already done is refused). evaluations.csv is checked against the checkpoint
 first: a file that cannot prove every evaluation the checkpoint counts is
-refused, and the folder is left as it was. The folder is locked while it
-runs (run.lock).`,
+refused, and the folder is left as it was. A run whose constraints differ
+from those of its problem.toml as this plica reads it (a task-point run
+made when the task constraint was g_task_coverage, now g_task_miss) is
+refused too: search its problem.toml anew. The checkpoint keeps the
+diagnosis counters, so the diagnosis covers every evaluation of the run.
+The folder is locked while it runs (run.lock).`,
 		run: runResume,
 	})
 }

@@ -222,6 +222,7 @@ func printSummary(w io.Writer, spec *problems.Spec, folder *results.Folder, res 
 	}
 	if info, err := folder.ReadInfo(); err == nil && !failed {
 		results.WriteDiagnosis(w, info.Diagnosis)
+		results.WriteFrontLimits(w, info.FrontLimits)
 		results.WriteWarnings(w, info.Warnings)
 	}
 	fmt.Fprintf(w, "caution: %s\n", results.Caution)

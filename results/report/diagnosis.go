@@ -15,7 +15,12 @@ func diagnosisLines(d *results.Diagnosis) []string {
 	if d == nil {
 		return nil
 	}
-	out := []string{fmt.Sprintf("Diagnosis: %d feasible of %d evaluations.", d.Feasible, d.Evaluations)}
+	first := fmt.Sprintf("Diagnosis: %d feasible of %d evaluations.", d.Feasible, d.Evaluations)
+	if d.SinceEvaluation > 0 {
+		first = fmt.Sprintf("Diagnosis: %d feasible of the %d evaluations after evaluation %d (the run was resumed from a checkpoint without diagnosis counters).",
+			d.Feasible, d.Evaluations, d.SinceEvaluation)
+	}
+	out := []string{first}
 	for _, s := range d.Sentences {
 		out = append(out, "Diagnosis: "+s+".")
 	}
@@ -38,6 +43,16 @@ func diagnosisLines(d *results.Diagnosis) []string {
 			line += fmt.Sprintf("; it and the next closest are design files (%s/design-1.toml to design-%d.toml) that plica check accepts", results.ClosestDir, len(d.LeastInfeasible))
 		}
 		out = append(out, line+".")
+	}
+	return out
+}
+
+// frontLimitLines turns run.json's front limits into report lines, one
+// per objective: what limits the front design best in it.
+func frontLimitLines(ls []results.FrontLimit) []string {
+	var out []string
+	for _, l := range ls {
+		out = append(out, l.Sentence+".")
 	}
 	return out
 }

@@ -103,6 +103,9 @@ type htmlPage struct {
 	Diagnosis []string
 	// RunWarnings are run.json's warnings (results.Warning messages).
 	RunWarnings []string
+	// FrontLimits say what limits the best front design of each objective
+	// (run.json front_limits sentences).
+	FrontLimits []string
 	// Islands are the runs a merged run joins (run.json merged_from), and
 	// Sources the searches behind them (merges of merges flattened);
 	// HypervolumeUnit names the hypervolume's reference.
@@ -457,6 +460,7 @@ func (r *Data) page(ids []int) *htmlPage {
 		p.Cautions = append(p.Cautions, "No feasible design was found: relax the requirements or widen the ranges.")
 	}
 	p.Diagnosis = diagnosisLines(info.Diagnosis)
+	p.FrontLimits = frontLimitLines(info.FrontLimits)
 	for _, w := range info.Warnings {
 		p.RunWarnings = append(p.RunWarnings, w.Message)
 	}
@@ -532,6 +536,7 @@ nav a { margin-right: 1rem; }
 {{range .Designs}}<tr><td><a href="#design-{{.ID}}">{{.ID}}</a></td><td>{{.Reason}}</td><td>{{range $i, $o := .Objectives}}{{if $i}}, {{end}}<code>{{$o.Key}}</code> = {{$o.Value}}{{end}}</td><td>{{if not .HasResult}}<span class="problem">not checked</span>{{else if .Pass}}<span class="pass">PASS</span>{{else}}<span class="fail">FAIL</span> ({{.FailedChecks}} of {{.NumChecks}}){{end}}</td><td><code>{{.File}}</code></td></tr>
 {{end}}</table>{{end}}
 {{if .Diagnosis}}<div id="diagnosis"><h3>Why the search found {{if .FrontRows}}few{{else}}no{{end}} feasible designs</h3><ul>{{range .Diagnosis}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
+{{if .FrontLimits}}<div id="front-limits"><h3>What limits the front</h3><ul>{{range .FrontLimits}}<li>{{.}}</li>{{end}}</ul></div>{{end}}
 {{if .RunWarnings}}<div id="warnings"><h3>Warnings</h3><ul>{{range .RunWarnings}}<li class="warn">warning: {{.}}</li>{{end}}</ul></div>{{end}}
 
 <h2 id="designs">Designs</h2>
