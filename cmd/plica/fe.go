@@ -172,11 +172,11 @@ func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr 
 		label := fmt.Sprintf("bellows %d (%d of %d)", i+1, k+1, len(picked))
 		opt := fecheck.Options{Mesh: mesh, Convergence: true, Fidelity: d.Fidelity, Dir: filepath.Join(stage, feSub(i)),
 			Progress: func(p fecheck.Progress) {
-				if p.Case == 0 {
-					fmt.Fprintf(stderr, "plica fe: %s: %s mesh, %s model (%d load case%s): running ccx\n", label, p.Mesh, p.Model, p.Cases, plural(p.Cases))
+				if !p.Solving {
+					fmt.Fprintf(stderr, "plica fe: %s: %s mesh, %s model (%d load case%s): running ccx\n", label, p.Mesh, p.Model, len(p.Cases), plural(len(p.Cases)))
 					return
 				}
-				fmt.Fprintf(stderr, "plica fe: %s: %s mesh, %s model: load case %d of %d (%s)\n", label, p.Mesh, p.Model, p.Case, p.Cases, p.Name)
+				fmt.Fprintf(stderr, "plica fe: %s: %s mesh, %s model: solving %s\n", label, p.Mesh, p.Model, strings.Join(p.Cases, ", "))
 			}}
 		res, err := fecheck.Run(ctx, *d.Bellows[i].Model, opt)
 		if err != nil {

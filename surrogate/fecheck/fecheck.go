@@ -60,34 +60,37 @@ type Options struct {
 	// mesh (coarse, fine, draft); "" uses a temporary directory that is
 	// removed afterwards.
 	Dir string
-	// Progress, when not nil, is told when each model starts (Case 0)
-	// and when ccx begins each of its load cases. It is called from the
-	// goroutine that copies ccx's output, one call at a time.
+	// Progress, when not nil, is told when each model starts (Solving
+	// false) and when ccx begins to solve its load cases (Solving true).
+	// It is called from the goroutine that copies ccx's output, one call
+	// at a time.
 	Progress func(Progress)
 
 	level Mesh // the mesh being solved, for Progress
 }
 
-// Progress is one stage of a cross-check.
+// Progress is one stage of a cross-check. Each model is one ccx step:
+// the shell model solves its four load cases together (one
+// factorization, four right-hand sides), the solid model its one.
 type Progress struct {
-	Mesh  Mesh   // mesh level being solved
-	Model string // "shell" or "solid"
-	Case  int    // load case from 1; 0 while the deck is written and ccx starts
-	Cases int    // load cases of the model
-	Name  string // load case: axial, torsion, bending_x, bending_y; axial extension (solid)
+	Mesh    Mesh     // mesh level being solved
+	Model   string   // "shell" or "solid"
+	Cases   []string // load cases of the model: axial, torsion, bending_x, bending_y; axial extension (solid)
+	Solving bool     // false while the deck is written and ccx starts; true once ccx's step begins
 }
 
-// steps returns the output-line callback that reports the load cases of
-// model (nil without opt.Progress), after reporting that the model starts.
+// steps returns the output-line callback that reports when ccx begins
+// the step of model (nil without opt.Progress), after reporting that the
+// model starts.
 func (opt *Options) steps(model string, cases []string) func(string) {
 	if opt.Progress == nil {
 		return nil
 	}
 	report, lv := opt.Progress, opt.level
-	report(Progress{Mesh: lv, Model: model, Cases: len(cases)})
+	report(Progress{Mesh: lv, Model: model, Cases: cases})
 	return func(line string) {
-		if n, ok := stepLine(line); ok && n <= len(cases) {
-			report(Progress{Mesh: lv, Model: model, Case: n, Cases: len(cases), Name: cases[n-1]})
+		if n, ok := stepLine(line); ok && n == 1 {
+			report(Progress{Mesh: lv, Model: model, Cases: cases, Solving: true})
 		}
 	}
 }

@@ -157,7 +157,10 @@ func TestWriteDecks(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, []string{"shell.inp", "solid.inp"}, files)
 	s := decks["shell.inp"]
-	assert.Equal(t, 4, strings.Count(s, "*STEP\n"))
+	// one *GREEN step solves the four load cases (one *CLOAD line each)
+	assert.Equal(t, 1, strings.Count(s, "*STEP\n"))
+	assert.Equal(t, 1, strings.Count(s, "*GREEN\n*CLOAD\n"))
+	assert.Equal(t, 4, strings.Count(s, "** load case "))
 	assert.Equal(t, 2, strings.Count(s, "*RIGID BODY"))
 	assert.Contains(t, s, "*ELEMENT, TYPE=S8R")
 	assert.Contains(t, s, "TYPE=ENGINEERING CONSTANTS")
@@ -220,17 +223,18 @@ func TestCCXCancel(t *testing.T) {
 }
 
 func TestCCXProgress(t *testing.T) {
-	// ccx prints " STEP n" as each step begins; the last line may lack
-	// its newline
-	fakeCCX(t, "echo ' STEP            1'\necho ' STEP            2'\necho ' STEPS 3'\nprintf ' STEP 3'\n: > job.dat\n")
+	// ccx prints " STEP n" as each step begins; each model is one step
+	// (the shell model's four load cases are solved together), so only
+	// step 1 is reported; the last line may lack its newline
+	fakeCCX(t, "echo ' STEPS 3'\necho ' STEP            1'\necho ' STEP            2'\nprintf ' STEP 3'\n: > job.dat\n")
 	var got []Progress
 	opt := Options{Progress: func(p Progress) { got = append(got, p) }, level: Fine}
 	_, err := runCCX(context.Background(), "ccx-fake", t.TempDir(), "job", 1, opt.steps("shell", shellCaseNames()))
 	require.NoError(t, err)
+	cases := []string{"axial", "torsion", "bending_x", "bending_y"}
 	assert.Equal(t, []Progress{
-		{Mesh: Fine, Model: "shell", Cases: 4},
-		{Mesh: Fine, Model: "shell", Case: 1, Cases: 4, Name: "axial"},
-		{Mesh: Fine, Model: "shell", Case: 2, Cases: 4, Name: "torsion"},
+		{Mesh: Fine, Model: "shell", Cases: cases},
+		{Mesh: Fine, Model: "shell", Cases: cases, Solving: true},
 	}, got)
 	assert.Nil(t, (&Options{}).steps("shell", shellCaseNames()), "no callback without Progress")
 }
