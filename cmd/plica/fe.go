@@ -35,8 +35,8 @@ them beside the uncalibrated surrogate at the design's fidelity: EI_x, EI_y,
 GJ, axial rate, peak strain per unit curvature, their relative difference,
 the mesh, the two-mesh convergence figure and the run time. Each mesh is
 solved with the next coarser one too (coarse: a draft mesh; -fine: the
-coarse mesh) for the convergence figure. About 25 s of one core per
-bellows (-fine: about 1½ minutes).
+coarse mesh) for the convergence figure. About 5 s of one core per
+bellows, 12 s with a spine (-fine: about 15 s, 40 s with a spine).
 
 DIR must not exist (default: runs/DESIGN-fe, numbered when taken); it
 appears whole at the end, or not at all. -calibration writes the FE bending
@@ -60,7 +60,7 @@ type feOptions struct {
 func runFE(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
 	var o feOptions
 	fs.StringVar(&o.out, "o", "", "run `folder` to create (default: runs/DESIGN-fe)")
-	fs.BoolVar(&o.fine, "fine", false, "solve the fine mesh (convergence from the coarse one); about 1½ minutes of one core per bellows")
+	fs.BoolVar(&o.fine, "fine", false, "solve the fine mesh (convergence from the coarse one); about 15 s of one core per bellows, 40 s with a spine")
 	fs.IntVar(&o.bellows, "bellows", 0, "check only bellows `N` (from 1, innermost first; default: every bellows with geometry)")
 	fs.StringVar(&o.cal, "calibration", "", "write the FE bending stiffness as a calibration `file` (source fe; one bellows)")
 	fs.BoolVar(&o.json, "json", false, "print JSON instead of tables")
