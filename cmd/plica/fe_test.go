@@ -166,9 +166,10 @@ func TestFEVerb(t *testing.T) {
 	for _, s := range []string{"bellows 2: petg, sinusoid, revolved", "EI_x N·mm²", "peak strain per curvature m (shell)", "bellows 1: not modelled", "caution: "} {
 		assert.Contains(t, string(text), s)
 	}
-	// Progress: each model and load case of both meshes.
-	for _, s := range []string{"bellows 2 (1 of 1): coarse mesh, shell model: load case 4 of 4 (bending_y)",
-		"bellows 2 (1 of 1): draft mesh, solid model: load case 1 of 1 (axial extension)", "plica: wrote " + run, "plica: wrote " + cal} {
+	// Progress: each model of both meshes, with the load cases it solves.
+	for _, s := range []string{"bellows 2 (1 of 1): coarse mesh, shell model (4 load cases): running ccx",
+		"bellows 2 (1 of 1): coarse mesh, shell model: solving axial, torsion, bending_x, bending_y",
+		"bellows 2 (1 of 1): draft mesh, solid model: solving axial extension", "plica: wrote " + run, "plica: wrote " + cal} {
 		assert.Contains(t, errOut, s)
 	}
 
@@ -314,7 +315,7 @@ func TestFeVerbCCXFails(t *testing.T) {
 		}
 	}
 	assert.Equal(t, []string{"plica: fe: bellows 1: ccx shell failed: *ERROR in e_c3d: nonpositive jacobian determinant in element 7 (nothing written)"}, errs)
-	assert.Contains(t, errOut, "plica fe: bellows 1 (1 of 2): coarse mesh, shell model: load case 1 of 4 (axial)\n", "progress before the failure")
+	assert.Contains(t, errOut, "plica fe: bellows 1 (1 of 2): coarse mesh, shell model: solving axial, torsion, bending_x, bending_y\n", "progress before the failure")
 	assert.Empty(t, entries(t, dir), "no run folder, no staging folder")
 
 	// with the default folder, not even runs/ is left

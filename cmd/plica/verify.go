@@ -24,7 +24,7 @@ case fails. The same cases run as unit tests.
 
 -fe adds the finite-element comparisons: the thin cylinder through the
 CalculiX shell path and the wall models against a CalculiX 3-D solid
-(about a minute on one core). They need ccx on PATH (Debian package
+(about 25 s on one core). They need ccx on PATH (Debian package
 calculix-ccx); without it they are listed as SKIP, neither pass nor fail.`,
 		run: runVerify,
 	})
@@ -32,7 +32,7 @@ calculix-ccx); without it they are listed as SKIP, neither pass nor fail.`,
 
 func runVerify(ctx context.Context, fs *flag.FlagSet, args []string, stdout, stderr io.Writer) error {
 	quick := fs.Bool("quick", false, "leave out the slow cases (a full NSGA-II run)")
-	fe := fs.Bool("fe", false, "add the comparisons with CalculiX (needs ccx on PATH; about a minute)")
+	fe := fs.Bool("fe", false, "add the comparisons with CalculiX (needs ccx on PATH; about 25 s)")
 	pos, err := parseArgs(fs, args)
 	if err != nil {
 		return err

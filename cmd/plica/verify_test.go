@@ -54,7 +54,7 @@ func TestVerifyWithoutCCX(t *testing.T) {
 	assert.Contains(t, plain, "\n"+m[2]+" of "+m[2]+" cases pass\n", "the same cases ran, less the FE ones")
 }
 
-// TestFEVerify runs plica verify -quick -fe with CalculiX (about a minute
+// TestFEVerify runs plica verify -quick -fe with CalculiX (about 25 s
 // on one core): every FE case runs and passes, none is skipped.
 func TestFEVerify(t *testing.T) {
 	needCCX(t)

@@ -135,7 +135,7 @@ type Options struct {
 	// Quick leaves out the slow cases (a full NSGA-II run).
 	Quick bool
 	// FE adds the comparisons with CalculiX (package surrogate/fecheck,
-	// about a minute on one core); where ccx is not on PATH they are
+	// about 25 s on one core); where ccx is not on PATH they are
 	// listed as skipped with the reason NoCCX.
 	FE bool
 }

@@ -9,9 +9,11 @@
 //   - shell.inp: a 3-D model of Pitches convolutions with S8R shells on
 //     the wall midsurface — revolved or single-start helical, with the
 //     plain-wall spine when there is one — and both end rings rigid
-//     (*RIGID BODY). End 1 is fixed; end 2 carries, in four linear static
-//     steps, an axial force, a torque and bending moments about the
-//     bellows' x and y. The axial rate (and EA), the 2×2 EI tensor about
+//     (*RIGID BODY). End 1 is fixed; end 2 carries, as four load cases of
+//     one *GREEN step (one factorization), an axial force, a torque and
+//     bending moments about the bellows' x and y. A spined wall's mesh is
+//     graded around the circumference: fine across the spine and its
+//     blends, the plain wall's element elsewhere. The axial rate (and EA), the 2×2 EI tensor about
 //     the neutral axis, GJ and the peak meridional surface strain per unit
 //     curvature and per unit axial extension are measured between two
 //     rings RingOffset pitches in from the ends, away from the end
@@ -27,8 +29,8 @@
 //
 // Run does all of that in a temporary directory (or Options.Dir) with a
 // context that kills ccx when cancelled; WriteDecks only writes the decks,
-// for a machine without ccx. Meshes: Coarse (default, about 20 s per
-// bellows on one core) and Fine; Options.Convergence also solves the next
+// for a machine without ccx. Meshes: Coarse (default, about 5 s per
+// bellows on one core, 12 s with a spine) and Fine; Options.Convergence also solves the next
 // coarser mesh and reports the relative change. Result and its parts are
 // JSON-friendly, with units in the field names, SI throughout.
 //

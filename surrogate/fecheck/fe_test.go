@@ -4,7 +4,9 @@ import (
 	"context"
 	"math"
 	"path/filepath"
+	"syscall"
 	"testing"
+	"time"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
@@ -13,7 +15,7 @@ import (
 )
 
 // The tests below run CalculiX (coarse meshes, one thread each, about
-// 20 s per bellows). Run them on their own with
+// 4 s of ccx per bellows, 8 s with a spine). Run them on their own with
 // `go test ./surrogate/fecheck -run '^TestFE' -timeout 10m`.
 
 // TestFECylinder sends a plain thin cylinder through the shell path
@@ -246,4 +248,49 @@ func TestFESpineGJ(t *testing.T) {
 			}
 		})
 	}
+}
+
+// BenchmarkFEShell solves the coarse shell model of a plain and of a
+// spined bellows (the resin-spine geometry of TestFEWindingSpineMaterial)
+// and reports the element count and the CPU time of ccx per solve (user
+// and system time of the finished child processes, which does not depend
+// on what else the machine runs, unlike ns/op). Run with
+// `go test ./surrogate/fecheck -run '^$' -bench FEShell -benchtime 3x`.
+func BenchmarkFEShell(b *testing.B) {
+	if !HaveCCX("") {
+		b.Skip("ccx is not on PATH (Debian package " + Package + ")")
+	}
+	g := surrogate.Geometry{OuterDiameter: 0.030, Depth: 0.003, Pitch: 0.006, Wall: 0.0004, Profile: surrogate.Sinusoid}
+	sp := g
+	sp.SpineWidth = 0.005
+	for _, c := range []struct {
+		name string
+		g    surrogate.Geometry
+	}{{"plain", g}, {"spined", sp}} {
+		b.Run(c.name, func(b *testing.B) {
+			bl := surrogate.Bellows{Geometry: c.g, Material: resin()}
+			s := shellFor(&bl, Coarse)
+			var elements int
+			cpu0 := childCPU(b)
+			for b.Loop() {
+				r, err := solveShell(context.Background(), b.TempDir(), &s, c.name, Options{})
+				if err != nil {
+					b.Fatal(err)
+				}
+				elements = r.Elements
+			}
+			b.ReportMetric(float64(elements), "elements")
+			b.ReportMetric((childCPU(b)-cpu0)/float64(b.N), "ccx-cpu-s/op")
+		})
+	}
+}
+
+// childCPU returns the user and system CPU time, s, of the finished
+// child processes of this process.
+func childCPU(b *testing.B) float64 {
+	var ru syscall.Rusage
+	if err := syscall.Getrusage(syscall.RUSAGE_CHILDREN, &ru); err != nil {
+		b.Fatal(err)
+	}
+	return time.Duration(ru.Utime.Nano() + ru.Stime.Nano()).Seconds()
 }

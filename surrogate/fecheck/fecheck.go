@@ -60,34 +60,37 @@ type Options struct {
 	// mesh (coarse, fine, draft); "" uses a temporary directory that is
 	// removed afterwards.
 	Dir string
-	// Progress, when not nil, is told when each model starts (Case 0)
-	// and when ccx begins each of its load cases. It is called from the
-	// goroutine that copies ccx's output, one call at a time.
+	// Progress, when not nil, is told when each model starts (Solving
+	// false) and when ccx begins to solve its load cases (Solving true).
+	// It is called from the goroutine that copies ccx's output, one call
+	// at a time.
 	Progress func(Progress)
 
 	level Mesh // the mesh being solved, for Progress
 }
 
-// Progress is one stage of a cross-check.
+// Progress is one stage of a cross-check. Each model is one ccx step:
+// the shell model solves its four load cases together (one
+// factorization, four right-hand sides), the solid model its one.
 type Progress struct {
-	Mesh  Mesh   // mesh level being solved
-	Model string // "shell" or "solid"
-	Case  int    // load case from 1; 0 while the deck is written and ccx starts
-	Cases int    // load cases of the model
-	Name  string // load case: axial, torsion, bending_x, bending_y; axial extension (solid)
+	Mesh    Mesh     // mesh level being solved
+	Model   string   // "shell" or "solid"
+	Cases   []string // load cases of the model: axial, torsion, bending_x, bending_y; axial extension (solid)
+	Solving bool     // false while the deck is written and ccx starts; true once ccx's step begins
 }
 
-// steps returns the output-line callback that reports the load cases of
-// model (nil without opt.Progress), after reporting that the model starts.
+// steps returns the output-line callback that reports when ccx begins
+// the step of model (nil without opt.Progress), after reporting that the
+// model starts.
 func (opt *Options) steps(model string, cases []string) func(string) {
 	if opt.Progress == nil {
 		return nil
 	}
 	report, lv := opt.Progress, opt.level
-	report(Progress{Mesh: lv, Model: model, Cases: len(cases)})
+	report(Progress{Mesh: lv, Model: model, Cases: cases})
 	return func(line string) {
-		if n, ok := stepLine(line); ok && n <= len(cases) {
-			report(Progress{Mesh: lv, Model: model, Case: n, Cases: len(cases), Name: cases[n-1]})
+		if n, ok := stepLine(line); ok && n == 1 {
+			report(Progress{Mesh: lv, Model: model, Cases: cases, Solving: true})
 		}
 	}
 }
@@ -194,23 +197,38 @@ func shellFor(b *surrogate.Bellows, m Mesh) shellSpec {
 		spineWidth: b.SpineWidth, spineAngle: b.SpineAngle,
 		pitches: Pitches, around: around, perPitch: per, ringA: RingOffset, ring: Pitches - 2*RingOffset}
 	if b.SpineWidth > 0 {
-		// the wall blends into the spine over one convolution depth. The
-		// blends get 2.5 S8R elements across (draft 1.5, fine 4) and the
-		// spine 2 (1.5, 3): GJ is then converged to about 0.3 %, where one
-		// element across each blend reads about 2 % stiff
-		// (surrogate/REFERENCE.md §6.4). The grid is centred on the spine.
+		// The wall blends into the spine over one convolution depth. The
+		// mesh is graded around the circumference (gradedEdges): fine
+		// across the spine and the blends, where the shear flow of torsion
+		// turns, growing to the revolved wall's element (2π/around) away
+		// from them. The grid starts at the spine's first edge.
 		s.spineBlendWidth = b.Depth
-		across, spine, most := 2.5, 2.0, 96
-		switch m {
-		case draft:
-			across, spine, most = 1.5, 1.5, 64
-		case Fine:
-			across, spine, most = 4, 3, 160
-		}
-		need := int(math.Ceil(2 * math.Pi * b.MeanRadius() / min(b.SpineWidth/spine, b.Depth/across)))
-		s.around = max(s.around, min(need, most))
+		g := spineGrading(m)
+		h := b.SpineWidth / s.wall.rMean / 2
+		s.edges = gradedEdges(h, s.spineBlendWidth/s.wall.rMean, 2*math.Pi/float64(s.around), g.spine, g.blend, g.growth)
+		s.around = len(s.edges) - 1
+		s.start = b.SpineAngle - h
 	}
 	return s
+}
+
+// grading is the circumferential mesh of a spined wall: elements across
+// the spine and across each blend, and the growth factor from one element
+// to the next beyond the blends.
+type grading struct {
+	spine, blend int
+	growth       float64
+}
+
+// spineGrading returns the grading of a mesh level.
+func spineGrading(m Mesh) grading {
+	switch m {
+	case draft:
+		return grading{spine: 2, blend: 2, growth: 1.5}
+	case Fine:
+		return grading{spine: 4, blend: 6, growth: 1.5}
+	}
+	return grading{spine: 3, blend: 4, growth: 1.5}
 }
 
 func solidFor(w wall, mat wallMaterial, m Mesh) axiSpec {

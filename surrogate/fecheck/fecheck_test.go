@@ -100,6 +100,83 @@ func TestShellMeshHelicalSeam(t *testing.T) {
 	assert.InDelta(t, g.Pitch*float64(2*s.around-1)/float64(2*s.around), last.z-first.z, 1e-12)
 }
 
+// TestGradedEdges checks the circumferential grading of a spined wall:
+// the edges close the circle, the spine edges and the outer edges of the
+// blends (the kinks of the blend factor) are element edges, the grid is
+// symmetric about the spine's centre, no element is wider than the coarse
+// angle, the elements beyond the blends grow by at most the factor, and
+// the nodes on the spine and the blends see the blend factor the wall
+// description gives there.
+func TestGradedEdges(t *testing.T) {
+	const dc, growth = 2 * math.Pi / 20, 1.5
+	near := func(edges []float64, a float64) bool {
+		a = math.Mod(a+4*math.Pi, 2*math.Pi)
+		for _, e := range edges {
+			if math.Abs(e-a) < 1e-12 || math.Abs(e-a-2*math.Pi) < 1e-12 || math.Abs(e-a+2*math.Pi) < 1e-12 {
+				return true
+			}
+		}
+		return false
+	}
+	for _, c := range []struct{ h, d float64 }{{0.19, 0.23}, {0.05, 0.4}, {0.8, 0.3}, {2.8, 0.5}} {
+		edges := gradedEdges(c.h, c.d, dc, 3, 4, growth)
+		require.Greater(t, len(edges), 2)
+		assert.Equal(t, 0.0, edges[0])
+		assert.Equal(t, 2*math.Pi, edges[len(edges)-1])
+		for k := 1; k < len(edges); k++ {
+			w := edges[k] - edges[k-1]
+			assert.Positive(t, w, "h %g d %g: edge %d ascends", c.h, c.d, k)
+			assert.LessOrEqual(t, w, dc*(1+1e-12), "h %g d %g: element %d", c.h, c.d, k)
+		}
+		for _, a := range []float64{2 * c.h} {
+			assert.True(t, near(edges, a), "h %g: spine edge", c.h)
+		}
+		if c.h+c.d < math.Pi {
+			assert.True(t, near(edges, 2*c.h+c.d), "h %g d %g: outer blend edge", c.h, c.d)
+			assert.True(t, near(edges, -c.d), "h %g d %g: outer blend edge", c.h, c.d)
+			// growth beyond the blends
+			for k := 1; k+1 < len(edges); k++ {
+				if edges[k] < 2*c.h+c.d-1e-12 || edges[k+1] > math.Pi+c.h+1e-12 {
+					continue
+				}
+				w0, w1 := edges[k]-edges[k-1], edges[k+1]-edges[k]
+				assert.LessOrEqual(t, w1, growth*w0*(1+1e-9), "h %g d %g: element %d", c.h, c.d, k+1)
+			}
+		}
+		for _, e := range edges {
+			assert.True(t, near(edges, 2*c.h-e), "h %g d %g: mirror of %g", c.h, c.d, e)
+		}
+	}
+	// a spined bellows' coarse shell grid: the blend factor is 0 on the
+	// spine's edge columns and 1 on the blends' outer edge columns
+	g := surrogate.Geometry{OuterDiameter: 0.03, Depth: 0.003, Pitch: 0.006, Wall: 0.0004, Profile: surrogate.Sinusoid, SpineWidth: 0.005, SpineAngle: 0.3}
+	b := surrogate.Bellows{Geometry: g, Material: resin()}
+	s := shellFor(&b, Coarse)
+	phi := s.columns()
+	h := g.SpineWidth / s.wall.rMean / 2
+	d := g.Depth / s.wall.rMean
+	for _, a := range []float64{-h, h, h + d, -h - d} {
+		found := false
+		for _, p := range phi {
+			if math.Abs(math.Remainder(p-g.SpineAngle-a, 2*math.Pi)) < 1e-12 {
+				found = true
+				want := 0.0
+				if math.Abs(a) > h {
+					want = 1
+				}
+				assert.InDelta(t, want, s.spineBlend(p), 1e-9)
+			}
+		}
+		assert.True(t, found, "a grid column at %g rad from the spine centre", a)
+	}
+	m := s.build()
+	var sum float64
+	for _, w := range m.weight {
+		sum += w
+	}
+	assert.InDelta(t, 1, sum, 1e-12, "column weights cover the circumference once")
+}
+
 func TestReaders(t *testing.T) {
 	dat := `
  displacements (vx,vy,vz) for set RINGS and time  0.1000000E+01
@@ -157,7 +234,10 @@ func TestWriteDecks(t *testing.T) {
 	require.NoError(t, err)
 	assert.Equal(t, []string{"shell.inp", "solid.inp"}, files)
 	s := decks["shell.inp"]
-	assert.Equal(t, 4, strings.Count(s, "*STEP\n"))
+	// one *GREEN step solves the four load cases (one *CLOAD line each)
+	assert.Equal(t, 1, strings.Count(s, "*STEP\n"))
+	assert.Equal(t, 1, strings.Count(s, "*GREEN\n*CLOAD\n"))
+	assert.Equal(t, 4, strings.Count(s, "** load case "))
 	assert.Equal(t, 2, strings.Count(s, "*RIGID BODY"))
 	assert.Contains(t, s, "*ELEMENT, TYPE=S8R")
 	assert.Contains(t, s, "TYPE=ENGINEERING CONSTANTS")
@@ -220,17 +300,18 @@ func TestCCXCancel(t *testing.T) {
 }
 
 func TestCCXProgress(t *testing.T) {
-	// ccx prints " STEP n" as each step begins; the last line may lack
-	// its newline
-	fakeCCX(t, "echo ' STEP            1'\necho ' STEP            2'\necho ' STEPS 3'\nprintf ' STEP 3'\n: > job.dat\n")
+	// ccx prints " STEP n" as each step begins; each model is one step
+	// (the shell model's four load cases are solved together), so only
+	// step 1 is reported; the last line may lack its newline
+	fakeCCX(t, "echo ' STEPS 3'\necho ' STEP            1'\necho ' STEP            2'\nprintf ' STEP 3'\n: > job.dat\n")
 	var got []Progress
 	opt := Options{Progress: func(p Progress) { got = append(got, p) }, level: Fine}
 	_, err := runCCX(context.Background(), "ccx-fake", t.TempDir(), "job", 1, opt.steps("shell", shellCaseNames()))
 	require.NoError(t, err)
+	cases := []string{"axial", "torsion", "bending_x", "bending_y"}
 	assert.Equal(t, []Progress{
-		{Mesh: Fine, Model: "shell", Cases: 4},
-		{Mesh: Fine, Model: "shell", Case: 1, Cases: 4, Name: "axial"},
-		{Mesh: Fine, Model: "shell", Case: 2, Cases: 4, Name: "torsion"},
+		{Mesh: Fine, Model: "shell", Cases: cases},
+		{Mesh: Fine, Model: "shell", Cases: cases, Solving: true},
 	}, got)
 	assert.Nil(t, (&Options{}).steps("shell", shellCaseNames()), "no callback without Progress")
 }

@@ -21,8 +21,14 @@ type shellSpec struct {
 	spineBlendWidth float64
 	pitches         int // convolutions modelled
 	around          int // quadratic elements around the circumference
-	perPitch        int // quadratic elements per pitch along the meridian
-	ringA, ring     int // measuring rings (root apexes) at pitch ringA and ringA+ring
+	// edges, when not nil, are the angles of the element edges around the
+	// circumference from the first grid column (edges[0] = 0, ascending,
+	// edges[around] = 2π; see gradedEdges); nil spaces them uniformly.
+	// The first grid column lies at angle start from +x.
+	edges       []float64
+	start       float64
+	perPitch    int // quadratic elements per pitch along the meridian
+	ringA, ring int // measuring rings (root apexes) at pitch ringA and ringA+ring
 }
 
 // shellNode is one node of the shell grid.
@@ -32,6 +38,7 @@ type shellNode struct {
 	t       [3]float64 // unit meridional tangent
 	n       [3]float64 // unit outward normal
 	row     int        // grid row J (2·perPitch rows per pitch)
+	col     int        // grid column I (2·around columns)
 }
 
 // shellMesh is the S8R mesh of a shellSpec.
@@ -46,6 +53,10 @@ type shellMesh struct {
 	refA, rotA int // reference and rotation nodes of end 1 (fixed)
 	refB, rotB int // of end 2 (loaded)
 	rowA, rowB int // grid rows of the measuring rings
+	// weight is the arc of each grid column, as a fraction of the
+	// circumference: half the angle between its two neighbours (equal on
+	// a uniform grid); the ring fits weight their nodes by it.
+	weight []float64
 }
 
 // spineBlend returns the blend factor f ∈ [0, 1] at angle phi: 0 on the
@@ -65,6 +76,82 @@ func (s *shellSpec) spineBlend(phi float64) float64 {
 		return 1
 	}
 	return (d - h) / dphi
+}
+
+// columns returns the angle from +x of each grid column (2·around: the
+// element edges and, between them, the mid-side nodes).
+func (s *shellSpec) columns() []float64 {
+	cols := 2 * s.around
+	phi := make([]float64, cols)
+	for i := range phi {
+		if s.edges == nil {
+			phi[i] = s.start + float64(i)/float64(cols)*2*math.Pi
+			continue
+		}
+		e := i / 2
+		a := s.edges[e]
+		if i%2 == 1 {
+			a = (s.edges[e] + s.edges[e+1]) / 2
+		}
+		phi[i] = s.start + a
+	}
+	return phi
+}
+
+// gradedEdges returns the element edges around a spined wall (see
+// shellSpec.edges), from the first edge of the spine: the spine (half
+// angle h) in nSpine equal elements, each blend (angle d) in nBlend equal
+// elements, and the convolutions between the blends in elements that
+// grow from the blend's element by the factor growth each up to the
+// coarse angle dc, symmetric about the middle, the side opposite the
+// spine. No element is wider than dc. The spine edges and the outer edges
+// of the blends, where the wall's blend factor has kinks, are element
+// edges.
+func gradedEdges(h, d, dc float64, nSpine, nBlend int, growth float64) []float64 {
+	nS := max(nSpine, int(math.Ceil(2*h/dc-1e-9)))
+	half := math.Pi - h // from the spine edge to the opposite side
+	var sizes []float64 // from the spine edge to the opposite side
+	if half <= d {
+		// the blends meet opposite the spine
+		nB := max(nBlend, int(math.Ceil(half/dc-1e-9)))
+		for range nB {
+			sizes = append(sizes, half/float64(nB))
+		}
+	} else {
+		nB := max(nBlend, int(math.Ceil(d/dc-1e-9)))
+		for range nB {
+			sizes = append(sizes, d/float64(nB))
+		}
+		rest := half - d
+		var grow []float64
+		size, sum := d/float64(nB), 0.0
+		for sum < rest*(1-1e-12) {
+			size = math.Min(size*growth, dc)
+			grow = append(grow, size)
+			sum += size
+		}
+		// the last element overshoots the rest: scale all down to fit (no
+		// element grows past dc, neighbours keep their ratio)
+		for _, g := range grow {
+			sizes = append(sizes, g*rest/sum)
+		}
+	}
+	edges := []float64{0}
+	for k := 1; k <= nS; k++ {
+		edges = append(edges, 2*h*float64(k)/float64(nS))
+	}
+	a := 2 * h
+	for _, sz := range sizes {
+		a += sz
+		edges = append(edges, a)
+	}
+	// mirror: the other half from the opposite side back to the spine
+	for k := len(sizes) - 1; k >= 0; k-- {
+		a += sizes[k]
+		edges = append(edges, a)
+	}
+	edges[len(edges)-1] = 2 * math.Pi
+	return edges
 }
 
 // build generates the mesh.
@@ -118,6 +205,18 @@ func (s *shellSpec) build() *shellMesh {
 		}
 	}
 	// Nodes.
+	colPhi := s.columns()
+	m.weight = make([]float64, cols)
+	for i := range cols {
+		prev, next := colPhi[(i+cols-1)%cols], colPhi[(i+1)%cols]
+		if i == 0 {
+			prev -= 2 * math.Pi
+		}
+		if i == cols-1 {
+			next += 2 * math.Pi
+		}
+		m.weight[i] = (next - prev) / (4 * math.Pi)
+	}
 	for j := 0; j < rows; j++ {
 		k, jj := j/rowsPer, j%rowsPer
 		p := mp[jj]
@@ -126,11 +225,7 @@ func (s *shellSpec) build() *shellMesh {
 			if !used[n] {
 				continue
 			}
-			phi := float64(i) / float64(cols) * 2 * math.Pi
-			if s.spineWidth > 0 {
-				// centre the grid on the spine
-				phi += s.spineAngle
-			}
+			phi := colPhi[i]
 			f := s.spineBlend(phi)
 			zPlain := float64(jj) / float64(rowsPer) * s.wall.pitch
 			r := s.wall.rMean + f*(p.r-s.wall.rMean)
@@ -152,7 +247,7 @@ func (s *shellSpec) build() *shellMesh {
 			if math.Abs(sn) < 1e-14 {
 				sn = 0
 			}
-			nd := shellNode{id: n, x: r * cs, y: r * sn, z: z, row: j}
+			nd := shellNode{id: n, x: r * cs, y: r * sn, z: z, row: j, col: i}
 			nd.t = [3]float64{tr * cs, tr * sn, tz}
 			// outward normal in the meridian plane (the helix lead tilts
 			// the true normal by O(q/(2πr)); it only orders the surfaces).

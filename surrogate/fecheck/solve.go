@@ -12,10 +12,11 @@ import (
 	"gonum.org/v1/gonum/mat"
 )
 
-// ringMotion is the rigid motion that best fits (least squares) the
-// displacements of one ring of nodes: axial translation a and rotations
-// θx, θy from u_z = a + θx·y − θy·x; lateral translation and twist θz from
-// (u_x, u_y) = (tx − θz·y, ty + θz·x).
+// ringMotion is the rigid motion that best fits (least squares, each
+// node weighted by the arc of its grid column, so a graded mesh weights
+// the circumference evenly) the displacements of one ring of nodes: axial
+// translation a and rotations θx, θy from u_z = a + θx·y − θy·x; lateral
+// translation and twist θz from (u_x, u_y) = (tx − θz·y, ty + θz·x).
 type ringMotion struct{ a, thx, thy, thz float64 }
 
 func fitRing(m *shellMesh, ids []int, u map[int][3]float64) (ringMotion, error) {
@@ -30,16 +31,17 @@ func fitRing(m *shellMesh, ids []int, u map[int][3]float64) (ringMotion, error) 
 			return ringMotion{}, fmt.Errorf("%w: no displacement of ring node %d", errNoResult, id)
 		}
 		p := m.node(id)
-		az.Set(i, 0, 1)
-		az.Set(i, 1, p.y)
-		az.Set(i, 2, -p.x)
-		bz.SetVec(i, d[2])
-		axy.Set(2*i, 0, 1)
-		axy.Set(2*i, 2, -p.y)
-		bxy.SetVec(2*i, d[0])
-		axy.Set(2*i+1, 1, 1)
-		axy.Set(2*i+1, 2, p.x)
-		bxy.SetVec(2*i+1, d[1])
+		w := math.Sqrt(m.weight[p.col])
+		az.Set(i, 0, w)
+		az.Set(i, 1, w*p.y)
+		az.Set(i, 2, -w*p.x)
+		bz.SetVec(i, w*d[2])
+		axy.Set(2*i, 0, w)
+		axy.Set(2*i, 2, -w*p.y)
+		bxy.SetVec(2*i, w*d[0])
+		axy.Set(2*i+1, 1, w)
+		axy.Set(2*i+1, 2, w*p.x)
+		bxy.SetVec(2*i+1, w*d[1])
 	}
 	var cz, cxy mat.VecDense
 	if err := cz.SolveVec(az, bz); err != nil {
