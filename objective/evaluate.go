@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	bits64 "math/bits"
 	"strings"
 	"sync"
 
@@ -153,6 +154,7 @@ type evaluator struct {
 	touched                          []int32   // words of voxels set during one count
 	solver                           *kinematics.Solver
 	linkBuf                          []kinematics.Link
+	share                            linkShare // link solutions shared across samples (linkshare.go)
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -283,6 +285,7 @@ type scratch struct {
 	linkStarts [][3]float64
 	precurv    [][2]float64
 	order      []int
+	share      linkShare
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -292,6 +295,8 @@ func (e *evaluator) takeScratch() {
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
 	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
+	e.share = s.share
+	e.share.ready = false
 }
 
 func (e *evaluator) putScratch() {
@@ -299,7 +304,7 @@ func (e *evaluator) putScratch() {
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
-		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0]})
+		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share})
 	e.shapes = nil
 }
 
@@ -357,11 +362,26 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))
 	}
 	shapes := e.shapePtrs[:0]
+	if e.solver == nil {
+		solver, err := kinematics.NewSolver(e.robot)
+		if err != nil {
+			return err
+		}
+		e.solver = solver
+	}
+	share := e.shareUsable()
+	e.share.ready = false
 	for k, a := range p.acts {
 		if err := e.tick(k, len(p.acts)); err != nil {
 			return err
 		}
-		sh, err := e.evalShape(a)
+		var sh *shape
+		var err error
+		if share {
+			sh, err = e.evalShared(&p, k)
+		} else {
+			sh, err = e.evalShape(a)
+		}
 		if err != nil {
 			return err
 		}
@@ -466,45 +486,35 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 			e.voxels = make([]uint64, words)
 		}
 		bits := e.voxels[:words]
-		e.touched = e.touched[:0]
-		count := 0
+		// every word set is listed once (at most one per turned tip)
+		if need := len(shapes) * len(sins); cap(e.touched) < need {
+			e.touched = make([]int32, need)
+		}
+		touched := e.touched[:cap(e.touched)]
+		nt := 0
 		inside := true
-	loop:
 		for k, sh := range shapes {
 			if err := e.tick(k, len(shapes)); err != nil {
-				e.clearVoxels(bits)
+				e.clearVoxels(bits, touched[:nt])
 				return 0, err
 			}
-			// the voxel of voxelKey(turnedBy(p, sin, cos), h), written out:
-			// the common rotation leaves z, so its layer is the shape's
+			// the voxel of voxelKey(turnedBy(p, sin, cos), h): the common
+			// rotation leaves z, so its layer is the shape's
 			p := sh.tip.P
-			p0, p1 := p[0], p[1]
 			iz := int64(int32(math.Floor(p[2]/h))) - z0
 			if iz < 0 || iz >= nz {
 				inside = false
-				break loop
+				break
 			}
-			layer := nx * nx * iz
-			for j, s := range sins {
-				c := coss[j]
-				ix := int64(int32(math.Floor((c*p0-s*p1)/h))) - x0
-				iy := int64(int32(math.Floor((s*p0+c*p1)/h))) - x0
-				if ix < 0 || ix >= nx || iy < 0 || iy >= nx {
-					inside = false
-					break loop
-				}
-				i := ix + nx*iy + layer
-				w, b := i>>6, uint64(1)<<(i&63)
-				if bits[w]&b == 0 {
-					if bits[w] == 0 {
-						e.touched = append(e.touched, int32(w))
-					}
-					bits[w] |= b
-					count++
-				}
+			if nt, inside = markRing(bits, touched, nt, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz); !inside {
+				break
 			}
 		}
-		e.clearVoxels(bits)
+		count := 0
+		for _, w := range touched[:nt] {
+			count += bits64.OnesCount64(bits[w])
+		}
+		e.clearVoxels(bits, touched[:nt])
 		if inside {
 			return float64(count) * h * h * h, nil
 		}
@@ -516,11 +526,48 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 const maxVoxelBits = 1 << 26
 
 // clearVoxels zeroes the words voxelVolume set.
-func (e *evaluator) clearVoxels(bits []uint64) {
-	for _, w := range e.touched {
+func (e *evaluator) clearVoxels(bits []uint64, touched []int32) {
+	for _, w := range touched {
 		bits[w] = 0
 	}
-	e.touched = e.touched[:0]
+}
+
+// markRing sets the voxel bits of the tip (p0, p1) turned by every common
+// rotation (sines sins, cosines coss) in the layer starting at bit layer
+// of a box of nx × nx voxels per layer from voxel x0 on, h the edge: the
+// voxel of voxelKey(turnedBy(p, sin, cos), h), with the same arithmetic.
+// It lists each word it sets from zero in touched[nt:] and returns the new
+// length; false when a turned tip falls outside the box.
+func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) (int, bool) {
+	coss = coss[:len(sins)]
+	unx := uint64(nx)
+	for j, s := range sins {
+		c := coss[j]
+		ix := floorInt((c*p0-s*p1)/h) - x0
+		iy := floorInt((s*p0+c*p1)/h) - x0
+		if uint64(ix) >= unx || uint64(iy) >= unx {
+			return nt, false
+		}
+		i := ix + nx*iy + layer
+		w := i >> 6
+		old := bits[w]
+		if old == 0 {
+			touched[nt] = int32(w)
+			nt++
+		}
+		bits[w] = old | 1<<(i&63)
+	}
+	return nt, true
+}
+
+// floorInt is int64(int32(math.Floor(x))) for |x| < 2³¹ (the bitset box is
+// at most 2¹⁶ voxels wide): truncation, one less when that rounded up.
+func floorInt(x float64) int64 {
+	t := int64(x)
+	if float64(t) > x {
+		t--
+	}
+	return t
 }
 
 // voxelVolumeMap is voxelVolume with a hash set of voxel keys.

@@ -44,6 +44,14 @@ type samplePlan struct {
 	// relative rotation of a pair over a full turn (surface area applies).
 	grid2 bool
 	dof   int
+	// angleSteps gives, per bellows, how many distinct angles the plan
+	// gives it (1: held at 0; the relative steps on a grid; 0 when the
+	// angles are not on a grid, the Halton set), and angleIdx, per
+	// actuation (n entries each), the index of each bellows' angle among
+	// them: equal indices are equal angles. The link sharing keys on them
+	// (linkshare.go).
+	angleSteps []int
+	angleIdx   []int32
 }
 
 func defaults(w Workspace) Workspace {
@@ -130,6 +138,10 @@ func buildPlan(n int, w Workspace) samplePlan {
 	}
 	p := samplePlan{dof: len(dims) + 1}
 	p.grid2 = n == 2 && len(dims) == 1
+	p.angleSteps = make([]int, n)
+	for i := range p.angleSteps {
+		p.angleSteps[i] = 1
+	}
 	fixedBeta := FixedInsertion(n, w)
 	total := 1
 	for _, d := range dims {
@@ -153,10 +165,16 @@ func buildPlan(n int, w Workspace) samplePlan {
 	}
 	if len(dims) == 0 {
 		p.acts = []kinematics.Actuation{build(nil)}
+		p.angleIdx = make([]int32, n)
 		return p
 	}
 	coords := make([]float64, len(dims))
 	if total <= w.Samples {
+		for k, d := range dims {
+			if kinds[k] == rel {
+				p.angleSteps[insIdx[k]] = d
+			}
+		}
 		idx := make([]int, len(dims))
 		for {
 			for k, d := range dims {
@@ -167,6 +185,13 @@ func buildPlan(n int, w Workspace) samplePlan {
 				}
 			}
 			p.acts = append(p.acts, build(coords))
+			ai := make([]int32, n)
+			for k := range dims {
+				if kinds[k] == rel {
+					ai[insIdx[k]] = int32(idx[k])
+				}
+			}
+			p.angleIdx = append(p.angleIdx, ai...)
 			k := 0
 			for ; k < len(dims); k++ {
 				idx[k]++
@@ -180,6 +205,12 @@ func buildPlan(n int, w Workspace) samplePlan {
 			}
 		}
 	}
+	for k := range dims {
+		if kinds[k] == rel {
+			p.angleSteps[insIdx[k]] = 0
+		}
+	}
+	p.angleIdx = make([]int32, n*w.Samples)
 	for j := 0; j < w.Samples; j++ {
 		for k := range dims {
 			coords[k] = radicalInverse(j+1, primes[k%len(primes)])

@@ -410,3 +410,58 @@ func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, 
 	}
 	return ss, poses, nil
 }
+
+// Threaded reports whether some tube is threaded, so that the effective
+// insertions (and with them the link boundaries) depend on the angles.
+func (s *Solver) Threaded() bool { return s.rate != nil }
+
+// Relink sets the curvature U and stiffness K of link l, the j-th (0-based)
+// of those Links gave, to their values at the angles theta: for any theta
+// with the same effective insertions (so the same boundaries and the same
+// Present, Curved and MassPerLength), Links(theta, beta)[j] equals l after
+// Relink bit for bit. It sums over the present tubes in the same order as
+// Links and takes sin θ_i, cos θ_i only of the tubes that need them (every
+// present tube when a bending tensor is anisotropic, the curved ones
+// otherwise). The error is that of Links for a singular link stiffness.
+func (s *Solver) Relink(theta []float64, j int, l *Link) error {
+	var kxx, kxy, kyy, gj, mx, my float64
+	theta = theta[:len(s.tubes)]
+	for i := range s.tubes {
+		bit := uint64(1) << i
+		if l.Present&bit == 0 {
+			continue
+		}
+		t := &s.tubes[i]
+		curved := l.Curved&bit != 0
+		var sn, cn float64
+		if curved || !s.iso {
+			sn, cn = sincos(theta[i])
+		}
+		if s.iso {
+			kxx += t.m
+			kyy += t.m
+		} else {
+			xx, xy, yy := rotatedBending(t.m, t.d, t.q, cn, sn)
+			kxx += xx
+			kxy += xy
+			kyy += yy
+		}
+		gj += t.gj
+		if curved {
+			mx += cn*t.bx - sn*t.by
+			my += sn*t.bx + cn*t.by
+		}
+	}
+	ux, uy, err := linkCurvature(j, l.Start, l.End, kxx, kxy, kyy, mx, my)
+	if err != nil {
+		return err
+	}
+	l.U = [3]float64{ux, uy, 0}
+	l.K = [3][3]float64{{kxx, kxy, 0}, {kxy, kyy, 0}, {0, 0, gj}}
+	return nil
+}
+
+// Isotropic reports whether every tube's bending tensor is isotropic, so
+// that a link's curvature depends only on the angles of its curved tubes
+// (and its stiffness on none).
+func (s *Solver) Isotropic() bool { return s.iso }

@@ -1,0 +1,103 @@
+package objective
+
+import (
+	"fmt"
+	"math"
+	"testing"
+
+	"github.com/stretchr/testify/assert"
+	"github.com/stretchr/testify/require"
+)
+
+// shareCases are the designs and scenarios on which link sharing is
+// compared with the straightforward path: the sag cases, the growth sets
+// on a grid (three bellows at 64 steps, four at 16) and on a Halton set
+// (four at 32), an anisotropic three-bellows set (links keyed on every
+// present bellows), a single bellows, no gravity (compliance of every
+// shape) and insertion ranges on two bellows (the structure changes
+// between samples).
+func shareCases() []struct {
+	name string
+	d    *Design
+	sc   *Scenario
+} {
+	cases := sagCases()
+	aniso := threeBellows()
+	aniso.Bellows[1].Measured.EI = [2]float64{0.5, 1.2}
+	one := &Design{Bellows: []Bellows{measuredBellows(0.1, 0.1, 8, 0.5, 30, 0.02)}}
+	ld := Load{PayloadMass: 0.05}
+	return append(cases, []struct {
+		name string
+		d    *Design
+		sc   *Scenario
+	}{
+		{"three 64", threeBellows(), &Scenario{Load: ld, Workspace: Workspace{BaseSteps: 16}}},
+		{"four grid 16", fourBellows(), &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 16, BaseSteps: 16}}},
+		{"four Halton", fourBellows(), &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 32, BaseSteps: 16, Samples: 1500}}},
+		{"three anisotropic", aniso, &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 20, BaseSteps: 16}}},
+		{"one", one, &Scenario{Load: ld}},
+		{"three no gravity", threeBellows(), &Scenario{Load: Load{NoGravity: true}, Workspace: Workspace{RelativeSteps: 12, BaseSteps: 8}}},
+		{"three two insertions", threeBellows(), &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 8, BaseSteps: 8, InsertionSteps: 3,
+			Insertion: [][2]float64{{-0.03, 0}, {-0.02, 0}}}}},
+	}...)
+}
+
+// TestLinkShareEqualsFull: with link sharing every sampled shape has the
+// same tip pose, curvature, strains, sag bound and compliance, bit for bit,
+// as when every sample's links are solved from scratch (the straightforward
+// path, shareLinks off), and Evaluate gives the same scores and checks.
+func TestLinkShareEqualsFull(t *testing.T) {
+	bits := func(sh *shape) string {
+		var s string
+		add := func(v float64) { s += fmt.Sprintf("%x ", math.Float64bits(v)) }
+		for i := range 3 {
+			add(sh.tip.P[i])
+			for j := range 3 {
+				add(sh.tip.R[i][j])
+				add(sh.comp[i][j])
+			}
+		}
+		add(sh.kmax)
+		add(sh.bound)
+		for _, v := range sh.strain {
+			add(v)
+		}
+		return s + fmt.Sprint(sh.hasComp, sh.act)
+	}
+	shapes := func(c struct {
+		name string
+		d    *Design
+		sc   *Scenario
+	}) []string {
+		robot, st, err := c.d.Robot()
+		require.NoError(t, err)
+		e := &evaluator{d: c.d, sc: c.sc, robot: robot, st: st, payload: c.sc.Load.PayloadMass, strainPerCurvature: make([]float64, len(st))}
+		for i, s := range st {
+			if s.Section != nil {
+				e.strainPerCurvature[i] = s.Section.StrainPerCurvature
+			}
+		}
+		require.NoError(t, e.workspace(defaults(c.sc.Workspace), &Result{}), c.name)
+		var out []string
+		for _, sh := range e.shapes {
+			out = append(out, bits(sh))
+		}
+		return out
+	}
+	for _, c := range shareCases() {
+		shared := shapes(c)
+		resShared, err := Evaluate(c.d, c.sc)
+		require.NoError(t, err, c.name)
+		shareLinks = false
+		full := shapes(c)
+		resFull, err := Evaluate(c.d, c.sc)
+		shareLinks = true
+		require.NoError(t, err, c.name)
+		require.Equal(t, len(full), len(shared), c.name)
+		for k := range full {
+			require.Equal(t, full[k], shared[k], "%s: shape %d", c.name, k)
+		}
+		assert.Equal(t, fmt.Sprintf("%#v", resFull.Scores), fmt.Sprintf("%#v", resShared.Scores), c.name)
+		assert.Equal(t, fmt.Sprintf("%#v", resFull.Checks), fmt.Sprintf("%#v", resShared.Checks), c.name)
+	}
+}
