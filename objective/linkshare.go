@@ -47,11 +47,19 @@ type linkShare struct {
 	pmult   []int
 	pvals   []prefixVal
 	pstarts [][3]float64 // slots × (J+1) link start positions
-	pK      [][3][3]float64
+	plam    []float64
 	pstrain []float64
 	pstamp  []uint32
 	scratch linkVal
 	sstrain []float64
+	// sag bound constants of the structure (sagBoundShared): link
+	// lengths, half lengths, masses, the mass beyond each link, arcs
+	// between link ends and starts (m × m), and per sample the smallest
+	// eigenvalue of each link's stiffness
+	sl, shl, smj, sbeta []float64
+	sE                  []float64
+	lam                 []float64
+	d                   []float64
 }
 
 // linkVal is one link at one combination of its bellows' angles.
@@ -59,6 +67,7 @@ type linkVal struct {
 	T    kinematics.Pose
 	K    [3][3]float64
 	kmax float64 // curvature magnitude of a nested link, else 0
+	lam  float64 // smallest eigenvalue of K as sagBound takes it (+Inf: no bound)
 }
 
 // prefixVal is the product of links 0..J at one combination of angles,
@@ -66,6 +75,24 @@ type linkVal struct {
 type prefixVal struct {
 	T    kinematics.Pose
 	kmax float64
+}
+
+// linkLambda is the smallest eigenvalue of a link stiffness as sagBound
+// computes it, +Inf when K is not of the form Links gives or not positive
+// definite (sagBound then returns +Inf).
+func linkLambda(K *[3][3]float64) float64 {
+	if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
+		return math.Inf(1)
+	}
+	dk := 0.5 * (K[0][0] - K[1][1])
+	lam := 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
+	if K[2][2] < lam {
+		lam = K[2][2]
+	}
+	if !(lam > 0) {
+		return math.Inf(1)
+	}
+	return lam
 }
 
 // usable reports whether link sharing applies to the evaluator's robot.
@@ -151,10 +178,84 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 		ls.pvals = growTo(ls.pvals, size)
 		ls.pstamp = growTo(ls.pstamp, size)
 		ls.pstarts = growTo(ls.pstarts, size*(j+1))
-		ls.pK = growTo(ls.pK, size*(j+1))
+		ls.plam = growTo(ls.plam, size*(j+1))
 		ls.pstrain = growTo(ls.pstrain, size*n)
 	}
 	ls.sstrain = growTo(ls.sstrain, n)
+	ls.sl, ls.shl = growTo(ls.sl, m), growTo(ls.shl, m)
+	ls.smj, ls.sbeta = growTo(ls.smj, m), growTo(ls.sbeta, m)
+	ls.sE, ls.lam, ls.d = growTo(ls.sE, m*m), growTo(ls.lam, m), growTo(ls.d, m+1)
+	for j := range links {
+		l := &links[j]
+		lj := l.End - l.Start
+		ls.sl[j], ls.shl[j], ls.smj[j] = lj, lj/2, l.MassPerLength*lj
+	}
+	for i := range links {
+		beta := 0.0
+		for j := i + 1; j < m; j++ {
+			ls.sE[i*m+j] = links[j].Start - links[i].End
+			if ls.sl[j] > 0 {
+				beta += ls.smj[j]
+			}
+		}
+		ls.sbeta[i] = beta
+	}
+}
+
+// sagBoundShared is sagBound for the structure of ls with the link
+// stiffness eigenvalues ls.lam of the sample: the same operations on the
+// same values, with what depends only on the structure computed once
+// (TestLinkShareEqualsFull compares the two bit for bit).
+func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]float64) float64 {
+	gz, hs := e.gravityZ, e.gravityXY
+	m := len(ls.links)
+	d := ls.d[:m+1]
+	for i := range m {
+		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
+	}
+	d[m] = 0
+	mp := e.payload
+	sum := 0.0
+	sl, shl, smj := ls.sl[:m], ls.shl[:m], ls.smj[:m]
+	for i := range m {
+		li := sl[i]
+		if !(li > 0) {
+			continue
+		}
+		lam := ls.lam[i]
+		if math.IsInf(lam, 1) {
+			return lam
+		}
+		D := d[i+1]
+		alpha := 0.0
+		E := ls.sE[i*m : (i+1)*m]
+		for j := i + 1; j < m; j++ {
+			if !(sl[j] > 0) {
+				continue
+			}
+			via := d[j+1] + D
+			if E[j] < via {
+				via = E[j]
+			}
+			alpha += smj[j] * (shl[j] + via)
+		}
+		A, B, C := alpha+mp*D, ls.sbeta[i]+mp, ls.links[i].MassPerLength/2
+		sum += (D*A*li + (D*B+A)*li*li/2 + (D*C+B)*li*li*li/3 + C*li*li*li*li/4) / lam
+	}
+	return e.gravityNorm * sum * (1 + 1e-12)
+}
+
+// mulPose sets *dst = a·b with the operations of kinematics.Pose.Mul; dst
+// may not be a or b.
+func mulPose(dst, a, b *kinematics.Pose) {
+	for i := range 3 {
+		ai := &a.R[i]
+		a0, a1, a2 := ai[0], ai[1], ai[2]
+		dst.R[i][0] = a0*b.R[0][0] + a1*b.R[1][0] + a2*b.R[2][0]
+		dst.R[i][1] = a0*b.R[0][1] + a1*b.R[1][1] + a2*b.R[2][1]
+		dst.R[i][2] = a0*b.R[0][2] + a1*b.R[1][2] + a2*b.R[2][2]
+		dst.P[i] = a0*b.P[0] + a1*b.P[1] + a2*b.P[2] + a.P[i]
+	}
 }
 
 // growTo returns s with length size, reusing its storage when it can.
@@ -193,31 +294,35 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 		}
 		ls.build(links, a.Beta, p, e.solver.Isotropic(), n)
 	}
-	idx := p.angleIdx[k*n : (k+1)*n]
+	s := sample{idx: p.angleIdx[k*n : (k+1)*n], ksc: p.ksc[k*n : (k+1)*n], msc: p.msc[k*n : (k+1)*n]}
 	sh := e.newShape(a)
 	screen := e.screen && !e.tipsOnly
 	starts := e.linkStarts[:0]
 	links := ls.links
-	tip := kinematics.Identity()
+	m := len(links)
+	lam := ls.lam[:m]
+	var tip, next kinematics.Pose
+	tip = kinematics.Identity()
 	j0 := 0
 	if J := ls.J; J >= 0 {
-		slot := key(ls.pmult, idx)
+		slot := key(ls.pmult, s.idx)
 		pv := &ls.pvals[slot]
 		pstarts := ls.pstarts[slot*(J+1) : (slot+1)*(J+1)]
-		pK := ls.pK[slot*(J+1) : (slot+1)*(J+1)]
+		plam := ls.plam[slot*(J+1) : (slot+1)*(J+1)]
 		pstrain := ls.pstrain[slot*n : (slot+1)*n]
 		if ls.pstamp[slot] != ls.epoch {
 			pose := kinematics.Identity()
 			kmax := 0.0
 			clear(pstrain)
 			for j := 0; j <= J; j++ {
-				lv, lstrain, err := e.sharedLink(j, a.Theta, idx)
+				lv, lstrain, err := e.sharedLink(j, &s)
 				if err != nil {
 					return nil, err
 				}
 				pstarts[j] = pose.P
-				pK[j] = lv.K
-				pose = pose.Mul(lv.T)
+				plam[j] = lv.lam
+				mulPose(&next, &pose, &lv.T)
+				pose = next
 				if ls.nested[j] {
 					kmax = maxNaN(kmax, lv.kmax)
 				}
@@ -236,22 +341,21 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 		copy(sh.strain, pstrain)
 		if screen {
 			starts = append(starts, pstarts...)
-			for j := 0; j <= J; j++ {
-				links[j].K = pK[j]
-			}
+			copy(lam, plam)
 		}
 		j0 = J + 1
 	}
-	for j := j0; j < len(links); j++ {
-		lv, lstrain, err := e.sharedLink(j, a.Theta, idx)
+	for j := j0; j < m; j++ {
+		lv, lstrain, err := e.sharedLink(j, &s)
 		if err != nil {
 			return nil, err
 		}
 		if screen {
 			starts = append(starts, tip.P)
-			links[j].K = lv.K
+			lam[j] = lv.lam
 		}
-		tip = tip.Mul(lv.T)
+		mulPose(&next, &tip, &lv.T)
+		tip = next
 		if ls.nested[j] {
 			sh.kmax = maxNaN(sh.kmax, lv.kmax)
 		}
@@ -266,7 +370,7 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 	sh.tip = tip
 	switch {
 	case screen:
-		sh.bound = e.sagBound(links, starts, tip.P)
+		sh.bound = e.sagBoundShared(ls, starts, tip.P)
 	case !e.tipsOnly:
 		// the compliance needs every link's curvature: solve them as the
 		// straightforward path does
@@ -284,18 +388,25 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 	return sh, nil
 }
 
-// sharedLink returns link j at the angles theta (grid indices idx) and
-// its strain per bellows (entries of absent bellows undefined): from its
-// table when the combination was computed before, otherwise computed (and
-// stored when the link is shared). The values are those of evalShape.
-func (e *evaluator) sharedLink(j int, theta []float64, idx []int32) (*linkVal, []float64, error) {
+// sample is what sharedLink needs of one sample: the grid index of each
+// bellows' angle and its sines and cosines.
+type sample struct {
+	idx      []int32
+	ksc, msc [][2]float64
+}
+
+// sharedLink returns link j of sample s and its strain per bellows
+// (entries of absent bellows undefined): from its table when the
+// combination was computed before, otherwise computed (and stored when
+// the link is shared). The values are those of evalShape.
+func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 	ls := &e.share
 	n := len(e.robot.Tubes)
 	var lv *linkVal
 	var strain []float64
 	slot := -1
 	if ls.slots[j] > 0 {
-		slot = key(ls.mult[j], idx)
+		slot = key(ls.mult[j], s.idx)
 		lv = &ls.vals[j][slot]
 		strain = ls.strain[j][slot*n : (slot+1)*n]
 		if ls.stamp[j][slot] == ls.epoch {
@@ -305,11 +416,12 @@ func (e *evaluator) sharedLink(j int, theta []float64, idx []int32) (*linkVal, [
 		lv, strain = &ls.scratch, ls.sstrain[:n]
 	}
 	l := ls.links[j]
-	if err := e.solver.Relink(theta, j, &l); err != nil {
+	if err := e.solver.Relink(s.ksc, j, &l); err != nil {
 		return nil, nil, err
 	}
 	lv.T = kinematics.LinkTransform(l.U, l.End-l.Start)
 	lv.K = l.K
+	lv.lam = linkLambda(&l.K)
 	lv.kmax = 0
 	if ls.nested[j] {
 		lv.kmax = math.Hypot(l.U[0], l.U[1])
@@ -322,8 +434,8 @@ func (e *evaluator) sharedLink(j int, theta []float64, idx []int32) (*linkVal, [
 		}
 		var ux, uy float64
 		if l.Curved&(1<<uint(i)) != 0 {
-			s, c := math.Sincos(theta[i])
-			ux, uy = c*t.Precurvature[0]-s*t.Precurvature[1], s*t.Precurvature[0]+c*t.Precurvature[1]
+			sn, c := s.msc[i][0], s.msc[i][1]
+			ux, uy = c*t.Precurvature[0]-sn*t.Precurvature[1], sn*t.Precurvature[0]+c*t.Precurvature[1]
 		}
 		dk := math.Hypot(l.U[0]-ux, l.U[1]-uy)
 		strain[i] = e.strainPerCurvature[i] * dk

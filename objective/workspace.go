@@ -52,6 +52,10 @@ type samplePlan struct {
 	// (linkshare.go).
 	angleSteps []int
 	angleIdx   []int32
+	// ksc and msc hold, per actuation and bellows, the sine and cosine of
+	// its angle as kinematics.SinCos and math.Sincos give them (the link
+	// solve and the strains use one each).
+	ksc, msc [][2]float64
 }
 
 func defaults(w Workspace) Workspace {
@@ -120,6 +124,22 @@ func planKey(n int, w Workspace) string {
 
 // buildPlan is plan without the cache.
 func buildPlan(n int, w Workspace) samplePlan {
+	p := buildActs(n, w)
+	p.ksc = make([][2]float64, 0, len(p.acts)*n)
+	p.msc = make([][2]float64, 0, len(p.acts)*n)
+	for _, a := range p.acts {
+		for _, th := range a.Theta {
+			ks, kc := kinematics.SinCos(th)
+			ms, mc := math.Sincos(th)
+			p.ksc = append(p.ksc, [2]float64{ks, kc})
+			p.msc = append(p.msc, [2]float64{ms, mc})
+		}
+	}
+	return p
+}
+
+// buildActs is buildPlan without the sines and cosines.
+func buildActs(n int, w Workspace) samplePlan {
 	var dims []int // grid sizes per dimension
 	var kinds []int
 	const rel, ins = 0, 1

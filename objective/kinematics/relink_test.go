@@ -41,9 +41,13 @@ func TestRelinkEqualsLinks(t *testing.T) {
 			want, err := s.Links(theta, c.beta, nil)
 			require.NoError(t, err)
 			require.Len(t, want, len(links), c.name)
+			sc := make([][2]float64, n)
+			for i, th := range theta {
+				sc[i][0], sc[i][1] = SinCos(th)
+			}
 			for j := range links {
 				l := links[j]
-				require.NoError(t, s.Relink(theta, j, &l))
+				require.NoError(t, s.Relink(sc, j, &l))
 				require.Equal(t, want[j], l, "%s: link %d at %v", c.name, j, theta)
 			}
 		}

@@ -416,16 +416,17 @@ func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, 
 func (s *Solver) Threaded() bool { return s.rate != nil }
 
 // Relink sets the curvature U and stiffness K of link l, the j-th (0-based)
-// of those Links gave, to their values at the angles theta: for any theta
-// with the same effective insertions (so the same boundaries and the same
-// Present, Curved and MassPerLength), Links(theta, beta)[j] equals l after
-// Relink bit for bit. It sums over the present tubes in the same order as
-// Links and takes sin θ_i, cos θ_i only of the tubes that need them (every
-// present tube when a bending tensor is anisotropic, the curved ones
-// otherwise). The error is that of Links for a singular link stiffness.
-func (s *Solver) Relink(theta []float64, j int, l *Link) error {
+// of those Links gave, to their values at other angles θ_i, given by
+// sc[i] = SinCos(θ_i): for any angles with the same effective insertions
+// (so the same boundaries and the same Present, Curved and MassPerLength),
+// Links(theta, beta)[j] equals l after Relink bit for bit. It sums over the
+// present tubes in the same order as Links and reads sc[i] only for the
+// tubes that need it (every present tube when a bending tensor is
+// anisotropic, the curved ones otherwise). The error is that of Links for
+// a singular link stiffness.
+func (s *Solver) Relink(sc [][2]float64, j int, l *Link) error {
 	var kxx, kxy, kyy, gj, mx, my float64
-	theta = theta[:len(s.tubes)]
+	sc = sc[:len(s.tubes)]
 	for i := range s.tubes {
 		bit := uint64(1) << i
 		if l.Present&bit == 0 {
@@ -435,7 +436,7 @@ func (s *Solver) Relink(theta []float64, j int, l *Link) error {
 		curved := l.Curved&bit != 0
 		var sn, cn float64
 		if curved || !s.iso {
-			sn, cn = sincos(theta[i])
+			sn, cn = sc[i][0], sc[i][1]
 		}
 		if s.iso {
 			kxx += t.m
@@ -460,6 +461,10 @@ func (s *Solver) Relink(theta []float64, j int, l *Link) error {
 	l.K = [3][3]float64{{kxx, kxy, 0}, {kxy, kyy, 0}, {0, 0, gj}}
 	return nil
 }
+
+// SinCos returns the sine and cosine of x as the Solver computes them
+// (within 2.3e-16 of math.Sincos), for Relink.
+func SinCos(x float64) (sin, cos float64) { return sincos(x) }
 
 // Isotropic reports whether every tube's bending tensor is isotropic, so
 // that a link's curvature depends only on the angles of its curved tubes
