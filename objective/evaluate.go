@@ -399,19 +399,19 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	sc.StrainPerBellows = make([]float64, n)
 	straightest := shapes[0]
 	for _, sh := range shapes {
-		rho := math.Hypot(sh.tip.P[0], sh.tip.P[1])
-		sc.Reach = math.Max(sc.Reach, rho)
+		rho := sh.rho
+		sc.Reach = fmax(sc.Reach, rho)
 		bend := math.Acos(clamp(sh.tip.R[2][2], -1, 1))
-		sc.BendAngleMin = math.Min(sc.BendAngleMin, bend)
-		sc.BendAngleMax = math.Max(sc.BendAngleMax, bend)
-		sc.CurvatureMin = math.Min(sc.CurvatureMin, sh.kmax)
-		sc.CurvatureMax = math.Max(sc.CurvatureMax, sh.kmax)
+		sc.BendAngleMin = fmin(sc.BendAngleMin, bend)
+		sc.BendAngleMax = fmax(sc.BendAngleMax, bend)
+		sc.CurvatureMin = fmin(sc.CurvatureMin, sh.kmax)
+		sc.CurvatureMax = fmax(sc.CurvatureMax, sh.kmax)
 		if rho < sc.StraightTipOffset {
 			sc.StraightTipOffset = rho
 			straightest = sh
 		}
 		for i, s := range sh.strain {
-			sc.StrainPerBellows[i] = math.Max(sc.StrainPerBellows[i], s)
+			sc.StrainPerBellows[i] = fmax(sc.StrainPerBellows[i], s)
 		}
 	}
 	sc.BendAngleRange = sc.BendAngleMax - sc.BendAngleMin
@@ -472,8 +472,8 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
 	for _, sh := range shapes {
 		p := sh.tip.P
-		rho = math.Max(rho, math.Hypot(p[0], p[1]))
-		zlo, zhi = math.Min(zlo, p[2]), math.Max(zhi, p[2])
+		rho = fmax(rho, sh.rho)
+		zlo, zhi = fmin(zlo, p[2]), fmax(zhi, p[2])
 	}
 	x0 := int64(math.Floor(-rho/h)) - 1
 	x1 := int64(math.Floor(rho/h)) + 1
@@ -616,4 +616,27 @@ func (e *evaluator) tasks(shapes []*shape, res *Result) error {
 	return nil
 }
 
-func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }
+func clamp(x, lo, hi float64) float64 { return fmax(lo, fmin(hi, x)) }
+
+// fmax is math.Max, with the comparison inline: only equal values (signed
+// zeros) and NaN go to math.Max.
+func fmax(x, y float64) float64 {
+	if x > y {
+		return x
+	}
+	if y > x {
+		return y
+	}
+	return math.Max(x, y)
+}
+
+// fmin is math.Min, as fmax is math.Max.
+func fmin(x, y float64) float64 {
+	if x < y {
+		return x
+	}
+	if y < x {
+		return y
+	}
+	return math.Min(x, y)
+}

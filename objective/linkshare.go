@@ -368,6 +368,7 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 	}
 	e.linkStarts = starts
 	sh.tip = tip
+	sh.rho = math.Hypot(tip.P[0], tip.P[1])
 	switch {
 	case screen:
 		sh.bound = e.sagBoundShared(ls, starts, tip.P)

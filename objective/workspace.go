@@ -19,6 +19,7 @@ import (
 type shape struct {
 	act kinematics.Actuation
 	tip kinematics.Pose
+	rho float64 // distance of the tip from the base axis, m
 	// comp is the linear tip compliance to a unit gravity vector: the tip
 	// displacement under self-weight plus payload is comp·g (objective/statics/REFERENCE.md §3).
 	comp [3][3]float64
@@ -436,6 +437,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 	}
 	sh.tip = tip
+	sh.rho = math.Hypot(tip.P[0], tip.P[1])
 	switch {
 	case screen:
 		sh.bound = e.sagBound(links, e.linkStarts, tip.P)
@@ -494,6 +496,18 @@ func (e *evaluator) reserve(count int) {
 
 // nonFinite names the first non-finite quantity of a shape, "" if none.
 func (sh *shape) nonFinite() string {
+	// fast path: a sum of finite values minus itself is 0 (an overflowing
+	// sum or a non-finite term gives NaN and takes the loop below)
+	sum := sh.kmax
+	for i := range 3 {
+		sum += sh.tip.P[i] + (sh.tip.R[i][0] + sh.tip.R[i][1] + sh.tip.R[i][2]) + (sh.comp[i][0] + sh.comp[i][1] + sh.comp[i][2])
+	}
+	for _, s := range sh.strain {
+		sum += s
+	}
+	if sum-sum == 0 {
+		return ""
+	}
 	for i := range 3 {
 		if !isFinite(sh.tip.P[i]) {
 			return "the tip position"
