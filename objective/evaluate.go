@@ -506,9 +506,11 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 				inside = false
 				break
 			}
-			if nt, inside = markRing(bits, touched, nt, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz); !inside {
+			if !(sh.rho <= rho) {
+				inside = false
 				break
 			}
+			nt = markRing(bits, touched, nt, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz)
 		}
 		count := 0
 		for _, w := range touched[:nt] {
@@ -537,18 +539,21 @@ func (e *evaluator) clearVoxels(bits []uint64, touched []int32) {
 // of a box of nx × nx voxels per layer from voxel x0 on, h the edge: the
 // voxel of voxelKey(turnedBy(p, sin, cos), h), with the same arithmetic.
 // It lists each word it sets from zero in touched[nt:] and returns the new
-// length; false when a turned tip falls outside the box.
-func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) (int, bool) {
+// length.
+//
+// Every turned tip lies inside the box when rho, the box's half-width
+// less its voxel of margin, is at least the tip's distance from the axis
+// as math.Hypot gives it: |c p0 − s p1| and |s p0 + c p1| exceed that
+// distance by at most 5 units of the last place, so x/h ≥ −rho/h − 1e-11
+// for the ≤ 2¹⁶ voxels of the box and floor(x/h) ≥ x0 = floor(−rho/h) − 1
+// (likewise at the top end). The loop therefore checks only the word
+// index, through the slice.
+func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) int {
 	coss = coss[:len(sins)]
-	unx := uint64(nx)
+	base := layer - x0 - nx*x0
 	for j, s := range sins {
 		c := coss[j]
-		ix := floorInt((c*p0-s*p1)/h) - x0
-		iy := floorInt((s*p0+c*p1)/h) - x0
-		if uint64(ix) >= unx || uint64(iy) >= unx {
-			return nt, false
-		}
-		i := ix + nx*iy + layer
+		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
 		w := i >> 6
 		old := bits[w]
 		if old == 0 {
@@ -557,7 +562,7 @@ func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, 
 		}
 		bits[w] = old | 1<<(i&63)
 	}
-	return nt, true
+	return nt
 }
 
 // floorInt is int64(int32(math.Floor(x))) for |x| < 2³¹ (the bitset box is

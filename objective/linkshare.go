@@ -52,6 +52,10 @@ type linkShare struct {
 	pstamp  []uint32
 	scratch linkVal
 	sstrain []float64
+	// iso: every bending tensor isotropic, so link stiffnesses (and lam0,
+	// their eigenvalues for the sag bound) do not depend on the angles
+	iso  bool
+	lam0 []float64
 	// sag bound constants of the structure (sagBoundShared): link
 	// lengths, half lengths, masses, the mass beyond each link, arcs
 	// between link ends and starts (m × m), and per sample the smallest
@@ -150,19 +154,27 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	}
 	var all uint64
 	for j := range links {
+		all |= deps(&links[j])
+	}
+	_, full := keyed(all, nil)
+	ls.iso = iso
+	ls.lam0 = growTo(ls.lam0, m)
+	for j := range links {
 		l := &links[j]
 		ls.nested = append(ls.nested, l.Present&(l.Present-1) != 0 || n == 1)
+		ls.lam0[j] = linkLambda(&l.K) // the same at every sample when isotropic
 		var size int
 		ls.mult[j], size = keyed(deps(l), ls.mult[j])
+		if full != 0 && size >= full {
+			size = 0 // every sample has its own: nothing to share
+		}
 		ls.slots = append(ls.slots, size)
 		if size > 0 {
 			ls.vals[j] = growTo(ls.vals[j], size)
 			ls.strain[j] = growTo(ls.strain[j], size*n)
 			ls.stamp[j] = growTo(ls.stamp[j], size)
 		}
-		all |= deps(l)
 	}
-	_, full := keyed(all, nil)
 	// the prefix: the longest one (short of the last link) keyed on fewer
 	// combinations than the whole sample
 	ls.J = -1
@@ -422,7 +434,11 @@ func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 	}
 	lv.T = kinematics.LinkTransform(l.U, l.End-l.Start)
 	lv.K = l.K
-	lv.lam = linkLambda(&l.K)
+	if ls.iso {
+		lv.lam = ls.lam0[j]
+	} else {
+		lv.lam = linkLambda(&l.K)
+	}
 	lv.kmax = 0
 	if ls.nested[j] {
 		lv.kmax = math.Hypot(l.U[0], l.U[1])
@@ -438,8 +454,13 @@ func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 			sn, c := s.msc[i][0], s.msc[i][1]
 			ux, uy = c*t.Precurvature[0]-sn*t.Precurvature[1], sn*t.Precurvature[0]+c*t.Precurvature[1]
 		}
-		dk := math.Hypot(l.U[0]-ux, l.U[1]-uy)
-		strain[i] = e.strainPerCurvature[i] * dk
+		d0, d1 := l.U[0]-ux, l.U[1]-uy
+		if e.strainPerCurvature[i] == 0 && math.Abs(d0) < 1e300 && math.Abs(d1) < 1e300 {
+			// no wall model: 0 times a finite curvature change
+			strain[i] = 0
+			continue
+		}
+		strain[i] = e.strainPerCurvature[i] * math.Hypot(d0, d1)
 	}
 	if slot >= 0 {
 		ls.stamp[j][slot] = ls.epoch

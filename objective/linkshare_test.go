@@ -7,6 +7,8 @@ import (
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
+
+	"plica/surrogate"
 )
 
 // shareCases are the designs and scenarios on which link sharing is
@@ -25,6 +27,16 @@ func shareCases() []struct {
 	aniso := threeBellows()
 	aniso.Bellows[1].Measured.EI = [2]float64{0.5, 1.2}
 	one := &Design{Bellows: []Bellows{measuredBellows(0.1, 0.1, 8, 0.5, 30, 0.02)}}
+	// bellows with a wall model, so the strains are not zero
+	petg, _ := surrogate.LookupMaterial("petg")
+	geo := func(od, wall float64) *surrogate.Bellows {
+		return &surrogate.Bellows{Geometry: surrogate.Geometry{OuterDiameter: od, Depth: 3e-3, Pitch: 10e-3, Wall: wall}, Material: petg}
+	}
+	walls := &Design{Bellows: []Bellows{
+		{Model: geo(24e-3, 0.5e-3), StraightLength: 0.16, CurvedLength: 0.1, Precurvature: [2]float64{0, 4}},
+		{Model: geo(30e-3, 0.6e-3), StraightLength: 0.12, CurvedLength: 0.1, Precurvature: [2]float64{0, 3}},
+		{Model: geo(36e-3, 0.7e-3), StraightLength: 0.1, CurvedLength: 0.06, Precurvature: [2]float64{0, 2}},
+	}}
 	ld := Load{PayloadMass: 0.05}
 	return append(cases, []struct {
 		name string
@@ -36,6 +48,7 @@ func shareCases() []struct {
 		{"four Halton", fourBellows(), &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 32, BaseSteps: 16, Samples: 1500}}},
 		{"three anisotropic", aniso, &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 20, BaseSteps: 16}}},
 		{"one", one, &Scenario{Load: ld}},
+		{"three with walls", walls, &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 16, BaseSteps: 16}}},
 		{"three no gravity", threeBellows(), &Scenario{Load: Load{NoGravity: true}, Workspace: Workspace{RelativeSteps: 12, BaseSteps: 8}}},
 		{"three two insertions", threeBellows(), &Scenario{Load: ld, Workspace: Workspace{RelativeSteps: 8, BaseSteps: 8, InsertionSteps: 3,
 			Insertion: [][2]float64{{-0.03, 0}, {-0.02, 0}}}}},
@@ -99,5 +112,8 @@ func TestLinkShareEqualsFull(t *testing.T) {
 		}
 		assert.Equal(t, fmt.Sprintf("%#v", resFull.Scores), fmt.Sprintf("%#v", resShared.Scores), c.name)
 		assert.Equal(t, fmt.Sprintf("%#v", resFull.Checks), fmt.Sprintf("%#v", resShared.Checks), c.name)
+		if c.name == "three with walls" {
+			assert.Positive(t, resFull.Scores.PeakStrain, "strains computed")
+		}
 	}
 }
