@@ -428,8 +428,8 @@ func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 	} else {
 		lv, strain = &ls.scratch, ls.sstrain[:n]
 	}
-	l := ls.links[j]
-	if err := e.solver.Relink(s.ksc, j, &l); err != nil {
+	l := &ls.links[j] // Relink changes only U and K
+	if err := e.solver.Relink(s.ksc, j, l); err != nil {
 		return nil, nil, err
 	}
 	lv.T = kinematics.LinkTransform(l.U, l.End-l.Start)
@@ -445,22 +445,25 @@ func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 	}
 	// Wall strain as in evalShape (objective/kinematics/REFERENCE.md §3.6,
 	// surrogate/REFERENCE.md §2.9).
-	for i, t := range e.robot.Tubes {
+	tubes := e.robot.Tubes
+	for i := range tubes {
 		if l.Present&(1<<uint(i)) == 0 {
 			continue
 		}
 		var ux, uy float64
 		if l.Curved&(1<<uint(i)) != 0 {
 			sn, c := s.msc[i][0], s.msc[i][1]
-			ux, uy = c*t.Precurvature[0]-sn*t.Precurvature[1], sn*t.Precurvature[0]+c*t.Precurvature[1]
+			pre := &tubes[i].Precurvature
+			ux, uy = c*pre[0]-sn*pre[1], sn*pre[0]+c*pre[1]
 		}
 		d0, d1 := l.U[0]-ux, l.U[1]-uy
-		if e.strainPerCurvature[i] == 0 && math.Abs(d0) < 1e300 && math.Abs(d1) < 1e300 {
+		spc := e.strainPerCurvature[i]
+		if spc == 0 && math.Abs(d0) < 1e300 && math.Abs(d1) < 1e300 {
 			// no wall model: 0 times a finite curvature change
 			strain[i] = 0
 			continue
 		}
-		strain[i] = e.strainPerCurvature[i] * math.Hypot(d0, d1)
+		strain[i] = spc * math.Hypot(d0, d1)
 	}
 	if slot >= 0 {
 		ls.stamp[j][slot] = ls.epoch
