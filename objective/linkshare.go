@@ -8,7 +8,7 @@ import (
 )
 
 // shareLinks makes Evaluate share link solutions across the samples of a
-// workspace (objective/REFERENCE.md §4.5); tests turn it off to compare
+// workspace (objective/REFERENCE.md §2.5); tests turn it off to compare
 // with the straightforward path that solves every sample's links from
 // scratch.
 var shareLinks = true
