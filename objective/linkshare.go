@@ -35,7 +35,8 @@ type linkShare struct {
 	// per link: nested (curvature counted in kmax), key multipliers by
 	// tube (−1: not a dependency), number of slots (0: not shared)
 	nested []bool
-	mult   [][]int
+	mult   [][]keyTerm
+	pres   [][]int // per link: the present bellows
 	slots  []int
 	vals   [][]linkVal
 	strain [][]float64 // per link: slots × n strains
@@ -44,7 +45,7 @@ type linkShare struct {
 	// prefix: links 0..J share one table keyed on the union of their
 	// dependencies (J = −1: none).
 	J       int
-	pmult   []int
+	pmult   []keyTerm
 	pvals   []prefixVal
 	pstarts [][3]float64 // slots × (J+1) link start positions
 	plam    []float64
@@ -56,6 +57,9 @@ type linkShare struct {
 	// their eigenvalues for the sag bound) do not depend on the angles
 	iso  bool
 	lam0 []float64
+	// noWall: no bellows has a wall model (a strain per curvature) and
+	// every pre-curvature is below 1e300 in magnitude
+	noWall bool
 	// sag bound constants of the structure (sagBoundShared): link
 	// lengths, half lengths, masses, the mass beyond each link, arcs
 	// between link ends and starts (m × m), and per sample the smallest
@@ -106,7 +110,8 @@ func (e *evaluator) shareUsable() bool {
 
 // build sets the structure from the links of one sample at insertions
 // beta, for plan p.
-func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePlan, iso bool, n int) {
+func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePlan, iso bool, tubes []kinematics.Tube, spc []float64) {
+	n := len(spc)
 	ls.ready = true
 	ls.beta = append(ls.beta[:0], beta...)
 	ls.links = append(ls.links[:0], links...)
@@ -123,6 +128,7 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	ls.slots = ls.slots[:0]
 	for len(ls.mult) < m {
 		ls.mult = append(ls.mult, nil)
+		ls.pres = append(ls.pres, nil)
 		ls.vals = append(ls.vals, nil)
 		ls.strain = append(ls.strain, nil)
 		ls.stamp = append(ls.stamp, nil)
@@ -135,19 +141,18 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	}
 	// keyed returns the key multipliers and slot count of a dependency set
 	// (0 slots when an angle is off the grid or there are too many).
-	keyed := func(d uint64, mult []int) ([]int, int) {
+	keyed := func(d uint64, mult []keyTerm) ([]keyTerm, int) {
 		mult = mult[:0]
 		size := 1
 		for i := range n {
 			if d&(1<<uint(i)) == 0 {
-				mult = append(mult, -1)
 				continue
 			}
 			st := p.angleSteps[i]
 			if st == 0 || size*st > maxShareSlots {
 				return mult, 0
 			}
-			mult = append(mult, size)
+			mult = append(mult, keyTerm{tube: i, mult: size})
 			size *= st
 		}
 		return mult, size
@@ -158,6 +163,11 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	}
 	_, full := keyed(all, nil)
 	ls.iso = iso
+	ls.noWall = true
+	for i, v := range spc {
+		pre := tubes[i].Precurvature
+		ls.noWall = ls.noWall && v == 0 && math.Abs(pre[0]) < 1e300 && math.Abs(pre[1]) < 1e300
+	}
 	ls.lam0 = growTo(ls.lam0, m)
 	for j := range links {
 		l := &links[j]
@@ -165,6 +175,12 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 		ls.lam0[j] = linkLambda(&l.K) // the same at every sample when isotropic
 		var size int
 		ls.mult[j], size = keyed(deps(l), ls.mult[j])
+		ls.pres[j] = ls.pres[j][:0]
+		for i := range n {
+			if l.Present&(1<<uint(i)) != 0 {
+				ls.pres[j] = append(ls.pres[j], i)
+			}
+		}
 		if full != 0 && size >= full {
 			size = 0 // every sample has its own: nothing to share
 		}
@@ -278,14 +294,15 @@ func growTo[T any](s []T, size int) []T {
 	return s[:size]
 }
 
+// keyTerm is one bellows' part of a table key: its grid index times mult.
+type keyTerm struct{ tube, mult int }
+
 // key is the slot of the angles idx (grid indices, one per bellows) for
-// multipliers mult.
-func key(mult []int, idx []int32) int {
+// the key terms mult.
+func key(mult []keyTerm, idx []int32) int {
 	k := 0
-	for i, m := range mult {
-		if m >= 0 {
-			k += m * int(idx[i])
-		}
+	for _, t := range mult {
+		k += t.mult * int(idx[t.tube])
 	}
 	return k
 }
@@ -304,7 +321,7 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 			ls.ready = false
 			return e.evalShape(a)
 		}
-		ls.build(links, a.Beta, p, e.solver.Isotropic(), n)
+		ls.build(links, a.Beta, p, e.solver.Isotropic(), e.robot.Tubes, e.strainPerCurvature)
 	}
 	s := sample{idx: p.angleIdx[k*n : (k+1)*n], ksc: p.ksc[k*n : (k+1)*n], msc: p.msc[k*n : (k+1)*n]}
 	sh := e.newShape(a)
@@ -338,11 +355,8 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 				if ls.nested[j] {
 					kmax = maxNaN(kmax, lv.kmax)
 				}
-				pres := links[j].Present
-				for i := range n {
-					if pres&(1<<uint(i)) != 0 {
-						pstrain[i] = maxNaN(pstrain[i], lstrain[i])
-					}
+				for _, i := range ls.pres[j] {
+					pstrain[i] = maxNaN(pstrain[i], lstrain[i])
 				}
 			}
 			*pv = prefixVal{T: pose, kmax: kmax}
@@ -371,11 +385,8 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 		if ls.nested[j] {
 			sh.kmax = maxNaN(sh.kmax, lv.kmax)
 		}
-		pres := links[j].Present
-		for i := range n {
-			if pres&(1<<uint(i)) != 0 {
-				sh.strain[i] = maxNaN(sh.strain[i], lstrain[i])
-			}
+		for _, i := range ls.pres[j] {
+			sh.strain[i] = maxNaN(sh.strain[i], lstrain[i])
 		}
 	}
 	e.linkStarts = starts
@@ -444,7 +455,18 @@ func (e *evaluator) sharedLink(j int, s *sample) (*linkVal, []float64, error) {
 		lv.kmax = math.Hypot(l.U[0], l.U[1])
 	}
 	// Wall strain as in evalShape (objective/kinematics/REFERENCE.md §3.6,
-	// surrogate/REFERENCE.md §2.9).
+	// surrogate/REFERENCE.md §2.9). Without any wall model every strain is
+	// 0 times the curvature change, which is finite while the curvature
+	// and the pre-curvatures are below 1e300.
+	if ls.noWall && math.Abs(l.U[0]) < 1e300 && math.Abs(l.U[1]) < 1e300 {
+		for _, i := range ls.pres[j] {
+			strain[i] = 0
+		}
+		if slot >= 0 {
+			ls.stamp[j][slot] = ls.epoch
+		}
+		return lv, strain, nil
+	}
 	tubes := e.robot.Tubes
 	for i := range tubes {
 		if l.Present&(1<<uint(i)) == 0 {

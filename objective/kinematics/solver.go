@@ -3,6 +3,7 @@ package kinematics
 import (
 	"fmt"
 	"math"
+	"math/bits"
 )
 
 // solverTube holds what does not depend on the actuation.
@@ -416,7 +417,8 @@ func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, 
 func (s *Solver) Threaded() bool { return s.rate != nil }
 
 // Relink sets the curvature U and stiffness K of link l, the j-th (0-based)
-// of those Links gave, to their values at other angles θ_i, given by
+// of those Links gave (its K as Links gave it, or as Relink left it), to
+// their values at other angles θ_i, given by
 // sc[i] = SinCos(θ_i): for any angles with the same effective insertions
 // (so the same boundaries and the same Present, Curved and MassPerLength),
 // Links(theta, beta)[j] equals l after Relink bit for bit. It sums over the
@@ -427,6 +429,25 @@ func (s *Solver) Threaded() bool { return s.rate != nil }
 func (s *Solver) Relink(sc [][2]float64, j int, l *Link) error {
 	var kxx, kxy, kyy, gj, mx, my float64
 	sc = sc[:len(s.tubes)]
+	if s.iso {
+		// The stiffness sums do not depend on the angles: l.K holds them
+		// as Links summed them. Only the curved tubes' moments are summed
+		// again, in tube order.
+		kxx, kxy, kyy = l.K[0][0], l.K[0][1], l.K[1][1]
+		for c := l.Curved & l.Present; c != 0; c &= c - 1 {
+			i := bits.TrailingZeros64(c)
+			t := &s.tubes[i]
+			sn, cn := sc[i][0], sc[i][1]
+			mx += cn*t.bx - sn*t.by
+			my += sn*t.bx + cn*t.by
+		}
+		ux, uy, err := linkCurvature(j, l.Start, l.End, kxx, kxy, kyy, mx, my)
+		if err != nil {
+			return err
+		}
+		l.U = [3]float64{ux, uy, 0}
+		return nil
+	}
 	for i := range s.tubes {
 		bit := uint64(1) << i
 		if l.Present&bit == 0 {
