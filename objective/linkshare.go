@@ -66,8 +66,12 @@ type linkShare struct {
 	// eigenvalue of each link's stiffness
 	sl, shl, smj, sbeta []float64
 	sE                  []float64
-	lam                 []float64
-	d                   []float64
+	// sag bound pairs: per link i with a length (bterm), the later links j
+	// with a length (bpair[bterm.first:bterm.end])
+	bterms []boundTerm
+	bpairs []boundPair
+	lam    []float64
+	d      []float64
 }
 
 // linkVal is one link at one combination of its bellows' angles.
@@ -228,6 +232,35 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 		}
 		ls.sbeta[i] = beta
 	}
+	ls.bterms, ls.bpairs = ls.bterms[:0], ls.bpairs[:0]
+	for i := range links {
+		if !(ls.sl[i] > 0) {
+			continue
+		}
+		t := boundTerm{i: i, li: ls.sl[i], beta: ls.sbeta[i], c: links[i].MassPerLength / 2, first: len(ls.bpairs)}
+		for j := i + 1; j < m; j++ {
+			if ls.sl[j] > 0 {
+				ls.bpairs = append(ls.bpairs, boundPair{d: j + 1, E: ls.sE[i*m+j], mj: ls.smj[j], hl: ls.shl[j]})
+			}
+		}
+		t.end = len(ls.bpairs)
+		ls.bterms = append(ls.bterms, t)
+	}
+}
+
+// boundTerm is link i of the sag bound with its length, the mass of the
+// later links and half its own mass per length; boundPair is a later link
+// j: its d index j+1, the arc E_ij, its mass and half length.
+type boundTerm struct {
+	i          int
+	li, beta   float64
+	c          float64
+	first, end int
+}
+
+type boundPair struct {
+	d         int
+	E, mj, hl float64
 }
 
 // sagBoundShared is sagBound for the structure of ls with the link
@@ -244,31 +277,24 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]fl
 	d[m] = 0
 	mp := e.payload
 	sum := 0.0
-	sl, shl, smj := ls.sl[:m], ls.shl[:m], ls.smj[:m]
-	for i := range m {
-		li := sl[i]
-		if !(li > 0) {
-			continue
+	lam := ls.lam[:m]
+	for _, t := range ls.bterms {
+		lm := lam[t.i]
+		if math.IsInf(lm, 1) {
+			return lm
 		}
-		lam := ls.lam[i]
-		if math.IsInf(lam, 1) {
-			return lam
-		}
-		D := d[i+1]
+		D := d[t.i+1]
 		alpha := 0.0
-		E := ls.sE[i*m : (i+1)*m]
-		for j := i + 1; j < m; j++ {
-			if !(sl[j] > 0) {
-				continue
+		for _, q := range ls.bpairs[t.first:t.end] {
+			via := d[q.d] + D
+			if q.E < via {
+				via = q.E
 			}
-			via := d[j+1] + D
-			if E[j] < via {
-				via = E[j]
-			}
-			alpha += smj[j] * (shl[j] + via)
+			alpha += q.mj * (q.hl + via)
 		}
-		A, B, C := alpha+mp*D, ls.sbeta[i]+mp, ls.links[i].MassPerLength/2
-		sum += (D*A*li + (D*B+A)*li*li/2 + (D*C+B)*li*li*li/3 + C*li*li*li*li/4) / lam
+		li := t.li
+		A, B, C := alpha+mp*D, t.beta+mp, t.c
+		sum += (D*A*li + (D*B+A)*li*li/2 + (D*C+B)*li*li*li/3 + C*li*li*li*li/4) / lm
 	}
 	return e.gravityNorm * sum * (1 + 1e-12)
 }

@@ -3,11 +3,13 @@ package objective
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"testing"
 
 	"github.com/stretchr/testify/assert"
 	"github.com/stretchr/testify/require"
 
+	"plica/objective/kinematics"
 	"plica/surrogate"
 )
 
@@ -115,5 +117,27 @@ func TestLinkShareEqualsFull(t *testing.T) {
 		if c.name == "three with walls" {
 			assert.Positive(t, resFull.Scores.PeakStrain, "strains computed")
 		}
+	}
+}
+
+// TestMulPoseEqualsMul: mulPose is kinematics.Pose.Mul with pointers, bit
+// for bit, on random poses (the straightforward path it replaces).
+func TestMulPoseEqualsMul(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 6))
+	pose := func() kinematics.Pose {
+		var p kinematics.Pose
+		for i := range 3 {
+			for j := range 3 {
+				p.R[i][j] = rng.NormFloat64()
+			}
+			p.P[i] = rng.NormFloat64()
+		}
+		return p
+	}
+	for range 1000 {
+		a, b := pose(), pose()
+		var got kinematics.Pose
+		mulPose(&got, &a, &b)
+		require.Equal(t, a.Mul(b), got)
 	}
 }

@@ -578,7 +578,8 @@ func (e *evaluator) compliance(links []kinematics.Link, rule *gaussRule) [3][3]f
 			pc.ip = pieceIntegral(&pose, h, stepJ)
 			for g := range G {
 				t := 0.5 * h * (1 + rule.x[g])
-				np := pose.Mul(off[g])
+				var np kinematics.Pose
+				mulPose(&np, &pose, &off[g])
 				nodes = append(nodes, gaussNode{
 					p:   np.P,
 					kin: rkr(np.R, kinv),
@@ -588,7 +589,9 @@ func (e *evaluator) compliance(links []kinematics.Link, rule *gaussRule) [3][3]f
 				})
 			}
 			pieces = append(pieces, pc)
-			pose = pose.Mul(step)
+			var next kinematics.Pose
+			mulPose(&next, &pose, &step)
+			pose = next
 		}
 	}
 	e.nodes, e.pieces = nodes, pieces
