@@ -87,8 +87,9 @@ func TestRigidCommonRotation(t *testing.T) {
 	}
 }
 
-// TestVoxelBitsetEqualsMap: the bitset count and the hash-set count of the
-// same tips are the same number of voxels, for three and four bellows, a
+// TestVoxelBitsetEqualsMap: the bitset count (counted over the whole box
+// and over the words set) and the hash-set count of the same tips are the
+// same number of voxels, for three and four bellows, a
 // threaded pair with an insertion range and a voxel edge small enough that
 // the box exceeds the bitset bound (hash set on both sides).
 func TestVoxelBitsetEqualsMap(t *testing.T) {
@@ -115,14 +116,19 @@ func TestVoxelBitsetEqualsMap(t *testing.T) {
 				shapes = append(shapes, sh)
 			}
 		}
-		got, err := e.voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
-		require.NoError(t, err)
 		want, err := voxelVolumeMap(shapes, w.BaseSteps, w.VoxelSize, func(int, int) error { return nil })
 		require.NoError(t, err)
 		assert.Greater(t, want, 0.0, c.name)
-		assert.Equal(t, want, got, "%s: bitset vs hash set", c.name)
-		for _, v := range e.voxels {
-			require.Zero(t, v, "%s: the bitset is left clear", c.name)
+		// the bitset counted whole (dense), by the words set, and as chosen
+		for _, mode := range []int{1, 2, 0} {
+			voxelMode = mode
+			got, err := e.voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
+			voxelMode = 0
+			require.NoError(t, err)
+			assert.Equal(t, want, got, "%s mode %d: bitset vs hash set", c.name, mode)
+			for _, v := range e.voxels {
+				require.Zero(t, v, "%s mode %d: the bitset is left clear", c.name, mode)
+			}
 		}
 	}
 }
