@@ -278,14 +278,17 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]fl
 	mp := e.payload
 	sum := 0.0
 	lam := ls.lam[:m]
-	for _, t := range ls.bterms {
+	for ti := range ls.bterms {
+		t := &ls.bterms[ti]
 		lm := lam[t.i]
 		if math.IsInf(lm, 1) {
 			return lm
 		}
 		D := d[t.i+1]
 		alpha := 0.0
-		for _, q := range ls.bpairs[t.first:t.end] {
+		pairs := ls.bpairs[t.first:t.end]
+		for k := range pairs {
+			q := &pairs[k]
 			via := d[q.d] + D
 			if q.E < via {
 				via = q.E
