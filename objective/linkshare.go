@@ -393,10 +393,14 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 		}
 		tip = pv.T
 		sh.kmax = pv.kmax
-		copy(sh.strain, pstrain)
+		for i, v := range pstrain { // a few values: no call to memmove
+			sh.strain[i] = v
+		}
 		if screen {
-			starts = append(starts, pstarts...)
-			copy(lam, plam)
+			for j := range pstarts {
+				starts = append(starts, pstarts[j])
+				lam[j] = plam[j]
+			}
 		}
 		j0 = J + 1
 	}
