@@ -141,3 +141,21 @@ func TestMulPoseEqualsMul(t *testing.T) {
 		require.Equal(t, a.Mul(b), got)
 	}
 }
+
+// TestLinkShareReuse: the link tables are pooled across evaluations and
+// keyed by structure; evaluating the cases in reverse order, after every
+// other design has used the pool, gives the same scores as in order.
+func TestLinkShareReuse(t *testing.T) {
+	cases := shareCases()
+	first := make([]string, len(cases))
+	for i, c := range cases {
+		res, err := Evaluate(c.d, c.sc)
+		require.NoError(t, err, c.name)
+		first[i] = fmt.Sprintf("%#v", res.Scores)
+	}
+	for i := len(cases) - 1; i >= 0; i-- {
+		res, err := Evaluate(cases[i].d, cases[i].sc)
+		require.NoError(t, err, cases[i].name)
+		assert.Equal(t, first[i], fmt.Sprintf("%#v", res.Scores), cases[i].name)
+	}
+}
