@@ -154,7 +154,9 @@ type evaluator struct {
 	touched                          []int32   // words of voxels set during one count
 	solver                           *kinematics.Solver
 	linkBuf                          []kinematics.Link
-	share                            linkShare // link solutions shared across samples (linkshare.go)
+	share                            linkShare    // link solutions shared across samples (linkshare.go)
+	boundStarts                      [][3]float64 // link starts of the shapes, for refineBound
+	boundLam                         []float64    // link stiffness eigenvalues of the shapes, for refineBound
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -274,18 +276,20 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 // that a search does not allocate per sample: shape and compliance
 // buffers. Nothing of it is part of a Result.
 type scratch struct {
-	nodes      []gaussNode
-	pieces     []gaussPiece
-	slab       []shape
-	strainSlab []float64
-	shapePtrs  []*shape
-	linkBuf    []kinematics.Link
-	voxels     []uint64
-	touched    []int32
-	linkStarts [][3]float64
-	precurv    [][2]float64
-	order      []int
-	share      linkShare
+	nodes       []gaussNode
+	pieces      []gaussPiece
+	slab        []shape
+	strainSlab  []float64
+	shapePtrs   []*shape
+	linkBuf     []kinematics.Link
+	voxels      []uint64
+	touched     []int32
+	linkStarts  [][3]float64
+	precurv     [][2]float64
+	order       []int
+	share       linkShare
+	boundStarts [][3]float64
+	boundLam    []float64
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -297,6 +301,7 @@ func (e *evaluator) takeScratch() {
 	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
 	e.share = s.share
 	e.share.ready = false
+	e.boundStarts, e.boundLam = s.boundStarts[:0], s.boundLam[:0]
 }
 
 func (e *evaluator) putScratch() {
@@ -304,7 +309,8 @@ func (e *evaluator) putScratch() {
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
-		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share})
+		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share,
+		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0]})
 	e.shapes = nil
 }
 
@@ -371,6 +377,7 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	}
 	share := e.shareUsable()
 	e.share.ready = false
+	e.boundStarts, e.boundLam = e.boundStarts[:0], e.boundLam[:0]
 	for k, a := range p.acts {
 		if err := e.tick(k, len(p.acts)); err != nil {
 			return err

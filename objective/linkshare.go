@@ -244,6 +244,11 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 			}
 		}
 		t.end = len(ls.bpairs)
+		// the arc E_ij in place of min(E_ij, D_j + D): the same sum with
+		// every term at least as large, so at least the bound's alpha
+		for _, q := range ls.bpairs[t.first:t.end] {
+			t.alphaArc += q.mj * (q.hl + q.E)
+		}
 		ls.bterms = append(ls.bterms, t)
 	}
 }
@@ -256,6 +261,7 @@ type boundTerm struct {
 	li, beta   float64
 	c          float64
 	first, end int
+	alphaArc   float64 // alpha with the arcs E_ij (sagBoundArc)
 }
 
 type boundPair struct {
@@ -267,7 +273,7 @@ type boundPair struct {
 // stiffness eigenvalues ls.lam of the sample: the same operations on the
 // same values, with what depends only on the structure computed once
 // (TestLinkShareEqualsFull compares the two bit for bit).
-func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]float64) float64 {
+func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, lam []float64, tip [3]float64) float64 {
 	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
 	d := ls.d[:m+1]
@@ -277,7 +283,7 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]fl
 	d[m] = 0
 	mp := e.payload
 	sum := 0.0
-	lam := ls.lam[:m]
+	lam = lam[:m]
 	for ti := range ls.bterms {
 		t := &ls.bterms[ti]
 		lm := lam[t.i]
@@ -300,6 +306,56 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, tip [3]fl
 		sum += (D*A*li + (D*B+A)*li*li/2 + (D*C+B)*li*li*li/3 + C*li*li*li*li/4) / lm
 	}
 	return e.gravityNorm * sum * (1 + 1e-12)
+}
+
+// sagBoundArc is sagBoundShared with the arc E_ij in place of
+// min(E_ij, D_j + D) for every pair of links: each term of the sum is at
+// least that of sagBoundShared (the same operations on larger operands,
+// all non-negative, and rounding is monotone), so it is an upper bound on
+// the same sags, at or above sagBoundShared, and costs no pair loop. The
+// sample loop computes it for every shape; the sag scan replaces it by
+// sagBoundShared for the shapes it may compute (refineBound).
+func (e *evaluator) sagBoundArc(ls *linkShare, starts [][3]float64, lam []float64, tip [3]float64) float64 {
+	gz, hs := e.gravityZ, e.gravityXY
+	m := len(ls.links)
+	d := ls.d[:m+1]
+	for i := range m {
+		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
+	}
+	d[m] = 0
+	mp := e.payload
+	sum := 0.0
+	lam = lam[:m]
+	for ti := range ls.bterms {
+		t := &ls.bterms[ti]
+		lm := lam[t.i]
+		if math.IsInf(lm, 1) {
+			return lm
+		}
+		D := d[t.i+1]
+		li := t.li
+		A, B, C := t.alphaArc+mp*D, t.beta+mp, t.c
+		sum += (D*A*li + (D*B+A)*li*li/2 + (D*C+B)*li*li*li/3 + C*li*li*li*li/4) / lm
+	}
+	return e.gravityNorm * sum * (1 + 1e-12)
+}
+
+// refineBound replaces a shape's arc bound by the bound of sagBoundShared
+// from the link starts and eigenvalues kept for it, once, while the link
+// structure it was sampled with is the current one (otherwise the arc
+// bound, also an upper bound, stays).
+func (e *evaluator) refineBound(sh *shape) {
+	if sh.refined {
+		return
+	}
+	sh.refined = true
+	ls := &e.share
+	if sh.ref < 0 || !ls.ready || sh.epoch != ls.epoch {
+		return
+	}
+	m := len(ls.links)
+	r := int(sh.ref)
+	sh.bound = e.sagBoundShared(ls, e.boundStarts[r:r+m], e.boundLam[r:r+m], sh.tip.P)
 }
 
 // mulPose sets *dst = a·b with the operations of kinematics.Pose.Mul; dst
@@ -347,7 +403,8 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 		links, err := e.solver.Links(a.Theta, a.Beta, e.linkBuf[:0])
 		e.linkBuf = links
 		if err != nil || len(links) == 0 {
-			ls.ready = false
+			// outside the nesting rules, an error or no link: the
+			// straightforward path decides; the structure stays
 			return e.evalShape(a)
 		}
 		ls.build(links, a.Beta, p, e.solver.Isotropic(), e.robot.Tubes, e.strainPerCurvature)
@@ -355,10 +412,21 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 	s := sample{idx: p.angleIdx[k*n : (k+1)*n], ksc: p.ksc[k*n : (k+1)*n], msc: p.msc[k*n : (k+1)*n]}
 	sh := e.newShape(a)
 	screen := e.screen && !e.tipsOnly
+	// the link starts and eigenvalues of a screened shape are kept for
+	// refineBound: written straight into its slabs
+	ref := len(e.boundStarts)
 	starts := e.linkStarts[:0]
+	if screen {
+		starts = e.boundStarts
+	}
 	links := ls.links
 	m := len(links)
 	lam := ls.lam[:m]
+	if screen {
+		e.boundLam = slices.Grow(e.boundLam, m)
+		e.boundLam = e.boundLam[:ref+m]
+		lam = e.boundLam[ref : ref+m]
+	}
 	var tip, next kinematics.Pose
 	tip = kinematics.Identity()
 	j0 := 0
@@ -422,12 +490,18 @@ func (e *evaluator) evalShared(p *samplePlan, k int) (*shape, error) {
 			sh.strain[i] = maxNaN(sh.strain[i], lstrain[i])
 		}
 	}
-	e.linkStarts = starts
+	if screen {
+		e.boundStarts = starts
+		starts = starts[ref:]
+	} else {
+		e.linkStarts = starts
+	}
 	sh.tip = tip
 	sh.rho = math.Hypot(tip.P[0], tip.P[1])
 	switch {
 	case screen:
-		sh.bound = e.sagBoundShared(ls, starts, tip.P)
+		sh.bound = e.sagBoundArc(ls, starts, lam, tip.P)
+		sh.ref, sh.epoch = int32(ref), ls.epoch
 	case !e.tipsOnly:
 		// the compliance needs every link's curvature: solve them as the
 		// straightforward path does

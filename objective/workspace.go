@@ -27,8 +27,14 @@ type shape struct {
 	// it only for the shapes whose bound can reach the worst sag.
 	hasComp bool
 	// bound is an upper bound on the linear sag |g| hᵀ C h over every
-	// common rotation (sagBound), m; set when the sag scan screens.
-	bound float64
+	// common rotation (sagBound), m; set when the sag scan screens. With
+	// link sharing it is first the looser arc bound (sagBoundArc) and
+	// refined is false until refineBound replaces it; ref and epoch
+	// locate the link starts and eigenvalues kept for that.
+	bound   float64
+	refined bool
+	ref     int32
+	epoch   uint32
 	// kmax is the largest curvature magnitude over the nested section
 	// (links where two or more bellows are present; all links for a
 	// single bellows), 1/m.
@@ -441,6 +447,7 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 	switch {
 	case screen:
 		sh.bound = e.sagBound(links, e.linkStarts, tip.P)
+		sh.refined = true
 	case !e.tipsOnly:
 		sh.comp = e.compliance(links, e.rule())
 		sh.hasComp = true
