@@ -89,9 +89,10 @@ func TestRigidCommonRotation(t *testing.T) {
 
 // TestVoxelBitsetEqualsMap: the bitset count (counted over the whole box
 // and over the words set) and the hash-set count of the same tips are the
-// same number of voxels, for three and four bellows, a
-// threaded pair with an insertion range and a voxel edge small enough that
-// the box exceeds the bitset bound (hash set on both sides).
+// same number of voxels, for three and four bellows (one with an odd
+// number of common rotations), a threaded pair with an insertion range and
+// a voxel edge small enough that the box exceeds the bitset bound (hash
+// set on both sides).
 func TestVoxelBitsetEqualsMap(t *testing.T) {
 	cases := []struct {
 		name string
@@ -102,6 +103,7 @@ func TestVoxelBitsetEqualsMap(t *testing.T) {
 		{"four", fourBellows(), Workspace{RelativeSteps: 8, BaseSteps: 16, VoxelSize: 1e-3}},
 		{"three fine", threeBellows(), Workspace{RelativeSteps: 8, BaseSteps: 8, VoxelSize: 5e-5}},
 		{"three insertion", threeBellows(), Workspace{RelativeSteps: 8, BaseSteps: 16, InsertionSteps: 3, Insertion: [][2]float64{{-0.03, 0}}}},
+		{"three odd base steps", threeBellows(), Workspace{RelativeSteps: 12, BaseSteps: 15}},
 	}
 	for _, c := range cases {
 		robot, st, err := c.d.Robot()
