@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	bits64 "math/bits"
 	"strings"
 	"sync"
 
@@ -159,6 +160,9 @@ type evaluator struct {
 	touched                          []int32   // words of voxels set during one count
 	solver                           *kinematics.Solver
 	linkBuf                          []kinematics.Link
+	share                            linkShare    // link solutions shared across samples (linkshare.go)
+	boundStarts                      [][3]float64 // link starts of the shapes, for refineBound
+	boundLam                         []float64    // link stiffness eigenvalues of the shapes, for refineBound
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -278,17 +282,20 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 // that a search does not allocate per sample: shape and compliance
 // buffers. Nothing of it is part of a Result.
 type scratch struct {
-	nodes      []gaussNode
-	pieces     []gaussPiece
-	slab       []shape
-	strainSlab []float64
-	shapePtrs  []*shape
-	linkBuf    []kinematics.Link
-	voxels     []uint64
-	touched    []int32
-	linkStarts [][3]float64
-	precurv    [][2]float64
-	order      []int
+	nodes       []gaussNode
+	pieces      []gaussPiece
+	slab        []shape
+	strainSlab  []float64
+	shapePtrs   []*shape
+	linkBuf     []kinematics.Link
+	voxels      []uint64
+	touched     []int32
+	linkStarts  [][3]float64
+	precurv     [][2]float64
+	order       []int
+	share       linkShare
+	boundStarts [][3]float64
+	boundLam    []float64
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -298,6 +305,9 @@ func (e *evaluator) takeScratch() {
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
 	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
+	e.share = s.share
+	e.share.ready = false
+	e.boundStarts, e.boundLam = s.boundStarts[:0], s.boundLam[:0]
 }
 
 func (e *evaluator) putScratch() {
@@ -305,7 +315,8 @@ func (e *evaluator) putScratch() {
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
 	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
-		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0]})
+		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share,
+		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0]})
 	e.shapes = nil
 }
 
@@ -363,11 +374,27 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))
 	}
 	shapes := e.shapePtrs[:0]
+	if e.solver == nil {
+		solver, err := kinematics.NewSolver(e.robot)
+		if err != nil {
+			return err
+		}
+		e.solver = solver
+	}
+	share := e.shareUsable()
+	e.share.ready = false
+	e.boundStarts, e.boundLam = e.boundStarts[:0], e.boundLam[:0]
 	for k, a := range p.acts {
 		if err := e.tick(k, len(p.acts)); err != nil {
 			return err
 		}
-		sh, err := e.evalShape(a)
+		var sh *shape
+		var err error
+		if share {
+			sh, err = e.evalShared(&p, k)
+		} else {
+			sh, err = e.evalShape(a)
+		}
 		if err != nil {
 			return err
 		}
@@ -385,19 +412,19 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 	sc.StrainPerBellows = make([]float64, n)
 	straightest := shapes[0]
 	for _, sh := range shapes {
-		rho := math.Hypot(sh.tip.P[0], sh.tip.P[1])
-		sc.Reach = math.Max(sc.Reach, rho)
+		rho := sh.rho
+		sc.Reach = fmax(sc.Reach, rho)
 		bend := math.Acos(clamp(sh.tip.R[2][2], -1, 1))
-		sc.BendAngleMin = math.Min(sc.BendAngleMin, bend)
-		sc.BendAngleMax = math.Max(sc.BendAngleMax, bend)
-		sc.CurvatureMin = math.Min(sc.CurvatureMin, sh.kmax)
-		sc.CurvatureMax = math.Max(sc.CurvatureMax, sh.kmax)
+		sc.BendAngleMin = fmin(sc.BendAngleMin, bend)
+		sc.BendAngleMax = fmax(sc.BendAngleMax, bend)
+		sc.CurvatureMin = fmin(sc.CurvatureMin, sh.kmax)
+		sc.CurvatureMax = fmax(sc.CurvatureMax, sh.kmax)
 		if rho < sc.StraightTipOffset {
 			sc.StraightTipOffset = rho
 			straightest = sh
 		}
 		for i, s := range sh.strain {
-			sc.StrainPerBellows[i] = math.Max(sc.StrainPerBellows[i], s)
+			sc.StrainPerBellows[i] = fmax(sc.StrainPerBellows[i], s)
 		}
 	}
 	sc.BendAngleRange = sc.BendAngleMax - sc.BendAngleMin
@@ -459,8 +486,8 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
 	for _, sh := range shapes {
 		p := sh.tip.P
-		rho = math.Max(rho, math.Hypot(p[0], p[1]))
-		zlo, zhi = math.Min(zlo, p[2]), math.Max(zhi, p[2])
+		rho = fmax(rho, sh.rho)
+		zlo, zhi = fmin(zlo, p[2]), fmax(zhi, p[2])
 	}
 	x0 := int64(math.Floor(-rho/h)) - 1
 	x1 := int64(math.Floor(rho/h)) + 1
@@ -473,45 +500,63 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 			e.voxels = make([]uint64, words)
 		}
 		bits := e.voxels[:words]
-		e.touched = e.touched[:0]
-		count := 0
+		// A box of few words against the turned tips is counted and
+		// cleared whole; otherwise every word set is listed once (at most
+		// one per turned tip) and only those are.
+		dense := 4*words <= int64(len(shapes)*len(sins))
+		if voxelMode != 0 {
+			dense = voxelMode == 1
+		}
+		var touched []int32
+		if !dense {
+			if need := len(shapes) * len(sins); cap(e.touched) < need {
+				e.touched = make([]int32, need)
+			}
+			touched = e.touched[:cap(e.touched)]
+		}
+		nt := 0
 		inside := true
-	loop:
+		clearAll := func() {
+			if dense {
+				clear(bits)
+			} else {
+				e.clearVoxels(bits, touched[:nt])
+			}
+		}
 		for k, sh := range shapes {
 			if err := e.tick(k, len(shapes)); err != nil {
-				e.clearVoxels(bits)
+				clearAll()
 				return 0, err
 			}
-			// the voxel of voxelKey(turnedBy(p, sin, cos), h), written out:
-			// the common rotation leaves z, so its layer is the shape's
+			// the voxel of voxelKey(turnedBy(p, sin, cos), h): the common
+			// rotation leaves z, so its layer is the shape's
 			p := sh.tip.P
-			p0, p1 := p[0], p[1]
 			iz := int64(int32(math.Floor(p[2]/h))) - z0
 			if iz < 0 || iz >= nz {
 				inside = false
-				break loop
+				break
 			}
-			layer := nx * nx * iz
-			for j, s := range sins {
-				c := coss[j]
-				ix := int64(int32(math.Floor((c*p0-s*p1)/h))) - x0
-				iy := int64(int32(math.Floor((s*p0+c*p1)/h))) - x0
-				if ix < 0 || ix >= nx || iy < 0 || iy >= nx {
-					inside = false
-					break loop
-				}
-				i := ix + nx*iy + layer
-				w, b := i>>6, uint64(1)<<(i&63)
-				if bits[w]&b == 0 {
-					if bits[w] == 0 {
-						e.touched = append(e.touched, int32(w))
-					}
-					bits[w] |= b
-					count++
-				}
+			if !(sh.rho <= rho) {
+				inside = false
+				break
+			}
+			if dense {
+				markRingDense(bits, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz)
+			} else {
+				nt = markRing(bits, touched, nt, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz)
 			}
 		}
-		e.clearVoxels(bits)
+		count := 0
+		if dense {
+			for _, w := range bits {
+				count += bits64.OnesCount64(w)
+			}
+		} else {
+			for _, w := range touched[:nt] {
+				count += bits64.OnesCount64(bits[w])
+			}
+		}
+		clearAll()
 		if inside {
 			return float64(count) * h * h * h, nil
 		}
@@ -519,15 +564,80 @@ func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (floa
 	return voxelVolumeMap(shapes, baseSteps, h, e.tick)
 }
 
+// voxelMode, when not 0, makes voxelVolume count the whole box (1) or
+// only the words it set (2), for the tests to compare both with the hash
+// set; 0 chooses by the box size.
+var voxelMode = 0
+
 // maxVoxelBits bounds the bitset of voxelVolume (8 MiB).
 const maxVoxelBits = 1 << 26
 
 // clearVoxels zeroes the words voxelVolume set.
-func (e *evaluator) clearVoxels(bits []uint64) {
-	for _, w := range e.touched {
+func (e *evaluator) clearVoxels(bits []uint64, touched []int32) {
+	for _, w := range touched {
 		bits[w] = 0
 	}
-	e.touched = e.touched[:0]
+}
+
+// markRing sets the voxel bits of the tip (p0, p1) turned by every common
+// rotation (sines sins, cosines coss) in the layer starting at bit layer
+// of a box of nx × nx voxels per layer from voxel x0 on, h the edge: the
+// voxel of voxelKey(turnedBy(p, sin, cos), h), with the same arithmetic.
+// It lists each word it sets from zero in touched[nt:] and returns the new
+// length.
+//
+// Every turned tip lies inside the box when rho, the box's half-width
+// less its voxel of margin, is at least the tip's distance from the axis
+// as math.Hypot gives it: |c p0 − s p1| and |s p0 + c p1| exceed that
+// distance by at most 5 units of the last place, so x/h ≥ −rho/h − 1e-11
+// for the ≤ 2¹⁶ voxels of the box and floor(x/h) ≥ x0 = floor(−rho/h) − 1
+// (likewise at the top end). The loop therefore checks only the word
+// index, through the slice.
+func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) int {
+	coss = coss[:len(sins)]
+	base := layer - x0 - nx*x0
+	for j, s := range sins {
+		c := coss[j]
+		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
+		w := i >> 6
+		old := bits[w]
+		if old == 0 {
+			touched[nt] = int32(w)
+			nt++
+		}
+		bits[w] = old | 1<<(i&63)
+	}
+	return nt
+}
+
+// markRingDense is markRing without the list of words set.
+func markRingDense(bits []uint64, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) {
+	coss = coss[:len(sins)]
+	base := layer - x0 - nx*x0
+	// two rotations per pass: independent work to overlap, half the loop
+	j := 0
+	for ; j+1 < len(sins); j += 2 {
+		s, c, s2, c2 := sins[j], coss[j], sins[j+1], coss[j+1]
+		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
+		i2 := floorInt((c2*p0-s2*p1)/h) + nx*floorInt((s2*p0+c2*p1)/h) + base
+		bits[i>>6] |= 1 << (i & 63)
+		bits[i2>>6] |= 1 << (i2 & 63)
+	}
+	if j < len(sins) {
+		s, c := sins[j], coss[j]
+		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
+		bits[i>>6] |= 1 << (i & 63)
+	}
+}
+
+// floorInt is int64(int32(math.Floor(x))) for |x| < 2³¹ (the bitset box is
+// at most 2¹⁶ voxels wide): truncation, one less when that rounded up.
+func floorInt(x float64) int64 {
+	t := int64(x)
+	if float64(t) > x {
+		t--
+	}
+	return t
 }
 
 // voxelVolumeMap is voxelVolume with a hash set of voxel keys.
@@ -576,4 +686,27 @@ func (e *evaluator) tasks(shapes []*shape, res *Result) error {
 	return nil
 }
 
-func clamp(x, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, x)) }
+func clamp(x, lo, hi float64) float64 { return fmax(lo, fmin(hi, x)) }
+
+// fmax is math.Max, with the comparison inline: only equal values (signed
+// zeros) and NaN go to math.Max.
+func fmax(x, y float64) float64 {
+	if x > y {
+		return x
+	}
+	if y > x {
+		return y
+	}
+	return math.Max(x, y)
+}
+
+// fmin is math.Min, as fmax is math.Max.
+func fmin(x, y float64) float64 {
+	if x < y {
+		return x
+	}
+	if y < x {
+		return y
+	}
+	return math.Min(x, y)
+}

@@ -227,14 +227,7 @@ func BenchmarkEvaluateTwoBellows(b *testing.B) {
 		measuredBellows(0.15, 0.10, 4, 1.1, 45, 0.03),
 	}}
 	sc := &Scenario{Load: Load{PayloadMass: 0.05}, Workspace: Workspace{RelativeSteps: 64, BaseSteps: 64}}
-	n := 0
-	for b.Loop() {
-		if _, err := Evaluate(d, sc); err != nil {
-			b.Fatal(err)
-		}
-		n++
-	}
-	b.ReportMetric(b.Elapsed().Seconds()*1e3/float64(n), "ms/eval")
+	benchEvaluate(b, d, sc)
 }
 
 // TestThreadedPair: a helical inner bellows threaded into the outer one,

@@ -4,6 +4,7 @@ import (
 	"encoding/binary"
 	"fmt"
 	"math"
+	"slices"
 
 	"plica/objective/kinematics"
 	"plica/surrogate"
@@ -187,9 +188,19 @@ func (e *evaluator) stability(res *Result) error {
 	// distinct set of effective insertions is tested once.
 	seen := map[string]bool{}
 	var acts []kinematics.Actuation
+	// Without threads the effective insertions are the sampled ones, and
+	// a shape with the insertions of the one before it adds nothing.
+	threaded := len(e.robot.Threads) > 0
+	var prev []float64
 	for k, sh := range e.shapes {
 		if err := e.tick(k, len(e.shapes)); err != nil {
 			return err
+		}
+		if !threaded {
+			if prev != nil && slices.Equal(prev, sh.act.Beta) {
+				continue
+			}
+			prev = sh.act.Beta
 		}
 		beta := e.robot.EffectiveInsertion(sh.act)
 		kb := make([]byte, 0, 8*len(beta))

@@ -144,7 +144,10 @@ func (e *evaluator) worstSag(hh [][6]float64) (*shape, int, error) {
 		order = order[:0]
 		for k, sh := range e.shapes {
 			if !(sh.bound < T) {
-				order = append(order, k)
+				e.refineBound(sh)
+				if !(sh.bound < T) {
+					order = append(order, k)
+				}
 			}
 		}
 		slices.SortFunc(order, func(a, b int) int {

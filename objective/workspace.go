@@ -19,6 +19,7 @@ import (
 type shape struct {
 	act kinematics.Actuation
 	tip kinematics.Pose
+	rho float64 // distance of the tip from the base axis, m
 	// comp is the linear tip compliance to a unit gravity vector: the tip
 	// displacement under self-weight plus payload is comp·g (objective/statics/REFERENCE.md §3).
 	comp [3][3]float64
@@ -26,8 +27,14 @@ type shape struct {
 	// it only for the shapes whose bound can reach the worst sag.
 	hasComp bool
 	// bound is an upper bound on the linear sag |g| hᵀ C h over every
-	// common rotation (sagBound), m; set when the sag scan screens.
-	bound float64
+	// common rotation (sagBound), m; set when the sag scan screens. With
+	// link sharing it is first the looser arc bound (sagBoundArc) and
+	// refined is false until refineBound replaces it; ref and epoch
+	// locate the link starts and eigenvalues kept for that.
+	bound   float64
+	refined bool
+	ref     int32
+	epoch   uint32
 	// kmax is the largest curvature magnitude over the nested section
 	// (links where two or more bellows are present; all links for a
 	// single bellows), 1/m.
@@ -44,6 +51,18 @@ type samplePlan struct {
 	// relative rotation of a pair over a full turn (surface area applies).
 	grid2 bool
 	dof   int
+	// angleSteps gives, per bellows, how many distinct angles the plan
+	// gives it (1: held at 0; the relative steps on a grid; 0 when the
+	// angles are not on a grid, the Halton set), and angleIdx, per
+	// actuation (n entries each), the index of each bellows' angle among
+	// them: equal indices are equal angles. The link sharing keys on them
+	// (linkshare.go).
+	angleSteps []int
+	angleIdx   []int32
+	// ksc and msc hold, per actuation and bellows, the sine and cosine of
+	// its angle as kinematics.SinCos and math.Sincos give them (the link
+	// solve and the strains use one each).
+	ksc, msc [][2]float64
 }
 
 func defaults(w Workspace) Workspace {
@@ -112,6 +131,22 @@ func planKey(n int, w Workspace) string {
 
 // buildPlan is plan without the cache.
 func buildPlan(n int, w Workspace) samplePlan {
+	p := buildActs(n, w)
+	p.ksc = make([][2]float64, 0, len(p.acts)*n)
+	p.msc = make([][2]float64, 0, len(p.acts)*n)
+	for _, a := range p.acts {
+		for _, th := range a.Theta {
+			ks, kc := kinematics.SinCos(th)
+			ms, mc := math.Sincos(th)
+			p.ksc = append(p.ksc, [2]float64{ks, kc})
+			p.msc = append(p.msc, [2]float64{ms, mc})
+		}
+	}
+	return p
+}
+
+// buildActs is buildPlan without the sines and cosines.
+func buildActs(n int, w Workspace) samplePlan {
 	var dims []int // grid sizes per dimension
 	var kinds []int
 	const rel, ins = 0, 1
@@ -130,6 +165,10 @@ func buildPlan(n int, w Workspace) samplePlan {
 	}
 	p := samplePlan{dof: len(dims) + 1}
 	p.grid2 = n == 2 && len(dims) == 1
+	p.angleSteps = make([]int, n)
+	for i := range p.angleSteps {
+		p.angleSteps[i] = 1
+	}
 	fixedBeta := FixedInsertion(n, w)
 	total := 1
 	for _, d := range dims {
@@ -153,10 +192,16 @@ func buildPlan(n int, w Workspace) samplePlan {
 	}
 	if len(dims) == 0 {
 		p.acts = []kinematics.Actuation{build(nil)}
+		p.angleIdx = make([]int32, n)
 		return p
 	}
 	coords := make([]float64, len(dims))
 	if total <= w.Samples {
+		for k, d := range dims {
+			if kinds[k] == rel {
+				p.angleSteps[insIdx[k]] = d
+			}
+		}
 		idx := make([]int, len(dims))
 		for {
 			for k, d := range dims {
@@ -167,6 +212,13 @@ func buildPlan(n int, w Workspace) samplePlan {
 				}
 			}
 			p.acts = append(p.acts, build(coords))
+			ai := make([]int32, n)
+			for k := range dims {
+				if kinds[k] == rel {
+					ai[insIdx[k]] = int32(idx[k])
+				}
+			}
+			p.angleIdx = append(p.angleIdx, ai...)
 			k := 0
 			for ; k < len(dims); k++ {
 				idx[k]++
@@ -180,6 +232,12 @@ func buildPlan(n int, w Workspace) samplePlan {
 			}
 		}
 	}
+	for k := range dims {
+		if kinds[k] == rel {
+			p.angleSteps[insIdx[k]] = 0
+		}
+	}
+	p.angleIdx = make([]int32, n*w.Samples)
 	for j := 0; j < w.Samples; j++ {
 		for k := range dims {
 			coords[k] = radicalInverse(j+1, primes[k%len(primes)])
@@ -385,9 +443,11 @@ func (e *evaluator) evalShape(a kinematics.Actuation) (*shape, error) {
 		}
 	}
 	sh.tip = tip
+	sh.rho = math.Hypot(tip.P[0], tip.P[1])
 	switch {
 	case screen:
 		sh.bound = e.sagBound(links, e.linkStarts, tip.P)
+		sh.refined = true
 	case !e.tipsOnly:
 		sh.comp = e.compliance(links, e.rule())
 		sh.hasComp = true
@@ -443,6 +503,18 @@ func (e *evaluator) reserve(count int) {
 
 // nonFinite names the first non-finite quantity of a shape, "" if none.
 func (sh *shape) nonFinite() string {
+	// fast path: a sum of finite values minus itself is 0 (an overflowing
+	// sum or a non-finite term gives NaN and takes the loop below)
+	sum := sh.kmax
+	for i := range 3 {
+		sum += sh.tip.P[i] + (sh.tip.R[i][0] + sh.tip.R[i][1] + sh.tip.R[i][2]) + (sh.comp[i][0] + sh.comp[i][1] + sh.comp[i][2])
+	}
+	for _, s := range sh.strain {
+		sum += s
+	}
+	if sum-sum == 0 {
+		return ""
+	}
 	for i := range 3 {
 		if !isFinite(sh.tip.P[i]) {
 			return "the tip position"
@@ -513,7 +585,8 @@ func (e *evaluator) compliance(links []kinematics.Link, rule *gaussRule) [3][3]f
 			pc.ip = pieceIntegral(&pose, h, stepJ)
 			for g := range G {
 				t := 0.5 * h * (1 + rule.x[g])
-				np := pose.Mul(off[g])
+				var np kinematics.Pose
+				mulPose(&np, &pose, &off[g])
 				nodes = append(nodes, gaussNode{
 					p:   np.P,
 					kin: rkr(np.R, kinv),
@@ -523,7 +596,9 @@ func (e *evaluator) compliance(links []kinematics.Link, rule *gaussRule) [3][3]f
 				})
 			}
 			pieces = append(pieces, pc)
-			pose = pose.Mul(step)
+			var next kinematics.Pose
+			mulPose(&next, &pose, &step)
+			pose = next
 		}
 	}
 	e.nodes, e.pieces = nodes, pieces

@@ -3,6 +3,7 @@ package kinematics
 import (
 	"fmt"
 	"math"
+	"math/bits"
 )
 
 // solverTube holds what does not depend on the actuation.
@@ -410,3 +411,83 @@ func (s *Solver) Backbone(theta, beta []float64, maxStep float64, ss []float64, 
 	}
 	return ss, poses, nil
 }
+
+// Threaded reports whether some tube is threaded, so that the effective
+// insertions (and with them the link boundaries) depend on the angles.
+func (s *Solver) Threaded() bool { return s.rate != nil }
+
+// Relink sets the curvature U and stiffness K of link l, the j-th (0-based)
+// of those Links gave (its K as Links gave it, or as Relink left it), to
+// their values at other angles θ_i, given by
+// sc[i] = SinCos(θ_i): for any angles with the same effective insertions
+// (so the same boundaries and the same Present, Curved and MassPerLength),
+// Links(theta, beta)[j] equals l after Relink bit for bit. It sums over the
+// present tubes in the same order as Links and reads sc[i] only for the
+// tubes that need it (every present tube when a bending tensor is
+// anisotropic, the curved ones otherwise). The error is that of Links for
+// a singular link stiffness.
+func (s *Solver) Relink(sc [][2]float64, j int, l *Link) error {
+	var kxx, kxy, kyy, gj, mx, my float64
+	sc = sc[:len(s.tubes)]
+	if s.iso {
+		// The stiffness sums do not depend on the angles: l.K holds them
+		// as Links summed them. Only the curved tubes' moments are summed
+		// again, in tube order.
+		kxx, kxy, kyy = l.K[0][0], l.K[0][1], l.K[1][1]
+		for c := l.Curved & l.Present; c != 0; c &= c - 1 {
+			i := bits.TrailingZeros64(c)
+			t := &s.tubes[i]
+			sn, cn := sc[i][0], sc[i][1]
+			mx += cn*t.bx - sn*t.by
+			my += sn*t.bx + cn*t.by
+		}
+		ux, uy, err := linkCurvature(j, l.Start, l.End, kxx, kxy, kyy, mx, my)
+		if err != nil {
+			return err
+		}
+		l.U = [3]float64{ux, uy, 0}
+		return nil
+	}
+	for i := range s.tubes {
+		bit := uint64(1) << i
+		if l.Present&bit == 0 {
+			continue
+		}
+		t := &s.tubes[i]
+		curved := l.Curved&bit != 0
+		var sn, cn float64
+		if curved || !s.iso {
+			sn, cn = sc[i][0], sc[i][1]
+		}
+		if s.iso {
+			kxx += t.m
+			kyy += t.m
+		} else {
+			xx, xy, yy := rotatedBending(t.m, t.d, t.q, cn, sn)
+			kxx += xx
+			kxy += xy
+			kyy += yy
+		}
+		gj += t.gj
+		if curved {
+			mx += cn*t.bx - sn*t.by
+			my += sn*t.bx + cn*t.by
+		}
+	}
+	ux, uy, err := linkCurvature(j, l.Start, l.End, kxx, kxy, kyy, mx, my)
+	if err != nil {
+		return err
+	}
+	l.U = [3]float64{ux, uy, 0}
+	l.K = [3][3]float64{{kxx, kxy, 0}, {kxy, kyy, 0}, {0, 0, gj}}
+	return nil
+}
+
+// SinCos returns the sine and cosine of x as the Solver computes them
+// (within 2.3e-16 of math.Sincos), for Relink.
+func SinCos(x float64) (sin, cos float64) { return sincos(x) }
+
+// Isotropic reports whether every tube's bending tensor is isotropic, so
+// that a link's curvature depends only on the angles of its curved tubes
+// (and its stiffness on none).
+func (s *Solver) Isotropic() bool { return s.iso }
