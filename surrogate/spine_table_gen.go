@@ -9,7 +9,7 @@
 // exactly. Factor: GJ(spine)/GJ(no spine). Axial, Stretch, Neutral: the FE's EA, EI stretching
 // the spine and EI with the spine on the neutral plane, each as [FE(spine)/FE(no spine)] /
 // [closed form(spine)/closed form(no spine)], closed form surrogate.Bellows.SpineClosedForm
-// (strip fidelity). Generated in 76 s.
+// (strip fidelity).
 
 package surrogate
 
