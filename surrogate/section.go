@@ -283,53 +283,47 @@ type zoneMoments struct{ m0, mc, ms, mcc, mss, mcs float64 }
 // would reach past ψ = π stop there.
 func spineZone(ks, kc, h, d float64) zoneMoments {
 	var z zoneMoments
-	add := func(w, psi float64) {
-		c, s := math.Cos(psi), math.Sin(psi)
-		z.m0 += w
-		z.mc += w * c
-		z.ms += w * s
-		z.mcc += w * c * c
-		z.mss += w * s * s
-		z.mcs += w * c * s
-	}
 	h = math.Min(h, math.Pi)
 	// the spine, ψ ∈ [−h, h], in closed form
 	dk := ks - kc
 	z.m0 += dk * 2 * h
 	z.mc += dk * 2 * math.Sin(h)
 	z.mcc += dk * (h + math.Sin(2*h)/2)
-	z.mss += dk * (h - math.Sin(2*h)/2)
-	if d <= 0 || h >= math.Pi {
-		return z
-	}
-	fMax := math.Min(1, (math.Pi-h)/d)
-	rho := (1/kc - 1/ks) * ks
-	const n = 24 // Simpson intervals, even
-	var th float64
-	if rho > 1e-12 {
-		th = math.Atan(fMax * math.Sqrt(rho))
-	}
-	for i := 0; i <= n; i++ {
-		wSimp := 2.0
-		if i == 0 || i == n {
-			wSimp = 1
-		} else if i%2 == 1 {
-			wSimp = 4
-		}
-		wSimp /= 3 * n
-		// the blend's stiffness, k(f)·df = ks/√ρ·dθ, at the θ nodes
-		f := fMax * float64(i) / n
-		w := fMax / (1/ks + f*f*(1/kc-1/ks)) // in f where ρ ≤ 0 (kc ≥ ks)
+	if d > 0 && h < math.Pi {
+		fMax := math.Min(1, (math.Pi-h)/d)
+		rho := (1/kc - 1/ks) * ks
+		const n = 24 // Simpson intervals, even
+		var th float64
 		if rho > 1e-12 {
-			a := th * float64(i) / n
-			f, w = math.Tan(a)/math.Sqrt(rho), ks/math.Sqrt(rho)*th
+			th = math.Atan(fMax * math.Sqrt(rho))
 		}
-		add(wSimp*w*d, h+f*d) // blend on the +ψ side
-		add(wSimp*w*d, -h-f*d)
-		// less the convolutions it replaces, kc·df, at the f nodes
-		f = fMax * float64(i) / n
-		add(-wSimp*kc*fMax*d, h+f*d)
-		add(-wSimp*kc*fMax*d, -h-f*d)
+		// the blends at ±ψ: sin ψ and cos ψ sin ψ cancel, the rest doubles
+		add := func(w, psi float64) {
+			c := math.Cos(psi)
+			z.m0 += 2 * w
+			z.mc += 2 * w * c
+			z.mcc += 2 * w * c * c
+		}
+		for i := 0; i <= n; i++ {
+			wSimp := 2.0
+			if i == 0 || i == n {
+				wSimp = 1
+			} else if i%2 == 1 {
+				wSimp = 4
+			}
+			wSimp /= 3 * n
+			// the blend's stiffness, k(f)·df = ks/√ρ·dθ, at the θ nodes
+			f := fMax * float64(i) / n
+			w := fMax / (1/ks + f*f*(1/kc-1/ks)) // in f where ρ ≤ 0 (kc ≥ ks)
+			if rho > 1e-12 {
+				a := th * float64(i) / n
+				f, w = math.Tan(a)/math.Sqrt(rho), ks/math.Sqrt(rho)*th
+			}
+			add(wSimp*w*d, h+f*d)
+			// less the convolutions it replaces, kc·df, at the f nodes
+			add(-wSimp*kc*fMax*d, h+fMax*float64(i)/n*d)
+		}
 	}
+	z.mss = z.m0 - z.mcc
 	return z
 }

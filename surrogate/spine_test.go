@@ -168,7 +168,8 @@ func TestSpineValidity(t *testing.T) {
 // Abramowitz & Stegun, Handbook of Mathematical Functions, 1964, 3.3.21,
 // from memory), for stiffness ratios ks/kc from 1.5 to 10⁴, and the
 // degenerate cases: no blend gives the plain spine's closed form, equal
-// stiffnesses give no change at all.
+// stiffnesses give no change at all. (The cos ψ moments are checked
+// against a midpoint rule in TestSpineAnisotropy.)
 func TestSpineZoneBlendIntegral(t *testing.T) {
 	const h, d = 0.1, 0.2
 	for _, ratio := range []float64{1.5, 10, 300, 1e4} {
@@ -177,9 +178,6 @@ func TestSpineZoneBlendIntegral(t *testing.T) {
 		z := spineZone(ks, kc, h, d)
 		want := (ks-kc)*2*h + 2*d*(ks*math.Atan(math.Sqrt(rho))/math.Sqrt(rho)-kc)
 		assert.InEpsilon(t, want, z.m0, 1e-6, "ks/kc %g", ratio)
-		assert.InDelta(t, 0, z.ms, 1e-15, "symmetric about the spine")
-		assert.InDelta(t, 0, z.mcs, 1e-15, "symmetric about the spine")
-		assert.InDelta(t, z.m0, z.mcc+z.mss, 1e-12*z.m0, "cos² + sin² = 1")
 	}
 	z := spineZone(2, 1, h, 0)
 	assert.Equal(t, zoneMoments{m0: 2 * h, mc: 2 * math.Sin(h), mcc: h + math.Sin(2*h)/2, mss: h - math.Sin(2*h)/2}, z)
