@@ -13,13 +13,15 @@ func benchBellows() map[string]Bellows {
 	u.Profile, u.Depth = UShape, 4e-3
 	tr := s
 	tr.Profile, tr.FlatFraction = Trapezoid, 0.3
-	return map[string]Bellows{"sinusoid": s, "u": u, "trapezoid": tr}
+	sp := s
+	sp.SpineWidth = 0.1 * 3.141592653589793 * 2 * s.MeanRadius() // β 0.1: the spine and its blends
+	return map[string]Bellows{"sinusoid": s, "u": u, "trapezoid": tr, "sinusoid-spined": sp}
 }
 
 // BenchmarkSectionStrip measures one Strip-fidelity Section (target
 // < 5 µs per evaluation).
 func BenchmarkSectionStrip(b *testing.B) {
-	for _, name := range []string{"sinusoid", "u", "trapezoid"} {
+	for _, name := range []string{"sinusoid", "u", "trapezoid", "sinusoid-spined"} {
 		bl := benchBellows()[name]
 		b.Run(name, func(b *testing.B) {
 			if s, err := bl.Section(Strip); err != nil || s.Fidelity != Strip {

@@ -28,8 +28,10 @@
 // model of package solid (thick-wall strain, bending strain and EI from
 // the bending of the convolution itself; wall_table_gen.go for Strip,
 // written by internal/wallgen; surrogate/REFERENCE.md §6). A spine multiplies GJ by a factor
-// generated with CalculiX's 3-D shell model (spine_table_gen.go, written by
-// internal/spinegen; surrogate/REFERENCE.md §6.4). Validity is the validated
+// generated with CalculiX's 3-D shell model, and EA and EI (spine and
+// blends in closed form) by corrections from the same runs
+// (spine_table_gen.go, written by internal/spinegen; surrogate/REFERENCE.md
+// §2.8, §6.4). Validity is the validated
 // range of every model; Section.OutOfRange names the limits a geometry
 // lies outside.
 //

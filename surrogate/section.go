@@ -22,13 +22,22 @@ import "math"
 // From k_conv (surrogate/REFERENCE.md §2.5, §2.8, with k_a the axial stiffness per unit
 // arc, k_a = k_conv·q/(π·Dm) on the convolutions and E_across·t on the
 // spine, an axial strip of plain wall of arc width SpineWidth centred at
-// SpineAngle that replaces the convolutions there):
+// SpineAngle that replaces the convolutions there, blending into them over
+// an arc of one depth w each side, where 1/k_a = 1/(E_across·t) +
+// f²·(1/k_conv-arc − 1/(E_across·t)), f the blend fraction 0…1):
 //
-//	EA = ∫ k_a Rm dφ                     (= k_conv·q without a spine)
-//	(x̄, ȳ) = ∫ k_a (x, y) Rm dφ / EA      (neutral axis moves to the spine)
+//	EA = c_EA·∫ k_a Rm dφ                (= k_conv·q without a spine)
+//	(x̄, ȳ) = ∫ k_a (x, y) Rm dφ / ∫ k_a Rm dφ  (neutral axis moves to the spine)
 //	EI[0][0] = ∫ k_a (y−ȳ)² Rm dφ         resists u_x
 //	EI[1][1] = ∫ k_a (x−x̄)² Rm dφ         resists u_y
 //	EI[0][1] = EI[1][0] = −∫ k_a (x−x̄)(y−ȳ) Rm dφ
+//
+// where the tensor is first formed in the spine's frame (spine on +x',
+// diagonal by symmetry), its two entries multiplied by the generated
+// corrections c_stretch (bending that stretches the spine) and
+// c_neutral (spine on the neutral plane), and then turned to SpineAngle;
+// c_EA, c_stretch, c_neutral come from the 3-D shell model
+// (Geometry.SpineFactors, surrogate/REFERENCE.md §6.4; 1 without a spine).
 //
 // The minus sign makes EI the tensor that maps curvature (u_x, u_y) to
 // moment under the frame convention of objective/kinematics/REFERENCE.md §2 (u_y > 0 bends toward
@@ -59,6 +68,12 @@ import "math"
 // trapezoids keep the thin-shell wall). OutOfRange lists the limits of
 // Validity the geometry lies outside.
 func (b Bellows) Section(f Fidelity) (Section, error) {
+	return b.section(f, true)
+}
+
+// section is Section, with the generated spine corrections of §6.4
+// applied or not (corrected).
+func (b Bellows) section(f Fidelity, corrected bool) (Section, error) {
 	if f != Strip && f != Shell {
 		return Section{}, inputErr("fidelity", "%d is not a fidelity (expected: strip|shell)", int(f))
 	}
@@ -103,57 +118,38 @@ func (b Bellows) Section(f Fidelity) (Section, error) {
 	s.StrainPerMovement = thin * wf.Axial
 	s.StrainPerCurvature = thin * wf.Bending // per unit opening q·Rm; beam scales it
 	s.OutOfRange = b.Geometry.OutOfRange()
-	b.beam(&s, &st)
+	b.beam(&s, &st, corrected)
 	return s, nil
 }
 
 // beam fills EA, EI, GJ, mass and the opening from k_conv (see Section).
-func (b *Bellows) beam(s *Section, st *stripResult) {
+func (b *Bellows) beam(s *Section, st *stripResult, corrected bool) {
 	g, mtl := &b.Geometry, &b.Material
 	rm := g.MeanRadius()
 	dm := 2 * rm
 	q, t := g.Pitch, g.Wall
 	k := s.AxialRatePerConvolution
 
-	// EI tensor (surrogate/REFERENCE.md §2.8), closed-form integrals over the spine arc.
-	kb := k * q / (math.Pi * dm)
-	ks := mtl.ModulusAcross * t
+	// EI tensor (surrogate/REFERENCE.md §2.8): the no-spine integrals in
+	// closed form plus the spine and its blends (spineZone), in the spine's
+	// frame (spine on +x'), times the generated corrections (§6.4), then
+	// turned to the spine angle.
 	fEI := s.WallFactors.EI
 	if fEI == 0 {
 		fEI = 1
 	}
-	h := g.SpineWidth / rm / 2 // half the spine angle
-	r3 := rm * rm * rm
-	ea := kb * rm * 2 * math.Pi
-	// ∫k x², ∫k y², ∫k xy with the convolutions' bending stiffness
-	// k_a·fEI (harmonic-1 EI over the beam analogy of the convolution)
-	cxx, cyy, cxy := fEI*kb*r3*math.Pi, fEI*kb*r3*math.Pi, 0.0
-	var xb, yb float64
-	if h > 0 {
-		dk := ks - kb
-		sn, cs := math.Sincos(g.SpineAngle)
-		s2, c2 := math.Sincos(2 * g.SpineAngle)
-		ea += dk * rm * 2 * h
-		sx := dk * rm * rm * 2 * math.Sin(h) * cs
-		sy := dk * rm * rm * 2 * math.Sin(h) * sn
-		xb, yb = sx/ea, sy/ea
-		sin2h := math.Sin(2 * h)
-		// bending weights: the spine replaces convolutions of fEI·k_a;
-		// second moments about the neutral axis (x̄, ȳ) of the axial
-		// stiffness: ∫k_b (x−x̄)² = ∫k_b x² − 2x̄∫k_b x + x̄²∫k_b
-		db := ks - fEI*kb
-		eb := fEI*kb*rm*2*math.Pi + db*rm*2*h
-		bx := db * rm * rm * 2 * math.Sin(h) * cs
-		by := db * rm * rm * 2 * math.Sin(h) * sn
-		cxx += db * r3 * (h + c2*sin2h/2)
-		cyy += db * r3 * (h - c2*sin2h/2)
-		cxy += db * r3 * s2 * sin2h / 2
-		cxx += -2*xb*bx + eb*xb*xb
-		cyy += -2*yb*by + eb*yb*yb
-		cxy += -xb*by - yb*bx + eb*xb*yb
+	sb := b.spineBeam(k, fEI)
+	sf := SpineFactors{GJ: 1, EA: 1, EIStretch: 1, EINeutral: 1}
+	if corrected {
+		sf = g.SpineFactors()
 	}
-	s.EA = ea
-	ei := [2][2]float64{{cyy, -cxy}, {-cxy, cxx}}
+	sn, cs := math.Sincos(g.SpineAngle)
+	s.EA = sb.EA * sf.EA
+	xb, yb := sb.Offset*cs, sb.Offset*sn
+	// local tensor diag(EI resisting u_x', EI resisting u_y'), turned:
+	// EI = R·EI'·Rᵀ
+	e0, e1 := sb.EINeutral*sf.EINeutral, sb.EIStretch*sf.EIStretch
+	ei := [2][2]float64{{cs*cs*e0 + sn*sn*e1, cs * sn * (e0 - e1)}, {cs * sn * (e0 - e1), sn*sn*e0 + cs*cs*e1}}
 	var c [2]float64
 	for i, v := range b.Calibration {
 		c[i] = v
@@ -176,7 +172,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	gj := 2 * math.Pi * gm * t * q / st.mom.Am3
 	// the spine's torsion factor acts on the revolved wall; the helical
 	// formula then adds unwinding in series (surrogate/REFERENCE.md §6.4)
-	gj *= g.SpineTorsionFactor()
+	gj *= sf.GJ
 	if g.Helical {
 		a := math.Atan(q / (math.Pi * dm))
 		s2, c2 := math.Sincos(2 * a)
@@ -186,6 +182,7 @@ func (b *Bellows) beam(s *Section, st *stripResult) {
 	s.GJ = gj
 
 	// Mass (surrogate/REFERENCE.md §2.8) and opening (§2.9).
+	h := g.SpineWidth / rm / 2
 	s.MassPerLength = mtl.Density * t * ((2*math.Pi-2*h)/q*st.mom.A2 + rm*2*h)
 	s.OpeningPerCurvature = q * (rm + math.Hypot(xb, yb))
 	s.StrainPerCurvature *= s.OpeningPerCurvature
@@ -206,4 +203,127 @@ func principal(a [2][2]float64) ([2]float64, float64) {
 		th += math.Pi
 	}
 	return [2]float64{m + r, m - r}, th
+}
+
+// SpineBeam is the closed form of §2.8 (surrogate/REFERENCE.md) of a
+// bellows' beam stiffness with its spine and blends, before the generated
+// corrections of §6.4, in the spine's frame.
+type SpineBeam struct {
+	EA        float64 // N
+	EIStretch float64 // N·m², bending that stretches and compresses the spine
+	EINeutral float64 // N·m², bending with the spine on the neutral plane
+	Offset    float64 // m, of the neutral axis from the bellows' axis toward the spine
+}
+
+// SpineClosedForm returns the closed form of §2.8 of the bellows with the
+// requested fidelity, without the generated spine corrections of §6.4
+// (the spine table's generator divides the FE stiffness by it).
+func (b Bellows) SpineClosedForm(f Fidelity) (SpineBeam, error) {
+	s, err := b.section(f, false)
+	if err != nil {
+		return SpineBeam{}, err
+	}
+	fEI := s.WallFactors.EI
+	if fEI == 0 {
+		fEI = 1
+	}
+	return b.spineBeam(s.AxialRatePerConvolution, fEI), nil
+}
+
+// spineBeam integrates §2.8 in the spine's frame from the axial rate per
+// convolution k and the convolutions' EI factor fEI.
+func (b *Bellows) spineBeam(k, fEI float64) SpineBeam {
+	g := &b.Geometry
+	rm := g.MeanRadius()
+	kb := k * g.Pitch / (2 * math.Pi * rm)
+	r3 := rm * rm * rm
+	ea := kb * rm * 2 * math.Pi
+	// ∫k x'², ∫k y'² with the convolutions' bending stiffness k_a·fEI
+	// (harmonic-1 EI over the beam analogy of the convolution)
+	cxx, cyy := fEI*kb*r3*math.Pi, fEI*kb*r3*math.Pi
+	var xb float64
+	if g.SpineWidth > 0 {
+		ks := b.Material.ModulusAcross * g.Wall
+		h := g.SpineWidth / rm / 2 // half the spine angle
+		d := g.Depth / rm          // blend angle each side
+		za := spineZone(ks, kb, h, d)
+		zb := spineZone(ks, fEI*kb, h, d)
+		ea += za.m0 * rm
+		xb = za.mc * rm * rm / ea
+		// second moments about the neutral axis x̄' of the axial
+		// stiffness: ∫k_b (x'−x̄')² = ∫k_b x'² − 2x̄'∫k_b x' + x̄'²∫k_b
+		eb := fEI*kb*rm*2*math.Pi + zb.m0*rm
+		cxx += zb.mcc*r3 - 2*xb*zb.mc*rm*rm + eb*xb*xb
+		cyy += zb.mss * r3
+	}
+	return SpineBeam{EA: ea, EIStretch: cxx, EINeutral: cyy, Offset: xb}
+}
+
+// zoneMoments are the integrals over the spine and its blends of the
+// change of the axial stiffness per unit arc from the convolutions' value,
+// Δk(ψ) = k(ψ) − k_c, times 1, cos ψ, sin ψ, cos²ψ, sin²ψ, cos ψ sin ψ
+// dψ, ψ measured from the spine's centre.
+type zoneMoments struct{ m0, mc, ms, mcc, mss, mcs float64 }
+
+// spineZone integrates the spine of half angle h (plain wall, stiffness
+// ks per unit arc) and the blends of angle d beside it, over which the
+// wall's offset from the plain strip grows linearly from 0 to the full
+// convolution (blend fraction f = (|ψ|−h)/d), into convolutions of
+// stiffness kc per unit arc (surrogate/REFERENCE.md §2.8). Across a blend
+// the compliance is that of the plain strip plus the convolution's
+// bending compliance scaled by f², the square of the offset (the bending
+// moment of a corrugated strip under an axial force is the force times
+// the offset, so its bending compliance grows with the offset squared):
+//
+//	1/k(f) = 1/ks + f²·(1/kc − 1/ks)
+//
+// The blend integral is taken in θ = atan(f·√ρ), ρ = (1/kc − 1/ks)·ks,
+// where k(f)·df = ks/√ρ·dθ is smooth, by the composite Simpson rule
+// (24 intervals); the convolutions' kc it replaces in f. Blends that
+// would reach past ψ = π stop there.
+func spineZone(ks, kc, h, d float64) zoneMoments {
+	var z zoneMoments
+	h = math.Min(h, math.Pi)
+	// the spine, ψ ∈ [−h, h], in closed form
+	dk := ks - kc
+	z.m0 += dk * 2 * h
+	z.mc += dk * 2 * math.Sin(h)
+	z.mcc += dk * (h + math.Sin(2*h)/2)
+	if d > 0 && h < math.Pi {
+		fMax := math.Min(1, (math.Pi-h)/d)
+		rho := (1/kc - 1/ks) * ks
+		const n = 24 // Simpson intervals, even
+		var th float64
+		if rho > 1e-12 {
+			th = math.Atan(fMax * math.Sqrt(rho))
+		}
+		// the blends at ±ψ: sin ψ and cos ψ sin ψ cancel, the rest doubles
+		add := func(w, psi float64) {
+			c := math.Cos(psi)
+			z.m0 += 2 * w
+			z.mc += 2 * w * c
+			z.mcc += 2 * w * c * c
+		}
+		for i := 0; i <= n; i++ {
+			wSimp := 2.0
+			if i == 0 || i == n {
+				wSimp = 1
+			} else if i%2 == 1 {
+				wSimp = 4
+			}
+			wSimp /= 3 * n
+			// the blend's stiffness, k(f)·df = ks/√ρ·dθ, at the θ nodes
+			f := fMax * float64(i) / n
+			w := fMax / (1/ks + f*f*(1/kc-1/ks)) // in f where ρ ≤ 0 (kc ≥ ks)
+			if rho > 1e-12 {
+				a := th * float64(i) / n
+				f, w = math.Tan(a)/math.Sqrt(rho), ks/math.Sqrt(rho)*th
+			}
+			add(wSimp*w*d, h+f*d)
+			// less the convolutions it replaces, kc·df, at the f nodes
+			add(-wSimp*kc*fMax*d, h+fMax*float64(i)/n*d)
+		}
+	}
+	z.mss = z.m0 - z.mcc
+	return z
 }

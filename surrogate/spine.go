@@ -2,17 +2,32 @@ package surrogate
 
 import "math"
 
-// SpineTable is the generated torsion factor of a spine,
-// f = GJ(spine)/GJ(no spine) from the 3-D shell model (surrogate/REFERENCE.md §6.4), over
-// the spine arc fraction β = SpineWidth/(π·Dm) and w/Dm for one profile
-// at one depth-to-pitch ratio. Factor is stored β fastest; its β = 0 row
-// is 1 exactly.
+// SpineTable holds the generated factors of a spine from the 3-D shell
+// model (surrogate/REFERENCE.md §6.4), over the spine arc fraction
+// β = SpineWidth/(π·Dm) and w/Dm for one profile at one depth-to-pitch
+// ratio: the torsion factor f = GJ(spine)/GJ(no spine), and the
+// corrections of the axial and bending stiffness of the spine-with-blends
+// closed form (§2.8), c = [FE(spine)/FE(no spine)] / [closed form(spine)/
+// closed form(no spine)]. Each is stored β fastest; its β = 0 row is 1
+// exactly.
 type SpineTable struct {
 	Profile    Profile
 	DepthPitch float64 // w/q the table was generated at
 	Beta       []float64
 	DepthDiam  []float64
-	Factor     []float64
+	Factor     []float64 // GJ
+	Axial      []float64 // EA
+	Stretch    []float64 // EI in bending that stretches and compresses the spine
+	Neutral    []float64 // EI in bending with the spine on the neutral plane
+}
+
+// SpineFactors are the generated factors of a spine at one geometry
+// (all 1 without a spine, surrogate/REFERENCE.md §6.4).
+type SpineFactors struct {
+	GJ        float64 // GJ(spine)/GJ(no spine)
+	EA        float64 // correction of the closed-form EA
+	EIStretch float64 // correction of the closed-form EI that stretches the spine
+	EINeutral float64 // correction of the closed-form EI with the spine on the neutral plane
 }
 
 // Spine arc fraction limits of the torsion factor (surrogate/REFERENCE.md §6.4).
@@ -49,6 +64,16 @@ func spineTableFor(p Profile) *SpineTable {
 // convolutions run out into the spine, which any spine has
 // (surrogate/REFERENCE.md §6.4).
 func (t *SpineTable) Lookup(beta, wd float64) float64 {
+	return t.lookup(t.Factor, beta, wd)
+}
+
+// LookupAll returns every factor at (β, w/Dm), as Lookup does for GJ.
+func (t *SpineTable) LookupAll(beta, wd float64) SpineFactors {
+	return SpineFactors{GJ: t.lookup(t.Factor, beta, wd), EA: t.lookup(t.Axial, beta, wd),
+		EIStretch: t.lookup(t.Stretch, beta, wd), EINeutral: t.lookup(t.Neutral, beta, wd)}
+}
+
+func (t *SpineTable) lookup(factor []float64, beta, wd float64) float64 {
 	if beta <= 0 {
 		return 1
 	}
@@ -56,7 +81,7 @@ func (t *SpineTable) Lookup(beta, wd float64) float64 {
 	i++
 	j, v := bracket(t.DepthDiam, wd)
 	nb := len(t.Beta)
-	at := func(a, b int) float64 { return t.Factor[b*nb+a] }
+	at := func(a, b int) float64 { return factor[b*nb+a] }
 	return (1-u)*(1-v)*at(i, j) + u*(1-v)*at(i+1, j) + (1-u)*v*at(i, j+1) + u*v*at(i+1, j+1)
 }
 
@@ -82,12 +107,18 @@ func bracket(a []float64, x float64) (int, float64) {
 // the bellows' pitch over mean diameter q/Dm: the table's w/Dm axis is
 // q/Dm times the table's w/q (surrogate/REFERENCE.md §6.4).
 func (g Geometry) SpineTorsionFactor() float64 {
+	return g.SpineFactors().GJ
+}
+
+// SpineFactors returns all the generated spine factors of the geometry,
+// read like SpineTorsionFactor (all exactly 1 without a spine).
+func (g Geometry) SpineFactors() SpineFactors {
 	beta := g.SpineFraction()
 	if beta == 0 {
-		return 1
+		return SpineFactors{GJ: 1, EA: 1, EIStretch: 1, EINeutral: 1}
 	}
 	t := spineTableFor(g.Profile)
-	return t.Lookup(beta, t.DepthPitch*g.Pitch/(2*g.MeanRadius()))
+	return t.LookupAll(beta, t.DepthPitch*g.Pitch/(2*g.MeanRadius()))
 }
 
 // spinePitchDiam returns the q/Dm range of the table of profile p.

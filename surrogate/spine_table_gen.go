@@ -5,8 +5,11 @@
 // spined one: 3 across the spine, 4 across each blend, growing by 1.5 up to 18° beyond), CalculiX
 // S8R shells solved by *GREEN; Dm = 27 mm, t = 0.4 mm, isotropic E = 2 GPa, ν = 0.35;
 // sinusoid w/q = 0.5, U w/q = 0.75 (rm = q/4); wall blended into the spine over one depth w each side.
-// Entries: GJ(spine)/GJ(no spine) over (β = SpineWidth/(π·Dm), w/Dm), β fastest, 5 significant
-// digits; β = 0 is 1 exactly. Generated in 182 s.
+// Entries over (β = SpineWidth/(π·Dm), w/Dm), β fastest, 5 significant digits; β = 0 is 1
+// exactly. Factor: GJ(spine)/GJ(no spine). Axial, Stretch, Neutral: the FE's EA, EI stretching
+// the spine and EI with the spine on the neutral plane, each as [FE(spine)/FE(no spine)] /
+// [closed form(spine)/closed form(no spine)], closed form surrogate.Bellows.SpineClosedForm
+// (strip fidelity).
 
 package surrogate
 
@@ -19,6 +22,18 @@ var spineSinusoid = SpineTable{
 		1, 0.9322, 0.96891, 1, 0.75396, 0.79366, 1, 0.66213,
 		0.70705,
 	},
+	Axial: []float64{
+		1, 1.0398, 1.0049, 1, 1.0281, 1.0156, 1, 0.95079,
+		0.97589,
+	},
+	Stretch: []float64{
+		1, 1.005, 0.99208, 1, 1.0174, 0.99596, 1, 1.0458,
+		1.0083,
+	},
+	Neutral: []float64{
+		1, 1.0063, 1.0011, 1, 0.93939, 0.83998, 1, 0.79193,
+		0.7477,
+	},
 }
 
 var spineUShape = SpineTable{
@@ -29,5 +44,17 @@ var spineUShape = SpineTable{
 	Factor: []float64{
 		1, 0.97693, 1.0404, 1, 0.80874, 0.85943, 1, 0.685,
 		0.72657,
+	},
+	Axial: []float64{
+		1, 1.0792, 0.92521, 1, 1.1303, 1.0579, 1, 1.1339,
+		1.0546,
+	},
+	Stretch: []float64{
+		1, 1.0052, 0.98497, 1, 0.99882, 0.99104, 1, 1.0023,
+		0.98704,
+	},
+	Neutral: []float64{
+		1, 1.0255, 1.0459, 1, 1.0713, 1.0704, 1, 1.091,
+		1.1075,
 	},
 }

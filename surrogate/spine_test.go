@@ -24,6 +24,7 @@ func TestSpineNoSpineLimit(t *testing.T) {
 				b.FlatFraction = 0.4
 			}
 			assert.Equal(t, 1.0, b.SpineTorsionFactor())
+			assert.Equal(t, SpineFactors{GJ: 1, EA: 1, EIStretch: 1, EINeutral: 1}, b.SpineFactors(), "no spine: every factor exactly 1")
 			s, err := b.Section(Strip)
 			require.NoError(t, err)
 			st := stripModel(&b.Geometry, b.Material.ModulusAcross, b.Material.Poisson)
@@ -57,9 +58,38 @@ func TestSpineNoSpineLimit(t *testing.T) {
 // TestSpineTableLookup: the lookup returns the generated entries at the
 // grid nodes, is bilinear between them (checked at the cell centre
 // against the mean of its four corners), takes the first spined column
-// below it and clamps beyond the grid. The β = 0 column is 1.
+// below it and clamps beyond the grid. The β = 0 column is 1. The same
+// holds for each of the correction columns (EA, EI stretching the spine,
+// EI with the spine on the neutral plane), read through LookupAll.
 func TestSpineTableLookup(t *testing.T) {
+	// plausible bounds: GJ between half and 1.1 times the unspined GJ;
+	// the corrections of the closed form within ±30 %
+	type bounded struct {
+		tb     *SpineTable
+		lo, hi float64
+	}
+	var tables []bounded
 	for _, tb := range []*SpineTable{&spineSinusoid, &spineUShape} {
+		tables = append(tables, bounded{tb, 0.5, 1.1})
+		for _, col := range [][]float64{tb.Axial, tb.Stretch, tb.Neutral} {
+			c := *tb
+			c.Factor = col
+			tables = append(tables, bounded{&c, 0.7, 1.3})
+		}
+		for _, wd := range tb.DepthDiam {
+			for _, beta := range []float64{0.07, 0.12} {
+				all := tb.LookupAll(beta, wd)
+				for _, c := range []struct {
+					col []float64
+					got float64
+				}{{tb.Factor, all.GJ}, {tb.Axial, all.EA}, {tb.Stretch, all.EIStretch}, {tb.Neutral, all.EINeutral}} {
+					assert.Equal(t, tb.lookup(c.col, beta, wd), c.got)
+				}
+			}
+		}
+	}
+	for _, bt := range tables {
+		tb := bt.tb
 		nb := len(tb.Beta)
 		require.Equal(t, nb*len(tb.DepthDiam), len(tb.Factor))
 		require.Equal(t, 0.0, tb.Beta[0])
@@ -68,8 +98,7 @@ func TestSpineTableLookup(t *testing.T) {
 			assert.Equal(t, 1.0, tb.Lookup(0, wd))
 			for i := 1; i < nb; i++ {
 				assert.InDelta(t, tb.Factor[j*nb+i], tb.Lookup(tb.Beta[i], wd), 1e-12)
-				// plausible: between half and 1.1 times the unspined GJ
-				assert.True(t, tb.Factor[j*nb+i] > 0.5 && tb.Factor[j*nb+i] < 1.1, "%g", tb.Factor[j*nb+i])
+				assert.True(t, tb.Factor[j*nb+i] > bt.lo && tb.Factor[j*nb+i] < bt.hi, "%g", tb.Factor[j*nb+i])
 			}
 			assert.Equal(t, tb.Lookup(tb.Beta[1], wd), tb.Lookup(tb.Beta[1]/10, wd), "narrow spine takes the first spined column")
 			assert.Equal(t, tb.Lookup(tb.Beta[nb-1], wd), tb.Lookup(2*tb.Beta[nb-1], wd), "clamped above")
@@ -131,4 +160,26 @@ func TestSpineValidity(t *testing.T) {
 	tr := g
 	tr.Profile, tr.FlatFraction = Trapezoid, 0.4
 	assert.True(t, quantities(tr)[QuantitySpine], "a spined trapezoid has no spine factor")
+}
+
+// TestSpineZoneBlendIntegral checks the blend quadrature of spineZone
+// against the closed form ∫₀¹ df/(1/ks + f²·(1/kc − 1/ks)) =
+// ks·atan(√ρ)/√ρ, ρ = ks/kc − 1 (standard integral of 1/(1 + ρf²), e.g.
+// Abramowitz & Stegun, Handbook of Mathematical Functions, 1964, 3.3.21,
+// from memory), for stiffness ratios ks/kc from 1.5 to 10⁴, and the
+// degenerate cases: no blend gives the plain spine's closed form, equal
+// stiffnesses give no change at all. (The cos ψ moments are checked
+// against a midpoint rule in TestSpineAnisotropy.)
+func TestSpineZoneBlendIntegral(t *testing.T) {
+	const h, d = 0.1, 0.2
+	for _, ratio := range []float64{1.5, 10, 300, 1e4} {
+		ks, kc := 1.0, 1/ratio
+		rho := ks/kc - 1
+		z := spineZone(ks, kc, h, d)
+		want := (ks-kc)*2*h + 2*d*(ks*math.Atan(math.Sqrt(rho))/math.Sqrt(rho)-kc)
+		assert.InEpsilon(t, want, z.m0, 1e-6, "ks/kc %g", ratio)
+	}
+	z := spineZone(2, 1, h, 0)
+	assert.Equal(t, zoneMoments{m0: 2 * h, mc: 2 * math.Sin(h), mcc: h + math.Sin(2*h)/2, mss: h - math.Sin(2*h)/2}, z)
+	assert.Equal(t, zoneMoments{}, spineZone(1, 1, h, d))
 }

@@ -14,7 +14,7 @@ const (
 	QuantityDepthPitch   = "w/q"  // depth over pitch
 	QuantityConvolutions = "N"    // convolutions along the bellows (length/pitch)
 	QuantityOpening      = "e/w"  // largest opening of one convolution over its depth
-	// spined bellows only (SpineWidth > 0): the spine's torsion factor
+	// spined bellows only (SpineWidth > 0): the spine's factors (GJ, EA, EI)
 	QuantitySpine           = "b_s/(π·Dm)"   // spine arc fraction
 	QuantitySpinePitchDiam  = "q/Dm (spine)" // pitch over mean diameter of a spined bellows
 	QuantitySpineDepthPitch = "w/q (spine)"  // depth over pitch of a spined bellows
@@ -82,12 +82,13 @@ var Validity = []Limit{
 }
 
 const (
-	spineModel = "torsion of a spined bellows (generated 3-D shell factor)"
+	spineModel = "stiffness of a spined bellows (generated 3-D shell factors of GJ, EA and EI)"
 	spineBasis = "CalculiX 3-D shell model with the spine and its blends (spinegen table; fecheck TestFESpineGJ on other geometries)"
 )
 
-// The w/q ranges over which the spine's torsion factor, generated at one
-// w/q per profile, was tested against CalculiX (fecheck TestFESpineGJ).
+// The w/q ranges over which the spine's factors (GJ, EA, EI), generated
+// at one w/q per profile, were tested against CalculiX (fecheck
+// TestFESpineGJ).
 var (
 	spineSineWQ = [2]float64{0.5, 0.65}
 	spineUWQ    = [2]float64{0.75, 0.9}
@@ -162,7 +163,7 @@ func CheckLimit(quantity string, p Profile, v float64) []RangeNote {
 
 // OutOfRange returns the geometric limits of Validity (t/w, t/2ρ, w/Dm,
 // w/q; and for a spined bellows the spine arc fraction,
-// q/Dm and w/q of the spine's torsion factor) the geometry lies outside, in the order of
+// q/Dm and w/q of the spine's factors) the geometry lies outside, in the order of
 // Validity.
 func (g Geometry) OutOfRange() []RangeNote {
 	var out []RangeNote

@@ -146,9 +146,10 @@ func TestFEBellowsVsSurrogate(t *testing.T) {
 //     reported only;
 //   - a spine of plain wall at +x: the FE EI tensor must be diagonal in
 //     the bellows' axes (the spine lies on the x axis, a symmetry plane),
-//     with EI_y > EI_x (the spine is far from the y axis); GJ (with the
-//     generated spine factor, a geometry it was not built from) is held
-//     to ±5 %, EI reported (the surrogate leaves out the blends).
+//     with EI_y > EI_x (the spine is far from the y axis); GJ, EI_x,
+//     EI_y and the axial rate (with the spine's blends and the generated
+//     spine factors, a geometry they were not built from) are held to
+//     ±5 %.
 func TestFEWindingSpineMaterial(t *testing.T) {
 	needCCX(t)
 	pla, ok := surrogate.LookupMaterial("pla")
@@ -164,7 +165,7 @@ func TestFEWindingSpineMaterial(t *testing.T) {
 	}{
 		{"pla-revolved", surrogate.Bellows{Geometry: base, Material: pla}, []string{"ei_x", "ei_y", "gj", "axial_rate_per_convolution", "solid_axial_rate_per_convolution"}},
 		{"resin-helical", surrogate.Bellows{Geometry: hel, Material: resin()}, []string{"ei_x", "ei_y", "axial_rate_per_convolution"}},
-		{"resin-spine", surrogate.Bellows{Geometry: sp, Material: resin()}, []string{"gj"}},
+		{"resin-spine", surrogate.Bellows{Geometry: sp, Material: resin()}, []string{"ei_x", "ei_y", "gj", "axial_rate_per_convolution"}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -216,10 +217,14 @@ func (c *spineCheck) geometry() surrogate.Geometry {
 }
 
 // TestFESpineGJ holds the surrogate's GJ of spined bellows (revolved GJ
-// times the generated spine factor, surrogate/REFERENCE.md §6.4) to ±5 % of
-// CalculiX's 3-D shell model of the same wall with its spine and blends,
-// on geometries not used to generate the factor. The first geometry also
-// gives the two-mesh (draft → coarse) change of the FE GJ.
+// times the generated spine factor, surrogate/REFERENCE.md §6.4), its EA
+// (as the axial rate EA/q) and its EI_x, EI_y (the closed form of the
+// spine with its blends, §2.8, times the generated corrections, turned to
+// the spine angle 0.3 rad) to ±5 % of CalculiX's 3-D shell model of the
+// same wall with its spine and blends, on geometries not used to generate
+// the factors; the FE's EI_xy (the tensor is not diagonal in the bellows'
+// axes) to ±5 % of the FE's EI_x. The first geometry also gives the
+// two-mesh (draft → coarse) change of the FE GJ.
 func TestFESpineGJ(t *testing.T) {
 	needCCX(t)
 	for i := range spineChecks {
@@ -242,6 +247,16 @@ func TestFESpineGJ(t *testing.T) {
 			t.Logf("%s: β %.3f, w/Dm %.3f, w/q %.2f: FE GJ %.5g N·m², surrogate %.5g (%+.2f %%; spine factor %.4f, without it %+.2f %%), %d elements, %.1f s",
 				c.name, g.SpineFraction(), c.wdm, c.wq, fe, sec.GJ, 100*(sec.GJ/fe-1), g.SpineTorsionFactor(), 100*(ps.GJ/fe-1), res.Shell.Elements, res.Shell.RunTimeS)
 			assert.InDelta(t, 0, sec.GJ/fe-1, 0.05)
+			sh := res.Shell
+			for _, c := range []struct {
+				name    string
+				fe, sur float64
+			}{{"EA/q", sh.AxialRateNPerM, sec.EA / sh.PitchM}, {"EI_x", sh.EIxNm2, sec.EI[0][0]}, {"EI_y", sh.EIyNm2, sec.EI[1][1]}} {
+				t.Logf("%s: %s FE %.5g, surrogate %.5g (%+.2f %%)", g.Profile, c.name, c.fe, c.sur, 100*(c.sur/c.fe-1))
+				assert.InDelta(t, 0, c.sur/c.fe-1, 0.05, c.name)
+			}
+			t.Logf("%s: EI_xy FE %.4g, surrogate %.4g N·m²", c.name, sh.EIxyNm2, sec.EI[0][1])
+			assert.InDelta(t, sh.EIxyNm2, sec.EI[0][1], 0.05*sh.EIxNm2, "EI_xy")
 			if conv {
 				t.Logf("%s: GJ change %s → coarse %+.3f %%", c.name, res.Convergence.FromMesh, 100*res.Convergence.GJ)
 				assert.Less(t, math.Abs(res.Convergence.GJ), 0.02)

@@ -100,7 +100,7 @@ func spineVerify() surrogate.Bellows {
 }
 
 // spineSource is the source of the spine comparison.
-const spineSource = "CalculiX S8R 3-D shell model of the wall with its spine and blends (surrogate/fecheck/REFERENCE.md); spine factor surrogate/REFERENCE.md §6.4"
+const spineSource = "CalculiX S8R 3-D shell model of the wall with its spine and blends (surrogate/fecheck/REFERENCE.md); spine factors surrogate/REFERENCE.md §2.8, §6.4"
 
 // The thin cylinder of the shell-path case: mean radius R, wall t,
 // modulus E, Poisson ν; 8 "pitches" of 5 mm.
@@ -161,8 +161,9 @@ type ringOutcome struct {
 // cylinder through the shell path (EI, GJ, EA against the closed forms)
 // and, on the geometries of verifyRings, the solid model and the
 // surrogate against the CalculiX 3-D solid with the accuracy targets of
-// TestFESolidVsCalculiX, and the surrogate's GJ of a spined bellows
-// (spineVerify) against the 3-D shell model within ±5 %. Each call gives a fresh list whose cases share
+// TestFESolidVsCalculiX, and the surrogate's GJ, axial rate EA/q, EI_x
+// and EI_y of a spined bellows (spineVerify) against the 3-D shell model
+// within ±5 %. Each call gives a fresh list whose cases share
 // their ccx runs (one per model).
 func VerificationCases() []VerificationCase {
 	cyl := &memo[*ShellResult]{f: func(ctx context.Context) (*ShellResult, error) {
@@ -238,26 +239,40 @@ func VerificationCases() []VerificationCase {
 			ratio("surrogate (strip) GJ", 0, 0.05, func(o ringOutcome) float64 { return o.sec.GJ / o.fe.GJNm2 }),
 		)
 	}
-	spine := &memo[[2]float64]{f: func(ctx context.Context) ([2]float64, error) {
+	type spineOutcome struct {
+		sec surrogate.Section
+		fe  *ShellResult
+	}
+	spine := &memo[spineOutcome]{f: func(ctx context.Context) (spineOutcome, error) {
 		b := spineVerify()
 		sec, err := b.Section(surrogate.Strip)
 		if err != nil {
-			return [2]float64{}, err
+			return spineOutcome{}, err
 		}
 		r, err := Run(ctx, b, Options{Shell: true})
 		if err != nil {
-			return [2]float64{}, err
+			return spineOutcome{}, err
 		}
-		return [2]float64{sec.GJ, r.Shell.GJNm2}, nil
+		return spineOutcome{sec, r.Shell}, nil
 	}}
-	cases = append(cases, VerificationCase{Area: "fe", Name: "sinusoid w/q 0.5, w/Dm 0.11, spine β 0.06: surrogate (strip) GJ with the spine factor ÷ CalculiX 3-D shell",
-		Unit: "ratio", Published: 1, Tolerance: 0.05, Relative: true, Source: spineSource,
-		Compute: func(ctx context.Context) (float64, error) {
-			v, err := spine.get(ctx)
-			if err != nil {
-				return math.NaN(), err
-			}
-			return v[0] / v[1], nil
-		}})
+	for _, c := range []struct {
+		what string
+		v    func(o spineOutcome) float64
+	}{
+		{"GJ with the spine factor", func(o spineOutcome) float64 { return o.sec.GJ / o.fe.GJNm2 }},
+		{"axial rate EA/q with the spine, its blends and the EA correction", func(o spineOutcome) float64 { return o.sec.EA / o.fe.PitchM / o.fe.AxialRateNPerM }},
+		{"EI_x (spine on the neutral plane) with its blends and correction", func(o spineOutcome) float64 { return o.sec.EI[0][0] / o.fe.EIxNm2 }},
+		{"EI_y (bending that stretches the spine) with its blends and correction", func(o spineOutcome) float64 { return o.sec.EI[1][1] / o.fe.EIyNm2 }},
+	} {
+		cases = append(cases, VerificationCase{Area: "fe", Name: "sinusoid w/q 0.5, w/Dm 0.11, spine β 0.06: surrogate (strip) " + c.what + " ÷ CalculiX 3-D shell",
+			Unit: "ratio", Published: 1, Tolerance: 0.05, Relative: true, Source: spineSource,
+			Compute: func(ctx context.Context) (float64, error) {
+				o, err := spine.get(ctx)
+				if err != nil {
+					return math.NaN(), err
+				}
+				return c.v(o), nil
+			}})
+	}
 	return cases
 }

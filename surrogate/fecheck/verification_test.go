@@ -24,7 +24,7 @@ func TestVerificationCaseList(t *testing.T) {
 	}
 	seen := map[string]bool{}
 	cases := VerificationCases()
-	assert.Len(t, cases, 3+4*len(verifyRings)+1)
+	assert.Len(t, cases, 3+4*len(verifyRings)+4)
 	for _, c := range cases {
 		assert.False(t, seen[c.Name], "%s: name used twice", c.Name)
 		seen[c.Name] = true

@@ -6,10 +6,16 @@
 // wall blends from the convolutions into the spine over one convolution
 // depth on each side), coarse mesh (surrogate/REFERENCE.md §6.4). The
 // ratio cancels the revolved-wall model error, so the surrogate applies
-// f to its own GJ. It needs ccx on PATH (Debian package calculix-ccx).
+// f to its own GJ. From the same runs (one *GREEN step: axial, torsion,
+// two bendings) it writes the corrections of the surrogate's closed form
+// of the spine with its blends (surrogate.Bellows.SpineClosedForm, §2.8)
+// for EA and the two EI of the spine's frame:
+// c = [FE(spine)/FE(no spine)] / [closed form(spine)/closed form(no spine)].
+// It needs ccx on PATH (Debian package calculix-ccx).
 //
 // Run from the surrogate directory with `go run ./internal/spinegen`
-// (about 4 minutes on two cores, 18 ccx runs of 3 to 10 s of CPU each); it is not a go:generate step so that
+// (about 80 s on two cores, 18 ccx runs of 3 to 10 s of CPU each; the
+// output depends on the code only, not on the run: no time stamp); it is not a go:generate step so that
 // `go generate ./surrogate` stays fast and needs no FE engine.
 package main
 
@@ -72,7 +78,12 @@ func main() {
 			}
 		}
 	}
-	gj := make([]float64, len(jobs))
+	// per job: FE and closed form of EA, EI stretching the spine (EI_y,
+	// spine on +x), EI with the spine on the neutral plane (EI_x), and the
+	// FE GJ
+	type stiff struct{ ea, eiS, eiN, gj float64 }
+	fe := make([]stiff, len(jobs))
+	cf := make([]stiff, len(jobs))
 	start := time.Now()
 	var wg sync.WaitGroup
 	ch := make(chan int)
@@ -90,8 +101,16 @@ func main() {
 					errs[i] = fmt.Errorf("%s w/Dm %g β %g: %w", pr.name, wdAxis[j.wi], betaAxis[j.bi], err)
 					continue
 				}
-				gj[i] = res.Shell.GJNm2
-				log.Printf("%-8s w/Dm %-5g β %-5g GJ %.6g N·m² (%d elements, %.1f s)", pr.name, wdAxis[j.wi], betaAxis[j.bi], gj[i], res.Shell.Elements, res.Shell.RunTimeS)
+				c, err := b.SpineClosedForm(surrogate.Strip)
+				if err != nil {
+					errs[i] = fmt.Errorf("%s w/Dm %g β %g: %w", pr.name, wdAxis[j.wi], betaAxis[j.bi], err)
+					continue
+				}
+				sh := res.Shell
+				fe[i] = stiff{sh.EAN, sh.EIyNm2, sh.EIxNm2, sh.GJNm2}
+				cf[i] = stiff{c.EA, c.EIStretch, c.EINeutral, 0}
+				log.Printf("%-8s w/Dm %-5g β %-5g FE EA %.6g N, EI stretch %.6g, neutral %.6g, GJ %.6g N·m² (%d elements, %.1f s)",
+					pr.name, wdAxis[j.wi], betaAxis[j.bi], sh.EAN, sh.EIyNm2, sh.EIxNm2, sh.GJNm2, sh.Elements, sh.RunTimeS)
 			}
 		}()
 	}
@@ -113,26 +132,41 @@ func main() {
 // spined one: 3 across the spine, 4 across each blend, growing by 1.5 up to 18° beyond), CalculiX
 // S8R shells solved by *GREEN; Dm = %g mm, t = %g mm, isotropic E = 2 GPa, ν = 0.35;
 // sinusoid w/q = %g, U w/q = %g (rm = q/4); wall blended into the spine over one depth w each side.
-// Entries: GJ(spine)/GJ(no spine) over (β = SpineWidth/(π·Dm), w/Dm), β fastest, 5 significant
-// digits; β = 0 is 1 exactly. Generated in %.0f s.
+// Entries over (β = SpineWidth/(π·Dm), w/Dm), β fastest, 5 significant digits; β = 0 is 1
+// exactly. Factor: GJ(spine)/GJ(no spine). Axial, Stretch, Neutral: the FE's EA, EI stretching
+// the spine and EI with the spine on the neutral plane, each as [FE(spine)/FE(no spine)] /
+// [closed form(spine)/closed form(no spine)], closed form surrogate.Bellows.SpineClosedForm
+// (strip fidelity).
 
 package surrogate
 
-`, fecheck.Pitches, fecheck.RingOffset, dm*1e3, wall*1e3, profiles[0].wq, profiles[1].wq, time.Since(start).Seconds())
+`, fecheck.Pitches, fecheck.RingOffset, dm*1e3, wall*1e3, profiles[0].wq, profiles[1].wq)
 	for pi, pr := range profiles {
-		f := make([]float64, 0, len(wdAxis)*len(betaAxis))
+		var gj, ax, st, ne []float64
 		for wi := range wdAxis {
-			base := gj[(pi*len(wdAxis)+wi)*len(betaAxis)]
+			base := (pi*len(wdAxis) + wi) * len(betaAxis)
+			f0, c0 := fe[base], cf[base]
 			for bi := range betaAxis {
-				v := gj[(pi*len(wdAxis)+wi)*len(betaAxis)+bi] / base
+				f, c := fe[base+bi], cf[base+bi]
 				if bi == 0 {
-					v = 1
+					gj, ax, st, ne = append(gj, 1), append(ax, 1), append(st, 1), append(ne, 1)
+					continue
 				}
-				f = append(f, round5(v))
+				gj = append(gj, round5(f.gj/f0.gj))
+				ax = append(ax, round5((f.ea/f0.ea)/(c.ea/c0.ea)))
+				st = append(st, round5((f.eiS/f0.eiS)/(c.eiS/c0.eiS)))
+				ne = append(ne, round5((f.eiN/f0.eiN)/(c.eiN/c0.eiN)))
 			}
 		}
-		fmt.Fprintf(&buf, "var spine%s = SpineTable{\n\tProfile: %s,\n\tDepthPitch: %g,\n\tBeta: []float64{%s},\n\tDepthDiam: []float64{%s},\n\tFactor: []float64{\n%s\t},\n}\n\n",
-			pr.name, pr.name, pr.wq, gotable.Join(betaAxis), gotable.Join(wdAxis), gotable.Rows(f))
+		fmt.Fprintf(&buf, "var spine%s = SpineTable{\n\tProfile: %s,\n\tDepthPitch: %g,\n\tBeta: []float64{%s},\n\tDepthDiam: []float64{%s},\n",
+			pr.name, pr.name, pr.wq, gotable.Join(betaAxis), gotable.Join(wdAxis))
+		for _, col := range []struct {
+			name string
+			v    []float64
+		}{{"Factor", gj}, {"Axial", ax}, {"Stretch", st}, {"Neutral", ne}} {
+			fmt.Fprintf(&buf, "\t%s: []float64{\n%s\t},\n", col.name, gotable.Rows(col.v))
+		}
+		buf.WriteString("}\n\n")
 	}
 	src, err := format.Source(buf.Bytes())
 	if err != nil {
