@@ -153,3 +153,42 @@ func BenchmarkArchiveM3(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkVariation times the variation of one pair of parents (SBX crossover and polynomial
+// mutation of both children, defaults, 30 continuous variables in [0, 1]) with the plain forms
+// of operators_ref_test.go and with the run's operators of operators.go, which give the same
+// children bit for bit (TestOperatorsMatchReference).
+func BenchmarkVariation(b *testing.B) {
+	p := ZDT1(30)
+	v := Variation{}.resolve(p.Dim)
+	rng := rand.New(rand.NewPCG(1, 2))
+	parents := make([][]float64, 64)
+	for i := range parents {
+		parents[i] = make([]float64, p.Dim)
+		for j := range parents[i] {
+			parents[i][j] = rng.Float64()
+		}
+	}
+	c1, c2 := make([]float64, p.Dim), make([]float64, p.Dim)
+	b.Run("plain", func(b *testing.B) {
+		r := rand.New(rand.NewPCG(3, 4))
+		i := 0
+		for b.Loop() {
+			crossover(r, &p, &v, parents[i%64], parents[(i+1)%64], c1, c2)
+			mutate(r, &p, &v, c1)
+			mutate(r, &p, &v, c2)
+			i++
+		}
+	})
+	b.Run("operators", func(b *testing.B) {
+		ops := newOperators(&p, &v)
+		r := rand.New(rand.NewPCG(3, 4))
+		i := 0
+		for b.Loop() {
+			ops.crossover(r, parents[i%64], parents[(i+1)%64], c1, c2)
+			ops.mutate(r, c1)
+			ops.mutate(r, c2)
+			i++
+		}
+	})
+}
