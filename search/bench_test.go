@@ -3,6 +3,7 @@ package search
 import (
 	"context"
 	"math/rand/v2"
+	"runtime"
 	"slices"
 	"strconv"
 	"testing"
@@ -36,21 +37,47 @@ func BenchmarkNSGA2OverheadDTLZ2(b *testing.B) {
 // and reports wall time per evaluation (ns/eval) and process CPU time per evaluation
 // (cpu-ns/eval; it includes the garbage collector's work on the other core, and does not grow
 // when other processes take the cores).
+//
+// It also reports the heap allocations per evaluation of a whole run (allocs/eval) and of the
+// steady state (steady-allocs/eval: generations 101 to 200 of the run, counted from the
+// Progress hook), when the archive and the free list of designs have stopped growing.
 func overhead(b *testing.B, p Problem) {
-	var evals int64
+	var evals, steadyEvals int64
+	var steadyAllocs uint64
+	var ms runtime.MemStats
+	var at100 uint64
+	set := &Settings{Seed: 1, Workers: 1, MaxEvaluations: 20000, Progress: func(pr Progress) {
+		switch pr.Generation {
+		case 100:
+			runtime.ReadMemStats(&ms)
+			at100 = ms.Mallocs
+		case 199:
+			runtime.ReadMemStats(&ms)
+			steadyAllocs += ms.Mallocs - at100
+			steadyEvals += 99 * DefaultPopulation
+		}
+	}}
+	runtime.ReadMemStats(&ms)
+	mallocs0 := ms.Mallocs
 	cpu0 := processCPU()
 	for b.Loop() {
-		res, err := Run(context.Background(), p, &Settings{Seed: 1, Workers: 1, MaxEvaluations: 20000}, &NSGA2{})
+		res, err := Run(context.Background(), p, set, &NSGA2{})
 		if err != nil {
 			b.Fatal(err)
 		}
 		evals += res.Evaluations
 	}
+	cpu := processCPU() - cpu0
+	runtime.ReadMemStats(&ms)
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(evals), "ns/eval")
-	if cpu := processCPU() - cpu0; cpu > 0 {
+	if cpu > 0 {
 		b.ReportMetric(float64(cpu.Nanoseconds())/float64(evals), "cpu-ns/eval")
 	}
 	b.ReportMetric(float64(evals)/float64(b.N), "evals/op")
+	b.ReportMetric(float64(ms.Mallocs-mallocs0)/float64(evals), "allocs/eval")
+	if steadyEvals > 0 {
+		b.ReportMetric(float64(steadyAllocs)/float64(steadyEvals), "steady-allocs/eval")
+	}
 }
 
 // spin busies the CPU for d, like a model evaluation.
