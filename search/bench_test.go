@@ -209,12 +209,13 @@ func BenchmarkVariation(b *testing.B) {
 	})
 	b.Run("operators", func(b *testing.B) {
 		ops := newOperators(&p, &v)
-		r := rand.New(rand.NewPCG(3, 4))
+		src := rand.NewPCG(3, 4)
+		r := rand.New(src)
 		i := 0
 		for b.Loop() {
-			ops.crossover(r, parents[i%64], parents[(i+1)%64], c1, c2)
-			ops.mutate(r, c1)
-			ops.mutate(r, c2)
+			ops.crossover(src, parents[i%64], parents[(i+1)%64], c1, c2)
+			ops.mutate(r, src, c1)
+			ops.mutate(r, src, c2)
 			i++
 		}
 	})

@@ -198,7 +198,7 @@ func (e *engine) offspring(k int) []*Design {
 	for len(out) < k {
 		p1, p2 := e.tournament(), e.tournament()
 		c1, c2 := e.newChild(), e.newChild()
-		e.ops.crossover(e.rng, p1.X, p2.X, c1.X, c2.X)
+		e.ops.crossover(e.pcg, p1.X, p2.X, c1.X, c2.X)
 		for _, c := range [2]*Design{c1, c2} {
 			if len(out) == k {
 				// An odd k: the last pair's second child is not needed.
@@ -206,7 +206,7 @@ func (e *engine) offspring(k int) []*Design {
 				e.free = append(e.free, c)
 				break
 			}
-			e.ops.mutate(e.rng, c.X)
+			e.ops.mutate(e.rng, e.pcg, c.X)
 			c.Index = e.stats.Evaluations + int64(len(out))
 			out = append(out, c)
 		}

@@ -81,26 +81,26 @@ func newOperators(p *Problem, v *Variation) *operators {
 // `realcross`: with probability p_c per pair; each continuous variable with probability 0.5
 // undergoes bounded SBX, the children's values then swapped with probability 0.5). A categorical
 // variable is swapped between the children with probability 0.5 (uniform crossover).
-func (o *operators) crossover(rng *rand.Rand, p1, p2, c1, c2 []float64) {
+func (o *operators) crossover(src *rand.PCG, p1, p2, c1, c2 []float64) {
 	copy(c1, p1)
 	copy(c2, p2)
-	if o.pc < 0 || rng.Float64() > o.pc {
+	if o.pc < 0 || uniform(src) > o.pc {
 		return
 	}
 	p1, p2, c2 = p1[:len(c1)], p2[:len(c1)], c2[:len(c1)]
 	for i := range c1 {
 		if o.anyCat && o.cat[i] > 0 {
-			if rng.Float64() <= 0.5 {
+			if uniform(src) <= 0.5 {
 				c1[i], c2[i] = p2[i], p1[i]
 			}
 			continue
 		}
-		if rng.Float64() > 0.5 || math.Abs(p1[i]-p2[i]) <= sbxEps {
+		if uniform(src) > 0.5 || math.Abs(p1[i]-p2[i]) <= sbxEps {
 			continue
 		}
 		y1, y2 := min(p1[i], p2[i]), max(p1[i], p2[i])
-		a, b := o.sbx(y1, y2, o.lo[i], o.hi[i], rng.Float64())
-		if rng.Float64() <= 0.5 {
+		a, b := o.sbx(y1, y2, o.lo[i], o.hi[i], uniform(src))
+		if uniform(src) <= 0.5 {
 			c1[i], c2[i] = b, a
 		} else {
 			c1[i], c2[i] = a, b
@@ -148,13 +148,13 @@ func sbxBetaQBase(u, alpha float64) float64 {
 // (Deb's reference code `real_mutate_ind`), and random-reset mutation to each categorical
 // variable with the same probability: the category is replaced by one of the other k−1
 // categories, chosen uniformly.
-func (o *operators) mutate(rng *rand.Rand, x []float64) {
+func (o *operators) mutate(rng *rand.Rand, src *rand.PCG, x []float64) {
 	if o.pm < 0 {
 		return
 	}
 	cat, lo, hi, ok := o.cat[:len(x)], o.lo[:len(x)], o.hi[:len(x)], o.hasBound[:len(x)]
 	for i := range x {
-		if rng.Float64() > o.pm {
+		if uniform(src) > o.pm {
 			continue
 		}
 		if k := cat[i]; k > 0 {
@@ -168,7 +168,7 @@ func (o *operators) mutate(rng *rand.Rand, x []float64) {
 			continue
 		}
 		if ok[i] {
-			x[i] = o.polynomialMutation(x[i], lo[i], hi[i], rng.Float64())
+			x[i] = o.polynomialMutation(x[i], lo[i], hi[i], uniform(src))
 		}
 	}
 }
@@ -190,6 +190,11 @@ func (o *operators) polynomialMutation(y, yl, yu, u float64) float64 {
 	y += dq * (yu - yl)
 	return min(max(y, yl), yu)
 }
+
+// uniform is rand.Rand.Float64 of a Rand on src, drawn from src directly (no call through the
+// Source interface): float64(src.Uint64()<<11>>11) / 2^53, the formula of math/rand/v2; the
+// operators take their other draws (IntN) from rng on the same src, so the stream is the same.
+func uniform(src *rand.PCG) float64 { return float64(src.Uint64()<<11>>11) / (1 << 53) }
 
 // powPlan is x^y for x ≥ 0 and a fixed y, the way of taking it chosen once: by repeated
 // squaring when y is a small whole number (η + 1 for integer η), by repeated square roots when
