@@ -172,6 +172,7 @@ func checkRows(checks []objective.Check) (rows []checkRow, failed, warned int) {
 // inside each design's check and every results.CheckEvery rows read, and
 // stops with ctx.Err() once ctx is done.
 func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error) {
+	ctx = &latchCtx{Context: ctx}
 	r, err := loadBase(ctx, f)
 	if err != nil {
 		return nil, err
@@ -270,12 +271,17 @@ func (p *part) into(rep *Report) {
 	rep.Problems = append(rep.Problems, p.problems...)
 }
 
-// runTasks runs the tasks on up to GOMAXPROCS goroutines, taking them in
-// order, and returns when all are done.
+// reportWorkers is how many parts of a report are built at once: the two
+// largest, reading evaluations.csv and the designs' checks and figures,
+// side by side.
+const reportWorkers = 2
+
+// runTasks runs the tasks on up to reportWorkers goroutines (fewer with
+// fewer cores), taking them in order, and returns when all are done.
 func runTasks(tasks []func()) {
 	var next atomic.Int64
 	var wg sync.WaitGroup
-	for range max(1, min(runtime.GOMAXPROCS(0), len(tasks))) {
+	for range max(1, min(reportWorkers, runtime.GOMAXPROCS(0), len(tasks))) {
 		wg.Go(func() {
 			for {
 				i := int(next.Add(1) - 1)
@@ -287,6 +293,26 @@ func runTasks(tasks []func()) {
 		})
 	}
 	wg.Wait()
+}
+
+// latchCtx is a context whose Err, once it has returned an error, returns
+// it again without asking the parent: after an interrupt each of Build's
+// goroutines looks at the parent at most once more (each may be looking
+// when the interrupt comes), and then all of them stop.
+type latchCtx struct {
+	context.Context
+	err atomic.Pointer[error]
+}
+
+func (c *latchCtx) Err() error {
+	if e := c.err.Load(); e != nil {
+		return *e
+	}
+	err := c.Context.Err()
+	if err != nil {
+		c.err.Store(&err)
+	}
+	return err
 }
 
 // designSection checks front design id and draws its figures into p; its
