@@ -184,7 +184,9 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	defer log.Close()
 
-	var logErr error
+	// The file work runs on the persister's goroutine while the next
+	// generation is evaluated; the hooks below only hand it copies.
+	// diag and info belong to the persister until Wait returns.
 	diag := &search.Diagnoser{}
 	ex := newExplainer(spec)
 	if saved != nil {
@@ -193,43 +195,71 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 			diag, ex, since = &search.Diagnoser{}, newExplainer(spec), keep
 		}
 	}
-	set.Evaluated = func(d *search.Design) {
-		diag.Add(d)
-		ex.commit(d.Index, d.Failed != "")
-		if err := log.Add(d); err != nil && logErr == nil {
-			logErr = err
+	persist := newPersister()
+	persisting := true
+	waitPersist := func() error {
+		if !persisting {
+			return persist.Err()
 		}
+		persisting = false
+		return persist.Wait()
 	}
+	defer waitPersist()
+	batch := &designBatch{}
+	set.Evaluated = func(d *search.Design) { batch.add(d) }
 	bar := newBar(opt.Progress, set)
 	userProgress := set.Progress
-	set.Progress = func(p search.Progress) {
-		if err := log.Flush(); err != nil && logErr == nil {
-			logErr = err
+	// logBatch queues the rows evaluated since the last call.
+	logBatch := func() {
+		if len(batch.ds) == 0 {
+			return
 		}
+		b := batch
+		batch = &designBatch{}
+		persist.Do(func() error {
+			ds := b.designs()
+			for i := range ds {
+				diag.Add(&ds[i])
+				// committed in the order the search recorded them, on the
+				// persister beside diag, so a checkpoint saves both at
+				// the same evaluation
+				ex.commit(ds[i].Index, ds[i].Failed != "")
+				if err := log.Add(&ds[i]); err != nil {
+					return err
+				}
+			}
+			return log.Flush()
+		})
+	}
+	set.Progress = func(p search.Progress) {
+		logBatch()
 		bar.update(p)
 		if userProgress != nil {
 			userProgress(p)
 		}
 	}
 	set.Checkpoint = func(c *search.Checkpoint) error {
-		if err := log.Flush(); err != nil {
-			return err
-		}
-		if logErr != nil {
-			return logErr
-		}
-		if err := f.writeCheckpoint(c, saveDiagnosis(diag, ex)); err != nil {
-			return err
-		}
-		if err := f.WriteHistory(c.History); err != nil {
-			return err
-		}
-		info.Generations, info.Evaluations, info.Failures = c.Generation, c.Evaluations, c.Failures
-		info.FrontSize, info.Hypervolume, info.Reference = c.ArchiveSize, c.Hypervolume, c.Reference
-		info.RuntimeSec = c.Elapsed.Seconds()
-		info.Updated = time.Now().UTC()
-		info.Files = f.Written()
-		return f.WriteInfo(info)
+		logBatch()
+		persist.Do(func() error {
+			if err := log.Sync(); err != nil {
+				return err
+			}
+			if err := f.writeCheckpoint(c, saveDiagnosis(diag, ex)); err != nil {
+				return err
+			}
+			if err := f.WriteHistory(c.History); err != nil {
+				return err
+			}
+			info.Generations, info.Evaluations, info.Failures = c.Generation, c.Evaluations, c.Failures
+			info.FrontSize, info.Hypervolume, info.Reference = c.ArchiveSize, c.Hypervolume, c.Reference
+			info.RuntimeSec = c.Elapsed.Seconds()
+			info.Updated = time.Now().UTC()
+			info.Files = f.Written()
+			return f.WriteInfo(info)
+		})
+		// A job that failed (now or earlier) stops the search at its
+		// next checkpoint; Wait below reports one that fails later.
+		return persist.Err()
 	}
 	problem := spec.SearchProblem()
 	if ex != nil {
@@ -237,6 +267,8 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	}
 	res, runErr := search.Run(ctx, problem, &set, method)
 	bar.finish()
+	logBatch()
+	persistErr := waitPersist()
 	if res == nil {
 		if runErr == nil {
 			runErr = errors.New("search returned no result")
@@ -248,11 +280,11 @@ func Execute(ctx context.Context, spec *problems.Spec, f *Folder, set search.Set
 	if runErr != nil && !errors.Is(runErr, context.Canceled) {
 		return fail(res, runErr)
 	}
-	if err := log.Flush(); err != nil {
-		return fail(res, err)
+	if persistErr != nil {
+		return fail(res, persistErr)
 	}
-	if logErr != nil {
-		return fail(res, logErr)
+	if err := log.Sync(); err != nil {
+		return fail(res, err)
 	}
 	if err := f.WriteHistory(res.History); err != nil {
 		return fail(res, err)

@@ -12,6 +12,8 @@ import (
 	"slices"
 	"strconv"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"plica/objective"
 	"plica/problems"
@@ -286,18 +288,25 @@ func (l *EvaluationLog) Add(d *search.Design) error {
 	return l.w.Write(row)
 }
 
-// Flush writes buffered rows to the file.
+// Flush writes buffered rows to the file (to the operating system; Sync
+// also waits until they are on the disk).
 func (l *EvaluationLog) Flush() error {
 	l.w.Flush()
-	if err := l.w.Error(); err != nil {
+	return l.w.Error()
+}
+
+// Sync flushes and waits until the rows are on the disk: done before each
+// checkpoint, which counts on them.
+func (l *EvaluationLog) Sync() error {
+	if err := l.Flush(); err != nil {
 		return err
 	}
 	return l.f.Sync()
 }
 
-// Close flushes and closes the log.
+// Close syncs and closes the log.
 func (l *EvaluationLog) Close() error {
-	err := l.Flush()
+	err := l.Sync()
 	if cerr := l.f.Close(); err == nil {
 		err = cerr
 	}
@@ -376,6 +385,8 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 	var b bytes.Buffer
 	w := csv.NewWriter(&b)
 	w.Write(FrontHeader(s))
+	var names []string
+	var texts [][]byte
 	for _, r := range rows {
 		name := DesignFileName(r.ID)
 		text, err := s.DesignTOML(r.Design.X, comment(r))
@@ -385,9 +396,7 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 		if err != nil {
 			return err
 		}
-		if err := f.WriteFile(name, text); err != nil {
-			return err
-		}
+		names, texts = append(names, name), append(texts, text)
 		row := []string{strconv.Itoa(r.ID), strconv.FormatInt(r.Design.Index, 10)}
 		row = append(row, variableCells(s, r.Design.X)...)
 		for _, sc := range objective.AllScores() {
@@ -418,7 +427,53 @@ func (f *Folder) WriteFront(s *problems.Spec, rows []FrontRow, comment func(Fron
 	if err := w.Error(); err != nil {
 		return err
 	}
+	if err := f.writeFiles(names, texts); err != nil {
+		return err
+	}
 	return f.WriteFile(FrontFile, b.Bytes())
+}
+
+// fileWriters is how many files writeFiles writes at once: each atomic
+// write waits for its fsync, and the disk serves several at once.
+const fileWriters = 8
+
+// writeFiles writes files of the folder, each atomically, several at a
+// time (written one by one, the front's design files were a serial step
+// after the search that the disk's latency made long; DEVELOPERS.md,
+// "Search speed"). Every file written is recorded, in the given order;
+// the error is that of the first file, in that order, that failed.
+func (f *Folder) writeFiles(names []string, data [][]byte) error {
+	errs := make([]error, len(names))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(fileWriters, len(names)) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(names) {
+					return
+				}
+				errs[i] = WriteAtomic(f.Path(names[i]), data[i])
+			}
+		})
+	}
+	wg.Wait()
+	for i, name := range names {
+		if errs[i] == nil {
+			f.wrote(name)
+		}
+	}
+	return firstNonNil(errs)
+}
+
+// firstNonNil is the first error of errs that is not nil, or nil.
+func firstNonNil(errs []error) error {
+	for _, err := range errs {
+		if err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // DesignFileName is the path of front design id inside a run folder.

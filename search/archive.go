@@ -22,7 +22,9 @@ type archive struct {
 	items    []*Design
 	trunc    truncator
 
-	// buffers of addAllM
+	spare []*Design // addAll's merge buffer (two objectives)
+
+	// buffers of addAll and addAllM
 	sort     scratch
 	cand     []*Design
 	first    []int32
@@ -80,12 +82,13 @@ func (a *archive) addAll(ds []*Design) {
 		a.addAllM(ds)
 		return
 	}
-	cand := make([]*Design, 0, len(ds))
+	cand := a.cand[:0]
 	for _, d := range ds {
 		if d.Feasible() {
 			cand = append(cand, d)
 		}
 	}
+	a.cand = cand
 	if len(cand) == 0 {
 		return
 	}
@@ -101,7 +104,8 @@ func (a *archive) addAll(ds []*Design) {
 		}
 		return cmp.Compare(p.Index, q.Index)
 	})
-	out := make([]*Design, 0, len(a.items)+len(cand))
+	// The merge goes into the spare buffer, which then swaps with items.
+	out := slices.Grow(a.spare[:0], len(a.items)+len(cand))
 	best := math.Inf(1)
 	keep := func(d *Design) {
 		if d.F[1] < best {
@@ -119,7 +123,9 @@ func (a *archive) addAll(ds []*Design) {
 			j++
 		}
 	}
-	a.items = out
+	clear(a.items)
+	a.items, a.spare = out, a.items[:0]
+	clear(cand)
 }
 
 // addAllM is addAll for one or three or more objectives. Offering designs one at a time keeps

@@ -3,6 +3,7 @@ package search
 import (
 	"context"
 	"math/rand/v2"
+	"runtime"
 	"slices"
 	"strconv"
 	"testing"
@@ -36,21 +37,47 @@ func BenchmarkNSGA2OverheadDTLZ2(b *testing.B) {
 // and reports wall time per evaluation (ns/eval) and process CPU time per evaluation
 // (cpu-ns/eval; it includes the garbage collector's work on the other core, and does not grow
 // when other processes take the cores).
+//
+// It also reports the heap allocations per evaluation of a whole run (allocs/eval) and of the
+// steady state (steady-allocs/eval: generations 101 to 200 of the run, counted from the
+// Progress hook), when the archive and the free list of designs have stopped growing.
 func overhead(b *testing.B, p Problem) {
-	var evals int64
+	var evals, steadyEvals int64
+	var steadyAllocs uint64
+	var ms runtime.MemStats
+	var at100 uint64
+	set := &Settings{Seed: 1, Workers: 1, MaxEvaluations: 20000, Progress: func(pr Progress) {
+		switch pr.Generation {
+		case 100:
+			runtime.ReadMemStats(&ms)
+			at100 = ms.Mallocs
+		case 199:
+			runtime.ReadMemStats(&ms)
+			steadyAllocs += ms.Mallocs - at100
+			steadyEvals += 99 * DefaultPopulation
+		}
+	}}
+	runtime.ReadMemStats(&ms)
+	mallocs0 := ms.Mallocs
 	cpu0 := processCPU()
 	for b.Loop() {
-		res, err := Run(context.Background(), p, &Settings{Seed: 1, Workers: 1, MaxEvaluations: 20000}, &NSGA2{})
+		res, err := Run(context.Background(), p, set, &NSGA2{})
 		if err != nil {
 			b.Fatal(err)
 		}
 		evals += res.Evaluations
 	}
+	cpu := processCPU() - cpu0
+	runtime.ReadMemStats(&ms)
 	b.ReportMetric(float64(b.Elapsed().Nanoseconds())/float64(evals), "ns/eval")
-	if cpu := processCPU() - cpu0; cpu > 0 {
+	if cpu > 0 {
 		b.ReportMetric(float64(cpu.Nanoseconds())/float64(evals), "cpu-ns/eval")
 	}
 	b.ReportMetric(float64(evals)/float64(b.N), "evals/op")
+	b.ReportMetric(float64(ms.Mallocs-mallocs0)/float64(evals), "allocs/eval")
+	if steadyEvals > 0 {
+		b.ReportMetric(float64(steadyAllocs)/float64(steadyEvals), "steady-allocs/eval")
+	}
 }
 
 // spin busies the CPU for d, like a model evaluation.
@@ -150,6 +177,46 @@ func BenchmarkArchiveM3(b *testing.B) {
 		for b.Loop() {
 			a.items = append(a.items[:0], base.items...)
 			a.addAll(children)
+		}
+	})
+}
+
+// BenchmarkVariation times the variation of one pair of parents (SBX crossover and polynomial
+// mutation of both children, defaults, 30 continuous variables in [0, 1]) with the plain forms
+// of operators_ref_test.go and with the run's operators of operators.go, which give the same
+// children bit for bit (TestOperatorsMatchReference).
+func BenchmarkVariation(b *testing.B) {
+	p := ZDT1(30)
+	v := Variation{}.resolve(p.Dim)
+	rng := rand.New(rand.NewPCG(1, 2))
+	parents := make([][]float64, 64)
+	for i := range parents {
+		parents[i] = make([]float64, p.Dim)
+		for j := range parents[i] {
+			parents[i][j] = rng.Float64()
+		}
+	}
+	c1, c2 := make([]float64, p.Dim), make([]float64, p.Dim)
+	b.Run("plain", func(b *testing.B) {
+		r := rand.New(rand.NewPCG(3, 4))
+		i := 0
+		for b.Loop() {
+			crossover(r, &p, &v, parents[i%64], parents[(i+1)%64], c1, c2)
+			mutate(r, &p, &v, c1)
+			mutate(r, &p, &v, c2)
+			i++
+		}
+	})
+	b.Run("operators", func(b *testing.B) {
+		ops := newOperators(&p, &v)
+		src := rand.NewPCG(3, 4)
+		r := rand.New(src)
+		i := 0
+		for b.Loop() {
+			ops.crossover(src, parents[i%64], parents[(i+1)%64], c1, c2)
+			ops.mutate(r, src, c1)
+			ops.mutate(r, src, c2)
+			i++
 		}
 	})
 }

@@ -71,7 +71,8 @@ func eaoptFitness(d *Design) float64 { return float64(d.Rank) + 0.5/(1+d.Crowdin
 type eaoptModel struct {
 	e       *engine
 	mu      sync.Mutex
-	genomes []genome // one per population slot, reused every generation
+	genomes []genome  // one per population slot, reused every generation
+	parents []*Design // the designs handed to step, reused every generation
 }
 
 var errConcurrentApply = errors.New("search: concurrent Apply (eaopt must run one population)")
@@ -82,10 +83,11 @@ func (m *eaoptModel) Apply(pop *eaopt.Population) error {
 		return errConcurrentApply
 	}
 	defer m.mu.Unlock()
-	parents := make([]*Design, len(pop.Individuals))
-	for i, ind := range pop.Individuals {
-		parents[i] = ind.Genome.(*genome).d
+	parents := m.parents[:0]
+	for _, ind := range pop.Individuals {
+		parents = append(parents, ind.Genome.(*genome).d)
 	}
+	m.parents = parents
 	survivors, err := m.e.step(parents)
 	if err != nil {
 		return err

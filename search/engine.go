@@ -25,6 +25,7 @@ type engine struct {
 	scal   *Scalarization // GA only
 	pcg    *rand.PCG
 	rng    *rand.Rand
+	ops    *operators
 	ev     evaluator
 
 	pop      []*Design
@@ -37,6 +38,12 @@ type engine struct {
 	status   Status
 	err      error
 	savedGen int // generation of the last checkpoint, −1 if none
+
+	// Buffers kept between generations, so that a generation allocates nothing in the steady
+	// state: the sorted parents, parents and children together, the children, the archive
+	// before the generation, and the designs free for reuse (recycle).
+	popBuf, unionBuf, kids, oldArch, free []*Design
+	epoch                                 int64
 }
 
 func newEngine(ctx context.Context, p *Problem, c config, method string, surv survival, scal *Scalarization) (*engine, error) {
@@ -59,7 +66,7 @@ func newEngine(ctx context.Context, p *Problem, c config, method string, surv su
 	pcg := newPCG(c.Seed, streamModel)
 	return &engine{
 		ctx: ctx, p: p, cfg: c, method: method, surv: surv, scal: scal,
-		pcg: pcg, rng: rand.New(pcg),
+		pcg: pcg, rng: rand.New(pcg), ops: newOperators(p, &c.Variation),
 		ev:       evaluator{p: p, workers: c.Workers, timeout: c.EvaluationTimeout},
 		arch:     archive{m: p.NumObjectives, capacity: c.ArchiveSize},
 		ref:      slices.Clone(c.Reference),
@@ -123,57 +130,88 @@ func (e *engine) evaluate(ds []*Design) error {
 // If the context is cancelled during evaluation the generation is abandoned, the generator
 // restored, and errInterrupted returned.
 func (e *engine) step(parents []*Design) ([]*Design, error) {
-	pop := slices.Clone(parents)
+	pop := append(e.popBuf[:0], parents...)
+	e.popBuf = pop
 	slices.SortFunc(pop, compareCanonical)
 	e.pop = pop
 	k := e.cfg.Population
-	state, err := e.pcg.MarshalBinary()
-	if err != nil {
-		return nil, err
-	}
+	state := *e.pcg
 	children := e.offspring(k)
+	e.oldArch = append(e.oldArch[:0], e.arch.items...)
 	if err := e.evaluate(children); err != nil {
-		if uerr := e.pcg.UnmarshalBinary(state); uerr != nil {
-			return nil, uerr
-		}
+		*e.pcg = state
 		return nil, err
 	}
-	r := make([]*Design, 0, len(pop)+len(children))
-	r = append(append(r, pop...), children...)
+	r := append(append(e.unionBuf[:0], pop...), children...)
+	e.unionBuf = r
 	e.pop = e.surv.survive(r, e.cfg.Population)
+	e.recycle(pop, children, e.oldArch)
+	clear(r)
+	clear(e.oldArch)
 	e.stats.Generation++
 	e.stats.Evaluations += int64(k)
 	e.afterGeneration()
 	return e.pop, nil
 }
 
+// freed marks a design on the free list.
+const freed = -1
+
+// recycle puts on the free list the designs of the given sets (this generation's parents and
+// children, and the archive before it) that are now in neither the population nor the
+// archive. Nothing else holds the engine's designs: the hooks may not retain them, and
+// checkpoints and results hold copies.
+func (e *engine) recycle(sets ...[]*Design) {
+	e.epoch++
+	for _, d := range e.pop {
+		d.mark = e.epoch
+	}
+	for _, d := range e.arch.items {
+		d.mark = e.epoch
+	}
+	for _, ds := range sets {
+		for _, d := range ds {
+			if d.mark != e.epoch && d.mark != freed {
+				d.mark = freed
+				e.free = append(e.free, d)
+			}
+		}
+	}
+}
+
+// newChild is a design from the free list, cleared, or a new one.
+func (e *engine) newChild() *Design {
+	n := len(e.free)
+	if n == 0 {
+		return newDesign(e.p)
+	}
+	d := e.free[n-1]
+	e.free[n-1] = nil
+	e.free = e.free[:n-1]
+	*d = Design{X: d.X, F: d.F, G: d.G}
+	return d
+}
+
 // offspring makes k children by crowded binary tournament, crossover and mutation.
 func (e *engine) offspring(k int) []*Design {
-	out := make([]*Design, 0, k)
-	v := &e.cfg.Variation
-	// One allocation for the children's structs and one for all their numbers. A surviving
-	// child keeps its generation's block alive: at most (population + archive) blocks.
-	slab := make([]Design, k+k%2)
-	n, m, c := e.p.Dim, e.p.NumObjectives, e.p.NumConstraints
-	w := n + m + c
-	buf := make([]float64, len(slab)*w)
-	for i := range slab {
-		b := buf[i*w : (i+1)*w : (i+1)*w]
-		slab[i].X, slab[i].F, slab[i].G = b[:n:n], b[n:n+m:n+m], b[n+m:]
-	}
+	out := e.kids[:0]
 	for len(out) < k {
 		p1, p2 := e.tournament(), e.tournament()
-		c1, c2 := &slab[len(out)], &slab[len(out)+1]
-		crossover(e.rng, e.p, v, p1.X, p2.X, c1.X, c2.X)
+		c1, c2 := e.newChild(), e.newChild()
+		e.ops.crossover(e.pcg, p1.X, p2.X, c1.X, c2.X)
 		for _, c := range [2]*Design{c1, c2} {
 			if len(out) == k {
+				// An odd k: the last pair's second child is not needed.
+				c.mark = freed
+				e.free = append(e.free, c)
 				break
 			}
-			mutate(e.rng, e.p, v, c.X)
+			e.ops.mutate(e.rng, e.pcg, c.X)
 			c.Index = e.stats.Evaluations + int64(len(out))
 			out = append(out, c)
 		}
 	}
+	e.kids = out
 	return out
 }
 

@@ -14,6 +14,15 @@ type evaluator struct {
 	p       *Problem
 	workers int
 	timeout time.Duration
+	bufs    [][]float64 // each worker's copy of the variables, reused by every run
+}
+
+// buf is worker i's buffer.
+func (ev *evaluator) buf(i int) []float64 {
+	for len(ev.bufs) <= i {
+		ev.bufs = append(ev.bufs, make([]float64, ev.p.Dim))
+	}
+	return ev.bufs[i]
 }
 
 // run evaluates every design of ds, dispatching one design at a time to min(workers, len(ds))
@@ -23,7 +32,7 @@ type evaluator struct {
 func (ev *evaluator) run(ctx context.Context, ds []*Design) error {
 	w := min(ev.workers, len(ds))
 	if w <= 1 {
-		x := make([]float64, ev.p.Dim)
+		x := ev.buf(0)
 		for _, d := range ds {
 			if ctx.Err() != nil {
 				break
@@ -34,9 +43,9 @@ func (ev *evaluator) run(ctx context.Context, ds []*Design) error {
 	}
 	var next atomic.Int64
 	var wg sync.WaitGroup
-	for range w {
+	for k := range w {
+		x := ev.buf(k)
 		wg.Go(func() {
-			x := make([]float64, ev.p.Dim)
 			for {
 				i := next.Add(1) - 1
 				if i >= int64(len(ds)) || ctx.Err() != nil {

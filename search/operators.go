@@ -46,29 +46,61 @@ func (v Variation) resolve(n int) Variation {
 // code `realcross`, EPS = 1e-14).
 const sbxEps = 1e-14
 
+// operators are the variation operators of a run, with everything that does not change during
+// the run worked out once: the bounds and category counts of the variables, 1/(η + 1), and how
+// each power is taken. They draw the same random numbers in the same order and compute the same
+// values, bit for bit, as the plain forms kept beside the tests (operators_ref_test.go, checked
+// by TestOperatorsMatchReference); they are only faster (search/REFERENCE.md §2.15).
+type operators struct {
+	pc, pm   float64   // crossover and mutation probabilities (< 0: off)
+	lo, hi   []float64 // bounds
+	cat      []int     // categories per variable (0: continuous)
+	anyCat   bool
+	hasBound []bool  // hi > lo: polynomial mutation applies
+	cPow     powPlan // x^(η_c + 1)
+	cRoot    powPlan // x^(1/(η_c + 1))
+	mPow     powPlan // x^(η_m + 1)
+	mRoot    powPlan // x^(1/(η_m + 1))
+}
+
+// newOperators prepares the operators of v (defaults resolved) for p.
+func newOperators(p *Problem, v *Variation) *operators {
+	o := &operators{pc: v.CrossoverProbability, pm: v.MutationProbability,
+		lo: p.Lower, hi: p.Upper, cat: make([]int, p.Dim), hasBound: make([]bool, p.Dim)}
+	for i := range p.Dim {
+		o.cat[i] = p.categories(i)
+		o.anyCat = o.anyCat || o.cat[i] > 0
+		o.hasBound[i] = p.Upper[i] > p.Lower[i]
+	}
+	o.cPow, o.cRoot = newPowPlan(v.CrossoverEta+1), newPowPlan(1/(v.CrossoverEta+1))
+	o.mPow, o.mRoot = newPowPlan(v.MutationEta+1), newPowPlan(1/(v.MutationEta+1))
+	return o
+}
+
 // crossover writes two children of parents p1 and p2 into c1 and c2 (Deb's reference code
 // `realcross`: with probability p_c per pair; each continuous variable with probability 0.5
 // undergoes bounded SBX, the children's values then swapped with probability 0.5). A categorical
 // variable is swapped between the children with probability 0.5 (uniform crossover).
-func crossover(rng *rand.Rand, p *Problem, v *Variation, p1, p2, c1, c2 []float64) {
+func (o *operators) crossover(src *rand.PCG, p1, p2, c1, c2 []float64) {
 	copy(c1, p1)
 	copy(c2, p2)
-	if v.CrossoverProbability < 0 || rng.Float64() > v.CrossoverProbability {
+	if o.pc < 0 || uniform(src) > o.pc {
 		return
 	}
+	p1, p2, c2 = p1[:len(c1)], p2[:len(c1)], c2[:len(c1)]
 	for i := range c1 {
-		if p.categories(i) > 0 {
-			if rng.Float64() <= 0.5 {
+		if o.anyCat && o.cat[i] > 0 {
+			if uniform(src) <= 0.5 {
 				c1[i], c2[i] = p2[i], p1[i]
 			}
 			continue
 		}
-		if rng.Float64() > 0.5 || math.Abs(p1[i]-p2[i]) <= sbxEps {
+		if uniform(src) > 0.5 || math.Abs(p1[i]-p2[i]) <= sbxEps {
 			continue
 		}
 		y1, y2 := min(p1[i], p2[i]), max(p1[i], p2[i])
-		a, b := sbx(y1, y2, p.Lower[i], p.Upper[i], v.CrossoverEta, rng.Float64())
-		if rng.Float64() <= 0.5 {
+		a, b := o.sbx(y1, y2, o.lo[i], o.hi[i], uniform(src))
+		if uniform(src) <= 0.5 {
 			c1[i], c2[i] = b, a
 		} else {
 			c1[i], c2[i] = a, b
@@ -76,35 +108,123 @@ func crossover(rng *rand.Rand, p *Problem, v *Variation, p1, p2, c1, c2 []float6
 	}
 }
 
-// sbx is bounded simulated binary crossover of one variable with parents y1 < y2 in [yl, yu],
-// distribution index eta and uniform number u (Deb and Agrawal, Complex Systems 9(2), 1995; bounded
-// form of Deb's NSGA-II reference code `realcross`, search/REFERENCE.md §2.7). It returns the lower and
-// upper child, clipped to the bounds.
-func sbx(y1, y2, yl, yu, eta, u float64) (c1, c2 float64) {
+// sbx is bounded simulated binary crossover of one variable with parents y1 < y2 in [yl, yu]
+// and uniform number u (Deb and Agrawal, Complex Systems 9(2), 1995; bounded form of Deb's
+// NSGA-II reference code `realcross`, search/REFERENCE.md §2.7). It returns the lower and upper
+// child, clipped to the bounds.
+func (o *operators) sbx(y1, y2, yl, yu, u float64) (c1, c2 float64) {
 	d := y2 - y1
-	e := 1 / (eta + 1)
-	beta := 1 + 2*(y1-yl)/d
-	alpha := 2 - 1/pow(beta, eta+1)
-	c1 = 0.5 * ((y1 + y2) - sbxBetaQ(u, alpha, e)*d)
-	beta = 1 + 2*(yu-y2)/d
-	alpha = 2 - 1/pow(beta, eta+1)
-	c2 = 0.5 * ((y1 + y2) + sbxBetaQ(u, alpha, e)*d)
+	beta1 := 1 + 2*(y1-yl)/d
+	alpha1 := 2 - 1/o.cPow.pow(beta1)
+	beta2 := 1 + 2*(yu-y2)/d
+	alpha2 := 2 - 1/o.cPow.pow(beta2)
+	var bq1, bq2 float64
+	if o.cRoot.roots > 0 {
+		// Both spread factors at once: the two chains of square roots overlap.
+		x1, x2 := sbxBetaQBase(u, alpha1), sbxBetaQBase(u, alpha2)
+		for range o.cRoot.roots {
+			x1, x2 = math.Sqrt(x1), math.Sqrt(x2)
+		}
+		bq1, bq2 = x1, x2
+	} else {
+		bq1, bq2 = o.cRoot.pow(sbxBetaQBase(u, alpha1)), o.cRoot.pow(sbxBetaQBase(u, alpha2))
+	}
+	c1 = 0.5 * ((y1 + y2) - bq1*d)
+	c2 = 0.5 * ((y1 + y2) + bq2*d)
 	return min(max(c1, yl), yu), min(max(c2, yl), yu)
 }
 
-// sbxBetaQ is the spread factor β_q of bounded SBX for uniform number u.
-func sbxBetaQ(u, alpha, e float64) float64 {
+// sbxBetaQBase is the number whose 1/(η_c + 1)-th power is the spread factor β_q of bounded SBX
+// for uniform number u. It is never −0, so that taking the power by square roots gives what
+// powPlan.pow gives (+0 for 0).
+func sbxBetaQBase(u, alpha float64) float64 {
 	if u <= 1/alpha {
-		return pow(u*alpha, e)
+		return u*alpha + 0
 	}
-	return pow(1/(2-u*alpha), e)
+	return 1 / (2 - u*alpha)
 }
 
-// pow is x^y for x ≥ 0, faster than math.Pow for the operators' exponents: by repeated squaring
-// when y is a small whole number (η + 1 for integer η), by repeated square roots when 1/y is a
-// power of two up to 64, else as exp(y ln x). It agrees with math.Pow to a few ulps.
-func pow(x, y float64) float64 {
+// mutate applies polynomial mutation to each continuous variable of x with probability p_m
+// (Deb's reference code `real_mutate_ind`), and random-reset mutation to each categorical
+// variable with the same probability: the category is replaced by one of the other k−1
+// categories, chosen uniformly.
+func (o *operators) mutate(rng *rand.Rand, src *rand.PCG, x []float64) {
+	if o.pm < 0 {
+		return
+	}
+	cat, lo, hi, ok := o.cat[:len(x)], o.lo[:len(x)], o.hi[:len(x)], o.hasBound[:len(x)]
+	for i := range x {
+		if uniform(src) > o.pm {
+			continue
+		}
+		if k := cat[i]; k > 0 {
+			if k > 1 {
+				c := rng.IntN(k - 1)
+				if c >= int(x[i]) {
+					c++
+				}
+				x[i] = float64(c)
+			}
+			continue
+		}
+		if ok[i] {
+			x[i] = o.polynomialMutation(x[i], lo[i], hi[i], uniform(src))
+		}
+	}
+}
+
+// polynomialMutation mutates y in [yl, yu] (yl < yu) with uniform number u: the bounded "highly
+// disruptive" form of Deb and Goyal (1996) in Deb's NSGA-II reference code `real_mutate_ind`
+// (search/REFERENCE.md §2.8). The result is clipped to the bounds.
+func (o *operators) polynomialMutation(y, yl, yu, u float64) float64 {
+	d1 := (y - yl) / (yu - yl)
+	d2 := (yu - y) / (yu - yl)
+	var dq float64
+	if u <= 0.5 {
+		val := 2*u + (1-2*u)*o.mPow.pow(1-d1)
+		dq = o.mRoot.pow(val) - 1
+	} else {
+		val := 2*(1-u) + 2*(u-0.5)*o.mPow.pow(1-d2)
+		dq = 1 - o.mRoot.pow(val)
+	}
+	y += dq * (yu - yl)
+	return min(max(y, yl), yu)
+}
+
+// uniform is rand.Rand.Float64 of a Rand on src, drawn from src directly (no call through the
+// Source interface): float64(src.Uint64()<<11>>11) / 2^53, the formula of math/rand/v2; the
+// operators take their other draws (IntN) from rng on the same src, so the stream is the same.
+func uniform(src *rand.PCG) float64 { return float64(src.Uint64()<<11>>11) / (1 << 53) }
+
+// powPlan is x^y for x ≥ 0 and a fixed y, the way of taking it chosen once: by repeated
+// squaring when y is a small whole number (η + 1 for integer η), by repeated square roots when
+// 1/y is a power of two up to 64 (1/(η_c + 1) for the default η_c = 15), else as exp(y ln x).
+// It agrees with math.Pow to a few ulps (TestPow).
+type powPlan struct {
+	y     float64
+	n     int // ≥ 0: y = n, by squaring
+	roots int // > 0: y = 2^−roots, by square roots
+}
+
+func newPowPlan(y float64) powPlan {
+	pl := powPlan{y: y, n: -1}
 	if n := int(y); float64(n) == y && n >= 0 && n <= 64 {
+		pl.n = n
+		return pl
+	}
+	if y > 0 && y <= 0.5 {
+		if k := 1 / y; k == math.Trunc(k) && k <= 64 && int(k)&(int(k)-1) == 0 {
+			for ; k > 1; k /= 2 {
+				pl.roots++
+			}
+		}
+	}
+	return pl
+}
+
+// pow is x^y.
+func (pl *powPlan) pow(x float64) float64 {
+	if n := pl.n; n >= 0 {
 		r := 1.0
 		for b := x; n > 0; n >>= 1 {
 			if n&1 == 1 {
@@ -115,65 +235,15 @@ func pow(x, y float64) float64 {
 		return r
 	}
 	if x == 0 {
-		return math.Pow(x, y)
+		return math.Pow(x, pl.y)
 	}
-	// Roots of order 2, 4, …, 64 (1/(η_c + 1) for the default η_c = 15) by square roots.
-	if y > 0 && y <= 0.5 {
-		if k := 1 / y; k == math.Trunc(k) && k <= 64 && int(k)&(int(k)-1) == 0 {
-			for ; k > 1; k /= 2 {
-				x = math.Sqrt(x)
-			}
-			return x
+	if pl.roots > 0 {
+		for range pl.roots {
+			x = math.Sqrt(x)
 		}
+		return x
 	}
-	return math.Exp(y * math.Log(x))
-}
-
-// mutate applies polynomial mutation to each continuous variable of x with probability p_m
-// (Deb's reference code `real_mutate_ind`), and random-reset mutation to each categorical
-// variable with the same probability: the category is replaced by one of the other k−1
-// categories, chosen uniformly.
-func mutate(rng *rand.Rand, p *Problem, v *Variation, x []float64) {
-	if v.MutationProbability < 0 {
-		return
-	}
-	for i := range x {
-		if rng.Float64() > v.MutationProbability {
-			continue
-		}
-		if k := p.categories(i); k > 0 {
-			if k > 1 {
-				c := rng.IntN(k - 1)
-				if c >= int(x[i]) {
-					c++
-				}
-				x[i] = float64(c)
-			}
-			continue
-		}
-		if lo, hi := p.Lower[i], p.Upper[i]; hi > lo {
-			x[i] = polynomialMutation(x[i], lo, hi, v.MutationEta, rng.Float64())
-		}
-	}
-}
-
-// polynomialMutation mutates y in [yl, yu] (yl < yu) with distribution index eta and uniform
-// number u: the bounded "highly disruptive" form of Deb and Goyal (1996) in Deb's NSGA-II
-// reference code `real_mutate_ind` (search/REFERENCE.md §2.8). The result is clipped to the bounds.
-func polynomialMutation(y, yl, yu, eta, u float64) float64 {
-	d1 := (y - yl) / (yu - yl)
-	d2 := (yu - y) / (yu - yl)
-	e := 1 / (eta + 1)
-	var dq float64
-	if u <= 0.5 {
-		val := 2*u + (1-2*u)*pow(1-d1, eta+1)
-		dq = pow(val, e) - 1
-	} else {
-		val := 2*(1-u) + 2*(u-0.5)*pow(1-d2, eta+1)
-		dq = 1 - pow(val, e)
-	}
-	y += dq * (yu - yl)
-	return min(max(y, yl), yu)
+	return math.Exp(pl.y * math.Log(x))
 }
 
 // latinHypercube fills rows with a Latin hypercube sample of the box of p: for each continuous

@@ -148,3 +148,81 @@ func TestLatinHypercube(t *testing.T) {
 		assert.True(t, r[2] >= 0 && r[2] <= 2 && r[2] == math.Trunc(r[2]), "category %g", r[2])
 	}
 }
+
+// TestOperatorsMatchReference: the operators of a run (operators.go) give the same children as
+// the plain forms (operators_ref_test.go), bit for bit, and leave the generator in the same
+// state, for default and other distribution indices (whole, power-of-two-root and general
+// exponents), with continuous, categorical and fixed variables, parents at and between the
+// bounds, and probabilities that disable an operator.
+func TestOperatorsMatchReference(t *testing.T) {
+	p := &Problem{Dim: 6, Lower: []float64{0, -3, 0, 2, 0, 1e-3}, Upper: []float64{1, 5, 0, 2, 0, 1e3}, Categorical: []int{0, 0, 4, 0, 1, 0}}
+	cont := &Problem{Dim: 30, Lower: make([]float64, 30), Upper: make([]float64, 30)}
+	for i := range cont.Upper {
+		cont.Upper[i] = 1
+	}
+	variations := []Variation{
+		{},
+		{CrossoverEta: 20, MutationEta: 15},
+		{CrossoverEta: 1, MutationEta: 3},
+		{CrossoverEta: 2.5, MutationEta: 0.5},
+		{CrossoverEta: 63, MutationEta: 63},
+		{CrossoverProbability: -1, MutationProbability: 1},
+		{CrossoverProbability: 1, MutationProbability: -1},
+	}
+	for _, prob := range []*Problem{p, cont} {
+		for vi, v := range variations {
+			v = v.resolve(prob.Dim)
+			ops := newOperators(prob, &v)
+			seed := uint64(10 + vi)
+			pb := rand.NewPCG(seed, 1)
+			ra, rb := rand.New(rand.NewPCG(seed, 1)), rand.New(pb)
+			pick := rand.New(rand.NewPCG(seed, 2))
+			point := func() []float64 {
+				x := make([]float64, prob.Dim)
+				for i := range x {
+					lo, hi := prob.Lower[i], prob.Upper[i]
+					switch k := prob.categories(i); {
+					case k > 0:
+						x[i] = float64(pick.IntN(k))
+					case pick.IntN(8) == 0:
+						x[i] = lo
+					case pick.IntN(8) == 0:
+						x[i] = hi
+					default:
+						x[i] = lo + (hi-lo)*pick.Float64()
+					}
+				}
+				return x
+			}
+			for n := range 3000 {
+				p1, p2 := point(), point()
+				if n%10 == 0 {
+					copy(p2, p1) // equal parents: no SBX
+				}
+				a1, a2 := make([]float64, prob.Dim), make([]float64, prob.Dim)
+				b1, b2 := make([]float64, prob.Dim), make([]float64, prob.Dim)
+				crossover(ra, prob, &v, p1, p2, a1, a2)
+				ops.crossover(pb, p1, p2, b1, b2)
+				mutate(ra, prob, &v, a1)
+				ops.mutate(rb, pb, b1)
+				for i := range a1 {
+					require.Equal(t, math.Float64bits(a1[i]), math.Float64bits(b1[i]), "variation %d, pair %d, child 1 variable %d: %v vs %v", vi, n, i, a1[i], b1[i])
+					require.Equal(t, math.Float64bits(a2[i]), math.Float64bits(b2[i]), "variation %d, pair %d, child 2 variable %d", vi, n, i)
+				}
+				require.Equal(t, ra.Uint64(), rb.Uint64(), "variation %d, pair %d: generators in step", vi, n)
+			}
+		}
+	}
+	// The plans against the plain pow, over the exponents the operators take.
+	rng := rand.New(rand.NewPCG(5, 5))
+	for _, y := range []float64{16, 21, 2, 64, 65, 1.0 / 16, 1.0 / 21, 1.0 / 2, 1.0 / 64, 1.0 / 128, 1.0 / 3, 2.5, 0} {
+		pl := newPowPlan(y)
+		for _, x := range []float64{0, 1, 0.5, math.SmallestNonzeroFloat64, 3} {
+			require.Equal(t, math.Float64bits(pow(x, y)), math.Float64bits(pl.pow(x)), "pow(%g, %g)", x, y)
+		}
+		for range 2000 {
+			x := rng.Float64() * 3
+			require.Equal(t, math.Float64bits(pow(x, y)), math.Float64bits(pl.pow(x)), "pow(%g, %g)", x, y)
+		}
+	}
+}

@@ -142,6 +142,10 @@ type Design struct {
 	// Scalar is the value of the method's scalarisation (GA; NelderMead adds Penalty·CV), +Inf
 	// for a failed evaluation; 0 under NSGA2.
 	Scalar float64
+
+	// mark is the engine's bookkeeping for reusing designs that left both the population and
+	// the archive (engine.recycle); copies have 0.
+	mark int64
 }
 
 // Feasible reports whether d satisfies every constraint and was evaluated without failure.
@@ -165,6 +169,7 @@ func newDesign(p *Problem) *Design {
 // clone returns a deep copy of d.
 func (d *Design) clone() Design {
 	c := *d
+	c.mark = 0
 	buf := make([]float64, len(d.X)+len(d.F)+len(d.G))
 	n, m := len(d.X), len(d.F)
 	c.X = buf[:n:n]

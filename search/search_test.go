@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 
@@ -629,4 +630,42 @@ func TestConcurrentApplyRefused(t *testing.T) {
 	m.mu.Lock()
 	defer m.mu.Unlock()
 	assert.ErrorIs(t, m.Apply(nil), errConcurrentApply, "Apply while another Apply runs")
+}
+
+// TestRecycleKeepsLiveDesigns: after every generation no member of the population or the
+// archive is on the free list, the free list holds each design once, and reused designs are
+// really reused (the free list is drawn from), on a run with a bounded archive and odd N.
+func TestRecycleKeepsLiveDesigns(t *testing.T) {
+	p := ZDT1(5)
+	require.NoError(t, p.validate(true))
+	e, err := newEngine(context.Background(), &p, resolve(&Settings{Seed: 4, Population: 21, ArchiveSize: 15, MaxEvaluations: 21 * 60}, p.Dim),
+		"NSGA2", &crowdingSurvival{m: 2}, nil)
+	require.NoError(t, err)
+	e.initialise()
+	reused := 0
+	for gen := 0; !e.stopping(); gen++ {
+		free := map[*Design]bool{}
+		for _, d := range e.free {
+			free[d] = true
+		}
+		_, err := e.step(slices.Clone(e.pop))
+		require.NoError(t, err)
+		for _, d := range e.kids {
+			if free[d] {
+				reused++
+			}
+		}
+		seen := map[*Design]bool{}
+		for _, d := range e.free {
+			require.False(t, seen[d], "generation %d: design %d twice on the free list", gen, d.Index)
+			seen[d] = true
+		}
+		for _, d := range e.pop {
+			require.False(t, seen[d], "generation %d: population design %d on the free list", gen, d.Index)
+		}
+		for _, d := range e.arch.items {
+			require.False(t, seen[d], "generation %d: archive design %d on the free list", gen, d.Index)
+		}
+	}
+	assert.Positive(t, reused, "children drawn from the free list")
 }

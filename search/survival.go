@@ -9,7 +9,8 @@ import (
 // the survivors, which the crowded tournament then reads; a reference-point niching survival
 // (NSGA-III) would be another implementation.
 type survival interface {
-	// survive returns n designs of r (n ≤ len(r)) in a deterministic order.
+	// survive returns n designs of r (n ≤ len(r)) in a deterministic order. The slice returned
+	// may be reused by the next call.
 	survive(r []*Design, n int) []*Design
 }
 
@@ -18,13 +19,14 @@ type survival interface {
 // fit is sorted by decreasing crowding distance, computed on the whole front before truncation,
 // ties kept in their order in r.
 type crowdingSurvival struct {
-	m int
-	s scratch
+	m   int
+	s   scratch
+	out []*Design // the survivors, reused by the next call
 }
 
 func (c *crowdingSurvival) survive(r []*Design, n int) []*Design {
 	rank := c.s.nondominatedSort(r, c.m)
-	out := make([]*Design, 0, n)
+	out := slices.Grow(c.out[:0], n)
 	dist := resize(c.s.dist, len(r))
 	c.s.dist = dist
 	for fr, front := range c.s.frontsOf(rank) {
@@ -57,6 +59,7 @@ func (c *crowdingSurvival) survive(r []*Design, n int) []*Design {
 			out = append(out, r[i])
 		}
 	}
+	c.out = out
 	return out
 }
 

@@ -10,7 +10,11 @@ import (
 	"html/template"
 	"math"
 	"regexp"
+	"runtime"
+	"slices"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"plica/objective"
 	"plica/problems"
@@ -171,7 +175,8 @@ func checkRows(checks []objective.Check) (rows []checkRow, failed, warned int) {
 // inside each design's check and every results.CheckEvery rows read, and
 // stops with ctx.Err() once ctx is done.
 func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error) {
-	r, err := load(ctx, f)
+	ctx = &latchCtx{Context: ctx}
+	r, err := loadBase(ctx, f)
 	if err != nil {
 		return nil, err
 	}
@@ -181,92 +186,49 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 	}
 	rep := &Report{Designs: ids}
 	page := r.page(ids)
-	// addFig builds the next figure, unless ctx is done (then Build
-	// returns ctx.Err() at its next look), and adds it or its problem.
-	addFig := func(dst *[]figureSection, build func() (Figure, error)) {
-		if ctx.Err() != nil {
-			return
-		}
-		fig, err := build()
-		rf := figureSection{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
-		if err != nil {
-			rf.Problem = fmt.Sprintf("%s could not be drawn: %v", fig.Title, err)
-			rep.Problems = append(rep.Problems, rf.Problem)
-		} else {
-			rf.SVG = inlineSVG(fig.SVG)
-			rep.Figures = append(rep.Figures, fig)
-		}
-		*dst = append(*dst, rf)
-	}
+	reasons := r.reasons(ids, opt.Designs != nil)
+	// The parts of the page are built concurrently (reading
+	// evaluations.csv, which only the front figure needs, beside the
+	// designs' checks and figures) and put together in their fixed order
+	// afterwards, so the page does not depend on which finished first.
+	var (
+		front, variables, hypervolume, islands part
+		designs                                = make([]part, len(ids))
+		sections                               = make([]designSection, len(ids))
+		evalErr                                error
+	)
+	tasks := []func(){func() { evalErr = r.loadEvaluated(ctx) }}
 	if len(r.Front) > 0 {
-		addFig(&page.Lead, func() (Figure, error) { return r.FrontFigure(ids) })
-		addFig(&page.Figures, func() (Figure, error) { return r.VariablesFigure(ids) })
+		tasks = append(tasks, func() { variables.addFig(ctx, func() (Figure, error) { return r.VariablesFigure(ids) }) })
 	}
 	if len(r.History) > 0 {
-		addFig(&page.Figures, r.HypervolumeFigure)
+		tasks = append(tasks, func() { hypervolume.addFig(ctx, r.HypervolumeFigure) })
 	}
 	if len(r.Info.MergedFrom) > 0 {
-		addFig(&page.Figures, r.IslandsFigure)
+		tasks = append(tasks, func() { islands.addFig(ctx, r.IslandsFigure) })
 	}
-	reasons := r.reasons(ids, opt.Designs != nil)
-	for _, id := range ids {
-		if err := ctx.Err(); err != nil {
-			return nil, err
-		}
-		row, _ := r.FrontRow(id)
-		d := designSection{ID: id, Reason: reasons[id], File: results.DesignFileName(id), Robust: newRobustSection(r.Spec, row.Robust)}
-		for i, o := range r.Spec.Objectives {
-			d.Objectives = append(d.Objectives, keyValue{o.Column(), num(row.F[i])})
-		}
-		for j, name := range results.NewColumns(r.Spec).Variables {
-			cell := row.Cells[j]
-			if r.Spec.Variables[j].Options == nil {
-				cell = num(row.X[j])
-			}
-			d.Variables = append(d.Variables, keyValue{name, cell})
-		}
-		design, sc, err := problems.LoadDesign(f.Path(d.File))
-		var res *objective.Result
-		if err == nil {
-			res, err = objective.EvaluateContext(ctx, design, sc)
-		}
-		if ctxErr := ctx.Err(); ctxErr != nil {
-			return nil, ctxErr
-		}
-		if err != nil {
-			d.Problem = fmt.Sprintf("design %d (%s) could not be checked: %v", id, d.File, err)
-			rep.Problems = append(rep.Problems, d.Problem)
-			page.Designs = append(page.Designs, d)
-			continue
-		}
-		d.HasResult, d.Pass, d.Models, d.Warnings = true, res.Pass, res.Models, res.Warnings
-		d.NumChecks = len(res.Checks)
-		d.Checks, d.FailedChecks, d.WarnChecks = checkRows(res.Checks)
-		if opt.CheckText != nil {
-			d.CheckText = opt.CheckText(fmt.Sprintf("%s (front design %d)", d.File, id), res)
-		}
-		robot, _, err := design.Robot()
-		if err != nil {
-			d.Problem = fmt.Sprintf("design %d: %v", id, err)
-			rep.Problems = append(rep.Problems, d.Problem)
-		} else {
-			addFig(&d.Figures, func() (Figure, error) {
-				return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
-			})
-			addFig(&d.Figures, func() (Figure, error) {
-				return LoadedBackboneFigure(fmt.Sprintf("loaded-%03d.svg", id), fmt.Sprintf("Loaded beside unloaded backbone of design %d", id), robot, sc.Workspace, sc.Load)
-			})
-			addFig(&d.Figures, func() (Figure, error) {
-				return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
-			})
-			addFig(&d.Figures, func() (Figure, error) {
-				return TipSagFigure(fmt.Sprintf("sag-%03d.svg", id), fmt.Sprintf("Tip sag over the workspace of design %d", id), robot, sc.Workspace, sc.Load)
-			})
-		}
-		page.Designs = append(page.Designs, d)
+	for k, id := range ids {
+		tasks = append(tasks, func() { sections[k] = r.designSection(ctx, f, opt, id, reasons[id], &designs[k]) })
+	}
+	runTasks(tasks)
+	if evalErr != nil {
+		return nil, evalErr
+	}
+	if len(r.Front) > 0 {
+		front.addFig(ctx, func() (Figure, error) { return r.FrontFigure(ids) })
 	}
 	if err := ctx.Err(); err != nil {
 		return nil, err
+	}
+	for _, p := range []*part{&front, &variables, &hypervolume, &islands} {
+		p.into(rep)
+	}
+	page.Lead = front.sections
+	page.Figures = slices.Concat(variables.sections, hypervolume.sections, islands.sections)
+	for k := range ids {
+		designs[k].into(rep)
+		sections[k].Figures = designs[k].sections
+		page.Designs = append(page.Designs, sections[k])
 	}
 	page.Problems = rep.Problems
 	var b bytes.Buffer
@@ -275,6 +237,143 @@ func Build(ctx context.Context, f *results.Folder, opt Options) (*Report, error)
 	}
 	rep.HTML = b.Bytes()
 	return rep, nil
+}
+
+// part is what one concurrently built part of the report adds: its figure
+// sections, the figures drawn and the problems met, in order.
+type part struct {
+	sections []figureSection
+	figures  []Figure
+	problems []string
+}
+
+// addFig builds the next figure, unless ctx is done (then Build returns
+// ctx.Err()), and adds it or its problem.
+func (p *part) addFig(ctx context.Context, build func() (Figure, error)) {
+	if ctx.Err() != nil {
+		return
+	}
+	fig, err := build()
+	rf := figureSection{ID: "fig-" + strings.TrimSuffix(fig.Name, ".svg"), Title: fig.Title, Caption: fig.Caption, Name: fig.Name}
+	if err != nil {
+		rf.Problem = fmt.Sprintf("%s could not be drawn: %v", fig.Title, err)
+		p.problems = append(p.problems, rf.Problem)
+	} else {
+		rf.SVG = inlineSVG(fig.SVG)
+		p.figures = append(p.figures, fig)
+	}
+	p.sections = append(p.sections, rf)
+}
+
+// problem records a problem of the part.
+func (p *part) problem(s string) { p.problems = append(p.problems, s) }
+
+// into adds the part's figures and problems to rep.
+func (p *part) into(rep *Report) {
+	rep.Figures = append(rep.Figures, p.figures...)
+	rep.Problems = append(rep.Problems, p.problems...)
+}
+
+// reportWorkers is how many parts of a report are built at once: the two
+// largest, reading evaluations.csv and the designs' checks and figures,
+// side by side.
+const reportWorkers = 2
+
+// runTasks runs the tasks on up to reportWorkers goroutines (fewer with
+// fewer cores), taking them in order, and returns when all are done.
+func runTasks(tasks []func()) {
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range max(1, min(reportWorkers, runtime.GOMAXPROCS(0), len(tasks))) {
+		wg.Go(func() {
+			for {
+				i := int(next.Add(1) - 1)
+				if i >= len(tasks) {
+					return
+				}
+				tasks[i]()
+			}
+		})
+	}
+	wg.Wait()
+}
+
+// latchCtx is a context whose Err, once it has returned an error, returns
+// it again without asking the parent: after an interrupt each of Build's
+// goroutines looks at the parent at most once more (each may be looking
+// when the interrupt comes), and then all of them stop.
+type latchCtx struct {
+	context.Context
+	err atomic.Pointer[error]
+}
+
+func (c *latchCtx) Err() error {
+	if e := c.err.Load(); e != nil {
+		return *e
+	}
+	err := c.Context.Err()
+	if err != nil {
+		c.err.Store(&err)
+	}
+	return err
+}
+
+// designSection checks front design id and draws its figures into p; its
+// problems go to p as well. It does nothing once ctx is done.
+func (r *Data) designSection(ctx context.Context, f *results.Folder, opt Options, id int, reason string, p *part) designSection {
+	row, _ := r.FrontRow(id)
+	d := designSection{ID: id, Reason: reason, File: results.DesignFileName(id), Robust: newRobustSection(r.Spec, row.Robust)}
+	if ctx.Err() != nil {
+		return d
+	}
+	for i, o := range r.Spec.Objectives {
+		d.Objectives = append(d.Objectives, keyValue{o.Column(), num(row.F[i])})
+	}
+	for j, name := range results.NewColumns(r.Spec).Variables {
+		cell := row.Cells[j]
+		if r.Spec.Variables[j].Options == nil {
+			cell = num(row.X[j])
+		}
+		d.Variables = append(d.Variables, keyValue{name, cell})
+	}
+	design, sc, err := problems.LoadDesign(f.Path(d.File))
+	var res *objective.Result
+	if err == nil {
+		res, err = objective.EvaluateContext(ctx, design, sc)
+	}
+	if ctx.Err() != nil {
+		return d
+	}
+	if err != nil {
+		d.Problem = fmt.Sprintf("design %d (%s) could not be checked: %v", id, d.File, err)
+		p.problem(d.Problem)
+		return d
+	}
+	d.HasResult, d.Pass, d.Models, d.Warnings = true, res.Pass, res.Models, res.Warnings
+	d.NumChecks = len(res.Checks)
+	d.Checks, d.FailedChecks, d.WarnChecks = checkRows(res.Checks)
+	if opt.CheckText != nil {
+		d.CheckText = opt.CheckText(fmt.Sprintf("%s (front design %d)", d.File, id), res)
+	}
+	robot, _, err := design.Robot()
+	if err != nil {
+		d.Problem = fmt.Sprintf("design %d: %v", id, err)
+		p.problem(d.Problem)
+		return d
+	}
+	p.addFig(ctx, func() (Figure, error) {
+		return BackboneFigure(fmt.Sprintf("backbone-%03d.svg", id), fmt.Sprintf("Backbone of design %d", id), robot, sc.Workspace)
+	})
+	p.addFig(ctx, func() (Figure, error) {
+		return LoadedBackboneFigure(fmt.Sprintf("loaded-%03d.svg", id), fmt.Sprintf("Loaded beside unloaded backbone of design %d", id), robot, sc.Workspace, sc.Load)
+	})
+	p.addFig(ctx, func() (Figure, error) {
+		return WorkspaceTaskFigure(fmt.Sprintf("workspace-%03d.svg", id), fmt.Sprintf("Workspace of design %d", id), robot, sc.Workspace, sc.Tasks)
+	})
+	p.addFig(ctx, func() (Figure, error) {
+		return TipSagFigure(fmt.Sprintf("sag-%03d.svg", id), fmt.Sprintf("Tip sag over the workspace of design %d", id), robot, sc.Workspace, sc.Load)
+	})
+	return d
 }
 
 // WriteReport builds the report of a run folder, writes its figures into

@@ -62,6 +62,20 @@ func Load(f *results.Folder) (*Data, error) {
 // load is Load that stops with ctx.Err() once ctx is done (looked at every
 // results.CheckEvery rows).
 func load(ctx context.Context, f *results.Folder) (*Data, error) {
+	r, err := loadBase(ctx, f)
+	if err != nil {
+		return nil, err
+	}
+	if err := r.loadEvaluated(ctx); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+// loadBase is load without evaluations.csv, the largest file, which
+// loadEvaluated reads (Build reads it while it draws the figures that do
+// not need it).
+func loadBase(ctx context.Context, f *results.Folder) (*Data, error) {
 	info, err := f.ReadInfo()
 	if err != nil {
 		return nil, err
@@ -76,18 +90,26 @@ func load(ctx context.Context, f *results.Folder) (*Data, error) {
 			return nil, err
 		}
 	}
-	if results.Exists(f.Path(results.EvaluationsFile)) {
-		if r.Evaluated, err = r.readRows(ctx, results.EvaluationsFile, false); err != nil {
-			return nil, err
-		}
-		r.Evaluated = thin(r.Evaluated, MaxEvaluatedPoints)
-	}
 	if results.Exists(f.Path(results.HistoryFile)) {
 		if r.History, err = r.readHistory(); err != nil {
 			return nil, err
 		}
 	}
 	return r, nil
+}
+
+// loadEvaluated reads the feasible rows of evaluations.csv, if the file
+// exists, into r.Evaluated.
+func (r *Data) loadEvaluated(ctx context.Context) error {
+	if !results.Exists(r.Folder.Path(results.EvaluationsFile)) {
+		return nil
+	}
+	rows, err := r.readRows(ctx, results.EvaluationsFile, false)
+	if err != nil {
+		return err
+	}
+	r.Evaluated = thin(rows, MaxEvaluatedPoints)
+	return nil
 }
 
 // columns maps each wanted column name to its position in header.
