@@ -10,6 +10,7 @@ import (
 
 	"plica/objective"
 	"plica/problems"
+	"plica/surrogate"
 )
 
 // An explainer gathers, from every successful evaluation of a search, what
@@ -221,10 +222,22 @@ func (ex *explainer) sentences(blocking []BlockingConstraint) []string {
 				op = "at least"
 			}
 			out = append(out, fmt.Sprintf("%s: no evaluation met it; the best was %s against %s %s (evaluation %d)",
-				b.Name, withUnit(c.Value, c.Unit), op, withUnit(c.Limit, c.Unit), ex.best[j].Index))
+				b.Name, withUnit(c.Value, c.Unit), op, withUnit(c.Limit, c.Unit), ex.best[j].Index)+spineStrainClause(b.Name, c.Note))
 		}
 	}
 	return out
+}
+
+// spineStrainClause says, for a validated_range check whose note names
+// the wall strain's spine limit (surrogate.QuantitySpineStrain: every
+// spined bellows lies outside it, surrogate/REFERENCE.md §6.4), why the
+// check cannot be met and what the designer can do; "" otherwise.
+func spineStrainClause(name, note string) string {
+	if !strings.HasPrefix(name, "validated_range[") || !strings.Contains(note, surrogate.QuantitySpineStrain) {
+		return ""
+	}
+	return "; its bellows has a spine, and the wall strain of a spined bellows has no validated model: drop the spine, " +
+		"or set [requirements] within_validated_range = false and check the chosen design's strain with plica fe and a prototype"
 }
 
 // reachClause says what caps the reach need (m) of who: the constraint

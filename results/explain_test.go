@@ -16,6 +16,7 @@ import (
 
 	"plica/objective"
 	"plica/problems"
+	"plica/surrogate"
 )
 
 // synthetic builds an evaluation result with the given reach (m) and
@@ -194,4 +195,26 @@ func TestBlockedDemoExplanation(t *testing.T) {
 	require.NoError(t, json.Unmarshal([]byte(readFile(t, filepath.Join(dir1, RunFile))), &info1))
 	require.NotNil(t, info1.Diagnosis)
 	assert.Equal(t, info.Diagnosis.Explanations, info1.Diagnosis.Explanations, "explanations whatever the worker count")
+}
+
+// TestExplainerSpineStrain: a validated_range check nothing met whose note
+// names the wall strain's spine limit (every spined bellows lies outside
+// it: its wall strain has no validated model, the surrogate reading −75 …
+// +35 % of CalculiX's 3-D shell model, surrogate/REFERENCE.md §6.4) gets a
+// clause saying so and what to do; one outside another limit does not.
+func TestExplainerSpineStrain(t *testing.T) {
+	names := []string{"validated_range[1]", "validated_range[2]"}
+	vr := func(i int, v float64, note string) objective.Check {
+		return objective.Check{Name: fmt.Sprintf("validated_range[%d]", i), Value: v, Limit: 0, Max: true, Warn: true, Note: note}
+	}
+	ex := &explainer{names: names, reachMeeting: make([]reachRecord, 2), best: make([]checkRecord, 2)}
+	spined := "outside: " + surrogate.QuantitySpineStrain + " (warns; a search constraint)"
+	ex.add(0, synthetic(0.02, vr(1, 10, spined), vr(2, 0.3, "outside: t/w (warns; a search constraint)")), []float64{10, 0.3})
+	ex.commit(0, false)
+	got := ex.sentences([]BlockingConstraint{{Name: "validated_range[1]", BestMargin: 10}, {Name: "validated_range[2]", BestMargin: 0.3}})
+	require.Len(t, got, 2)
+	assert.Equal(t, "validated_range[1]: no evaluation met it; the best was 10 against at most 0 (evaluation 0); its bellows has a spine, "+
+		"and the wall strain of a spined bellows has no validated model: drop the spine, or set [requirements] within_validated_range = false "+
+		"and check the chosen design's strain with plica fe and a prototype", got[0])
+	assert.Equal(t, "validated_range[2]: no evaluation met it; the best was 0.3 against at most 0 (evaluation 0)", got[1])
 }
