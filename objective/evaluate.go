@@ -162,6 +162,11 @@ type evaluator struct {
 	share                            linkShare    // link solutions shared across samples (linkshare.go)
 	boundStarts                      [][3]float64 // link starts of the shapes, for refineBound
 	boundLam                         []float64    // link stiffness eigenvalues of the shapes, for refineBound
+	hh                               [][6]float64 // gravity products of the common rotations (sag)
+	stabActs                         []kinematics.Actuation
+	stabKey                          []byte
+	lastPlan                         lastPlan // the plan of the evaluation before (workspace)
+	scr                              *scratch // the storage taken (takeScratch)
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -249,8 +254,9 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 		return nil, err
 	}
 	e.robot, e.st = robot, st
-	e.strainPerCurvature = make([]float64, len(st))
+	e.strainPerCurvature = growTo(e.strainPerCurvature, len(st))
 	for i, s := range st {
+		e.strainPerCurvature[i] = 0
 		if s.Section != nil {
 			e.strainPerCurvature[i] = s.Section.StrainPerCurvature
 		}
@@ -295,12 +301,19 @@ type scratch struct {
 	share       linkShare
 	boundStarts [][3]float64
 	boundLam    []float64
+	spc         []float64
+	hh          [][6]float64
+	stabActs    []kinematics.Actuation
+	stabKey     []byte
+	plan        lastPlan
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 
 func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
+	e.scr = s
+	e.strainPerCurvature, e.hh, e.stabActs, e.stabKey, e.lastPlan = s.spc, s.hh, s.stabActs, s.stabKey, s.plan
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
 	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
@@ -312,10 +325,13 @@ func (e *evaluator) takeScratch() {
 func (e *evaluator) putScratch() {
 	clear(e.shapePtrs[:cap(e.shapePtrs)])
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
-	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
+	*e.scr = scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
 		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share,
-		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0]})
+		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0],
+		spc: e.strainPerCurvature[:0], hh: e.hh[:0], stabActs: e.stabActs[:0], stabKey: e.stabKey[:0], plan: e.lastPlan}
+	scratchPool.Put(e.scr)
+	e.scr = nil
 	e.shapes = nil
 }
 
@@ -357,7 +373,7 @@ func nonFinite(what string) error {
 func (e *evaluator) workspace(w Workspace, res *Result) error {
 	e.enter(StageWorkspace)
 	n := len(e.robot.Tubes)
-	p := plan(n, w)
+	p := e.lastPlan.get(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
 	e.gravity = e.sc.Load.GravityVector()
