@@ -165,8 +165,9 @@ type evaluator struct {
 	hh                               [][6]float64 // gravity products of the common rotations (sag)
 	stabActs                         []kinematics.Actuation
 	stabKey                          []byte
-	lastPlan                         lastPlan // the plan of the evaluation before (workspace)
-	scr                              *scratch // the storage taken (takeScratch)
+	lastPlan                         lastPlan           // the plan of the evaluation before (workspace)
+	scr                              *scratch           // the storage taken (takeScratch)
+	spare                            *kinematics.Solver // the pooled solver, until workspace resets it
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -306,6 +307,7 @@ type scratch struct {
 	stabActs    []kinematics.Actuation
 	stabKey     []byte
 	plan        lastPlan
+	solver      *kinematics.Solver
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
@@ -313,6 +315,7 @@ var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
 	e.scr = s
+	e.spare = s.solver
 	e.strainPerCurvature, e.hh, e.stabActs, e.stabKey, e.lastPlan = s.spc, s.hh, s.stabActs, s.stabKey, s.plan
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
@@ -329,7 +332,11 @@ func (e *evaluator) putScratch() {
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
 		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share,
 		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0],
-		spc: e.strainPerCurvature[:0], hh: e.hh[:0], stabActs: e.stabActs[:0], stabKey: e.stabKey[:0], plan: e.lastPlan}
+		spc: e.strainPerCurvature[:0], hh: e.hh[:0], stabActs: e.stabActs[:0], stabKey: e.stabKey[:0], plan: e.lastPlan,
+		solver: e.solver}
+	if e.solver == nil {
+		e.scr.solver = e.spare
+	}
 	scratchPool.Put(e.scr)
 	e.scr = nil
 	e.shapes = nil
@@ -389,6 +396,13 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))
 	}
 	shapes := e.shapePtrs[:0]
+	if e.solver == nil && e.spare != nil {
+		// the pooled solver, made the solver of this robot
+		if err := e.spare.Reset(e.robot); err != nil {
+			return err
+		}
+		e.solver, e.spare = e.spare, nil
+	}
 	if e.solver == nil {
 		solver, err := kinematics.NewSolver(e.robot)
 		if err != nil {
