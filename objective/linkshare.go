@@ -281,7 +281,7 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, lam []flo
 	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
 	d := ls.d[:m+1]
-	for i := range m {
+	for i := 1; i < m; i++ { // d[0] is never read
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	d[m] = 0
@@ -323,7 +323,7 @@ func (e *evaluator) sagBoundArc(ls *linkShare, starts [][3]float64, lam []float6
 	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
 	d := ls.d[:m+1]
-	for i := range m {
+	for i := 1; i < m; i++ { // d[0] is never read
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	d[m] = 0
