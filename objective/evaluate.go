@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	bits64 "math/bits"
 	"strings"
 	"sync"
 
@@ -163,6 +162,12 @@ type evaluator struct {
 	share                            linkShare    // link solutions shared across samples (linkshare.go)
 	boundStarts                      [][3]float64 // link starts of the shapes, for refineBound
 	boundLam                         []float64    // link stiffness eigenvalues of the shapes, for refineBound
+	hh                               [][6]float64 // gravity products of the common rotations (sag)
+	stabActs                         []kinematics.Actuation
+	stabKey                          []byte
+	lastPlan                         lastPlan           // the plan of the evaluation before (workspace)
+	scr                              *scratch           // the storage taken (takeScratch)
+	spare                            *kinematics.Solver // the pooled solver, until workspace resets it
 
 	ctx      context.Context // nil: never cancelled
 	progress func(Progress)
@@ -250,8 +255,9 @@ func EvaluateProgress(ctx context.Context, d *Design, sc *Scenario, progress fun
 		return nil, err
 	}
 	e.robot, e.st = robot, st
-	e.strainPerCurvature = make([]float64, len(st))
+	e.strainPerCurvature = growTo(e.strainPerCurvature, len(st))
 	for i, s := range st {
+		e.strainPerCurvature[i] = 0
 		if s.Section != nil {
 			e.strainPerCurvature[i] = s.Section.StrainPerCurvature
 		}
@@ -296,12 +302,21 @@ type scratch struct {
 	share       linkShare
 	boundStarts [][3]float64
 	boundLam    []float64
+	spc         []float64
+	hh          [][6]float64
+	stabActs    []kinematics.Actuation
+	stabKey     []byte
+	plan        lastPlan
+	solver      *kinematics.Solver
 }
 
 var scratchPool = sync.Pool{New: func() any { return new(scratch) }}
 
 func (e *evaluator) takeScratch() {
 	s := scratchPool.Get().(*scratch)
+	e.scr = s
+	e.spare = s.solver
+	e.strainPerCurvature, e.hh, e.stabActs, e.stabKey, e.lastPlan = s.spc, s.hh, s.stabActs, s.stabKey, s.plan
 	e.nodes, e.pieces, e.slab, e.strainSlab, e.shapePtrs, e.linkBuf = s.nodes, s.pieces, s.slab, s.strainSlab, s.shapePtrs, s.linkBuf
 	e.voxels, e.touched = s.voxels, s.touched
 	e.linkStarts, e.precurv, e.order = s.linkStarts, s.precurv, s.order
@@ -313,10 +328,17 @@ func (e *evaluator) takeScratch() {
 func (e *evaluator) putScratch() {
 	clear(e.shapePtrs[:cap(e.shapePtrs)])
 	clear(e.slab[:cap(e.slab)]) // drop the actuations it points to
-	scratchPool.Put(&scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
+	*e.scr = scratch{nodes: e.nodes[:0], pieces: e.pieces[:0], slab: e.slab[:0], strainSlab: e.strainSlab[:0],
 		shapePtrs: e.shapePtrs[:0], linkBuf: e.linkBuf[:0], voxels: e.voxels, touched: e.touched[:0],
 		linkStarts: e.linkStarts[:0], precurv: e.precurv, order: e.order[:0], share: e.share,
-		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0]})
+		boundStarts: e.boundStarts[:0], boundLam: e.boundLam[:0],
+		spc: e.strainPerCurvature[:0], hh: e.hh[:0], stabActs: e.stabActs[:0], stabKey: e.stabKey[:0], plan: e.lastPlan,
+		solver: e.solver}
+	if e.solver == nil {
+		e.scr.solver = e.spare
+	}
+	scratchPool.Put(e.scr)
+	e.scr = nil
 	e.shapes = nil
 }
 
@@ -358,7 +380,7 @@ func nonFinite(what string) error {
 func (e *evaluator) workspace(w Workspace, res *Result) error {
 	e.enter(StageWorkspace)
 	n := len(e.robot.Tubes)
-	p := plan(n, w)
+	p := e.lastPlan.get(n, w)
 	sc := &res.Scores
 	sc.DOF = p.dof
 	e.gravity = e.sc.Load.GravityVector()
@@ -374,6 +396,13 @@ func (e *evaluator) workspace(w Workspace, res *Result) error {
 		e.shapePtrs = make([]*shape, 0, len(p.acts))
 	}
 	shapes := e.shapePtrs[:0]
+	if e.solver == nil && e.spare != nil {
+		// the pooled solver, made the solver of this robot
+		if err := e.spare.Reset(e.robot); err != nil {
+			return err
+		}
+		e.solver, e.spare = e.spare, nil
+	}
 	if e.solver == nil {
 		solver, err := kinematics.NewSolver(e.robot)
 		if err != nil {
@@ -471,193 +500,6 @@ func revolvedArea(shapes []*shape) float64 {
 		area += 2 * math.Pi * (ra + rb) / 2 * ds
 	}
 	return area / 2
-}
-
-// voxelVolume counts the voxels of edge h that hold at least one tip
-// sample, over the shapes and baseSteps common rotations. The voxels are
-// bits of a box around the base axis that holds every turned tip (radius
-// the largest tip distance from the axis, height the tips' z range, one
-// voxel of margin); a box too large for memory, or a tip outside it,
-// falls back to a hash set. Both count exactly the voxels of
-// voxelKey (tested against each other).
-func (e *evaluator) voxelVolume(shapes []*shape, baseSteps int, h float64) (float64, error) {
-	sins, coss := baseTable(baseSteps)
-	coss = coss[:len(sins)]
-	rho, zlo, zhi := 0.0, math.Inf(1), math.Inf(-1)
-	for _, sh := range shapes {
-		p := sh.tip.P
-		rho = fmax(rho, sh.rho)
-		zlo, zhi = fmin(zlo, p[2]), fmax(zhi, p[2])
-	}
-	x0 := int64(math.Floor(-rho/h)) - 1
-	x1 := int64(math.Floor(rho/h)) + 1
-	z0 := int64(math.Floor(zlo/h)) - 1
-	z1 := int64(math.Floor(zhi/h)) + 1
-	nx, nz := x1-x0+1, z1-z0+1
-	if nx > 0 && nz > 0 && nx <= 1<<16 && nz <= 1<<16 && nx*nx*nz <= maxVoxelBits {
-		words := (nx*nx*nz + 63) / 64
-		if int64(cap(e.voxels)) < words {
-			e.voxels = make([]uint64, words)
-		}
-		bits := e.voxels[:words]
-		// A box of few words against the turned tips is counted and
-		// cleared whole; otherwise every word set is listed once (at most
-		// one per turned tip) and only those are.
-		dense := 4*words <= int64(len(shapes)*len(sins))
-		if voxelMode != 0 {
-			dense = voxelMode == 1
-		}
-		var touched []int32
-		if !dense {
-			if need := len(shapes) * len(sins); cap(e.touched) < need {
-				e.touched = make([]int32, need)
-			}
-			touched = e.touched[:cap(e.touched)]
-		}
-		nt := 0
-		inside := true
-		clearAll := func() {
-			if dense {
-				clear(bits)
-			} else {
-				e.clearVoxels(bits, touched[:nt])
-			}
-		}
-		for k, sh := range shapes {
-			if err := e.tick(k, len(shapes)); err != nil {
-				clearAll()
-				return 0, err
-			}
-			// the voxel of voxelKey(turnedBy(p, sin, cos), h): the common
-			// rotation leaves z, so its layer is the shape's
-			p := sh.tip.P
-			iz := int64(int32(math.Floor(p[2]/h))) - z0
-			if iz < 0 || iz >= nz {
-				inside = false
-				break
-			}
-			if !(sh.rho <= rho) {
-				inside = false
-				break
-			}
-			if dense {
-				markRingDense(bits, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz)
-			} else {
-				nt = markRing(bits, touched, nt, sins, coss, p[0], p[1], h, x0, nx, nx*nx*iz)
-			}
-		}
-		count := 0
-		if dense {
-			for _, w := range bits {
-				count += bits64.OnesCount64(w)
-			}
-		} else {
-			for _, w := range touched[:nt] {
-				count += bits64.OnesCount64(bits[w])
-			}
-		}
-		clearAll()
-		if inside {
-			return float64(count) * h * h * h, nil
-		}
-	}
-	return voxelVolumeMap(shapes, baseSteps, h, e.tick)
-}
-
-// voxelMode, when not 0, makes voxelVolume count the whole box (1) or
-// only the words it set (2), for the tests to compare both with the hash
-// set; 0 chooses by the box size.
-var voxelMode = 0
-
-// maxVoxelBits bounds the bitset of voxelVolume (8 MiB).
-const maxVoxelBits = 1 << 26
-
-// clearVoxels zeroes the words voxelVolume set.
-func (e *evaluator) clearVoxels(bits []uint64, touched []int32) {
-	for _, w := range touched {
-		bits[w] = 0
-	}
-}
-
-// markRing sets the voxel bits of the tip (p0, p1) turned by every common
-// rotation (sines sins, cosines coss) in the layer starting at bit layer
-// of a box of nx × nx voxels per layer from voxel x0 on, h the edge: the
-// voxel of voxelKey(turnedBy(p, sin, cos), h), with the same arithmetic.
-// It lists each word it sets from zero in touched[nt:] and returns the new
-// length.
-//
-// Every turned tip lies inside the box when rho, the box's half-width
-// less its voxel of margin, is at least the tip's distance from the axis
-// as math.Hypot gives it: |c p0 − s p1| and |s p0 + c p1| exceed that
-// distance by at most 5 units of the last place, so x/h ≥ −rho/h − 1e-11
-// for the ≤ 2¹⁶ voxels of the box and floor(x/h) ≥ x0 = floor(−rho/h) − 1
-// (likewise at the top end). The loop therefore checks only the word
-// index, through the slice.
-func markRing(bits []uint64, touched []int32, nt int, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) int {
-	coss = coss[:len(sins)]
-	base := layer - x0 - nx*x0
-	for j, s := range sins {
-		c := coss[j]
-		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
-		w := i >> 6
-		old := bits[w]
-		if old == 0 {
-			touched[nt] = int32(w)
-			nt++
-		}
-		bits[w] = old | 1<<(i&63)
-	}
-	return nt
-}
-
-// markRingDense is markRing without the list of words set.
-func markRingDense(bits []uint64, sins, coss []float64, p0, p1, h float64, x0, nx, layer int64) {
-	coss = coss[:len(sins)]
-	base := layer - x0 - nx*x0
-	// two rotations per pass: independent work to overlap, half the loop
-	j := 0
-	for ; j+1 < len(sins); j += 2 {
-		s, c, s2, c2 := sins[j], coss[j], sins[j+1], coss[j+1]
-		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
-		i2 := floorInt((c2*p0-s2*p1)/h) + nx*floorInt((s2*p0+c2*p1)/h) + base
-		bits[i>>6] |= 1 << (i & 63)
-		bits[i2>>6] |= 1 << (i2 & 63)
-	}
-	if j < len(sins) {
-		s, c := sins[j], coss[j]
-		i := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
-		bits[i>>6] |= 1 << (i & 63)
-	}
-}
-
-// floorInt is int64(int32(math.Floor(x))) for |x| < 2³¹ (the bitset box is
-// at most 2¹⁶ voxels wide): truncation, one less when that rounded up.
-func floorInt(x float64) int64 {
-	t := int64(x)
-	if float64(t) > x {
-		t--
-	}
-	return t
-}
-
-// voxelVolumeMap is voxelVolume with a hash set of voxel keys.
-func voxelVolumeMap(shapes []*shape, baseSteps int, h float64, tick func(k, total int) error) (float64, error) {
-	sins, coss := baseTable(baseSteps)
-	occupied := make(map[[3]int32]struct{})
-	for k, sh := range shapes {
-		if err := tick(k, len(shapes)); err != nil {
-			return 0, err
-		}
-		for j := range baseSteps {
-			occupied[voxelKey(turnedBy(sh.tip.P, sins[j], coss[j]), h)] = struct{}{}
-		}
-	}
-	return float64(len(occupied)) * h * h * h, nil
-}
-
-// voxelKey is the voxel of edge h holding p.
-func voxelKey(p [3]float64, h float64) [3]int32 {
-	return [3]int32{int32(math.Floor(p[0] / h)), int32(math.Floor(p[1] / h)), int32(math.Floor(p[2] / h))}
 }
 
 // tasks decides for every task point whether some actuation reaches it,

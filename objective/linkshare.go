@@ -70,6 +70,7 @@ type linkShare struct {
 	// with a length (bpair[bterm.first:bterm.end])
 	bterms []boundTerm
 	bpairs []boundPair
+	ktmp   []keyTerm // scratch of build
 	lam    []float64
 	d      []float64
 }
@@ -165,7 +166,8 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	for j := range links {
 		all |= deps(&links[j])
 	}
-	_, full := keyed(all, nil)
+	var full int
+	ls.ktmp, full = keyed(all, ls.ktmp)
 	ls.iso = iso
 	ls.noWall = true
 	for i, v := range spc {
@@ -201,7 +203,9 @@ func (ls *linkShare) build(links []kinematics.Link, beta []float64, p *samplePla
 	var pd uint64
 	for j := 0; j+1 < m; j++ {
 		pd |= deps(&links[j])
-		mult, size := keyed(pd, nil)
+		var size int
+		ls.ktmp, size = keyed(pd, ls.ktmp)
+		mult := ls.ktmp
 		if size == 0 || full != 0 && size >= full {
 			break
 		}
@@ -277,7 +281,7 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, lam []flo
 	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
 	d := ls.d[:m+1]
-	for i := range m {
+	for i := 1; i < m; i++ { // d[0] is never read
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	d[m] = 0
@@ -319,7 +323,7 @@ func (e *evaluator) sagBoundArc(ls *linkShare, starts [][3]float64, lam []float6
 	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
 	d := ls.d[:m+1]
-	for i := range m {
+	for i := 1; i < m; i++ { // d[0] is never read
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	d[m] = 0

@@ -32,7 +32,8 @@ func (e *evaluator) sag(res *Result) error {
 	// v(φ) = ĝᵀ R_z(φ) C R_z(φ)ᵀ g = |g| hᵀ C h with h = R_z(−φ) ĝ: only
 	// the symmetric part of C counts, and the six products of h are the
 	// same for every shape.
-	hh := make([][6]float64, w.BaseSteps)
+	hh := growTo(e.hh, w.BaseSteps)
+	e.hh = hh
 	for j := range hh {
 		s, c := math.Sincos(2 * math.Pi * float64(j) / float64(w.BaseSteps))
 		h := [3]float64{c*gh[0] + s*gh[1], -s*gh[0] + c*gh[1], gh[2]}
@@ -43,7 +44,11 @@ func (e *evaluator) sag(res *Result) error {
 		return err
 	}
 	worstPhi := 2 * math.Pi * float64(wj) / float64(w.BaseSteps)
-	act := kinematics.Actuation{Theta: make([]float64, len(worst.act.Theta)), Beta: append([]float64(nil), worst.act.Beta...)}
+	// the angles and insertions in one allocation
+	nt := len(worst.act.Theta)
+	buf := make([]float64, nt+len(worst.act.Beta))
+	act := kinematics.Actuation{Theta: buf[:nt:nt], Beta: buf[nt:]}
+	copy(act.Beta, worst.act.Beta)
 	for i, th := range worst.act.Theta {
 		act.Theta[i] = th + worstPhi
 	}
@@ -187,7 +192,9 @@ func (e *evaluator) stability(res *Result) error {
 	// The test depends on the insertions only (threads included), so each
 	// distinct set of effective insertions is tested once.
 	seen := map[string]bool{}
-	var acts []kinematics.Actuation
+	acts := e.stabActs[:0]
+	defer func() { clear(acts); e.stabActs = acts[:0] }()
+	kb := e.stabKey[:0]
 	// Without threads the effective insertions are the sampled ones, and
 	// a shape with the insertions of the one before it adds nothing.
 	threaded := len(e.robot.Threads) > 0
@@ -203,18 +210,22 @@ func (e *evaluator) stability(res *Result) error {
 			prev = sh.act.Beta
 		}
 		beta := e.robot.EffectiveInsertion(sh.act)
-		kb := make([]byte, 0, 8*len(beta))
+		kb = kb[:0]
 		for _, b := range beta {
 			kb = binary.LittleEndian.AppendUint64(kb, math.Float64bits(b))
 		}
-		key := string(kb)
-		if !seen[key] {
-			seen[key] = true
+		if !seen[string(kb)] {
+			seen[string(kb)] = true
 			acts = append(acts, sh.act)
 		}
 	}
+	e.stabKey = kb
+	if pairs := len(e.robot.Tubes) - 1; pairs > 0 {
+		sc.Stability = make([]PairMargin, 0, pairs)
+	}
 	for i := 0; i+1 < len(e.robot.Tubes); i++ {
-		var worst *PairMargin
+		var worst PairMargin
+		found := false
 		for k, a := range acts {
 			if err := e.tick(k, len(acts)); err != nil {
 				return err
@@ -226,12 +237,12 @@ func (e *evaluator) stability(res *Result) error {
 			if !isFinite(pm.Margin) || math.IsNaN(pm.LCrit) || !isFinite(pm.Lambda) { // LCrit is +Inf when the pair cannot snap
 				return nonFinite(fmt.Sprintf("the snap-stability margin of bellows %d and %d", i+1, i+2))
 			}
-			if worst == nil || pm.Margin < worst.Margin {
-				worst = &pm
+			if !found || pm.Margin < worst.Margin {
+				worst, found = pm, true
 			}
 		}
-		if worst != nil {
-			sc.Stability = append(sc.Stability, *worst)
+		if found {
+			sc.Stability = append(sc.Stability, worst)
 			sc.StabilityMargin = math.Min(sc.StabilityMargin, worst.Margin)
 		}
 	}

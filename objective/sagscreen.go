@@ -34,7 +34,7 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 		d = make([]float64, n+1)
 	}
 	d = d[:n+1]
-	for i := range n {
+	for i := 1; i < n; i++ { // d[0] is never read
 		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
 	}
 	mp := e.payload

@@ -89,8 +89,9 @@ func TestRigidCommonRotation(t *testing.T) {
 
 // TestVoxelBitsetEqualsMap: the bitset count (counted over the whole box
 // and over the words set) and the hash-set count of the same tips are the
-// same number of voxels, for three and four bellows (one with an odd
-// number of common rotations), a threaded pair with an insertion range and
+// same number of voxels, with the dense kernel of the machine (ringAVX on
+// amd64 with AVX) and the plain loop, for three and four bellows (one with
+// an odd number of common rotations), a threaded pair with an insertion range and
 // a voxel edge small enough that the box exceeds the bitset bound (hash
 // set on both sides).
 func TestVoxelBitsetEqualsMap(t *testing.T) {
@@ -121,16 +122,24 @@ func TestVoxelBitsetEqualsMap(t *testing.T) {
 		want, err := voxelVolumeMap(shapes, w.BaseSteps, w.VoxelSize, func(int, int) error { return nil })
 		require.NoError(t, err)
 		assert.Greater(t, want, 0.0, c.name)
-		// the bitset counted whole (dense), by the words set, and as chosen
-		for _, mode := range []int{1, 2, 0} {
-			voxelMode = mode
-			got, err := e.voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
-			voxelMode = 0
-			require.NoError(t, err)
-			assert.Equal(t, want, got, "%s mode %d: bitset vs hash set", c.name, mode)
-			for _, v := range e.voxels {
-				require.Zero(t, v, "%s mode %d: the bitset is left clear", c.name, mode)
+		// the bitset counted whole (dense), by the words set, and as
+		// chosen, with the dense kernel of the machine and the plain loop
+		chosen := ringDense
+		for _, kernel := range []string{"chosen", "plain"} {
+			if kernel == "plain" {
+				ringDense = ringDenseGo
 			}
+			for _, mode := range []int{1, 2, 0} {
+				voxelMode = mode
+				got, err := e.voxelVolume(shapes, w.BaseSteps, w.VoxelSize)
+				voxelMode = 0
+				require.NoError(t, err)
+				assert.Equal(t, want, got, "%s mode %d kernel %s: bitset vs hash set", c.name, mode, kernel)
+				for _, v := range e.voxels {
+					require.Zero(t, v, "%s mode %d kernel %s: the bitset is left clear", c.name, mode, kernel)
+				}
+			}
+			ringDense = chosen
 		}
 	}
 }

@@ -107,6 +107,45 @@ func plan(n int, w Workspace) samplePlan {
 	return p
 }
 
+// lastPlan is the plan of the evaluation before, kept with the pooled
+// storage: a search evaluates every candidate on the same workspace, and
+// comparing with it costs no key (planKey allocates).
+type lastPlan struct {
+	ok   bool
+	n    int
+	w    Workspace // Insertion copied
+	plan samplePlan
+}
+
+// get returns plan(n, w), from the one kept when n and w are the same.
+func (lp *lastPlan) get(n int, w Workspace) samplePlan {
+	if lp.ok && lp.n == n && sameWorkspace(&lp.w, &w) {
+		return lp.plan
+	}
+	p := plan(n, w)
+	ins := append(lp.w.Insertion[:0], w.Insertion...)
+	*lp = lastPlan{ok: true, n: n, w: w, plan: p}
+	lp.w.Insertion = ins
+	return p
+}
+
+// sameWorkspace reports whether plan gives a and b the same plan: the
+// fields of planKey, the insertion ranges compared by their bits.
+func sameWorkspace(a, b *Workspace) bool {
+	if a.RelativeSteps != b.RelativeSteps || a.BaseSteps != b.BaseSteps || a.InsertionSteps != b.InsertionSteps ||
+		a.Samples != b.Samples || math.Float64bits(a.VoxelSize) != math.Float64bits(b.VoxelSize) ||
+		len(a.Insertion) != len(b.Insertion) {
+		return false
+	}
+	for i, r := range a.Insertion {
+		q := b.Insertion[i]
+		if math.Float64bits(r[0]) != math.Float64bits(q[0]) || math.Float64bits(r[1]) != math.Float64bits(q[1]) {
+			return false
+		}
+	}
+	return true
+}
+
 var (
 	planCache sync.Map // planKey → samplePlan
 	planCount atomic.Int64

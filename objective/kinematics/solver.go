@@ -47,17 +47,40 @@ type Solver struct {
 
 // NewSolver validates r (see Validate) and precomputes its constants.
 func NewSolver(r *Robot) (*Solver, error) {
-	if err := r.Validate(); err != nil {
+	s := &Solver{}
+	if err := s.Reset(r); err != nil {
 		return nil, err
 	}
+	return s, nil
+}
+
+// Reset makes s the Solver of r, as NewSolver(r) gives it, reusing the
+// storage of s (a caller that solves one robot after another allocates
+// nothing per robot). On an error s is left without a robot.
+func (s *Solver) Reset(r *Robot) error {
 	n := len(r.Tubes)
-	s := &Solver{
-		n:     n,
-		iso:   true,
-		tubes: make([]solverTube, n),
-		rate:  threadRates(r),
-		L:     make([]float64, n),
-		Ls:    make([]float64, n),
+	old := *s
+	*s = Solver{}
+	if err := r.Validate(); err != nil {
+		return err
+	}
+	*s = Solver{
+		n:          n,
+		iso:        true,
+		tubes:      resize(old.tubes, n),
+		rate:       threadRatesInto(old.rate, r),
+		L:          resize(old.L, n),
+		Ls:         resize(old.Ls, n),
+		beta:       resize(old.beta, n),
+		c:          resize(old.c, n),
+		s:          resize(old.s, n),
+		bp:         old.bp[:0],
+		sweepTheta: old.sweepTheta, // scratch
+		baseSin:    old.baseSin,    // the table of the common rotations: no robot in it
+		baseCos:    old.baseCos,
+	}
+	if cap(s.bp) < 2*n+1 {
+		s.bp = make([]float64, 0, 2*n+1)
 	}
 	for i, t := range r.Tubes {
 		m, d, q := bendingParts(t.Bending)
@@ -77,8 +100,17 @@ func NewSolver(r *Robot) (*Solver, error) {
 	}
 	s.tol = lengthTol(s.L)
 	s.invSumM = 1 / s.invSumM
-	s.allocScratch()
-	return s, nil
+	return nil
+}
+
+// resize returns x with length n, zeroed, reusing its storage when it can.
+func resize[T any](x []T, n int) []T {
+	if cap(x) < n {
+		return make([]T, n)
+	}
+	x = x[:n]
+	clear(x)
+	return x
 }
 
 func (s *Solver) allocScratch() {

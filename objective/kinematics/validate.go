@@ -108,11 +108,14 @@ func (e *ActuationError) Error() string { return e.Msg }
 
 // threadRates returns, for each tube, its advance per radian, Lead/(2π), or 0
 // for an unthreaded tube; the slice is nil if the robot has no threads.
-func threadRates(r *Robot) []float64 {
+func threadRates(r *Robot) []float64 { return threadRatesInto(nil, r) }
+
+// threadRatesInto is threadRates in the storage of dst when it has room.
+func threadRatesInto(dst []float64, r *Robot) []float64 {
 	if len(r.Threads) == 0 {
 		return nil
 	}
-	rate := make([]float64, len(r.Tubes))
+	rate := resize(dst, len(r.Tubes))
 	for _, th := range r.Threads {
 		rate[th.Inner] = th.Lead / (2 * math.Pi)
 	}

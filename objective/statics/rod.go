@@ -72,6 +72,8 @@ func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig,
 	r.folM = scale3(load.FollowerMoment, factor)
 	r.follower = load.FollowerForce != [3]float64{} || load.FollowerMoment != [3]float64{}
 
+	// a point force is inside at most one link: at most one more segment each
+	r.segs = make([]segment, 0, len(links)+len(load.PointForces))
 	eiMin := math.Inf(1)
 	total := norm3(r.tipF) + norm3(r.folF) + (norm3(r.tipM)+norm3(r.folM))/L
 	for j, lk := range links {
@@ -90,7 +92,8 @@ func newRod(links []kinematics.Link, load Load, factor float64, cfg solveConfig,
 		f := scale3(load.Gravity, lk.MassPerLength*factor)
 		total += norm3(f) * l
 		// Split the link at interior point forces.
-		cuts := []float64{lk.Start}
+		var cutBuf [8]float64 // on the stack unless more point forces fall inside
+		cuts := append(cutBuf[:0], lk.Start)
 		for _, pf := range load.PointForces {
 			if pf.S > lk.Start+tol && pf.S < lk.End-tol {
 				cuts = insertSorted(cuts, pf.S)
