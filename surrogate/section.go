@@ -182,8 +182,7 @@ func (b *Bellows) beam(s *Section, st *stripResult, corrected bool) {
 	s.GJ = gj
 
 	// Mass (surrogate/REFERENCE.md §2.8) and opening (§2.9).
-	h := g.SpineWidth / rm / 2
-	s.MassPerLength = mtl.Density * t * ((2*math.Pi-2*h)/q*st.mom.A2 + rm*2*h)
+	s.MassPerLength = mtl.Density * t * g.wallAreaPerLength(st.mom.A2)
 	s.OpeningPerCurvature = q * (rm + math.Hypot(xb, yb))
 	s.StrainPerCurvature *= s.OpeningPerCurvature
 }
