@@ -35,7 +35,8 @@ func AreaFactor(k int) float64 {
 // with plain collars of length collar (m) at both ends, k sides about
 // the axis. The axis is +z from z = 0; output in mm. A helical geometry
 // gets that many full-depth turns and a run-out of one pitch at each end
-// between them and the collars (results/export/REFERENCE.md §5).
+// between them and the collars (results/export/REFERENCE.md §5). A spine
+// is meshed with its blends (results/export/REFERENCE.md §7).
 func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, error) {
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)

@@ -159,10 +159,11 @@ func (h helix) wall(j int, t float64) (line [][2]float64, lo int, outer, inner [
 // face between the two angles). Points of the collars away from the
 // run-outs are left out: the collar is straight there.
 //
-// Over a spine (plain wall on the mean radius over the arc
-// SpineWidth/Rm about SpineAngle, as the mass model has it) the meridian
-// point is replaced by its twin on the mean radius, so the spine grows
-// out of the collar over the run-out too.
+// With a spine the sections stand at the spine's graded columns
+// (spineColumns) and each meridian point is first blended from its plain
+// twin on the mean radius by the column's blend fraction, so the spine
+// and its blends grow out of the collar over the run-out too; the offset
+// is lengthened across the blends (blendScale, REFERENCE.md §5, §7).
 func helical(g surrogate.Geometry, n int, collar float64, k int) (Mesh, error) {
 	if n < 1 {
 		return Mesh{}, fmt.Errorf("helical: %d turns, need at least 1", n)
