@@ -49,5 +49,5 @@ func ExampleBellows_Section() {
 	// case      fidelity  k_conv_n_per_mm  ei_x_n_mm2  ei_y_n_mm2  gj_n_mm2   mass_g_per_m  strain_per_curvature_mm  hoop_factor
 	// plain     strip     741.1            4.036e+05   4.036e+05   4.835e+06  86.51         8.181                    1.158
 	// plain     shell     740.7            4.035e+05   4.035e+05   4.835e+06  86.51         8.233                    1.158
-	// spine +y  strip     741.1            8.326e+05   4.005e+05   4.055e+06  85.73         12.46                    1.158
+	// spine +y  strip     741.1            8.326e+05   4.005e+05   4.055e+06  85.11         12.46                    1.158
 }

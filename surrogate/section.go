@@ -54,8 +54,10 @@ import "math"
 // sin²(2α)/(2·EI_0), α = atan(q/(π·Dm)), EI_0 = k_conv·q·Dm²/8 (surrogate/REFERENCE.md §2.7),
 // so the spine lowers the revolved (shear) part only.
 //
-// MassPerLength = ρ·t·((2π − Δφ)/q·∫_pitch r ds + Rm·Δφ), Δφ = SpineWidth/Rm
-// (surrogate/REFERENCE.md §2.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
+// MassPerLength = ρ·t·(midsurface area per length): 2π·∫_pitch r ds/q
+// without a spine; with one, the convolutions, the plain strip and the
+// blends' area by quadrature (Geometry.SpineArcs, SpineBlend, SpineTwins;
+// surrogate/REFERENCE.md §2.8). OpeningPerCurvature = q·(Dm/2 + |(x̄, ȳ)|), the opening of the
 // convolution farthest from the neutral axis per unit curvature change
 // (= q·Dm/2 without a spine, surrogate/REFERENCE.md §2.9). StrainPerCurvature is the peak
 // meridional surface strain per unit curvature: the thin-shell strain
@@ -182,8 +184,7 @@ func (b *Bellows) beam(s *Section, st *stripResult, corrected bool) {
 	s.GJ = gj
 
 	// Mass (surrogate/REFERENCE.md §2.8) and opening (§2.9).
-	h := g.SpineWidth / rm / 2
-	s.MassPerLength = mtl.Density * t * ((2*math.Pi-2*h)/q*st.mom.A2 + rm*2*h)
+	s.MassPerLength = mtl.Density * t * g.wallAreaPerLength(st.mom.A2)
 	s.OpeningPerCurvature = q * (rm + math.Hypot(xb, yb))
 	s.StrainPerCurvature *= s.OpeningPerCurvature
 }

@@ -35,7 +35,8 @@ func AreaFactor(k int) float64 {
 // with plain collars of length collar (m) at both ends, k sides about
 // the axis. The axis is +z from z = 0; output in mm. A helical geometry
 // gets that many full-depth turns and a run-out of one pitch at each end
-// between them and the collars (results/export/REFERENCE.md §5).
+// between them and the collars (results/export/REFERENCE.md §5). A spine
+// is meshed with its blends (results/export/REFERENCE.md §7).
 func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, error) {
 	if k < 3 || k > MaxSides {
 		return Mesh{}, 0, fmt.Errorf("segments %d: expected 3 to %d", k, MaxSides)
@@ -49,19 +50,7 @@ func Bellows(g surrogate.Geometry, length, collar float64, k int) (Mesh, int, er
 		return m, n, err
 	}
 	if g.SpineWidth > 0 {
-		// the spine: plain wall on the mean radius over the arc
-		// SpineWidth/Rm centred at SpineAngle (surrogate/REFERENCE.md §2.8)
-		rm := g.MeanRadius()
-		s, plain, err := wallAndPlain(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece, rm)
-		if err != nil {
-			return Mesh{}, 0, err
-		}
-		half := g.SpineWidth / rm / 2
-		in := func(phi float64) bool {
-			d := math.Remainder(phi-g.SpineAngle, 2*math.Pi)
-			return math.Abs(d) <= half
-		}
-		m, err := revolveBlend(s, plain, in, k)
+		m, err := spinedBellows(g, n, collar, k, DefaultPerPiece)
 		return m, n, err
 	}
 	s, err := Wall(g.HalfMeridian(), n, g.Wall, collar, DefaultPerPiece)

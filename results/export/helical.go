@@ -13,7 +13,10 @@ type helix struct {
 	rRoot, rMean             float64
 	per, k                   int
 	conv                     [][2]float64 // one period of the meridian, m
-	spine                    func(phi float64) bool
+	// with a spine: the sections' columns (spineColumns, from the angle
+	// phi0 on) and the plain twins' heights of conv
+	cols []column
+	twin []float64
 }
 
 func newHelix(g surrogate.Geometry, n int, collar float64, k int) helix {
@@ -33,9 +36,21 @@ func newHelix(g surrogate.Geometry, n int, collar float64, k int) helix {
 	h := helix{q: q, collar: collar, height: 2*collar + float64(n+2)*q, zFull: collar + q,
 		rRoot: half[0][0], rMean: g.MeanRadius(), per: per, k: k, conv: conv}
 	if g.SpineWidth > 0 {
-		halfArc := g.SpineWidth / h.rMean / 2
-		h.spine = func(phi float64) bool {
-			return math.Abs(math.Remainder(phi-g.SpineAngle, 2*math.Pi)) <= halfArc
+		h.cols = spineColumns(g, k)
+		h.k = len(h.cols)
+		// the columns from the spine's first edge, taken into [0, 2π)
+		phi0 := h.cols[0].phi - 2*math.Pi*math.Floor(h.cols[0].phi/(2*math.Pi))
+		for j := range h.cols {
+			h.cols[j].phi += phi0 - h.cols[0].phi
+		}
+		th := twinPoints(mer, HelicalPerPiece, g.Wall)
+		h.twin = make([]float64, per)
+		for l := range h.twin {
+			if l < len(th)-1 {
+				h.twin[l] = th[l]
+			} else {
+				h.twin[l] = q - th[per-l]
+			}
 		}
 	}
 	return h
@@ -54,13 +69,17 @@ func (h helix) depth(z float64) float64 {
 	return (1 - math.Cos(math.Pi*x)) / 2
 }
 
-// section returns the centreline at column j (angle 2πj/k), m, from the
-// collar end at z = 0 to the top one, and the grid index of its second
-// point (the first on the grid).
-func (h helix) section(j int) ([][2]float64, int) {
+// section returns the centreline at column j (angle 2πj/k, or the
+// spine's column j), m, from the collar end at z = 0 to the top one, the
+// grid index of its second point (the first on the grid) and, with a
+// spine, each point's change with the blend fraction f.
+func (h helix) section(j int) ([][2]float64, int, [][2]float64) {
 	phi := 2 * math.Pi * float64(j) / float64(h.k)
-	lift := h.q * float64(j) / float64(h.k)
-	onSpine := h.spine != nil && h.spine(phi)
+	f := 1.0
+	if h.cols != nil {
+		phi, f = h.cols[j].phi, h.cols[j].f
+	}
+	lift := h.q * phi / (2 * math.Pi)
 	per := float64(h.per)
 	zp := func(gi int) float64 { return h.zFull + float64(gi)*h.q/per + lift }
 	// keep grid points at least half a spacing from the collar ends; the
@@ -77,18 +96,44 @@ func (h helix) section(j int) ([][2]float64, int) {
 		hi--
 	}
 	line := [][2]float64{{h.rRoot, 0}}
+	var diff [][2]float64
+	if h.cols != nil {
+		diff = append(diff, [2]float64{})
+	}
 	for gi := lo; gi <= hi; gi++ {
 		z := zp(gi)
 		l := ((gi % h.per) + h.per) % h.per
 		m := (gi - l) / h.per
-		rc, zc := h.conv[l][0], h.zFull+float64(m)*h.q+h.conv[l][1]+lift
-		if onSpine {
-			rc, zc = h.rMean, z
-		}
+		base := h.zFull + float64(m)*h.q + lift
+		rc, zc := h.conv[l][0], base+h.conv[l][1]
 		a := h.depth(z)
+		if h.cols != nil {
+			// the blend: the plain twin on Rm moved toward the meridian
+			// point by f (surrogate/REFERENCE.md §2.8)
+			zt := base + h.twin[l]
+			diff = append(diff, [2]float64{a * (rc - h.rMean), a * (zc - zt)})
+			rc, zc = h.rMean+f*(rc-h.rMean), zt+f*(zc-zt)
+		}
 		line = append(line, [2]float64{h.rRoot + a*(rc-h.rRoot), z + a*(zc-z)})
 	}
-	return append(line, [2]float64{h.rRoot, h.height}), lo
+	if h.cols != nil {
+		diff = append(diff, [2]float64{})
+	}
+	return append(line, [2]float64{h.rRoot, h.height}), lo, diff
+}
+
+// wall returns the centreline of column j, the grid index of its second
+// point and the outer and inner lines of the wall of thickness t: offset
+// ±t/2 in the meridian plane, lengthened across a spine's blends by
+// blendScale.
+func (h helix) wall(j int, t float64) (line [][2]float64, lo int, outer, inner [][2]float64) {
+	line, lo, diff := h.section(j)
+	if h.cols == nil {
+		return line, lo, offset(line, t/2), offset(line, -t/2)
+	}
+	col := h.cols[j]
+	sc := func(i int, n [2]float64) float64 { return blendScale(col, line[i][0], n, diff[i]) }
+	return line, lo, offsetScaled(line, t/2, sc), offsetScaled(line, -t/2, sc)
 }
 
 // helical meshes a single-start, right-handed helical bellows (lead =
@@ -114,16 +159,18 @@ func (h helix) section(j int) ([][2]float64, int) {
 // face between the two angles). Points of the collars away from the
 // run-outs are left out: the collar is straight there.
 //
-// Over a spine (plain wall on the mean radius over the arc
-// SpineWidth/Rm about SpineAngle, as the mass model has it) the meridian
-// point is replaced by its twin on the mean radius, so the spine grows
-// out of the collar over the run-out too.
+// With a spine the sections stand at the spine's graded columns
+// (spineColumns) and each meridian point is first blended from its plain
+// twin on the mean radius by the column's blend fraction, so the spine
+// and its blends grow out of the collar over the run-out too; the offset
+// is lengthened across the blends (blendScale, REFERENCE.md §5, §7).
 func helical(g surrogate.Geometry, n int, collar float64, k int) (Mesh, error) {
 	if n < 1 {
 		return Mesh{}, fmt.Errorf("helical: %d turns, need at least 1", n)
 	}
 	h := newHelix(g, n, collar, k)
 	per, t := h.per, g.Wall
+	k = h.k
 	type key struct{ side, v int }
 	less := func(a, b key) bool { return a.side < b.side || (a.side == b.side && a.v < b.v) }
 	type column struct {
@@ -135,8 +182,10 @@ func helical(g surrogate.Geometry, n int, collar float64, k int) (Mesh, error) {
 	cols := make([]column, k)
 	for j := 0; j < k; j++ {
 		phi := 2 * math.Pi * float64(j) / float64(k)
-		line, lo := h.section(j)
-		outer, inner := offset(line, t/2), offset(line, -t/2)
+		if h.cols != nil {
+			phi = h.cols[j].phi
+		}
+		line, lo, outer, inner := h.wall(j, t)
 		c := &cols[j]
 		add := func(p [2]float64, kk key) {
 			c.id = append(c.id, int32(len(out.V)))

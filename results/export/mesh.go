@@ -38,51 +38,50 @@ func (s Section) signedArea() float64 {
 // k·sin(2π/k)/(2π) (common practice), so the volume of the revolved solid
 // falls short of the true solid of revolution by at most that factor.
 func Revolve(s Section, k int) (Mesh, error) {
-	return revolveBlend(s, nil, nil, k)
-}
-
-// revolveBlend is Revolve with the section alt (same vertex count and
-// order) at the angles where use(φ) holds: the strip of a spine.
-func revolveBlend(s, alt Section, use func(phi float64) bool, k int) (Mesh, error) {
 	if k < 3 {
 		return Mesh{}, fmt.Errorf("revolve: %d sides, need at least 3", k)
 	}
+	secs, phis := make([]Section, k), make([]float64, k)
+	for j := range secs {
+		secs[j], phis[j] = s, 2*math.Pi*float64(j)/float64(k)
+	}
+	return revolveSections(secs, phis)
+}
+
+// revolveSections joins closed sections (same vertex count and order)
+// standing in the meridian planes at the ascending angles phis, the last
+// joined to the first round the axis.
+func revolveSections(secs []Section, phis []float64) (Mesh, error) {
+	k := len(secs)
+	if k < 3 {
+		return Mesh{}, fmt.Errorf("revolve: %d sides, need at least 3", k)
+	}
+	s := secs[0]
 	if len(s) < 3 {
 		return Mesh{}, fmt.Errorf("revolve: section of %d points, need at least 3", len(s))
 	}
-	for _, p := range s {
-		if !(p[0] > 0) {
-			return Mesh{}, fmt.Errorf("revolve: section point at r = %g, need r > 0", p[0])
+	for _, sec := range secs {
+		if len(sec) != len(s) || (sec.signedArea() < 0) != (s.signedArea() < 0) {
+			return Mesh{}, fmt.Errorf("revolve: the sections do not match")
+		}
+		for _, p := range sec {
+			if !(p[0] > 0) {
+				return Mesh{}, fmt.Errorf("revolve: section point at r = %g, need r > 0", p[0])
+			}
 		}
 	}
-	if alt != nil && (len(alt) != len(s) || (alt.signedArea() < 0) != (s.signedArea() < 0)) {
-		return Mesh{}, fmt.Errorf("revolve: the alternative section does not match the section")
-	}
-	reverse := func(s Section) Section {
-		out := make(Section, len(s))
-		for i := range s {
-			out[i] = s[len(s)-1-i]
-		}
-		return out
-	}
-	pts, altPts := s, alt
-	if s.signedArea() < 0 {
-		pts = reverse(s)
-		if alt != nil {
-			altPts = reverse(alt)
-		}
-	}
-	m := len(pts)
+	reverse := s.signedArea() < 0
+	m := len(s)
 	var out Mesh
 	out.V = make([][3]float64, 0, m*k)
 	for j := 0; j < k; j++ {
-		phi := 2 * math.Pi * float64(j) / float64(k)
-		c, sn := math.Cos(phi), math.Sin(phi)
-		sec := pts
-		if use != nil && use(phi) {
-			sec = altPts
-		}
-		for _, p := range sec {
+		c, sn := math.Cos(phis[j]), math.Sin(phis[j])
+		sec := secs[j]
+		for i := range sec {
+			p := sec[i]
+			if reverse {
+				p = sec[m-1-i]
+			}
 			out.V = append(out.V, [3]float64{p[0] * c, p[0] * sn, p[1]})
 		}
 	}
@@ -202,22 +201,41 @@ func (m Mesh) WriteSTL(w io.Writer, header string) error {
 // normal, plain collars of length collar (m) at root radius at both ends,
 // with perPiece points on each meridian piece. Output in mm.
 func Wall(mer convolution.Meridian, n int, t, collar float64, perPiece int) (Section, error) {
-	s, _, err := wallAndPlain(mer, n, t, collar, perPiece, 0)
-	return s, err
+	c, err := centreline(mer, n, t, collar, perPiece)
+	if err != nil {
+		return nil, err
+	}
+	outer := offset(c, +t/2)
+	inner := offset(c, -t/2)
+	return toSection(outer, inner, collar), nil
 }
 
-// wallAndPlain returns the wall section and, for rPlain > 0, the plain
-// wall of a spine with the same vertices: the convolutions' centreline
-// replaced by the straight line r = rPlain, its points spaced evenly in z
-// within each convolution (so they stay in order for any profile), offset
-// by ±t/2 along r; the collars' ends stay where they are.
-func wallAndPlain(mer convolution.Meridian, n int, t, collar float64, perPiece int, rPlain float64) (Section, Section, error) {
+// toSection closes the outer and inner lines (m, the bottom collar end at
+// z = −collar) into a section in mm standing on z = 0.
+func toSection(outer, inner [][2]float64, collar float64) Section {
+	shift := 0.0
+	if collar > 0 {
+		shift = collar
+	}
+	var s Section
+	for _, p := range outer {
+		s = append(s, [2]float64{p[0] * 1e3, (p[1] + shift) * 1e3})
+	}
+	for i := len(inner) - 1; i >= 0; i-- {
+		s = append(s, [2]float64{inner[i][0] * 1e3, (inner[i][1] + shift) * 1e3})
+	}
+	return s
+}
+
+// centreline returns the wall's centreline (m): the bottom collar's end
+// at z = −collar when collar > 0, then root→crown→root for each of the n
+// convolutions, then the top collar's end.
+func centreline(mer convolution.Meridian, n int, t, collar float64, perPiece int) ([][2]float64, error) {
 	if n < 1 || perPiece < 2 {
-		return nil, nil, fmt.Errorf("wall: %d convolutions, %d points a piece", n, perPiece)
+		return nil, fmt.Errorf("wall: %d convolutions, %d points a piece", n, perPiece)
 	}
 	q := mer.Pitch()
 	half := halfPoints(mer, perPiece, t)
-	// full centreline: collar, then root→crown→root for each convolution.
 	var c [][2]float64
 	rRoot := half[0][0]
 	if collar > 0 {
@@ -238,42 +256,7 @@ func wallAndPlain(mer convolution.Meridian, n int, t, collar float64, perPiece i
 	if collar > 0 {
 		c = append(c, [2]float64{rRoot, float64(n)*q + collar})
 	}
-	outer := offset(c, +t/2)
-	inner := offset(c, -t/2)
-	shift := 0.0
-	if collar > 0 {
-		shift = collar
-	}
-	section := func(outer, inner [][2]float64) Section {
-		var s Section
-		for _, p := range outer {
-			s = append(s, [2]float64{p[0] * 1e3, (p[1] + shift) * 1e3})
-		}
-		for i := len(inner) - 1; i >= 0; i-- {
-			s = append(s, [2]float64{inner[i][0] * 1e3, (inner[i][1] + shift) * 1e3})
-		}
-		return s
-	}
-	s := section(outer, inner)
-	if rPlain <= 0 {
-		return s, nil, nil
-	}
-	// the plain strip: per convolution 2(len(half)−1) evenly spaced points
-	per := 2 * (len(half) - 1)
-	po, pi := make([][2]float64, len(c)), make([][2]float64, len(c))
-	first := 0
-	if collar > 0 {
-		first = 1
-	}
-	for i := range c {
-		if collar > 0 && (i == 0 || i == len(c)-1) {
-			po[i], pi[i] = outer[i], inner[i]
-			continue
-		}
-		z := q * float64(i-first) / float64(per)
-		po[i], pi[i] = [2]float64{rPlain + t/2, z}, [2]float64{rPlain - t/2, z}
-	}
-	return s, section(po, pi), nil
+	return c, nil
 }
 
 // offset moves each point of a polyline in (r, z) by d along the unit

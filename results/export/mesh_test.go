@@ -102,7 +102,7 @@ func TestRevolveRefusesBadInput(t *testing.T) {
 }
 
 // The default mesh keeps the wall volume of the surrogate's mass model
-// (surrogate.Section MassPerLength/ρ, surrogate/REFERENCE.md §2.9) within
+// (surrogate.Section MassPerLength/ρ, surrogate/REFERENCE.md §2.8) within
 // 0.5 %.
 func TestBellowsVolumeMatchesMassModel(t *testing.T) {
 	g := surrogate.Geometry{OuterDiameter: 20e-3, Depth: 3e-3, Pitch: 4.5e-3, Wall: 0.45e-3, Profile: surrogate.Sinusoid}

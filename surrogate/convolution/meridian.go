@@ -308,3 +308,16 @@ func (m *Meridian) Nodes(perSeg int) (r, z []float64) {
 	}
 	return r, z
 }
+
+// PieceLengths returns the arc length of each piece of the meridian
+// (Pieces order). A spine's plain twin of a point at parameter u of piece
+// i lies at z = (q/2)·(L_0 + … + L_{i−1} + u·L_i)/(L_0 + … + L_{n−1}): the
+// pitch shared among the pieces in proportion to their length
+// (surrogate/REFERENCE.md §2.8).
+func (m *Meridian) PieceLengths() []float64 {
+	out := make([]float64, m.n)
+	for i := range out {
+		out[i] = m.seg[i].length()
+	}
+	return out
+}
