@@ -23,7 +23,6 @@ type archive struct {
 	trunc    truncator
 
 	spare []*Design // addAll's merge buffer (two objectives)
-	keys2 []archKey // addAll's sorted newcomers (two objectives)
 
 	// buffers of addAll and addAllM
 	sort     scratch
@@ -83,74 +82,50 @@ func (a *archive) addAll(ds []*Design) {
 		a.addAllM(ds)
 		return
 	}
-	// The batch's feasible designs as keys (objectives copied out of the designs), sorted by
-	// (f1, f2, evaluation index) with plain comparisons: feasible objectives are finite.
-	cand := a.keys2[:0]
+	cand := a.cand[:0]
 	for _, d := range ds {
 		if d.Feasible() {
-			cand = append(cand, archKey{d.F[0], d.F[1], d.Index, d})
+			cand = append(cand, d)
 		}
 	}
-	a.keys2 = cand
+	a.cand = cand
 	if len(cand) == 0 {
 		return
 	}
-	slices.SortFunc(cand, func(p, q archKey) int {
+	less := func(p, q *Design) bool { // p before q in (f1, f2) order
+		return p.F[0] < q.F[0] || (p.F[0] == q.F[0] && p.F[1] < q.F[1])
+	}
+	slices.SortFunc(cand, func(p, q *Design) int { // ties by evaluation index, i.e. in order
 		switch {
-		case p.f1 < q.f1:
+		case less(p, q):
 			return -1
-		case p.f1 > q.f1:
-			return 1
-		case p.f2 < q.f2:
-			return -1
-		case p.f2 > q.f2:
+		case less(q, p):
 			return 1
 		}
-		return cmp.Compare(p.index, q.index)
+		return cmp.Compare(p.Index, q.Index)
 	})
-	// The merge goes into the spare buffer, which then swaps with items. A member goes before a
-	// newcomer unless the newcomer is strictly before it in (f1, f2) order.
-	items := a.items
-	out := slices.Grow(a.spare[:0], len(items)+len(cand))
+	// The merge goes into the spare buffer, which then swaps with items.
+	out := slices.Grow(a.spare[:0], len(a.items)+len(cand))
 	best := math.Inf(1)
+	keep := func(d *Design) {
+		if d.F[1] < best {
+			out = append(out, d)
+			best = d.F[1]
+		}
+	}
 	i, j := 0, 0
-	for i < len(items) || j < len(cand) {
-		if j < len(cand) {
-			c := cand[j]
-			if i == len(items) {
-				if c.f2 < best {
-					out = append(out, c.d)
-					best = c.f2
-				}
-				j++
-				continue
-			}
-			q := items[i].F
-			if c.f1 < q[0] || (c.f1 == q[0] && c.f2 < q[1]) {
-				if c.f2 < best {
-					out = append(out, c.d)
-					best = c.f2
-				}
-				j++
-				continue
-			}
+	for i < len(a.items) || j < len(cand) {
+		if j == len(cand) || (i < len(a.items) && !less(cand[j], a.items[i])) {
+			keep(a.items[i])
+			i++
+		} else {
+			keep(cand[j])
+			j++
 		}
-		if f2 := items[i].F[1]; f2 < best {
-			out = append(out, items[i])
-			best = f2
-		}
-		i++
 	}
 	clear(a.items)
 	a.items, a.spare = out, a.items[:0]
 	clear(cand)
-}
-
-// archKey is a two-objective newcomer of addAll with its sort key.
-type archKey struct {
-	f1, f2 float64
-	index  int64
-	d      *Design
 }
 
 // addAllM is addAll for one or three or more objectives. Offering designs one at a time keeps
