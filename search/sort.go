@@ -77,6 +77,9 @@ type scratch struct {
 	order        []int32
 	flatF        []float64
 	members      [][]int32
+	sortedFlat   []int32
+	sorted       [][]int32
+	pos          []int32
 }
 
 type sortKey2 struct {
@@ -200,12 +203,14 @@ func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []fl
 }
 
 // crowdingDistance2 is crowdingDistance for a front of two objectives whose designs are feasible
-// and mutually non-dominated (a feasible front of the sort). Sorted by (f1, position), such a
+// and mutually non-dominated (a feasible front of the sort). byF1 holds the front's designs in
+// the (f1, f2, index) order of nondominatedSort2 (see sortedFronts). Within such a front equal f1
+// means equal vectors, which the index orders as their position in front does, so byF1 is the
+// (f1, position) order that crowdingDistance sorts into, and no sort is needed. Sorted so, the
 // front has f2 non-increasing, with equal f2 only among equal vectors; so the (f2, position)
-// order is that order reversed run by run of equal vectors, each run kept as it is, and one sort
-// serves both objectives. The sums are formed in the same order, so the distances are the same
-// numbers (TestCrowding2MatchesGeneral).
-func (s *scratch) crowdingDistance2(ds []*Design, front []int32, dist []float64) {
+// order is that order reversed run by run of equal vectors, each run kept as it is. The sums are
+// formed in the same order, so the distances are the same numbers (TestCrowding2MatchesGeneral).
+func (s *scratch) crowdingDistance2(ds []*Design, front, byF1 []int32, dist []float64) {
 	l := len(front)
 	if l <= 2 {
 		for i := range dist[:l] {
@@ -216,10 +221,9 @@ func (s *scratch) crowdingDistance2(ds []*Design, front []int32, dist []float64)
 	o1 := resize(s.keys, 2*l)
 	s.keys = o1
 	o1, o2 := o1[:l], o1[l:]
-	for j, i := range front {
-		o1[j] = crowdKey{ds[i].F[0], int32(j)}
+	for j, i := range byF1 {
+		o1[j] = crowdKey{ds[i].F[0], s.pos[i]}
 	}
-	slices.SortFunc(o1, compareCrowdKeys)
 	f2 := func(k crowdKey) float64 { return ds[front[k.i]].F[1] }
 	for end, n := l, 0; end > 0; {
 		start := end - 1
@@ -273,6 +277,30 @@ func (s *scratch) frontsOf(rank []int) [][]int32 {
 	}
 	s.start, s.flat, s.fronts = start, flat, fronts
 	return fronts
+}
+
+// sortedFronts returns, after nondominatedSort2 and frontsOf on the same designs, the feasible
+// fronts with their designs in (f1, f2, index) order, and sets pos[i] to the position of design
+// i in its front of frontsOf. The result is valid until the next call.
+func (s *scratch) sortedFronts(n int) [][]int32 {
+	nf := len(s.last)
+	flat := resize(s.sortedFlat, len(s.feas))
+	out := resize(s.sorted, nf)
+	for r := range out {
+		out[r] = flat[s.start[r]:s.start[r]:s.start[r+1]] // feasible ranks come first
+	}
+	for _, p := range s.feas {
+		r := s.rank[p.i]
+		out[r] = append(out[r], p.i)
+	}
+	pos := resize(s.pos, n)
+	for _, front := range s.fronts {
+		for j, i := range front {
+			pos[i] = int32(j)
+		}
+	}
+	s.sortedFlat, s.sorted, s.pos = flat, out, pos
+	return out
 }
 
 // nondominatedSort2 with fresh buffers.

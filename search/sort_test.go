@@ -458,15 +458,17 @@ func TestCrowding2MatchesGeneral(t *testing.T) {
 				}
 			}
 		}
-		rank := nondominatedSort2(ds)
-		for _, front := range s.frontsOf(rank) {
+		rank := s.nondominatedSort2(ds)
+		fronts := s.frontsOf(rank)
+		byF1 := s.sortedFronts(len(ds))
+		for fr, front := range fronts {
 			if ds[front[0]].CV != 0 {
 				continue
 			}
 			want := make([]float64, len(front))
 			got := make([]float64, len(front))
 			crowdingDistance(ds, front, 2, want)
-			s.crowdingDistance2(ds, front, got)
+			s.crowdingDistance2(ds, front, byF1[fr], got)
 			require.Equal(t, want, got, "trial %d: front %v", trial, front)
 		}
 	}

@@ -29,13 +29,18 @@ func (c *crowdingSurvival) survive(r []*Design, n int) []*Design {
 	out := slices.Grow(c.out[:0], n)
 	dist := resize(c.s.dist, len(r))
 	c.s.dist = dist
-	for fr, front := range c.s.frontsOf(rank) {
+	fronts := c.s.frontsOf(rank)
+	var byF1 [][]int32
+	if c.m == 2 {
+		byF1 = c.s.sortedFronts(len(r))
+	}
+	for fr, front := range fronts {
 		if len(out) >= n {
 			break
 		}
 		d := dist[:len(front)]
 		if c.m == 2 && r[front[0]].CV == 0 {
-			c.s.crowdingDistance2(r, front, d)
+			c.s.crowdingDistance2(r, front, byF1[fr], d)
 		} else {
 			c.s.crowdingDistance(r, front, c.m, d)
 		}
