@@ -94,18 +94,29 @@ type prefixVal struct {
 // computes it, +Inf when K is not of the form Links gives or not positive
 // definite (sagBound then returns +Inf).
 func linkLambda(K *[3][3]float64) float64 {
-	if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
+	lam, ok := linkLambdaOK(K)
+	if !ok {
 		return math.Inf(1)
 	}
+	return lam
+}
+
+// linkLambdaOK is the smallest eigenvalue of a link stiffness as sagBound
+// computes it, with ok false when K is not of the form Links gives or not
+// positive definite.
+func linkLambdaOK(K *[3][3]float64) (lam float64, ok bool) {
+	if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
+		return 0, false
+	}
 	dk := 0.5 * (K[0][0] - K[1][1])
-	lam := 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
+	lam = 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
 	if K[2][2] < lam {
 		lam = K[2][2]
 	}
 	if !(lam > 0) {
-		return math.Inf(1)
+		return 0, false
 	}
-	return lam
+	return lam, true
 }
 
 // usable reports whether link sharing applies to the evaluator's robot.
