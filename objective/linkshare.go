@@ -94,18 +94,29 @@ type prefixVal struct {
 // computes it, +Inf when K is not of the form Links gives or not positive
 // definite (sagBound then returns +Inf).
 func linkLambda(K *[3][3]float64) float64 {
-	if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
+	lam, ok := linkLambdaOK(K)
+	if !ok {
 		return math.Inf(1)
 	}
+	return lam
+}
+
+// linkLambdaOK is the smallest eigenvalue of a link stiffness as sagBound
+// computes it, with ok false when K is not of the form Links gives or not
+// positive definite.
+func linkLambdaOK(K *[3][3]float64) (lam float64, ok bool) {
+	if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
+		return 0, false
+	}
 	dk := 0.5 * (K[0][0] - K[1][1])
-	lam := 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
+	lam = 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
 	if K[2][2] < lam {
 		lam = K[2][2]
 	}
 	if !(lam > 0) {
-		return math.Inf(1)
+		return 0, false
 	}
-	return lam
+	return lam, true
 }
 
 // usable reports whether link sharing applies to the evaluator's robot.
@@ -273,18 +284,27 @@ type boundPair struct {
 	E, mj, hl float64
 }
 
+// sagArms fills ls.d[1:m] with perpBound of the tip relative to the
+// start of each link and sets d[m] = 0 (d[0] is never read);
+// it returns ls.d[:m+1].
+func (e *evaluator) sagArms(ls *linkShare, starts [][3]float64, tip [3]float64) []float64 {
+	gz, hs := e.gravityZ, e.gravityXY
+	m := len(ls.links)
+	d := ls.d[:m+1]
+	for i := 1; i < m; i++ {
+		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
+	}
+	d[m] = 0
+	return d
+}
+
 // sagBoundShared is sagBound for the structure of ls with the link
 // stiffness eigenvalues ls.lam of the sample: the same operations on the
 // same values, with what depends only on the structure computed once
 // (TestLinkShareEqualsFull compares the two bit for bit).
 func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, lam []float64, tip [3]float64) float64 {
-	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
-	d := ls.d[:m+1]
-	for i := 1; i < m; i++ { // d[0] is never read
-		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
-	}
-	d[m] = 0
+	d := e.sagArms(ls, starts, tip)
 	mp := e.payload
 	sum := 0.0
 	lam = lam[:m]
@@ -320,13 +340,8 @@ func (e *evaluator) sagBoundShared(ls *linkShare, starts [][3]float64, lam []flo
 // sample loop computes it for every shape; the sag scan replaces it by
 // sagBoundShared for the shapes it may compute (refineBound).
 func (e *evaluator) sagBoundArc(ls *linkShare, starts [][3]float64, lam []float64, tip [3]float64) float64 {
-	gz, hs := e.gravityZ, e.gravityXY
 	m := len(ls.links)
-	d := ls.d[:m+1]
-	for i := 1; i < m; i++ { // d[0] is never read
-		d[i] = perpBound(sub(tip, starts[i]), gz, hs)
-	}
-	d[m] = 0
+	d := e.sagArms(ls, starts, tip)
 	mp := e.payload
 	sum := 0.0
 	lam = lam[:m]

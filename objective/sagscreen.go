@@ -45,16 +45,8 @@ func (e *evaluator) sagBound(links []kinematics.Link, starts [][3]float64, tip [
 		if !(li > 0) {
 			continue
 		}
-		K := &l.K
-		if K[0][2] != 0 || K[1][2] != 0 || K[2][0] != 0 || K[2][1] != 0 || K[0][1] != K[1][0] {
-			return math.Inf(1)
-		}
-		dk := 0.5 * (K[0][0] - K[1][1])
-		lam := 0.5*(K[0][0]+K[1][1]) - math.Sqrt(dk*dk+K[0][1]*K[0][1])
-		if K[2][2] < lam {
-			lam = K[2][2]
-		}
-		if !(lam > 0) {
+		lam, ok := linkLambdaOK(&l.K)
+		if !ok {
 			return math.Inf(1)
 		}
 		// At arc length u before the end of link i: |c × h| ≤ D + u with

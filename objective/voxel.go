@@ -180,7 +180,7 @@ func ringDenseGo(bits []uint64, rt *ringTab, p0, p1, h float64, x0, nx, wbase in
 	n := uint64(len(bits))
 	for j, s := range sins {
 		c := coss[j]
-		w := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
+		w := ringWord(p0, p1, s, c, h, nx, base)
 		if uint64(w) >= n {
 			return false
 		}
@@ -197,7 +197,7 @@ func ringTouched(bits []uint64, touched []int32, nt int, rt *ringTab, p0, p1, h 
 	n := uint64(len(bits))
 	for j, s := range sins {
 		c := coss[j]
-		w := floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
+		w := ringWord(p0, p1, s, c, h, nx, base)
 		if uint64(w) >= n {
 			return nt, false
 		}
@@ -209,6 +209,13 @@ func ringTouched(bits []uint64, touched []int32, nt int, rt *ringTab, p0, p1, h 
 		bits[w] = old | mask
 	}
 	return nt, true
+}
+
+// ringWord is the word index of the tip (p0, p1) turned by (s, c) in
+// ringDenseGo and ringTouched: floor(x/h) + nx floor(y/h) + base with
+// x = c p0 − s p1, y = s p0 + c p1 (the operations ringAVX repeats).
+func ringWord(p0, p1, s, c, h float64, nx, base int64) int64 {
+	return floorInt((c*p0-s*p1)/h) + nx*floorInt((s*p0+c*p1)/h) + base
 }
 
 // floorInt is int64(int32(math.Floor(x))) for |x| < 2³¹ (the bitset box is
