@@ -3,7 +3,6 @@ package results
 import (
 	"encoding/json"
 	"fmt"
-	"math"
 	"strconv"
 
 	"plica/objective"
@@ -16,39 +15,9 @@ import (
 // the uninterrupted run would. Checkpoints written before it have none.
 const diagnosisStateKey = "diagnosis_state"
 
-// dfloat is a float64 written exactly in JSON, NaN and ±Inf as strings.
-type dfloat float64
-
-func (f dfloat) MarshalJSON() ([]byte, error) {
-	v := float64(f)
-	switch {
-	case math.IsNaN(v):
-		return []byte(`"NaN"`), nil
-	case math.IsInf(v, 1):
-		return []byte(`"+Inf"`), nil
-	case math.IsInf(v, -1):
-		return []byte(`"-Inf"`), nil
-	}
-	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
-}
-
-func (f *dfloat) UnmarshalJSON(b []byte) error {
-	switch string(b) {
-	case `"NaN"`:
-		*f = dfloat(math.NaN())
-	case `"+Inf"`:
-		*f = dfloat(math.Inf(1))
-	case `"-Inf"`:
-		*f = dfloat(math.Inf(-1))
-	default:
-		v, err := strconv.ParseFloat(string(b), 64)
-		if err != nil {
-			return fmt.Errorf("diagnosis state number %s: %w", b, err)
-		}
-		*f = dfloat(v)
-	}
-	return nil
-}
+// dfloat is a float64 written exactly in JSON, NaN and ±Inf as strings
+// (the checkpoint's own number type).
+type dfloat = search.JSONFloat
 
 func dfloats(v []float64) []dfloat {
 	out := make([]dfloat, len(v))

@@ -40,10 +40,11 @@ type Checkpoint struct {
 	Archive []Design
 }
 
-// jsonFloat is a float64 that marshals exactly, with NaN and ±Inf as strings.
-type jsonFloat float64
+// JSONFloat is a float64 that marshals exactly, with NaN and ±Inf as strings
+// (checkpoints, and the diagnosis state results keeps in them).
+type JSONFloat float64
 
-func (f jsonFloat) MarshalJSON() ([]byte, error) {
+func (f JSONFloat) MarshalJSON() ([]byte, error) {
 	v := float64(f)
 	switch {
 	case math.IsNaN(v):
@@ -56,39 +57,39 @@ func (f jsonFloat) MarshalJSON() ([]byte, error) {
 	return strconv.AppendFloat(nil, v, 'g', -1, 64), nil
 }
 
-func (f *jsonFloat) UnmarshalJSON(b []byte) error {
+func (f *JSONFloat) UnmarshalJSON(b []byte) error {
 	s := string(b)
 	switch s {
 	case `"NaN"`:
-		*f = jsonFloat(math.NaN())
+		*f = JSONFloat(math.NaN())
 		return nil
 	case `"+Inf"`:
-		*f = jsonFloat(math.Inf(1))
+		*f = JSONFloat(math.Inf(1))
 		return nil
 	case `"-Inf"`:
-		*f = jsonFloat(math.Inf(-1))
+		*f = JSONFloat(math.Inf(-1))
 		return nil
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if err != nil {
 		return fmt.Errorf("search: checkpoint number %s: %w", s, err)
 	}
-	*f = jsonFloat(v)
+	*f = JSONFloat(v)
 	return nil
 }
 
-func toJSON(v []float64) []jsonFloat {
+func toJSON(v []float64) []JSONFloat {
 	if v == nil {
 		return nil
 	}
-	out := make([]jsonFloat, len(v))
+	out := make([]JSONFloat, len(v))
 	for i, x := range v {
-		out[i] = jsonFloat(x)
+		out[i] = JSONFloat(x)
 	}
 	return out
 }
 
-func fromJSON(v []jsonFloat) []float64 {
+func fromJSON(v []JSONFloat) []float64 {
 	if v == nil {
 		return nil
 	}
@@ -101,14 +102,14 @@ func fromJSON(v []jsonFloat) []float64 {
 
 type wireDesign struct {
 	Index    int64       `json:"index"`
-	X        []jsonFloat `json:"x"`
-	F        []jsonFloat `json:"f"`
-	G        []jsonFloat `json:"g"`
-	CV       jsonFloat   `json:"cv"`
+	X        []JSONFloat `json:"x"`
+	F        []JSONFloat `json:"f"`
+	G        []JSONFloat `json:"g"`
+	CV       JSONFloat   `json:"cv"`
 	Failed   string      `json:"failed,omitempty"`
 	Rank     int         `json:"rank"`
-	Crowding jsonFloat   `json:"crowding"`
-	Scalar   jsonFloat   `json:"scalar"`
+	Crowding JSONFloat   `json:"crowding"`
+	Scalar   JSONFloat   `json:"scalar"`
 }
 
 type wireStats struct {
@@ -117,7 +118,7 @@ type wireStats struct {
 	Failures    int64     `json:"failures"`
 	Feasible    int       `json:"feasible"`
 	ArchiveSize int       `json:"archive_size"`
-	Hypervolume jsonFloat `json:"hypervolume"`
+	Hypervolume JSONFloat `json:"hypervolume"`
 }
 
 type wireCheckpoint struct {
@@ -128,14 +129,14 @@ type wireCheckpoint struct {
 	RNG        []byte       `json:"rng_state"`
 	Stats      wireStats    `json:"stats"`
 	ElapsedNS  int64        `json:"elapsed_ns"`
-	Reference  []jsonFloat  `json:"reference"`
+	Reference  []JSONFloat  `json:"reference"`
 	History    []wireStats  `json:"history"`
 	Population []wireDesign `json:"population"`
 	Archive    []wireDesign `json:"archive"`
 }
 
 func statsToWire(s Stats) wireStats {
-	return wireStats{s.Generation, s.Evaluations, s.Failures, s.Feasible, s.ArchiveSize, jsonFloat(s.Hypervolume)}
+	return wireStats{s.Generation, s.Evaluations, s.Failures, s.Feasible, s.ArchiveSize, JSONFloat(s.Hypervolume)}
 }
 
 func statsFromWire(w wireStats) Stats {
@@ -145,8 +146,8 @@ func statsFromWire(w wireStats) Stats {
 func designsToWire(ds []Design) []wireDesign {
 	out := make([]wireDesign, len(ds))
 	for i, d := range ds {
-		out[i] = wireDesign{d.Index, toJSON(d.X), toJSON(d.F), toJSON(d.G), jsonFloat(d.CV), d.Failed,
-			d.Rank, jsonFloat(d.Crowding), jsonFloat(d.Scalar)}
+		out[i] = wireDesign{d.Index, toJSON(d.X), toJSON(d.F), toJSON(d.G), JSONFloat(d.CV), d.Failed,
+			d.Rank, JSONFloat(d.Crowding), JSONFloat(d.Scalar)}
 	}
 	return out
 }
