@@ -152,12 +152,7 @@ func TestExportBenchPlan(t *testing.T) {
 // factors (results/export/REFERENCE.md §1, §4).
 func TestExportJig(t *testing.T) {
 	dir := t.TempDir()
-	src, err := os.ReadFile(examples + "boom-geometry.toml")
-	require.NoError(t, err)
-	text := strings.Replace(string(src), "precurvature_per_m = 4.0", "precurvature_per_m = 4.0\nsetting_overbend = 1.25", 1)
-	require.NotEqual(t, string(src), text)
-	design := filepath.Join(dir, "overbent.toml")
-	require.NoError(t, os.WriteFile(design, []byte(text), 0o644))
+	design := boomVariant(t, dir, "overbent.toml", "precurvature_per_m = 4.0", "precurvature_per_m = 4.0\nsetting_overbend = 1.25")
 	out := filepath.Join(dir, "o")
 	code, _, errOut := runCLI(t, "export", design, "-o", out, "-segments", "32", "-collar-mm", "5", "-jig-clearance-mm", "0.25")
 	require.Equal(t, 0, code, errOut)
@@ -222,12 +217,7 @@ func TestExportPrintSheet(t *testing.T) {
 // the jig's tip and handle also cover the run-outs.
 func TestExportHelicalWithSpine(t *testing.T) {
 	dir := t.TempDir()
-	src, err := os.ReadFile(examples + "boom-geometry.toml")
-	require.NoError(t, err)
-	text := strings.Replace(string(src), "wall_mm = 0.5\n", "wall_mm = 0.5\nwinding = \"helical\"\nspine_width_mm = 4\nspine_angle_deg = 90\n", 1)
-	require.NotEqual(t, string(src), text)
-	design := filepath.Join(dir, "helical.toml")
-	require.NoError(t, os.WriteFile(design, []byte(text), 0o644))
+	design := boomVariant(t, dir, "helical.toml", "wall_mm = 0.5\n", "wall_mm = 0.5\nwinding = \"helical\"\nspine_width_mm = 4\nspine_angle_deg = 90\n")
 	out := filepath.Join(dir, "o")
 	code, _, errOut := runCLI(t, "export", design, "-o", out, "-segments", "24", "-collar-mm", "4")
 	require.Equal(t, 0, code, errOut)
@@ -261,4 +251,17 @@ func TestExportHelicalWithSpine(t *testing.T) {
 	bench, err := os.ReadFile(filepath.Join(out, "bench.csv"))
 	require.NoError(t, err)
 	assert.Contains(t, string(bench), "run-out", "the bench plan says what its free length leaves out")
+}
+
+// boomVariant writes the shipped geometry design with its first old
+// replaced by new as dir/name and returns the path.
+func boomVariant(t *testing.T, dir, name, old, new string) string {
+	t.Helper()
+	src, err := os.ReadFile(examples + "boom-geometry.toml")
+	require.NoError(t, err)
+	text := strings.Replace(string(src), old, new, 1)
+	require.NotEqual(t, string(src), text)
+	design := filepath.Join(dir, name)
+	require.NoError(t, os.WriteFile(design, []byte(text), 0o644))
+	return design
 }

@@ -304,11 +304,7 @@ func offset(c [][2]float64, d float64) [][2]float64 {
 func halfPoints(mer convolution.Meridian, perPiece int, t float64) [][2]float64 {
 	var half [][2]float64
 	for _, p := range mer.Pieces() {
-		np := perPiece
-		if p.Kind == convolution.Line {
-			l := math.Hypot(p.R1-p.R0, p.Z1-p.Z0)
-			np = 1 + max(1, min(perPiece-1, int(l/t)))
-		}
+		np := piecePoints(p, perPiece, t)
 		for i := 0; i < np; i++ {
 			if len(half) > 0 && i == 0 {
 				continue
@@ -318,6 +314,18 @@ func halfPoints(mer convolution.Meridian, perPiece int, t float64) [][2]float64 
 		}
 	}
 	return half
+}
+
+// piecePoints is the number of points halfPoints (and twinPoints) take on
+// one meridian piece, its ends included: perPiece on an arc or a sinusoid,
+// on a line one per wall thickness of length, at least 2 and at most
+// perPiece.
+func piecePoints(p convolution.Piece, perPiece int, t float64) int {
+	if p.Kind != convolution.Line {
+		return perPiece
+	}
+	l := math.Hypot(p.R1-p.R0, p.Z1-p.Z0)
+	return 1 + max(1, min(perPiece-1, int(l/t)))
 }
 
 func piecePoint(p convolution.Piece, u float64) [2]float64 {

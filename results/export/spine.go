@@ -69,11 +69,7 @@ func twinPoints(mer convolution.Meridian, perPiece int, t float64) []float64 {
 	tw := surrogate.SpineTwins(&mer)
 	var out []float64
 	for pi, p := range mer.Pieces() {
-		np := perPiece
-		if p.Kind == convolution.Line {
-			l := math.Hypot(p.R1-p.R0, p.Z1-p.Z0)
-			np = 1 + max(1, min(perPiece-1, int(l/t)))
-		}
+		np := piecePoints(p, perPiece, t)
 		for i := 0; i < np; i++ {
 			if len(out) > 0 && i == 0 {
 				continue
