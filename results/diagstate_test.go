@@ -18,19 +18,32 @@ import (
 	"plica/search"
 )
 
+// coarseExample reads a shipped example problem (problems/examples/NAME,
+// invented numbers) on a coarse workspace (12 relative and 8 base steps),
+// applies the further text replacements given as old, new pairs (the
+// population, an extra table) and parses it as file.
+func coarseExample(t *testing.T, name, file string, replace ...string) *problems.Spec {
+	t.Helper()
+	require.Zero(t, len(replace)%2, "replacements come in old, new pairs")
+	text, err := os.ReadFile(filepath.Join("../problems/examples", name))
+	require.NoError(t, err)
+	s := string(text)
+	pairs := append([]string{"relative_steps = 32", "relative_steps = 12", "base_steps = 32", "base_steps = 8"}, replace...)
+	for i := 0; i < len(pairs); i += 2 {
+		require.Contains(t, s, pairs[i], "%s holds the text to replace", name)
+		s = strings.Replace(s, pairs[i], pairs[i+1], 1)
+	}
+	spec, err := problems.ParseProblem([]byte(s), file)
+	require.NoError(t, err)
+	return spec
+}
+
 // smallBlocked is the blocked demo (problems/examples/boom-blocked.toml,
 // invented numbers; no feasible design) on a coarse workspace and a small
 // population, so that every run carries a diagnosis.
 func smallBlocked(t *testing.T) *problems.Spec {
 	t.Helper()
-	text, err := os.ReadFile("../problems/examples/boom-blocked.toml")
-	require.NoError(t, err)
-	s := strings.Replace(string(text), "relative_steps = 32", "relative_steps = 12", 1)
-	s = strings.Replace(s, "base_steps = 32", "base_steps = 8", 1)
-	s = strings.Replace(s, "population = 40", "population = 12", 1)
-	spec, err := problems.ParseProblem([]byte(s), "blocked.toml")
-	require.NoError(t, err)
-	return spec
+	return coarseExample(t, "boom-blocked.toml", "blocked.toml", "population = 40", "population = 12")
 }
 
 // interruptAt runs spec into dir and cancels it (Ctrl-C) in generation

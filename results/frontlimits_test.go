@@ -3,7 +3,6 @@ package results
 import (
 	"context"
 	"encoding/json"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -21,15 +20,8 @@ import (
 // construction (the boom reaches about 17 mm without it).
 func cappedReachProblem(t *testing.T) *problems.Spec {
 	t.Helper()
-	text, err := os.ReadFile("../problems/examples/boom-search.toml")
-	require.NoError(t, err)
-	s := strings.Replace(string(text), "relative_steps = 32", "relative_steps = 12", 1)
-	s = strings.Replace(s, "base_steps = 32", "base_steps = 8", 1)
-	s = strings.Replace(s, "population = 60", "population = 16", 1)
-	s = strings.Replace(s, "[search]", "[[constraint]]\nscore = \"reach_mm\"\nmax = 10.0\n\n[search]", 1)
-	spec, err := problems.ParseProblem([]byte(s), "capped.toml")
-	require.NoError(t, err)
-	return spec
+	return coarseExample(t, "boom-search.toml", "capped.toml", "population = 60", "population = 16",
+		"[search]", "[[constraint]]\nscore = \"reach_mm\"\nmax = 10.0\n\n[search]")
 }
 
 // TestFrontLimitsKnownLimit: on a search whose reach is capped by a
