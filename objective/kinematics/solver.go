@@ -302,15 +302,10 @@ func (s *Solver) linkSums(b []float64, lo, hi float64) (kxx, kxy, kyy, gj, mx, m
 		}
 		present |= 1 << i
 		cn, sn := s.c[i], s.s[i]
-		if s.iso {
-			kxx += t.m
-			kyy += t.m
-		} else {
-			xx, xy, yy := rotatedBending(t.m, t.d, t.q, cn, sn)
-			kxx += xx
-			kxy += xy
-			kyy += yy
-		}
+		xx, xy, yy := s.bending(t, cn, sn)
+		kxx += xx
+		kxy += xy
+		kyy += yy
 		gj += t.gj
 		mass += t.rho
 		if lo >= b[i]+t.Ls-tol {
@@ -320,6 +315,17 @@ func (s *Solver) linkSums(b []float64, lo, hi float64) (kxx, kxy, kyy, gj, mx, m
 		}
 	}
 	return kxx, kxy, kyy, gj, mx, my, mass, present, curved
+}
+
+// bending is a tube's bending stiffness in the link frame, turned by its
+// base angle (cn, sn): EI itself for an isotropic set (kxy then adds +0, the
+// same bits as not adding), rotatedBending otherwise. linkSums and Relink
+// sum it.
+func (s *Solver) bending(t *solverTube, cn, sn float64) (xx, xy, yy float64) {
+	if s.iso {
+		return t.m, 0, t.m
+	}
+	return rotatedBending(t.m, t.d, t.q, cn, sn)
 }
 
 // linkCurvature solves the 2×2 system (3.1) by Cramer's rule.
@@ -491,15 +497,10 @@ func (s *Solver) Relink(sc [][2]float64, j int, l *Link) error {
 		if curved || !s.iso {
 			sn, cn = sc[i][0], sc[i][1]
 		}
-		if s.iso {
-			kxx += t.m
-			kyy += t.m
-		} else {
-			xx, xy, yy := rotatedBending(t.m, t.d, t.q, cn, sn)
-			kxx += xx
-			kxy += xy
-			kyy += yy
-		}
+		xx, xy, yy := s.bending(t, cn, sn)
+		kxx += xx
+		kxy += xy
+		kyy += yy
 		gj += t.gj
 		if curved {
 			mx += cn*t.bx - sn*t.by
