@@ -48,6 +48,16 @@ func (s *scratch) nondominatedSortENS(ds []*Design, m int) []int {
 	dominatedBy := func(k, j int) bool { // some member of front k dominates design j
 		p := f[j*m : j*m+m]
 		mem := members[k]
+		if m == 3 { // the common case, without the inner loop: the same comparisons
+			p1, p2 := p[1], p[2]
+			for t := len(mem) - 1; t >= 0; t-- {
+				q := f[int(mem[t])*3 : int(mem[t])*3+3]
+				if !(q[1] > p1) && !(q[2] > p2) {
+					return true
+				}
+			}
+			return false
+		}
 		for t := len(mem) - 1; t >= 0; t-- {
 			q := f[int(mem[t])*m : int(mem[t])*m+m]
 			dom := true

@@ -473,3 +473,52 @@ func TestCrowding2MatchesGeneral(t *testing.T) {
 		}
 	}
 }
+
+// TestSortKeys2 checks the specialised sort of nondominatedSort2 against slices.SortFunc with
+// the same (f1, f2, index) order, on lengths around the insertion-sort cut-off and beyond, with
+// many ties in f1 and f2 (values from a few levels), already sorted and reversed inputs, and
+// signed zeros (−0 and +0 compare equal, so their index decides) [derived: any correct sort of a
+// total order gives the same sequence].
+func TestSortKeys2(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	ref := func(a, b sortKey2) int {
+		switch {
+		case a.f1 < b.f1:
+			return -1
+		case a.f1 > b.f1:
+			return 1
+		case a.f2 < b.f2:
+			return -1
+		case a.f2 > b.f2:
+			return 1
+		}
+		return int(a.i - b.i)
+	}
+	for _, n := range []int{0, 1, 2, 3, 11, 12, 13, 14, 25, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			for _, shape := range []string{"random", "sorted", "reversed"} {
+				keys := make([]sortKey2, n)
+				for j := range keys {
+					keys[j] = sortKey2{float64(rng.IntN(levels)), float64(rng.IntN(levels)), int32(j)}
+					if keys[j].f1 == 0 && rng.IntN(2) == 0 {
+						keys[j].f1 = math.Copysign(0, -1)
+					}
+				}
+				rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+				switch shape {
+				case "sorted":
+					slices.SortFunc(keys, ref)
+				case "reversed":
+					slices.SortFunc(keys, func(a, b sortKey2) int { return ref(b, a) })
+				}
+				want := slices.Clone(keys)
+				slices.SortFunc(want, ref)
+				sortKeys2(keys)
+				for j := range want { // bit patterns, so that −0 and +0 are told apart
+					require.Equal(t, math.Float64bits(want[j].f1), math.Float64bits(keys[j].f1), "n %d levels %d %s: key %d", n, levels, shape, j)
+					require.Equal(t, want[j].i, keys[j].i, "n %d levels %d %s: key %d", n, levels, shape, j)
+				}
+			}
+		}
+	}
+}
