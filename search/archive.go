@@ -171,7 +171,7 @@ func (a *archive) addAllM(ds []*Design) {
 	for i, q := range a.items {
 		byF1 = append(byF1, crowdKey{q.F[0], int32(i)})
 	}
-	slices.SortFunc(byF1, compareCrowdKeys)
+	sortCrowdKeys(byF1)
 	af := resize(a.flatF, len(byF1)*m)
 	for j, e := range byF1 {
 		copy(af[j*m:j*m+m], a.items[e.i].F)
@@ -421,7 +421,7 @@ func sortByObjective(ds []*Design, order []int32, k int, keys []crowdKey) []crow
 	for _, i := range order {
 		keys = append(keys, crowdKey{ds[i].F[k], i})
 	}
-	slices.SortFunc(keys, compareCrowdKeys)
+	sortCrowdKeys(keys)
 	for j, key := range keys {
 		order[j] = key.i
 	}

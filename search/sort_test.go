@@ -522,3 +522,29 @@ func TestSortKeys2(t *testing.T) {
 		}
 	}
 }
+
+// TestSortCrowdKeys checks sortCrowdKeys against slices.SortFunc with compareCrowdKeys, as
+// TestSortKeys2 does for sortKeys2 [derived: any correct sort of a total order gives the same
+// sequence].
+func TestSortCrowdKeys(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for _, n := range []int{0, 1, 2, 3, 11, 12, 13, 14, 25, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			keys := make([]crowdKey, n)
+			for j := range keys {
+				keys[j] = crowdKey{float64(rng.IntN(levels)), int32(j)}
+				if keys[j].v == 0 && rng.IntN(2) == 0 {
+					keys[j].v = math.Copysign(0, -1)
+				}
+			}
+			rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+			want := slices.Clone(keys)
+			slices.SortFunc(want, compareCrowdKeys)
+			sortCrowdKeys(keys)
+			for j := range want {
+				require.Equal(t, math.Float64bits(want[j].v), math.Float64bits(keys[j].v), "n %d levels %d: key %d", n, levels, j)
+				require.Equal(t, want[j].i, keys[j].i, "n %d levels %d: key %d", n, levels, j)
+			}
+		}
+	}
+}
