@@ -80,6 +80,7 @@ type scratch struct {
 	sortedFlat   []int32
 	sorted       [][]int32
 	pos          []int32
+	keys3        []sortKey3
 }
 
 type sortKey2 struct {

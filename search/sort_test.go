@@ -548,3 +548,29 @@ func TestSortCrowdKeys(t *testing.T) {
 		}
 	}
 }
+
+// TestSortKeys3 checks the three-objective sort of nondominatedSortENS (sortKeys3) against the
+// general lexicographic sort (sortLex) on designs with many ties in each objective [derived: any
+// correct sort of a total order gives the same sequence].
+func TestSortKeys3(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, n := range []int{0, 1, 2, 13, 14, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			ds := make([]*Design, n)
+			keys := make([]sortKey3, n)
+			order := make([]int32, n)
+			for j := range ds {
+				f := []float64{float64(rng.IntN(levels)), float64(rng.IntN(levels)), float64(rng.IntN(levels))}
+				ds[j] = &Design{F: f}
+				keys[j] = sortKey3{f[0], f[1], f[2], int32(j)}
+				order[j] = int32(j)
+			}
+			rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+			sortLex(ds, order, 3)
+			sortKeys3(keys)
+			for j := range order {
+				require.Equal(t, order[j], keys[j].i, "n %d levels %d: position %d", n, levels, j)
+			}
+		}
+	}
+}
