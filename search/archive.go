@@ -171,7 +171,7 @@ func (a *archive) addAllM(ds []*Design) {
 	for i, q := range a.items {
 		byF1 = append(byF1, crowdKey{q.F[0], int32(i)})
 	}
-	slices.SortFunc(byF1, compareCrowdKeys)
+	sortCrowdKeys(byF1)
 	af := resize(a.flatF, len(byF1)*m)
 	for j, e := range byF1 {
 		copy(af[j*m:j*m+m], a.items[e.i].F)
@@ -190,9 +190,15 @@ func (a *archive) addAllM(ds []*Design) {
 				continue
 			}
 			q := af[j*m : j*m+m]
-			for k := 1; k < m; k++ {
-				if q[k] > f[k] {
+			if m == 3 { // the common case, without the inner loop: the same comparisons
+				if q[1] > f[1] || q[2] > f[2] {
 					continue weak
+				}
+			} else {
+				for k := 1; k < m; k++ {
+					if q[k] > f[k] {
+						continue weak
+					}
 				}
 			}
 			rejected = true
@@ -211,9 +217,15 @@ func (a *archive) addAllM(ds []*Design) {
 				continue
 			}
 			q := af[j*m : j*m+m]
-			for k := 1; k < m; k++ {
-				if f[k] > q[k] {
+			if m == 3 {
+				if f[1] > q[1] || f[2] > q[2] {
 					continue dom
+				}
+			} else {
+				for k := 1; k < m; k++ {
+					if f[k] > q[k] {
+						continue dom
+					}
 				}
 			}
 			deadAt[j] = true // d ⪯ q and d was not weakly dominated, so d ≠ q: d ≺ q
@@ -409,7 +421,7 @@ func sortByObjective(ds []*Design, order []int32, k int, keys []crowdKey) []crow
 	for _, i := range order {
 		keys = append(keys, crowdKey{ds[i].F[k], i})
 	}
-	slices.SortFunc(keys, compareCrowdKeys)
+	sortCrowdKeys(keys)
 	for j, key := range keys {
 		order[j] = key.i
 	}

@@ -80,6 +80,7 @@ type scratch struct {
 	sortedFlat   []int32
 	sorted       [][]int32
 	pos          []int32
+	keys3        []sortKey3
 }
 
 type sortKey2 struct {
@@ -115,19 +116,7 @@ func (s *scratch) nondominatedSort2(ds []*Design) []int {
 		}
 	}
 	s.feas, s.infeas = feas, infeas
-	slices.SortFunc(feas, func(a, b sortKey2) int { // finite values: plain comparisons
-		switch {
-		case a.f1 < b.f1:
-			return -1
-		case a.f1 > b.f1:
-			return 1
-		case a.f2 < b.f2:
-			return -1
-		case a.f2 > b.f2:
-			return 1
-		}
-		return int(a.i - b.i)
-	})
+	sortKeys2(feas)
 	last := s.last[:0]
 	for j, p := range feas {
 		if j > 0 && feas[j-1].f1 == p.f1 && feas[j-1].f2 == p.f2 {
@@ -189,7 +178,7 @@ func (s *scratch) crowdingDistance(ds []*Design, front []int32, m int, dist []fl
 		for j, i := range front {
 			order[j] = crowdKey{ds[i].F[k], int32(j)}
 		}
-		slices.SortFunc(order, compareCrowdKeys)
+		sortCrowdKeys(order)
 		span := order[l-1].v - order[0].v
 		if !(span > 0) {
 			continue
@@ -328,4 +317,131 @@ func compareCanonical(a, b *Design) int {
 		return c
 	}
 	return cmp.Compare(a.Index, b.Index)
+}
+
+// lessKey2 is the (f1, f2, index) order of nondominatedSort2 (finite values: plain comparisons).
+func lessKey2(a, b *sortKey2) bool {
+	switch {
+	case a.f1 < b.f1:
+		return true
+	case a.f1 > b.f1:
+		return false
+	case a.f2 < b.f2:
+		return true
+	case a.f2 > b.f2:
+		return false
+	}
+	return a.i < b.i
+}
+
+// sortKeys2 sorts keys by lessKey2: a quicksort (median of three, the smaller side recursed into)
+// finishing runs of up to 12 keys by insertion, with the comparison inlined, which
+// slices.SortFunc's call through a function value is not. The indices are distinct, so the
+// order is total and the result is the same as any other sort's (TestSortKeys2).
+func sortKeys2(a []sortKey2) {
+	for len(a) > 12 {
+		n := len(a)
+		m := n / 2
+		// median of a[0], a[m], a[n−1] moved to a[0] as the pivot
+		if lessKey2(&a[m], &a[0]) {
+			a[m], a[0] = a[0], a[m]
+		}
+		if lessKey2(&a[n-1], &a[m]) {
+			a[n-1], a[m] = a[m], a[n-1]
+			if lessKey2(&a[m], &a[0]) {
+				a[m], a[0] = a[0], a[m]
+			}
+		}
+		a[0], a[m] = a[m], a[0]
+		p := a[0]
+		i, j := 1, n-1
+		for {
+			for i <= j && lessKey2(&a[i], &p) {
+				i++
+			}
+			for i <= j && lessKey2(&p, &a[j]) {
+				j--
+			}
+			if i >= j {
+				break
+			}
+			a[i], a[j] = a[j], a[i]
+			i++
+			j--
+		}
+		a[0], a[j] = a[j], a[0] // a[:j] < p = a[j] < a[j+1:]
+		if j < n-1-j {
+			sortKeys2(a[:j])
+			a = a[j+1:]
+		} else {
+			sortKeys2(a[j+1:])
+			a = a[:j]
+		}
+	}
+	for i := 1; i < len(a); i++ {
+		for j := i; j > 0 && lessKey2(&a[j], &a[j-1]); j-- {
+			a[j], a[j-1] = a[j-1], a[j]
+		}
+	}
+}
+
+// lessCrowdKey is compareCrowdKeys(*a, *b) < 0.
+func lessCrowdKey(a, b *crowdKey) bool {
+	switch {
+	case a.v < b.v:
+		return true
+	case a.v > b.v:
+		return false
+	}
+	return a.i < b.i
+}
+
+// sortCrowdKeys is sortKeys2 for crowdKey: it sorts keys into the order of compareCrowdKeys, the
+// same result as slices.SortFunc(keys, compareCrowdKeys) when the indices are distinct
+// (TestSortCrowdKeys).
+func sortCrowdKeys(a []crowdKey) {
+	for len(a) > 12 {
+		n := len(a)
+		m := n / 2
+		// median of a[0], a[m], a[n−1] moved to a[0] as the pivot
+		if lessCrowdKey(&a[m], &a[0]) {
+			a[m], a[0] = a[0], a[m]
+		}
+		if lessCrowdKey(&a[n-1], &a[m]) {
+			a[n-1], a[m] = a[m], a[n-1]
+			if lessCrowdKey(&a[m], &a[0]) {
+				a[m], a[0] = a[0], a[m]
+			}
+		}
+		a[0], a[m] = a[m], a[0]
+		p := a[0]
+		i, j := 1, n-1
+		for {
+			for i <= j && lessCrowdKey(&a[i], &p) {
+				i++
+			}
+			for i <= j && lessCrowdKey(&p, &a[j]) {
+				j--
+			}
+			if i >= j {
+				break
+			}
+			a[i], a[j] = a[j], a[i]
+			i++
+			j--
+		}
+		a[0], a[j] = a[j], a[0] // a[:j] < p = a[j] < a[j+1:]
+		if j < n-1-j {
+			sortCrowdKeys(a[:j])
+			a = a[j+1:]
+		} else {
+			sortCrowdKeys(a[j+1:])
+			a = a[:j]
+		}
+	}
+	for i := 1; i < len(a); i++ {
+		for j := i; j > 0 && lessCrowdKey(&a[j], &a[j-1]); j-- {
+			a[j], a[j-1] = a[j-1], a[j]
+		}
+	}
 }

@@ -473,3 +473,104 @@ func TestCrowding2MatchesGeneral(t *testing.T) {
 		}
 	}
 }
+
+// TestSortKeys2 checks the specialised sort of nondominatedSort2 against slices.SortFunc with
+// the same (f1, f2, index) order, on lengths around the insertion-sort cut-off and beyond, with
+// many ties in f1 and f2 (values from a few levels), already sorted and reversed inputs, and
+// signed zeros (−0 and +0 compare equal, so their index decides) [derived: any correct sort of a
+// total order gives the same sequence].
+func TestSortKeys2(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 8))
+	ref := func(a, b sortKey2) int {
+		switch {
+		case a.f1 < b.f1:
+			return -1
+		case a.f1 > b.f1:
+			return 1
+		case a.f2 < b.f2:
+			return -1
+		case a.f2 > b.f2:
+			return 1
+		}
+		return int(a.i - b.i)
+	}
+	for _, n := range []int{0, 1, 2, 3, 11, 12, 13, 14, 25, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			for _, shape := range []string{"random", "sorted", "reversed"} {
+				keys := make([]sortKey2, n)
+				for j := range keys {
+					keys[j] = sortKey2{float64(rng.IntN(levels)), float64(rng.IntN(levels)), int32(j)}
+					if keys[j].f1 == 0 && rng.IntN(2) == 0 {
+						keys[j].f1 = math.Copysign(0, -1)
+					}
+				}
+				rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+				switch shape {
+				case "sorted":
+					slices.SortFunc(keys, ref)
+				case "reversed":
+					slices.SortFunc(keys, func(a, b sortKey2) int { return ref(b, a) })
+				}
+				want := slices.Clone(keys)
+				slices.SortFunc(want, ref)
+				sortKeys2(keys)
+				for j := range want { // bit patterns, so that −0 and +0 are told apart
+					require.Equal(t, math.Float64bits(want[j].f1), math.Float64bits(keys[j].f1), "n %d levels %d %s: key %d", n, levels, shape, j)
+					require.Equal(t, want[j].i, keys[j].i, "n %d levels %d %s: key %d", n, levels, shape, j)
+				}
+			}
+		}
+	}
+}
+
+// TestSortCrowdKeys checks sortCrowdKeys against slices.SortFunc with compareCrowdKeys, as
+// TestSortKeys2 does for sortKeys2 [derived: any correct sort of a total order gives the same
+// sequence].
+func TestSortCrowdKeys(t *testing.T) {
+	rng := rand.New(rand.NewPCG(9, 10))
+	for _, n := range []int{0, 1, 2, 3, 11, 12, 13, 14, 25, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			keys := make([]crowdKey, n)
+			for j := range keys {
+				keys[j] = crowdKey{float64(rng.IntN(levels)), int32(j)}
+				if keys[j].v == 0 && rng.IntN(2) == 0 {
+					keys[j].v = math.Copysign(0, -1)
+				}
+			}
+			rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+			want := slices.Clone(keys)
+			slices.SortFunc(want, compareCrowdKeys)
+			sortCrowdKeys(keys)
+			for j := range want {
+				require.Equal(t, math.Float64bits(want[j].v), math.Float64bits(keys[j].v), "n %d levels %d: key %d", n, levels, j)
+				require.Equal(t, want[j].i, keys[j].i, "n %d levels %d: key %d", n, levels, j)
+			}
+		}
+	}
+}
+
+// TestSortKeys3 checks the three-objective sort of nondominatedSortENS (sortKeys3) against the
+// general lexicographic sort (sortLex) on designs with many ties in each objective [derived: any
+// correct sort of a total order gives the same sequence].
+func TestSortKeys3(t *testing.T) {
+	rng := rand.New(rand.NewPCG(11, 12))
+	for _, n := range []int{0, 1, 2, 13, 14, 100, 200, 513} {
+		for _, levels := range []int{1, 2, 5, 1000} {
+			ds := make([]*Design, n)
+			keys := make([]sortKey3, n)
+			order := make([]int32, n)
+			for j := range ds {
+				f := []float64{float64(rng.IntN(levels)), float64(rng.IntN(levels)), float64(rng.IntN(levels))}
+				ds[j] = &Design{F: f}
+				keys[j] = sortKey3{f[0], f[1], f[2], int32(j)}
+				order[j] = int32(j)
+			}
+			rng.Shuffle(n, func(a, b int) { keys[a], keys[b] = keys[b], keys[a] })
+			sortLex(ds, order, 3)
+			sortKeys3(keys)
+			for j := range order {
+				require.Equal(t, order[j], keys[j].i, "n %d levels %d: position %d", n, levels, j)
+			}
+		}
+	}
+}
